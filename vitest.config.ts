@@ -1,0 +1,61 @@
+import { defineConfig, mergeConfig } from 'vitest/config';
+import viteConfig from './vite.config';
+
+/**
+ * One vitest run covers every suite; `npm test` (server/lifecycle/test.ts) provides the
+ * throwaway PostgreSQL (TEST_DATABASE_URL), the built client and Chromium before it starts.
+ */
+export default mergeConfig(
+  viteConfig,
+  defineConfig({
+    test: {
+      projects: [
+        {
+          extends: true,
+          test: { name: 'unit', include: ['tests/shared/**/*.test.ts'], environment: 'node' },
+        },
+        {
+          extends: true,
+          test: {
+            name: 'client',
+            include: ['tests/client/**/*.test.ts'],
+            environment: 'happy-dom',
+            setupFiles: ['tests/client/setup.ts'],
+            deps: { optimizer: { client: { enabled: true, include: ['ant-design-vue/es'] } } },
+          },
+        },
+        {
+          extends: true,
+          test: {
+            name: 'api',
+            include: ['tests/server/**/*.test.ts'],
+            environment: 'node',
+            testTimeout: 20_000,
+            hookTimeout: 30_000,
+          },
+        },
+        {
+          extends: true,
+          test: {
+            name: 'realtime',
+            include: ['tests/realtime/**/*.test.ts'],
+            environment: 'node',
+            testTimeout: 60_000,
+            hookTimeout: 60_000,
+          },
+        },
+        {
+          extends: true,
+          test: {
+            name: 'browser',
+            include: ['tests/e2e/**/*.test.ts'],
+            environment: 'node',
+            testTimeout: 90_000,
+            hookTimeout: 90_000,
+            fileParallelism: false,
+          },
+        },
+      ],
+    },
+  }),
+);

@@ -1,5 +1,5 @@
 import { defineConfig, mergeConfig } from 'vitest/config';
-import viteConfig from './vite.config';
+import viteConfig from './vite.config.ts';
 
 /**
  * One vitest run covers every suite; `npm test` (server/lifecycle/test.ts) provides the
@@ -28,6 +28,7 @@ export default mergeConfig(
           extends: true,
           test: {
             name: 'api',
+            globalSetup: ['tests/setup/globalSetup.ts'],
             include: ['tests/server/**/*.test.ts'],
             environment: 'node',
             testTimeout: 20_000,
@@ -38,6 +39,7 @@ export default mergeConfig(
           extends: true,
           test: {
             name: 'realtime',
+            globalSetup: ['tests/setup/globalSetup.ts'],
             include: ['tests/realtime/**/*.test.ts'],
             environment: 'node',
             testTimeout: 60_000,
@@ -48,6 +50,7 @@ export default mergeConfig(
           extends: true,
           test: {
             name: 'browser',
+            globalSetup: ['tests/setup/globalSetup.ts'],
             include: ['tests/e2e/**/*.test.ts'],
             environment: 'node',
             testTimeout: 90_000,

@@ -1,0 +1,94 @@
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import express, { type Express, type RequestHandler } from 'express';
+import helmet from 'helmet';
+import morgan from 'morgan';
+import type { Env } from './env.ts';
+import type { Database } from './db/client.ts';
+import { errorMiddleware, notFoundApi } from './http/errors.ts';
+import { healthRouter } from './api/health/router.ts';
+import { authRouter } from './api/auth/router.ts';
+import { createSession } from './auth/session.ts';
+import { createPassport } from './auth/passport.ts';
+
+export const REPO_ROOT = fileURLToPath(new URL('..', import.meta.url));
+
+export interface AppDeps {
+  env: Env;
+  database: Database;
+  log?: (line: string) => void;
+}
+
+export interface BuiltApp {
+  app: Express;
+  /** The session middleware, reused by the socket.io handshake. */
+  session: RequestHandler;
+  /** passport's initialize + session, reused by the socket.io handshake. */
+  passportMiddleware: RequestHandler[];
+  /** Stops timers owned by the app (session pruning). */
+  close(): void;
+}
+
+/**
+ * Builds the Express app. Order matters and is explicit: security headers → request log → body
+ * parsing → session → passport → API routers → API 404 → static client with SPA fallback → the
+ * one error middleware.
+ */
+export function createApp({ env, database, log = (l) => console.log(l) }: AppDeps): BuiltApp {
+  const app = express();
+  app.disable('x-powered-by');
+  if (env.TRUST_PROXY) app.set('trust proxy', 1);
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          // ant-design-vue injects its CSS-in-JS as <style> elements.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'font-src': ["'self'", 'data:'],
+          'worker-src': ["'self'", 'blob:'],
+          'connect-src': ["'self'"],
+          // Plain-HTTP deployments on a LAN must not have their requests rewritten to https.
+          'upgrade-insecure-requests': null,
+        },
+      },
+    }),
+  );
+
+  const logRequests = env.LOG_REQUESTS ?? env.NODE_ENV !== 'test';
+  if (logRequests) {
+    app.use(morgan(':date[iso] :method :url :status :res[content-length] - :response-time ms', { stream: { write: (l) => log(l.trimEnd()) } }));
+  }
+
+  app.use(express.json({ limit: '1mb' }));
+
+  const session = createSession(database.pool, env.SESSION_SECRET);
+  const passport = createPassport(database.db);
+  const passportMiddleware = [passport.initialize(), passport.session()];
+  app.use('/api', session.middleware, ...passportMiddleware);
+
+  app.use('/api/health', healthRouter(database.pool));
+  app.use('/api/auth', authRouter(database.db, passport));
+  app.use('/api', notFoundApi);
+
+  const clientDir = path.resolve(REPO_ROOT, env.CLIENT_DIST);
+  if (existsSync(path.join(clientDir, 'index.html'))) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h', setHeaders: immutableAssets }));
+    app.get('/{*path}', (_req, res) => res.sendFile(path.join(clientDir, 'index.html')));
+  } else {
+    app.get('/{*path}', (_req, res) => {
+      res.status(503).type('text').send('The client is not built yet: run `npm run build` (npm start does this for you).');
+    });
+  }
+
+  app.use(errorMiddleware(log));
+  return { app, session: session.middleware, passportMiddleware, close: session.close };
+}
+
+/** Vite puts a content hash in every file under assets/, so those can be cached for a year. */
+function immutableAssets(res: express.Response, filePath: string): void {
+  if (filePath.includes(`${path.sep}assets${path.sep}`)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+}

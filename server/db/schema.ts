@@ -1,0 +1,101 @@
+import {
+  index,
+  integer,
+  jsonb,
+  json,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  varchar,
+} from 'drizzle-orm/pg-core';
+
+/**
+ * The database schema: the source of truth. Properties are camelCase, columns snake_case; every
+ * id is text carrying its kind (`user_…`, `team_…`, `sketch_…`, see shared/model/ids.ts).
+ * Migrations are generated from this file by `npm run db:generate` into drizzle/.
+ */
+
+const timestamps = {
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+};
+
+export const roleEnum = pgEnum('role', ['owner', 'editor', 'reviewer', 'viewer']);
+
+export const users = pgTable('users', {
+  id: text('id').primaryKey(),
+  /** Stored lower-cased; unique. */
+  email: text('email').notNull().unique(),
+  name: text('name').notNull(),
+  /** argon2id PHC string. */
+  passwordHash: text('password_hash').notNull(),
+  ...timestamps,
+});
+
+export const teams = pgTable('teams', {
+  id: text('id').primaryKey(),
+  name: text('name').notNull(),
+  ...timestamps,
+});
+
+export const memberships = pgTable(
+  'memberships',
+  {
+    teamId: text('team_id')
+      .notNull()
+      .references(() => teams.id, { onDelete: 'cascade' }),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    role: roleEnum('role').notNull(),
+    ...timestamps,
+  },
+  (t) => [primaryKey({ columns: [t.teamId, t.userId] }), index('memberships_user_idx').on(t.userId)],
+);
+
+export const sketches = pgTable(
+  'sketches',
+  {
+    id: text('id').primaryKey(),
+    teamId: text('team_id')
+      .notNull()
+      .references(() => teams.id, { onDelete: 'cascade' }),
+    title: text('title').notNull(),
+    /** The sketch document (shared/model/sketch.ts `SketchDocument`), validated before every write. */
+    document: jsonb('document').notNull(),
+    /** Incremented by one for every applied edit; the realtime protocol orders ops by it. */
+    revision: integer('revision').notNull().default(0),
+    createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
+    updatedBy: text('updated_by').references(() => users.id, { onDelete: 'set null' }),
+    /** Status of the last server solve (ok, detached, …), null before the first solve. */
+    lastSolveStatus: text('last_solve_status'),
+    /** The stored (server-computed) result of the last solve. */
+    lastResult: jsonb('last_result'),
+    ...timestamps,
+  },
+  (t) => [index('sketches_team_idx').on(t.teamId)],
+);
+
+/** Key/value facts about this database (e.g. when the demo was seeded). */
+export const appMeta = pgTable('app_meta', {
+  key: text('key').primaryKey(),
+  value: jsonb('value').notNull(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+/**
+ * express-session store table, in the layout connect-pg-simple expects. Declared here so that
+ * drizzle-kit owns it (and never tries to drop it).
+ */
+export const sessions = pgTable(
+  'session',
+  {
+    sid: varchar('sid').primaryKey(),
+    sess: json('sess').notNull(),
+    expire: timestamp('expire', { precision: 6, withTimezone: false }).notNull(),
+  },
+  (t) => [index('IDX_session_expire').on(t.expire)],
+);
+

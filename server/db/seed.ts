@@ -1,0 +1,89 @@
+import { eq } from 'drizzle-orm';
+import type { Db } from './client.ts';
+import { appMeta, memberships, sketches, teams, users } from './schema.ts';
+import { newId } from '../../shared/model/ids.ts';
+import type { Role } from '../../shared/model/roles.ts';
+import { sketchDocumentSchema, type SketchDocument } from '../../shared/model/sketch.ts';
+import { hashPassword } from '../auth/passwords.ts';
+
+/**
+ * Demo data: Harrowgate Dynamics, a fictional maker of small sounding rockets, and the fins
+ * group working on its (equally fictional) HD-7 "Tern" vehicle. Every name, geometry and
+ * condition here is invented for the demo.
+ */
+export const DEMO_TEAM = 'Harrowgate Dynamics — fins group';
+export const DEMO_PASSWORD = 'harrowgate-demo';
+export const DEMO_PEOPLE: { name: string; email: string; role: Role }[] = [
+  { name: 'Ines Marlow', email: 'ines@harrowgate.example', role: 'owner' },
+  { name: 'Tomasz Reyes', email: 'tomasz@harrowgate.example', role: 'editor' },
+  { name: 'Priya Vance', email: 'priya@harrowgate.example', role: 'reviewer' },
+  { name: 'Oren Lindqvist', email: 'oren@harrowgate.example', role: 'viewer' },
+];
+
+function doc(points: [number, number][], mach: number, alphaDeg: number, extra: Partial<SketchDocument> = {}): SketchDocument {
+  return sketchDocumentSchema.parse({ version: 1, section: { points }, condition: { mach, alphaDeg }, ...extra });
+}
+
+/** Faceted circular-arc (biconvex) section: `perSide` facets on each surface, thickness `t`. */
+function facetedBiconvex(t: number, perSide: number): [number, number][] {
+  const upper: [number, number][] = [];
+  for (let i = 0; i <= perSide; i++) {
+    const x = i / perSide;
+    upper.push([x, 2 * t * x * (1 - x)]);
+  }
+  const lower = upper.slice(1, -1).reverse().map(([x, y]) => [x, -y] as [number, number]);
+  return [...upper, ...lower];
+}
+
+export const DEMO_SKETCHES: { title: string; document: SketchDocument }[] = [
+  {
+    title: 'Tern fin root — double wedge, 5% thick, ridge at 40%',
+    document: doc([[0, 0], [0.4, 0.025], [1, 0], [0.4, -0.025]], 2.6, 4, {
+      notes: 'Root section of the HD-7 Tern tail fin at the burnout condition.',
+    }),
+  },
+  {
+    title: 'Tern fin tip — hexagonal, 4% thick',
+    document: doc([[0, 0], [0.25, 0.02], [0.75, 0.02], [1, 0], [0.75, -0.02], [0.25, -0.02]], 3.1, 2),
+  },
+  {
+    title: 'Tern canard — faceted biconvex, 6%, six facets a side',
+    document: doc(facetedBiconvex(0.06, 6), 1.8, 6, { flap: { hingeXOverC: 0.7, deflectionDeg: 5 } }),
+  },
+  {
+    title: 'Tern intake ramp — two-stage compression',
+    document: doc([[0, 0], [0.4, 0.0705], [0.8, 0.174], [1, 0.16]], 3, 0),
+  },
+  {
+    title: 'Booster fin — thick root at low Mach (nose shock detaches)',
+    document: doc([[0, 0], [0.5, 0.06], [1, 0], [0.5, -0.06]], 1.4, 5),
+  },
+];
+
+/**
+ * Seeds the demo once per database: a marker row in app_meta records that it happened, so
+ * deleting demo sketches later does not bring them back.
+ */
+export async function seedDemoOnce(db: Db): Promise<'seeded' | 'already'> {
+  const marker = await db.query.appMeta.findFirst({ where: eq(appMeta.key, 'demo_seeded_at') });
+  if (marker) return 'already';
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  await db.transaction(async (tx) => {
+    const teamId = newId('team');
+    await tx.insert(teams).values({ id: teamId, name: DEMO_TEAM });
+    const ids: string[] = [];
+    for (const person of DEMO_PEOPLE) {
+      const existing = await tx.query.users.findFirst({ where: eq(users.email, person.email) });
+      const id = existing?.id ?? newId('user');
+      if (!existing) await tx.insert(users).values({ id, email: person.email, name: person.name, passwordHash });
+      await tx.insert(memberships).values({ teamId, userId: id, role: person.role });
+      ids.push(id);
+    }
+    for (const [i, s] of DEMO_SKETCHES.entries()) {
+      const author = ids[i % 2]; // the owner and the editor drew them
+      await tx.insert(sketches).values({ id: newId('sketch'), teamId, title: s.title, document: s.document, createdBy: author, updatedBy: author });
+    }
+    await tx.insert(appMeta).values({ key: 'demo_seeded_at', value: new Date().toISOString() });
+  });
+  return 'seeded';
+}

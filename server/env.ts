@@ -1,0 +1,55 @@
+import { z } from 'zod';
+
+/**
+ * The server's whole configuration, parsed once at boot. A bad value stops the process with a
+ * one-line reason (see `loadEnv`) rather than surfacing later as a confusing runtime failure.
+ */
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  HOST: z.string().min(1).default('127.0.0.1'),
+  PORT: z.coerce
+    .number({ error: 'must be a whole number from 0 to 65535' })
+    .int('must be a whole number from 0 to 65535')
+    .min(0, 'must be a whole number from 0 to 65535')
+    .max(65535, 'must be a whole number from 0 to 65535')
+    .default(3000),
+  DATABASE_URL: z
+    .string({ error: 'is required (a postgres:// connection URL)' })
+    .refine((v) => /^postgres(ql)?:\/\//.test(v), 'must be a postgres:// or postgresql:// URL'),
+  SESSION_SECRET: z.string({ error: 'is required (at least 32 characters)' }).min(32, 'must be at least 32 characters'),
+  /** SMTP server for outgoing mail, e.g. smtp://127.0.0.1:2525. Unset: mail is logged, not sent. */
+  SMTP_URL: z
+    .string()
+    .refine((v) => /^smtps?:\/\//.test(v), 'must be an smtp:// or smtps:// URL')
+    .optional(),
+  MAIL_FROM: z.string().default('Shockwright <no-reply@shockwright.local>'),
+  /** The address people use to reach the app; used in links inside e-mails. */
+  PUBLIC_URL: z.url('must be an absolute URL such as http://127.0.0.1:3000').optional(),
+  /** Serve the built client from this folder (relative to the repo root). */
+  CLIENT_DIST: z.string().default('dist/client'),
+  /** Behind a TLS-terminating proxy: trust X-Forwarded-* so secure cookies work. */
+  TRUST_PROXY: z
+    .enum(['true', 'false', '0', '1'])
+    .default('false')
+    .transform((v) => v === 'true' || v === '1'),
+  LOG_REQUESTS: z
+    .enum(['true', 'false', '0', '1'])
+    .optional()
+    .transform((v) => (v === undefined ? undefined : v === 'true' || v === '1')),
+});
+
+export type Env = z.infer<typeof envSchema>;
+
+export class EnvError extends Error {}
+
+/** Parses `source` (normally process.env); throws EnvError whose message is one line. */
+export function parseEnv(source: Record<string, string | undefined>): Env {
+  const result = envSchema.safeParse(source);
+  if (result.success) return result.data;
+  const first = result.error.issues[0];
+  const name = String(first.path[0] ?? 'environment');
+  const raw = source[name];
+  const got = raw === undefined ? 'not set' : `got ${JSON.stringify(raw.length > 40 ? raw.slice(0, 40) + '…' : raw)}`;
+  const shown = name === 'SESSION_SECRET' || name === 'DATABASE_URL' ? (raw === undefined ? 'not set' : 'value hidden') : got;
+  throw new EnvError(`Refusing to start: ${name} ${first.message} (${shown}).`);
+}

@@ -1,0 +1,66 @@
+import { spawnSync, type SpawnSyncOptions } from 'node:child_process';
+import { existsSync, readdirSync } from 'node:fs';
+
+/** Runs a command, streaming its output; throws with `what` when it fails. */
+export function run(cmd: string, args: string[], what: string, options: SpawnSyncOptions = {}): void {
+  const result = spawnSync(cmd, args, { stdio: 'inherit', ...options });
+  if (result.error) throw new Error(`${what}: ${result.error.message}`);
+  if (result.status !== 0) throw new Error(`${what} failed (exit ${result.status}).`);
+}
+
+/** Runs a command and returns its stdout; throws with stderr when it fails. */
+export function capture(cmd: string, args: string[], options: SpawnSyncOptions = {}): string {
+  const result = spawnSync(cmd, args, { encoding: 'utf8', ...options });
+  if (result.error) throw result.error;
+  if (result.status !== 0) throw new Error(`${cmd} ${args.join(' ')} failed: ${String(result.stderr).trim()}`);
+  return String(result.stdout);
+}
+
+export const isRoot = (): boolean => typeof process.getuid === 'function' && process.getuid() === 0;
+
+let aptUpdated = false;
+
+/**
+ * Installs Debian packages with apt-get when running as root; otherwise throws a message naming
+ * the exact command an administrator must run.
+ */
+export function aptInstall(packages: string[], why: string): void {
+  if (packages.length === 0) return;
+  const command = `apt-get install -y ${packages.join(' ')}`;
+  if (!isRoot()) {
+    throw new Error(`${why} Install it first (as root): ${command}`);
+  }
+  if (!existsSync('/usr/bin/apt-get')) throw new Error(`${why} This is not a Debian-like system; install ${packages.join(', ')} yourself.`);
+  console.log(`${why} Installing from Debian's packages: ${packages.join(' ')} (takes a minute)…`);
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  if (!aptUpdated) {
+    run('apt-get', ['update', '-qq'], 'apt-get update', { env });
+    aptUpdated = true;
+  }
+  run('apt-get', ['install', '-y', '-qq', ...packages], command, { env });
+}
+
+/** The newest Debian PostgreSQL server bin folder (/usr/lib/postgresql/<major>/bin), or null. */
+export function findPostgresBin(): string | null {
+  const base = '/usr/lib/postgresql';
+  if (!existsSync(base)) return null;
+  const majors = readdirSync(base)
+    .filter((d) => /^\d+$/.test(d) && existsSync(`${base}/${d}/bin/pg_ctl`) && existsSync(`${base}/${d}/bin/initdb`))
+    .sort((a, b) => Number(b) - Number(a));
+  return majors.length ? `${base}/${majors[0]}/bin` : null;
+}
+
+export const CHROMIUM_PATH = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+
+/** Makes sure the PostgreSQL server binaries (and optionally Chromium) are present. */
+export function ensureSystemPackages(options: { chromium: boolean }): { pgBin: string } {
+  const missing: string[] = [];
+  if (!findPostgresBin()) missing.push('postgresql');
+  if (options.chromium && !existsSync(CHROMIUM_PATH)) missing.push('chromium');
+  if (missing.length) {
+    aptInstall(missing, `Missing ${missing.map((m) => (m === 'postgresql' ? 'the PostgreSQL server' : 'Chromium (for browser tests)')).join(' and ')}.`);
+  }
+  const pgBin = findPostgresBin();
+  if (!pgBin) throw new Error('PostgreSQL server binaries not found under /usr/lib/postgresql/*/bin even after installing; install the Debian package postgresql.');
+  return { pgBin };
+}

@@ -1,0 +1,51 @@
+import { z } from 'zod';
+
+/**
+ * The sketch document: what one sketch stores and what collaborators edit. Declared once here
+ * and validated at every edge (API, socket ops, seed). Geometry is in body axes, chord units are
+ * whatever the author drew in (the solver normalises by the chord).
+ */
+export const pointSchema = z.tuple([z.number().finite(), z.number().finite()]);
+export type Point = z.infer<typeof pointSchema>;
+
+export const conditionSchema = z.object({
+  mach: z.number({ error: 'must be a number' }).gt(1, 'must be above 1 (supersonic)').lte(50, 'must be at most 50'),
+  alphaDeg: z.number({ error: 'must be a number' }).gt(-90, 'must be above −90°').lt(90, 'must be below 90°'),
+  gamma: z.number({ error: 'must be a number' }).gt(1, 'must be above 1').lte(5 / 3, 'must be at most 5/3').default(1.4),
+  /** Geometric altitude for dimensional loads and friction (U.S. Standard Atmosphere 1976). */
+  altitudeM: z.number().min(0, 'must be at least 0 m').max(86_000, 'must be at most 86 km').nullable().default(null),
+});
+export type Condition = z.infer<typeof conditionSchema>;
+
+export const flapSchema = z.object({
+  /** Hinge position as a fraction of chord from the nose. */
+  hingeXOverC: z.number().gt(0, 'must be inside the chord').lt(1, 'must be inside the chord'),
+  /** Positive = trailing edge down. */
+  deflectionDeg: z.number().gte(-45, 'must be at least −45°').lte(45, 'must be at most 45°'),
+});
+export type Flap = z.infer<typeof flapSchema>;
+
+export const sketchDocumentSchema = z.object({
+  version: z.literal(1),
+  section: z.object({ points: z.array(pointSchema).min(3, 'a section needs at least 3 vertices').max(2000, 'at most 2000 vertices') }),
+  condition: conditionSchema,
+  flap: flapSchema.nullable().default(null),
+  /** Moment reference point in body axes; null = quarter chord on the nose's y. */
+  momentPoint: pointSchema.nullable().default(null),
+  notes: z.string().max(10_000).default(''),
+});
+export type SketchDocument = z.infer<typeof sketchDocumentSchema>;
+
+export const sketchTitleSchema = z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters');
+
+/** A new sketch: a modest symmetric double wedge at Mach 2, 2° incidence. */
+export function defaultSketchDocument(): SketchDocument {
+  return {
+    version: 1,
+    section: { points: [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]] },
+    condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: null },
+    flap: null,
+    momentPoint: null,
+    notes: '',
+  };
+}

@@ -1,0 +1,41 @@
+import { createRouter, createWebHistory } from 'vue-router';
+import { useSessionStore } from '@/stores/session';
+
+declare module 'vue-router' {
+  interface RouteMeta {
+    /** Signed-out visitors are sent to sign-in and brought back afterwards. */
+    requiresAuth?: boolean;
+    /** Pages for signed-out visitors only (a signed-in visitor goes home). */
+    guestOnly?: boolean;
+    title?: string;
+  }
+}
+
+export const router = createRouter({
+  history: createWebHistory(),
+  routes: [
+    { path: '/', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { requiresAuth: true, title: 'Sketches' } },
+    { path: '/sign-in', name: 'sign-in', component: () => import('@/views/SignInView.vue'), meta: { guestOnly: true, title: 'Sign in' } },
+    { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { title: 'Not found' } },
+  ],
+});
+
+router.beforeEach(async (to) => {
+  const session = useSessionStore();
+  if (!session.loaded) {
+    try {
+      await session.load();
+    } catch {
+      // The server is unreachable; let the page render and show its own error.
+    }
+  }
+  if (to.meta.requiresAuth && !session.user) {
+    return { name: 'sign-in', query: to.fullPath !== '/' ? { next: to.fullPath } : {} };
+  }
+  if (to.meta.guestOnly && session.user) return { name: 'home' };
+  return true;
+});
+
+router.afterEach((to) => {
+  document.title = to.meta.title ? `${to.meta.title} · Shockwright` : 'Shockwright';
+});

@@ -9,6 +9,9 @@ import type { Database } from './db/client.ts';
 import { errorMiddleware, notFoundApi } from './http/errors.ts';
 import { healthRouter } from './api/health/router.ts';
 import { authRouter } from './api/auth/router.ts';
+import { sketchesRouter, teamSketchesRouter } from './api/sketches/router.ts';
+import { csrfGuard } from './http/csrf.ts';
+import { requireUser } from './auth/guards.ts';
 import { createSession } from './auth/session.ts';
 import { createPassport } from './auth/passport.ts';
 
@@ -32,8 +35,8 @@ export interface BuiltApp {
 
 /**
  * Builds the Express app. Order matters and is explicit: security headers → request log → body
- * parsing → session → passport → API routers → API 404 → static client with SPA fallback → the
- * one error middleware.
+ * parsing → CSRF guard → session → passport → public API routers → signed-in API routers → API
+ * 404 → static client with SPA fallback → the one error middleware.
  */
 export function createApp({ env, database, log = (l) => console.log(l) }: AppDeps): BuiltApp {
   const app = express();
@@ -68,10 +71,14 @@ export function createApp({ env, database, log = (l) => console.log(l) }: AppDep
   const session = createSession(database.pool, env.SESSION_SECRET);
   const passport = createPassport(database.db);
   const passportMiddleware = [passport.initialize(), passport.session()];
-  app.use('/api', session.middleware, ...passportMiddleware);
+  app.use('/api', csrfGuard, session.middleware, ...passportMiddleware);
 
+  // Public routes.
   app.use('/api/health', healthRouter(database.pool));
   app.use('/api/auth', authRouter(database.db, passport));
+  // Everything below needs a signed-in user; each service then checks the team role.
+  app.use('/api/teams/:teamId/sketches', requireUser, teamSketchesRouter(database.db));
+  app.use('/api/sketches', requireUser, sketchesRouter(database.db));
   app.use('/api', notFoundApi);
 
   const clientDir = path.resolve(REPO_ROOT, env.CLIENT_DIST);

@@ -23,6 +23,7 @@ const timestamps = {
 };
 
 export const roleEnum = pgEnum('role', ['owner', 'editor', 'reviewer', 'viewer']);
+export const reviewStatusEnum = pgEnum('review_status', ['draft', 'in_review', 'approved']);
 
 export const users = pgTable('users', {
   id: text('id').primaryKey(),
@@ -73,9 +74,81 @@ export const sketches = pgTable(
     lastSolveStatus: text('last_solve_status'),
     /** The stored (server-computed) result of the last solve. */
     lastResult: jsonb('last_result'),
+    reviewStatus: reviewStatusEnum('review_status').notNull().default('draft'),
     ...timestamps,
   },
   (t) => [index('sketches_team_idx').on(t.teamId)],
+);
+
+/**
+ * Team invitations. Only a SHA-256 of the token is stored: the token itself exists only in the
+ * e-mailed link. Single use (acceptedAt), valid until expiresAt (7 days), revocable.
+ */
+export const invitations = pgTable(
+  'invitations',
+  {
+    id: text('id').primaryKey(),
+    teamId: text('team_id')
+      .notNull()
+      .references(() => teams.id, { onDelete: 'cascade' }),
+    email: text('email').notNull(),
+    role: roleEnum('role').notNull(),
+    tokenHash: text('token_hash').notNull().unique(),
+    invitedBy: text('invited_by').references(() => users.id, { onDelete: 'set null' }),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    acceptedAt: timestamp('accepted_at', { withTimezone: true }),
+    acceptedBy: text('accepted_by').references(() => users.id, { onDelete: 'set null' }),
+    revokedAt: timestamp('revoked_at', { withTimezone: true }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('invitations_team_idx').on(t.teamId)],
+);
+
+/** Password reset tokens (hash only), single use, valid one hour. */
+export const passwordResets = pgTable('password_resets', {
+  id: text('id').primaryKey(),
+  userId: text('user_id')
+    .notNull()
+    .references(() => users.id, { onDelete: 'cascade' }),
+  tokenHash: text('token_hash').notNull().unique(),
+  expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+  usedAt: timestamp('used_at', { withTimezone: true }),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+/** Messages received by the development SMTP sink (server/mail/sink.ts). */
+export const mailMessages = pgTable(
+  'mail_messages',
+  {
+    id: text('id').primaryKey(),
+    fromAddress: text('from_address').notNull(),
+    toAddresses: text('to_addresses').array().notNull(),
+    subject: text('subject').notNull(),
+    textBody: text('text_body').notNull(),
+    htmlBody: text('html_body'),
+    raw: text('raw').notNull(),
+    receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('mail_received_idx').on(t.receivedAt)],
+);
+
+/** Who did what to whom in a team (membership changes), newest first on the members page. */
+export const auditEvents = pgTable(
+  'audit_events',
+  {
+    id: text('id').primaryKey(),
+    teamId: text('team_id')
+      .notNull()
+      .references(() => teams.id, { onDelete: 'cascade' }),
+    actorId: text('actor_id').references(() => users.id, { onDelete: 'set null' }),
+    /** member.invited, invitation.revoked, invitation.accepted, member.role_changed, member.removed, team.created */
+    action: text('action').notNull(),
+    targetUserId: text('target_user_id').references(() => users.id, { onDelete: 'set null' }),
+    targetEmail: text('target_email'),
+    detail: jsonb('detail').notNull().default({}),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('audit_team_idx').on(t.teamId, t.createdAt)],
 );
 
 /** Key/value facts about this database (e.g. when the demo was seeded). */

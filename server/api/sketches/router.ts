@@ -1,0 +1,54 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import type { Db } from '../../db/client.ts';
+import { currentUser } from '../../auth/guards.ts';
+import { parseOr400 } from '../../http/validate.ts';
+import { createSketchSchema, renameSketchSchema, saveDocumentSchema } from '../../../shared/model/sketchApi.ts';
+import * as service from './service.ts';
+
+const teamParams = z.object({ teamId: z.string().regex(/^team_[a-z0-9]{20}$/, 'must be a team id') });
+const sketchParams = z.object({ sketchId: z.string().regex(/^sketch_[a-z0-9]{20}$/, 'must be a sketch id') });
+
+/** Team-scoped list/create: mounted at /api/teams/:teamId/sketches. */
+export function teamSketchesRouter(db: Db): Router {
+  const router = Router({ mergeParams: true });
+  router.get('/', async (req, res) => {
+    const { teamId } = parseOr400(teamParams, req.params, 'params');
+    res.json(await service.listTeamSketches(db, currentUser(req).id, teamId));
+  });
+  router.post('/', async (req, res) => {
+    const { teamId } = parseOr400(teamParams, req.params, 'params');
+    const body = parseOr400(createSketchSchema, req.body);
+    res.status(201).json(await service.createSketch(db, currentUser(req).id, teamId, body));
+  });
+  return router;
+}
+
+/** One sketch: mounted at /api/sketches. */
+export function sketchesRouter(db: Db): Router {
+  const router = Router();
+  router.get('/:sketchId', async (req, res) => {
+    const { sketchId } = parseOr400(sketchParams, req.params, 'params');
+    res.json(await service.getSketch(db, currentUser(req).id, sketchId));
+  });
+  router.patch('/:sketchId', async (req, res) => {
+    const { sketchId } = parseOr400(sketchParams, req.params, 'params');
+    const { title } = parseOr400(renameSketchSchema, req.body);
+    res.json(await service.renameSketch(db, currentUser(req).id, sketchId, title));
+  });
+  router.put('/:sketchId/document', async (req, res) => {
+    const { sketchId } = parseOr400(sketchParams, req.params, 'params');
+    const body = parseOr400(saveDocumentSchema, req.body);
+    res.json(await service.saveDocument(db, currentUser(req).id, sketchId, body));
+  });
+  router.post('/:sketchId/duplicate', async (req, res) => {
+    const { sketchId } = parseOr400(sketchParams, req.params, 'params');
+    res.status(201).json(await service.duplicateSketch(db, currentUser(req).id, sketchId));
+  });
+  router.delete('/:sketchId', async (req, res) => {
+    const { sketchId } = parseOr400(sketchParams, req.params, 'params');
+    await service.deleteSketch(db, currentUser(req).id, sketchId);
+    res.status(204).end();
+  });
+  return router;
+}

@@ -1,0 +1,112 @@
+import type { Db } from '../../db/client.ts';
+import { HttpError } from '../../http/errors.ts';
+import { assertTeamRole } from '../../auth/guards.ts';
+import { newId } from '../../../shared/model/ids.ts';
+import { defaultSketchDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
+import type { Role } from '../../../shared/model/roles.ts';
+import type { Sketch, SketchSummary } from '../../../shared/model/sketchApi.ts';
+import { solveDocument } from './solveDocument.ts';
+import * as repo from './repository.ts';
+
+/** Role check for a sketch: looks up its team first (404 when it does not exist). */
+export async function authorizeSketch(db: Db, userId: string, sketchId: string, needed: Role, what: string): Promise<{ teamId: string; role: Role }> {
+  const teamId = await repo.findSketchTeam(db, sketchId);
+  if (!teamId) throw new HttpError(404, 'not_found', 'No such sketch.');
+  const role = await assertTeamRole(db, userId, teamId, needed, what);
+  return { teamId, role };
+}
+
+function thicknessRatio(points: [number, number][]): number | null {
+  const xs = points.map((p) => p[0]);
+  const ys = points.map((p) => p[1]);
+  const chord = Math.max(...xs) - Math.min(...xs);
+  return chord > 0 ? (Math.max(...ys) - Math.min(...ys)) / chord : null;
+}
+
+type SketchRow = NonNullable<Awaited<ReturnType<typeof repo.findSketch>>>;
+
+function toSketch(row: SketchRow): Sketch {
+  return {
+    id: row.id,
+    teamId: row.teamId,
+    title: row.title,
+    revision: row.revision,
+    document: row.document as SketchDocument,
+    lastSolveStatus: row.lastSolveStatus,
+    lastResult: row.lastResult ?? null,
+    createdAt: row.createdAt.toISOString(),
+    updatedAt: row.updatedAt.toISOString(),
+    updatedByName: row.updatedByName,
+    reviewStatus: row.reviewStatus,
+  };
+}
+
+export async function listTeamSketches(db: Db, userId: string, teamId: string): Promise<SketchSummary[]> {
+  await assertTeamRole(db, userId, teamId, 'viewer', 'see this team’s sketches');
+  const rows = await repo.listSketches(db, teamId);
+  return rows.map((r) => {
+    const doc = r.document as SketchDocument;
+    return {
+      id: r.id,
+      teamId: r.teamId,
+      title: r.title,
+      revision: r.revision,
+      vertexCount: doc.section.points.length,
+      thicknessRatio: thicknessRatio(doc.section.points),
+      mach: doc.condition.mach,
+      alphaDeg: doc.condition.alphaDeg,
+      lastSolveStatus: r.lastSolveStatus,
+      updatedAt: r.updatedAt.toISOString(),
+      updatedByName: r.updatedByName,
+      reviewStatus: r.reviewStatus,
+    };
+  });
+}
+
+export async function getSketch(db: Db, userId: string, sketchId: string): Promise<Sketch> {
+  await authorizeSketch(db, userId, sketchId, 'viewer', 'open this sketch');
+  const row = await repo.findSketch(db, sketchId);
+  if (!row) throw new HttpError(404, 'not_found', 'No such sketch.');
+  return toSketch(row);
+}
+
+export async function createSketch(db: Db, userId: string, teamId: string, input: { title: string; document?: SketchDocument }): Promise<Sketch> {
+  await assertTeamRole(db, userId, teamId, 'editor', 'create sketches');
+  const document = input.document ?? defaultSketchDocument();
+  const solved = solveDocument(document);
+  const id = newId('sketch');
+  await repo.insertSketch(db, { id, teamId, title: input.title, document, userId, lastSolveStatus: solved.status, lastResult: solved.result });
+  return getSketch(db, userId, id);
+}
+
+export async function duplicateSketch(db: Db, userId: string, sketchId: string): Promise<Sketch> {
+  const { teamId } = await authorizeSketch(db, userId, sketchId, 'editor', 'duplicate sketches');
+  const source = await repo.findSketch(db, sketchId);
+  if (!source) throw new HttpError(404, 'not_found', 'No such sketch.');
+  return createSketch(db, userId, teamId, { title: `${source.title} (copy)`.slice(0, 200), document: source.document as SketchDocument });
+}
+
+export async function renameSketch(db: Db, userId: string, sketchId: string, title: string): Promise<Sketch> {
+  await authorizeSketch(db, userId, sketchId, 'editor', 'rename sketches');
+  await repo.renameSketch(db, sketchId, title, userId);
+  return getSketch(db, userId, sketchId);
+}
+
+/** Saves a whole document (autosave); the server solves it again and stores its own result. */
+export async function saveDocument(db: Db, userId: string, sketchId: string, input: { document: SketchDocument; baseRevision: number }): Promise<Sketch> {
+  await authorizeSketch(db, userId, sketchId, 'editor', 'edit sketches');
+  const solved = solveDocument(input.document);
+  const revision = await repo.replaceDocument(db, sketchId, { ...input, userId, lastSolveStatus: solved.status, lastResult: solved.result });
+  if (revision === null) {
+    const current = await repo.findSketch(db, sketchId);
+    throw new HttpError(409, 'revision_conflict', `The sketch changed since revision ${input.baseRevision} (now at ${current?.revision ?? '?'}); reload it and apply your edit again.`, {
+      revision: current?.revision ?? null,
+    });
+  }
+  return getSketch(db, userId, sketchId);
+}
+
+export async function deleteSketch(db: Db, userId: string, sketchId: string): Promise<void> {
+  await authorizeSketch(db, userId, sketchId, 'owner', 'delete sketches');
+  await repo.deleteSketch(db, sketchId);
+}

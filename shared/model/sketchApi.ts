@@ -1,0 +1,50 @@
+import { z } from 'zod';
+import { sketchDocumentSchema, sketchTitleSchema } from './sketch.ts';
+
+/** Shape of one row of the team's sketches table. */
+export const sketchSummarySchema = z.object({
+  id: z.string(),
+  teamId: z.string(),
+  title: z.string(),
+  revision: z.number().int(),
+  vertexCount: z.number().int(),
+  /** Thickness over chord of the section as drawn. */
+  thicknessRatio: z.number().nullable(),
+  mach: z.number(),
+  alphaDeg: z.number(),
+  lastSolveStatus: z.string().nullable(),
+  updatedAt: z.string(),
+  updatedByName: z.string().nullable(),
+  reviewStatus: z.enum(['draft', 'in_review', 'approved']).default('draft'),
+});
+export type SketchSummary = z.infer<typeof sketchSummarySchema>;
+
+export const sketchSchema = z.object({
+  id: z.string(),
+  teamId: z.string(),
+  title: z.string(),
+  revision: z.number().int(),
+  document: sketchDocumentSchema,
+  lastSolveStatus: z.string().nullable(),
+  lastResult: z.unknown().nullable(),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+  updatedByName: z.string().nullable(),
+  reviewStatus: z.enum(['draft', 'in_review', 'approved']).default('draft'),
+});
+export type Sketch = z.infer<typeof sketchSchema>;
+
+export const createSketchSchema = z.object({
+  title: sketchTitleSchema,
+  document: sketchDocumentSchema.optional(),
+});
+export type CreateSketch = z.infer<typeof createSketchSchema>;
+
+export const renameSketchSchema = z.object({ title: sketchTitleSchema });
+
+export const saveDocumentSchema = z.object({
+  document: sketchDocumentSchema,
+  /** The revision the client edited; a mismatch is a 409 so no one overwrites unseen edits. */
+  baseRevision: z.number().int().min(0),
+});
+export type SaveDocument = z.infer<typeof saveDocumentSchema>;

@@ -15,7 +15,15 @@ export const router = createRouter({
   history: createWebHistory(),
   routes: [
     { path: '/', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { requiresAuth: true, title: 'Sketches' } },
+    { path: '/sketches/:sketchId', name: 'sketch', component: () => import('@/views/SketchView.vue'), meta: { requiresAuth: true, title: 'Sketch' }, props: true },
+    { path: '/team/members', name: 'members', component: () => import('@/views/MembersView.vue'), meta: { requiresAuth: true, title: 'Members' } },
+    { path: '/dev/mailbox', name: 'mailbox', component: () => import('@/views/MailboxView.vue'), meta: { requiresAuth: true, title: 'Mailbox' } },
     { path: '/sign-in', name: 'sign-in', component: () => import('@/views/SignInView.vue'), meta: { guestOnly: true, title: 'Sign in' } },
+    { path: '/sign-up', name: 'sign-up', component: () => import('@/views/SignUpView.vue'), meta: { guestOnly: true, title: 'Create an account' } },
+    { path: '/forgot-password', name: 'forgot-password', component: () => import('@/views/ForgotPasswordView.vue'), meta: { guestOnly: true, title: 'Forgot password' } },
+    { path: '/reset-password', name: 'reset-password', component: () => import('@/views/ResetPasswordView.vue'), meta: { title: 'Choose a new password' } },
+    { path: '/invitations/accept', name: 'accept-invitation', component: () => import('@/views/AcceptInvitationView.vue'), meta: { title: 'Join a team' } },
+    { path: '/forbidden', name: 'forbidden', component: () => import('@/views/ForbiddenView.vue'), meta: { title: 'Not allowed' } },
     { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { title: 'Not found' } },
   ],
 });

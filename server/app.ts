@@ -10,8 +10,13 @@ import { errorMiddleware, notFoundApi } from './http/errors.ts';
 import { healthRouter } from './api/health/router.ts';
 import { authRouter } from './api/auth/router.ts';
 import { sketchesRouter, teamSketchesRouter } from './api/sketches/router.ts';
+import { teamsRouter } from './api/teams/router.ts';
+import { mailboxRouter } from './api/mailbox/router.ts';
 import { csrfGuard } from './http/csrf.ts';
+import { clientKey, createLimiter } from './http/rateLimit.ts';
 import { requireUser } from './auth/guards.ts';
+import { createMailer, type Mailer } from './mail/mailer.ts';
+import type { AppContext } from './context.ts';
 import { createSession } from './auth/session.ts';
 import { createPassport } from './auth/passport.ts';
 
@@ -21,7 +26,24 @@ export interface AppDeps {
   env: Env;
   database: Database;
   log?: (line: string) => void;
+  /** Outgoing mail; default: nodemailer over env.SMTP_URL. */
+  mailer?: Mailer;
+  /** Base URL for links in e-mails when PUBLIC_URL is unset (startServer passes its address). */
+  publicUrl?: () => string;
+  /** Rate-limit sizes (tests make them small). */
+  limits?: Partial<RateLimits>;
 }
+
+export interface RateLimits {
+  /** Failed sign-ins per address and e-mail per 15 minutes. */
+  signInFailures: number;
+  /** Reset requests/confirmations per address per hour. */
+  resets: number;
+  /** Invitations per inviting user per hour. */
+  invites: number;
+}
+
+export const DEFAULT_LIMITS: RateLimits = { signInFailures: 10, resets: 10, invites: 50 };
 
 export interface BuiltApp {
   app: Express;
@@ -29,8 +51,9 @@ export interface BuiltApp {
   session: RequestHandler;
   /** passport's initialize + session, reused by the socket.io handshake. */
   passportMiddleware: RequestHandler[];
-  /** Stops timers owned by the app (session pruning). */
+  /** Stops timers owned by the app (session pruning) and the mail transport. */
   close(): void;
+  context: AppContext;
 }
 
 /**
@@ -38,7 +61,7 @@ export interface BuiltApp {
  * parsing → CSRF guard → session → passport → public API routers → signed-in API routers → API
  * 404 → static client with SPA fallback → the one error middleware.
  */
-export function createApp({ env, database, log = (l) => console.log(l) }: AppDeps): BuiltApp {
+export function createApp({ env, database, log = (l) => console.log(l), mailer, publicUrl, limits }: AppDeps): BuiltApp {
   const app = express();
   app.disable('x-powered-by');
   if (env.TRUST_PROXY) app.set('trust proxy', 1);
@@ -73,12 +96,35 @@ export function createApp({ env, database, log = (l) => console.log(l) }: AppDep
   const passportMiddleware = [passport.initialize(), passport.session()];
   app.use('/api', csrfGuard, session.middleware, ...passportMiddleware);
 
+  const ownMailer = mailer ?? createMailer(env.SMTP_URL, env.MAIL_FROM, log);
+  const context: AppContext = {
+    db: database.db,
+    mailer: ownMailer,
+    publicUrl: () => (env.PUBLIC_URL ?? publicUrl?.() ?? `http://${env.HOST}:${env.PORT}`).replace(/\/$/, ''),
+    log,
+    devPages: env.NODE_ENV !== 'production',
+  };
+  const sizes = { ...DEFAULT_LIMITS, ...limits };
+  const HOUR = 60 * 60 * 1000;
+  const signInLimit = createLimiter(database.db, {
+    name: 'sign-in',
+    windowMs: HOUR / 4,
+    limit: sizes.signInFailures,
+    what: 'failed sign-in attempts for this account from your address',
+    onlyFailures: true,
+    key: (req) => `${clientKey(req)}|${String(req.body?.email ?? '').trim().toLowerCase()}`,
+  });
+  const resetLimit = createLimiter(database.db, { name: 'reset', windowMs: HOUR, limit: sizes.resets, what: 'password-reset requests from your address', key: clientKey });
+  const inviteLimit = createLimiter(database.db, { name: 'invite', windowMs: HOUR, limit: sizes.invites, what: 'invitations sent', key: (req) => req.user?.id ?? clientKey(req) });
+
   // Public routes.
   app.use('/api/health', healthRouter(database.pool));
-  app.use('/api/auth', authRouter(database.db, passport));
+  app.use('/api/auth', authRouter(context, passport, { signIn: signInLimit, reset: resetLimit }));
   // Everything below needs a signed-in user; each service then checks the team role.
   app.use('/api/teams/:teamId/sketches', requireUser, teamSketchesRouter(database.db));
+  app.use('/api/teams', requireUser, teamsRouter(context, { invite: inviteLimit }));
   app.use('/api/sketches', requireUser, sketchesRouter(database.db));
+  if (context.devPages) app.use('/api/dev/mailbox', requireUser, mailboxRouter(context));
   app.use('/api', notFoundApi);
 
   const clientDir = path.resolve(REPO_ROOT, env.CLIENT_DIST);
@@ -92,7 +138,16 @@ export function createApp({ env, database, log = (l) => console.log(l) }: AppDep
   }
 
   app.use(errorMiddleware(log));
-  return { app, session: session.middleware, passportMiddleware, close: session.close };
+  return {
+    app,
+    session: session.middleware,
+    passportMiddleware,
+    context,
+    close: () => {
+      session.close();
+      if (!mailer) ownMailer.close();
+    },
+  };
 }
 
 /** Vite puts a content hash in every file under assets/, so those can be cached for a year. */

@@ -3,7 +3,8 @@ import type { AddressInfo } from 'node:net';
 import { fileURLToPath } from 'node:url';
 import { EnvError, parseEnv, type Env } from './env.ts';
 import { openDatabase } from './db/client.ts';
-import { createApp } from './app.ts';
+import { createApp, type AppDeps } from './app.ts';
+import { attachRealtime } from './realtime/index.ts';
 
 export interface RunningServer {
   server: Server;
@@ -14,17 +15,23 @@ export interface RunningServer {
 }
 
 /** Builds the app for `env` and listens. Used by `npm start`, `npm run dev` and tests. */
-export async function startServer(env: Env, options: { log?: (line: string) => void } = {}): Promise<RunningServer> {
+export async function startServer(
+  env: Env,
+  options: { log?: (line: string) => void } & Pick<AppDeps, 'limits' | 'mailer'> = {},
+): Promise<RunningServer> {
   const log = options.log ?? ((l: string) => console.log(l));
   const database = openDatabase(env.DATABASE_URL);
-  const built = createApp({ env, database, log });
+  let listeningUrl = '';
+  const built = createApp({ env, database, log, limits: options.limits, mailer: options.mailer, publicUrl: () => listeningUrl });
   const server = createServer(built.app);
+  const io = attachRealtime(server, built.session, built.passportMiddleware);
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(env.PORT, env.HOST, () => resolve());
   });
   const { port } = server.address() as AddressInfo;
   const host = env.HOST === '0.0.0.0' || env.HOST === '::' ? '127.0.0.1' : env.HOST;
+  listeningUrl = `http://${host}:${port}`;
   let closing: Promise<void> | undefined;
   return {
     server,
@@ -32,6 +39,9 @@ export async function startServer(env: Env, options: { log?: (line: string) => v
     url: `http://${host}:${port}`,
     close() {
       closing ??= (async () => {
+        // Tell every socket to go (clients reconnect to another instance or on restart).
+        io.disconnectSockets(true);
+        await new Promise<void>((resolve) => io.close(() => resolve()));
         await new Promise<void>((resolve) => {
           server.close(() => resolve());
           // Idle keep-alive sockets would hold close() open; in-flight requests still finish.

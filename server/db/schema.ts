@@ -172,3 +172,13 @@ export const sessions = pgTable(
   (t) => [index('IDX_session_expire').on(t.expire)],
 );
 
+
+/**
+ * Hit counters for rate limits (sign-in, password reset, invitations), shared by every server
+ * instance on this database. One row per limiter key; the window restarts after resetAt.
+ */
+export const rateLimits = pgTable('rate_limits', {
+  key: text('key').primaryKey(),
+  hits: integer('hits').notNull(),
+  resetAt: timestamp('reset_at', { withTimezone: true }).notNull(),
+});

@@ -8,13 +8,14 @@ import { REPO_ROOT } from '../app.ts';
 import { openDatabase } from '../db/client.ts';
 import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemoOnce } from '../db/seed.ts';
 import { bringUpDatabase, precheckEnv } from './localStack.ts';
+import { startMailSink } from '../mail/sink.ts';
 
 async function main(): Promise<void> {
   precheckEnv();
   const stack = await bringUpDatabase();
   const seedDb = openDatabase(stack.env.DATABASE_URL, { max: 2 });
   await seedDemoOnce(seedDb.db);
-  await seedDb.close();
+  const sink = stack.env.SMTP_URL ? null : await startMailSink(seedDb.db);
 
   const apiPort = String(process.env.API_PORT ?? 3000);
   const env = {
@@ -24,6 +25,7 @@ async function main(): Promise<void> {
     PORT: apiPort,
     API_PORT: apiPort,
     NODE_ENV: 'development',
+    ...(sink ? { SMTP_URL: sink.url } : {}),
   };
   const children: ChildProcess[] = [
     spawn(path.join(REPO_ROOT, 'node_modules/.bin/tsx'), ['watch', '--clear-screen=false', 'server/index.ts'], { cwd: REPO_ROOT, env, stdio: 'inherit' }),
@@ -36,7 +38,9 @@ async function main(): Promise<void> {
     if (stopping) return;
     stopping = true;
     for (const child of children) child.kill('SIGTERM');
-    Promise.all(children.map((c) => new Promise((r) => (c.exitCode !== null ? r(null) : c.once('exit', r))))).then(() => {
+    Promise.all(children.map((c) => new Promise((r) => (c.exitCode !== null ? r(null) : c.once('exit', r))))).then(async () => {
+      await sink?.close();
+      await seedDb.close();
       stack.stop();
       process.exit(0);
     });

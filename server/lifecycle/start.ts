@@ -9,32 +9,44 @@ import { openDatabase } from '../db/client.ts';
 import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemoOnce } from '../db/seed.ts';
 import { exitOnSignals, startServer } from '../index.ts';
 import { bringUpDatabase, precheckEnv } from './localStack.ts';
+import { startMailSink, type MailSink } from '../mail/sink.ts';
+import { parseEnv } from '../env.ts';
 
 async function main(): Promise<void> {
   const started = Date.now();
   precheckEnv();
   const stack = await bringUpDatabase();
   let stopped = false;
-  const stopAll = () => {
-    if (!stopped) {
-      stopped = true;
-      stack.stop();
-    }
+  let sink: MailSink | null = null;
+  const sinkDb = openDatabase(stack.env.DATABASE_URL, { max: 2 });
+  const stopAll = async () => {
+    if (stopped) return;
+    stopped = true;
+    await sink?.close();
+    await sinkDb.close();
+    stack.stop();
   };
   try {
-    const seedDb = openDatabase(stack.env.DATABASE_URL, { max: 2 });
-    const seeded = await seedDemoOnce(seedDb.db);
-    await seedDb.close();
+    const seeded = await seedDemoOnce(sinkDb.db);
     console.log(seeded === 'seeded' ? 'Demo data seeded.' : 'Demo data already present.');
+
+    let env = stack.env;
+    if (!env.SMTP_URL) {
+      // No mail server configured: a local sink keeps every message in the database, readable
+      // on the development mailbox page.
+      sink = await startMailSink(sinkDb.db, { port: Number(process.env.SMTP_SINK_PORT ?? 0) });
+      env = parseEnv({ ...process.env, DATABASE_URL: env.DATABASE_URL, SESSION_SECRET: env.SESSION_SECRET, SMTP_URL: sink.url });
+      console.log(`Mail sink listening on ${sink.url}; messages appear on the developer mailbox page (/dev/mailbox).`);
+    }
 
     console.log('Building the client…');
     const build = spawnSync(path.join(REPO_ROOT, 'node_modules/.bin/vite'), ['build', '--logLevel', 'warn'], { cwd: REPO_ROOT, stdio: 'inherit' });
     if (build.status !== 0) throw new Error('The client build failed; see above.');
 
-    const running = await startServer(stack.env);
+    const running = await startServer(env);
     exitOnSignals(async () => {
       await running.close();
-      stopAll();
+      await stopAll();
     });
     const owner = DEMO_PEOPLE[0];
     console.log('');
@@ -42,7 +54,7 @@ async function main(): Promise<void> {
     console.log(`Demo sign-in: ${owner.email} / ${DEMO_PASSWORD}  (team owner; colleagues ${DEMO_PEOPLE.slice(1).map((p) => p.email).join(', ')} use the same password)`);
     console.log('Press Ctrl-C to stop (PostgreSQL stops with it).');
   } catch (err) {
-    stopAll();
+    await stopAll();
     throw err;
   }
 }

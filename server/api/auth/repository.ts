@@ -1,6 +1,6 @@
-import { and, eq } from 'drizzle-orm';
+import { and, eq, isNull, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client.ts';
-import { memberships, teams, users } from '../../db/schema.ts';
+import { memberships, passwordResets, teams, users } from '../../db/schema.ts';
 import { newId } from '../../../shared/model/ids.ts';
 import type { Role } from '../../../shared/model/roles.ts';
 
@@ -43,4 +43,32 @@ export async function createUserWithTeam(
     await tx.insert(memberships).values({ teamId, userId, role: 'owner' });
     return { userId, teamId };
   });
+}
+
+export async function createUser(db: Db, input: { email: string; name: string; passwordHash: string }): Promise<string> {
+  const id = newId('user');
+  await db.insert(users).values({ id, email: input.email.trim().toLowerCase(), name: input.name, passwordHash: input.passwordHash });
+  return id;
+}
+
+export async function updatePassword(db: Db, userId: string, passwordHash: string) {
+  await db.update(users).set({ passwordHash, updatedAt: sql`now()` }).where(eq(users.id, userId));
+}
+
+export async function insertPasswordReset(db: Db, row: { userId: string; tokenHash: string; expiresAt: Date }) {
+  await db.insert(passwordResets).values({ id: newId('reset'), ...row });
+}
+
+export function findPasswordReset(db: Db, tokenHash: string) {
+  return db.query.passwordResets.findFirst({ where: eq(passwordResets.tokenHash, tokenHash) });
+}
+
+/** Marks every open reset token of the user used (after a successful reset, old links die too). */
+export async function consumePasswordResets(db: Db, userId: string): Promise<void> {
+  await db.update(passwordResets).set({ usedAt: sql`now()` }).where(and(eq(passwordResets.userId, userId), isNull(passwordResets.usedAt)));
+}
+
+/** Ends every stored session of a user (password changed: other devices must sign in again). */
+export async function deleteSessionsOf(db: Db, userId: string): Promise<void> {
+  await db.execute(sql`delete from session where sess->'passport'->>'user' = ${userId}`);
 }

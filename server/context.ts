@@ -1,0 +1,16 @@
+import type { Db } from './db/client.ts';
+import type { Mailer } from './mail/mailer.ts';
+
+/**
+ * What services need besides their arguments: the database, outgoing mail and the public base
+ * URL for links in e-mails. Built once in createApp and handed to routers.
+ */
+export interface AppContext {
+  db: Db;
+  mailer: Mailer;
+  /** e.g. http://127.0.0.1:3000 — PUBLIC_URL, else the address the server listens on. */
+  publicUrl(): string;
+  log(line: string): void;
+  /** Whether developer-only pages (the mailbox) exist. */
+  devPages: boolean;
+}

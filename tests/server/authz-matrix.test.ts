@@ -1,0 +1,197 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { newId } from '../../shared/model/ids.ts';
+import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
+import { defaultSketchDocument } from '../../shared/model/sketch.ts';
+import { hashToken } from '../../server/auth/tokens.ts';
+import { eq } from 'drizzle-orm';
+import { invitations, mailMessages, memberships, teams, users } from '../../server/db/schema.ts';
+import { listRoutes } from '../helpers/routes.ts';
+import { ACTORS, CSRF, createWorld, freshSketch, freshTeam, signIn, type Actor, type World } from '../helpers/world.ts';
+
+/**
+ * The authorization matrix: every API route × every kind of caller → expected status, generated
+ * from the one table below. A route the app answers that has no entry here fails the first test.
+ */
+type Need = Role | 'public' | 'signedIn' | 'anyOwner';
+interface Entry {
+  need: Need;
+  /** Status when allowed. */
+  ok: number;
+  /** Builds the request for one caller against fresh data (so destructive calls do not interfere). */
+  prepare: (w: World, actor: Actor) => Promise<{ path: string; body?: unknown }>;
+  /** Exceptions to the rule the `need` implies, with the reason in the key's comment. */
+  override?: Partial<Record<Actor, number>>;
+  /** Use a separate, fresh session for this call (it ends or replaces the session). */
+  freshSession?: boolean;
+  /** Undo side effects that would change later rows of the matrix. */
+  cleanup?: (w: World, body: unknown) => Promise<void>;
+}
+
+async function extraMember(w: World, teamId: string): Promise<string> {
+  const id = newId('user');
+  await w.database.db.insert(users).values({ id, email: `${id}@example.test`, name: 'Extra Person', passwordHash: 'x' });
+  await w.database.db.insert(memberships).values({ teamId, userId: id, role: 'viewer' });
+  return id;
+}
+
+async function invitation(w: World, teamId: string, email = `${newId('user')}@example.test`): Promise<{ id: string; token: string; email: string }> {
+  const token = `tok${newId('invite').slice(7)}${Math.random().toString(36).slice(2)}`;
+  const id = newId('invite');
+  await w.database.db.insert(invitations).values({ id, teamId, email, role: 'editor', tokenHash: hashToken(token), invitedBy: w.users.owner.id, expiresAt: new Date(Date.now() + 86_400_000) });
+  return { id, token, email };
+}
+
+const TABLE: Record<string, Entry> = {
+  'GET /api/health': { need: 'public', ok: 200, prepare: async () => ({ path: '/api/health' }) },
+  'GET /api/auth/me': { need: 'signedIn', ok: 200, prepare: async () => ({ path: '/api/auth/me' }) },
+  'POST /api/auth/sign-in': {
+    // Wrong password for everyone: the route is public, the answer is about credentials.
+    need: 'public',
+    ok: 401,
+    prepare: async (w) => ({ path: '/api/auth/sign-in', body: { email: w.users.owner.email, password: 'wrong password' } }),
+  },
+  'POST /api/auth/sign-up': {
+    // An address that already has an account: public route, refused for the address.
+    need: 'public',
+    ok: 409,
+    prepare: async (w) => ({ path: '/api/auth/sign-up', body: { name: 'Dup', email: w.users.viewer.email, password: 'long enough pw', teamName: 'X' } }),
+  },
+  'POST /api/auth/sign-out': { need: 'public', ok: 204, freshSession: true, prepare: async () => ({ path: '/api/auth/sign-out' }) },
+  'POST /api/auth/password-reset': { need: 'public', ok: 202, prepare: async (w) => ({ path: '/api/auth/password-reset', body: { email: w.users.editor.email } }) },
+  'POST /api/auth/password-reset/confirm': {
+    need: 'public',
+    ok: 400,
+    prepare: async () => ({ path: '/api/auth/password-reset/confirm', body: { token: 'x'.repeat(43), password: 'another long pw' } }),
+  },
+  'POST /api/auth/invitations/preview': {
+    need: 'public',
+    ok: 200,
+    prepare: async (w) => {
+      const inv = await invitation(w, w.teamId);
+      return { path: '/api/auth/invitations/preview', body: { teamId: w.teamId, token: inv.token } };
+    },
+  },
+  'POST /api/auth/invitations/accept': {
+    // Sent to a new address: a newcomer creates the account; signed-in people are someone else.
+    need: 'public',
+    ok: 200,
+    override: { viewer: 403, reviewer: 403, editor: 403, owner: 403, outsider: 403 },
+    prepare: async (w) => {
+      const inv = await invitation(w, w.teamId);
+      return { path: '/api/auth/invitations/accept', body: { teamId: w.teamId, token: inv.token, name: 'New Person', password: 'a fine password' } };
+    },
+  },
+  'POST /api/teams': {
+    need: 'signedIn',
+    ok: 201,
+    prepare: async () => ({ path: '/api/teams', body: { name: 'Another team' } }),
+    // The creator becomes an owner, which would change their answers on owner-only routes.
+    cleanup: async (w, body) => {
+      const teamId = (body as { teamId?: string }).teamId;
+      if (teamId) await w.database.db.delete(teams).where(eq(teams.id, teamId));
+    },
+  },
+  'DELETE /api/teams/:teamId': { need: 'owner', ok: 204, prepare: async (w) => ({ path: `/api/teams/${await freshTeam(w)}` }) },
+  'GET /api/teams/:teamId/members': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/teams/${w.teamId}/members` }) },
+  'PATCH /api/teams/:teamId/members/:userId': {
+    need: 'owner',
+    ok: 200,
+    prepare: async (w) => {
+      const t = await freshTeam(w);
+      return { path: `/api/teams/${t}/members/${await extraMember(w, t)}`, body: { role: 'editor' } };
+    },
+  },
+  'DELETE /api/teams/:teamId/members/:userId': {
+    need: 'owner',
+    ok: 204,
+    prepare: async (w) => {
+      const t = await freshTeam(w);
+      return { path: `/api/teams/${t}/members/${await extraMember(w, t)}` };
+    },
+  },
+  'GET /api/teams/:teamId/invitations': { need: 'owner', ok: 200, prepare: async (w) => ({ path: `/api/teams/${w.teamId}/invitations` }) },
+  'POST /api/teams/:teamId/invitations': {
+    need: 'owner',
+    ok: 201,
+    prepare: async (w) => ({ path: `/api/teams/${await freshTeam(w)}/invitations`, body: { email: `${newId('user')}@example.test`, role: 'viewer' } }),
+  },
+  'DELETE /api/teams/:teamId/invitations/:invitationId': {
+    need: 'owner',
+    ok: 204,
+    prepare: async (w) => {
+      const t = await freshTeam(w);
+      return { path: `/api/teams/${t}/invitations/${(await invitation(w, t)).id}` };
+    },
+  },
+  'GET /api/teams/:teamId/audit': { need: 'owner', ok: 200, prepare: async (w) => ({ path: `/api/teams/${w.teamId}/audit` }) },
+  'GET /api/teams/:teamId/sketches': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/teams/${w.teamId}/sketches` }) },
+  'POST /api/teams/:teamId/sketches': { need: 'editor', ok: 201, prepare: async (w) => ({ path: `/api/teams/${w.teamId}/sketches`, body: { title: 'New one' } }) },
+  'GET /api/sketches/:sketchId': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}` }) },
+  'PATCH /api/sketches/:sketchId': { need: 'editor', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}`, body: { title: 'Renamed' } }) },
+  'PUT /api/sketches/:sketchId/document': {
+    need: 'editor',
+    ok: 200,
+    prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/document`, body: { document: defaultSketchDocument(), baseRevision: 0 } }),
+  },
+  'POST /api/sketches/:sketchId/duplicate': { need: 'editor', ok: 201, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/duplicate` }) },
+  'DELETE /api/sketches/:sketchId': { need: 'owner', ok: 204, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}` }) },
+  'GET /api/dev/mailbox': { need: 'anyOwner', ok: 200, prepare: async () => ({ path: '/api/dev/mailbox' }) },
+  'GET /api/dev/mailbox/:mailId': {
+    need: 'anyOwner',
+    ok: 200,
+    prepare: async (w) => {
+      const id = newId('mail');
+      await w.database.db.insert(mailMessages).values({ id, fromAddress: 'a@b.test', toAddresses: ['c@d.test'], subject: 'Hello', textBody: 'Hi', raw: 'Hi' });
+      return { path: `/api/dev/mailbox/${id}` };
+    },
+  },
+};
+
+/** The status the table's rule gives `actor` for an entry. */
+function expected(entry: Entry, actor: Actor): number {
+  if (entry.override?.[actor] !== undefined) return entry.override[actor]!;
+  const { need, ok } = entry;
+  if (need === 'public') return ok;
+  if (actor === 'signedOut') return 401;
+  if (need === 'signedIn') return ok;
+  if (need === 'anyOwner') return actor === 'owner' || actor === 'outsider' ? ok : 403;
+  if (actor === 'outsider') return 404; // not a member: the team's existence is not revealed
+  return roleAtLeast(actor as Role, need) ? ok : 403;
+}
+
+describe('authorization matrix', () => {
+  let world: World;
+  const cookies = {} as Record<Actor, string | null>;
+
+  beforeAll(async () => {
+    world = await createWorld();
+    for (const actor of ACTORS) cookies[actor] = await signIn(world, actor);
+  });
+  afterAll(async () => world?.close());
+
+  it('has an entry for every API route the app answers, and no stale entries', () => {
+    const routes = listRoutes(world.app).filter((r) => r.includes(' /api/'));
+    expect(routes.filter((r) => !(r in TABLE))).toEqual([]);
+    expect(Object.keys(TABLE).filter((r) => !routes.includes(r))).toEqual([]);
+  });
+
+  for (const [route, entry] of Object.entries(TABLE)) {
+    const [method] = route.split(' ');
+    it(`${route}: ${ACTORS.map((a) => `${a} → ${expected(entry, a)}`).join(', ')}`, async () => {
+      const got: Record<string, number> = {};
+      const want: Record<string, number> = {};
+      for (const actor of ACTORS) {
+        const { path, body } = await entry.prepare(world, actor);
+        const cookie = entry.freshSession ? await signIn(world, actor) : cookies[actor];
+        let req = request(world.app)[method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete'](path).set(CSRF);
+        if (cookie) req = req.set('Cookie', cookie);
+        const res = body === undefined ? await req : await req.send(body as object);
+        got[actor] = res.status;
+        await entry.cleanup?.(world, res.body);
+        want[actor] = expected(entry, actor);
+      }
+      expect(got).toEqual(want);
+    });
+  }
+});

@@ -31,5 +31,7 @@ export type SignUp = z.infer<typeof signUpSchema>;
 export const meSchema = z.object({
   user: z.object({ id: z.string(), email: z.string(), name: z.string() }),
   teams: z.array(z.object({ teamId: z.string(), teamName: z.string(), role: z.enum(['owner', 'editor', 'reviewer', 'viewer']) })),
+  /** Whether the development mailbox exists on this server (not in production). */
+  devMailbox: z.boolean().default(false),
 });
 export type Me = z.infer<typeof meSchema>;

@@ -1,5 +1,6 @@
 import { createRouter, createWebHistory } from 'vue-router';
 import { useSessionStore } from '@/stores/session';
+import { roleAtLeast, type Role } from '@shared/model/roles';
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -8,6 +9,10 @@ declare module 'vue-router' {
     /** Pages for signed-out visitors only (a signed-in visitor goes home). */
     guestOnly?: boolean;
     title?: string;
+    /** Least role in the current team; below it the visitor sees the 403 page. */
+    minRole?: Role;
+    /** What the role is needed for, in the 403 page's words ("manage members"). */
+    action?: string;
   }
 }
 
@@ -16,8 +21,8 @@ export const router = createRouter({
   routes: [
     { path: '/', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { requiresAuth: true, title: 'Sketches' } },
     { path: '/sketches/:sketchId', name: 'sketch', component: () => import('@/views/SketchView.vue'), meta: { requiresAuth: true, title: 'Sketch' }, props: true },
-    { path: '/team/members', name: 'members', component: () => import('@/views/MembersView.vue'), meta: { requiresAuth: true, title: 'Members' } },
-    { path: '/dev/mailbox', name: 'mailbox', component: () => import('@/views/MailboxView.vue'), meta: { requiresAuth: true, title: 'Mailbox' } },
+    { path: '/team/members', name: 'members', component: () => import('@/views/MembersView.vue'), meta: { requiresAuth: true, title: 'Members', minRole: 'owner', action: 'manage members' } },
+    { path: '/dev/mailbox', name: 'mailbox', component: () => import('@/views/MailboxView.vue'), meta: { requiresAuth: true, title: 'Mailbox', minRole: 'owner', action: 'read the development mailbox' } },
     { path: '/sign-in', name: 'sign-in', component: () => import('@/views/SignInView.vue'), meta: { guestOnly: true, title: 'Sign in' } },
     { path: '/sign-up', name: 'sign-up', component: () => import('@/views/SignUpView.vue'), meta: { guestOnly: true, title: 'Create an account' } },
     { path: '/forgot-password', name: 'forgot-password', component: () => import('@/views/ForgotPasswordView.vue'), meta: { guestOnly: true, title: 'Forgot password' } },
@@ -41,6 +46,9 @@ router.beforeEach(async (to) => {
     return { name: 'sign-in', query: to.fullPath !== '/' ? { next: to.fullPath } : {} };
   }
   if (to.meta.guestOnly && session.user) return { name: 'home' };
+  if (to.meta.minRole && !roleAtLeast(session.role, to.meta.minRole)) {
+    return { name: 'forbidden', query: { needed: to.meta.minRole, action: to.meta.action } };
+  }
   return true;
 });
 

@@ -46,11 +46,24 @@ export const useSessionStore = defineStore('session', () => {
     accept(null);
   }
 
+  /** Creates a team owned by the signed-in user and switches to it. */
+  async function createTeam(name: string): Promise<void> {
+    const team = await api.post<{ teamId: string }>('/api/teams', { name });
+    await load();
+    selectTeam(team.teamId);
+  }
+
+  /** After accepting an invitation or a reset: take the fresh answer and look at `teamId`. */
+  function adopt(value: Me, teamId?: string) {
+    accept(value);
+    if (teamId) selectTeam(teamId);
+  }
+
   function selectTeam(teamId: string | null) {
     selectedTeamId.value = teamId;
     if (teamId) localStorage.setItem(TEAM_KEY, teamId);
     else localStorage.removeItem(TEAM_KEY);
   }
 
-  return { me, loaded, user, teams, currentTeam, role, load, signIn, signUp, signOut, selectTeam };
+  return { me, loaded, user, teams, currentTeam, role, load, signIn, signUp, signOut, selectTeam, createTeam, adopt };
 });

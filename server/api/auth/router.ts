@@ -23,7 +23,7 @@ function logIn(req: Request, user: SessionUser): Promise<void> {
 
 async function describeMe(ctx: AppContext, user: SessionUser): Promise<Me> {
   const memberships = await repo.listMembershipsOf(ctx.db, user.id);
-  return { user: { id: user.id, email: user.email, name: user.name }, teams: memberships };
+  return { user: { id: user.id, email: user.email, name: user.name }, teams: memberships, devMailbox: ctx.devPages };
 }
 
 const invitationRef = z.object({ teamId: z.string().regex(/^team_[a-z0-9]{20}$/, 'must be a team id'), token: tokenSchema });

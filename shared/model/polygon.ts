@@ -1,0 +1,147 @@
+/**
+ * Pure polygon geometry shared by the input validation, the solver and the canvas.
+ * Points are [x, y]; a polygon is its vertex list, closed implicitly (last → first).
+ */
+
+/** A point as the model stores it. */
+export type XY = readonly [number, number];
+
+/**
+ * Signed area by the shoelace formula: positive when the vertices run counter-clockwise
+ * (x right, y up), negative clockwise, 0 for fewer than 3 points or a degenerate polygon.
+ * Coordinates are taken relative to the first vertex so that a far-off section loses no digits.
+ */
+export function signedArea(points: readonly XY[]): number {
+  const n = points.length;
+  if (n < 3) return 0;
+  const x0 = points[0][0];
+  const y0 = points[0][1];
+  let twice = 0;
+  for (let i = 1; i < n - 1; i++) {
+    const ax = points[i][0] - x0;
+    const ay = points[i][1] - y0;
+    const bx = points[i + 1][0] - x0;
+    const by = points[i + 1][1] - y0;
+    twice += ax * by - bx * ay;
+  }
+  return twice / 2;
+}
+
+/** Two polygon edges that cross or touch although they should not (edge i runs i → i+1). */
+export interface EdgeCrossing {
+  edgeA: number;
+  edgeB: number;
+}
+
+/**
+ * First pair of edges that intersect improperly, or null for a simple polygon. Non-adjacent
+ * edges may not touch at all; adjacent edges may share only their common vertex (so a spike
+ * that folds back along itself counts). Repeated vertices are a separate check
+ * (`findRepeatedPoint`). O(n²), fine for sections of a few thousand vertices.
+ *
+ * Source: segment intersection by orientation tests (common practice, e.g. Cormen et al.,
+ * "Introduction to Algorithms", section on segment intersection).
+ */
+export function findSelfIntersection(points: readonly XY[]): EdgeCrossing | null {
+  const n = points.length;
+  if (n < 3) return null;
+  for (let i = 0; i < n; i++) {
+    const a = points[i];
+    const b = points[(i + 1) % n];
+    for (let j = i + 1; j < n; j++) {
+      const c = points[j];
+      const d = points[(j + 1) % n];
+      const adjacentAfter = j === i + 1; // b === c
+      const adjacentBefore = i === 0 && j === n - 1; // d === a
+      if (adjacentAfter || adjacentBefore) {
+        // Shared vertex v, other ends p (of one edge) and q (of the other): they overlap only
+        // when collinear and pointing the same way from v.
+        const v = adjacentAfter ? b : a;
+        const p = adjacentAfter ? a : b;
+        const q = adjacentAfter ? d : c;
+        const ux = p[0] - v[0];
+        const uy = p[1] - v[1];
+        const wx = q[0] - v[0];
+        const wy = q[1] - v[1];
+        if (ux * wy - uy * wx === 0 && ux * wx + uy * wy > 0) return { edgeA: i, edgeB: j };
+        continue;
+      }
+      if (segmentsTouch(a, b, c, d)) return { edgeA: i, edgeB: j };
+    }
+  }
+  return null;
+}
+
+/** Index pair of the first two vertices that coincide, or null. */
+export function findRepeatedPoint(points: readonly XY[]): [number, number] | null {
+  const seen = new Map<string, number>();
+  for (let i = 0; i < points.length; i++) {
+    // -0 and 0 are the same point.
+    const key = `${points[i][0] + 0},${points[i][1] + 0}`;
+    const prev = seen.get(key);
+    if (prev !== undefined) return [prev, i];
+    seen.set(key, i);
+  }
+  return null;
+}
+
+/** True when every point lies on one straight line (so the polygon encloses no area). */
+export function allCollinear(points: readonly XY[]): boolean {
+  const n = points.length;
+  if (n < 3) return true;
+  const [x0, y0] = points[0];
+  // The point farthest from the first fixes the line (robust against a near-duplicate second point).
+  let far = 0;
+  let best = -1;
+  for (let i = 1; i < n; i++) {
+    const d = (points[i][0] - x0) ** 2 + (points[i][1] - y0) ** 2;
+    if (d > best) {
+      best = d;
+      far = i;
+    }
+  }
+  const dx = points[far][0] - x0;
+  const dy = points[far][1] - y0;
+  for (let i = 1; i < n; i++) {
+    if (dx * (points[i][1] - y0) - dy * (points[i][0] - x0) !== 0) return false;
+  }
+  return true;
+}
+
+/** True when the closed polygon has no repeated vertex, no self-intersection and area ≠ 0. */
+export function isSimplePolygon(points: readonly XY[]): boolean {
+  return (
+    points.length >= 3 &&
+    findRepeatedPoint(points) === null &&
+    findSelfIntersection(points) === null &&
+    signedArea(points) !== 0
+  );
+}
+
+function orient(a: XY, b: XY, c: XY): number {
+  const v = (b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0]);
+  return v > 0 ? 1 : v < 0 ? -1 : 0;
+}
+
+function onSegment(a: XY, b: XY, p: XY): boolean {
+  return (
+    Math.min(a[0], b[0]) <= p[0] &&
+    p[0] <= Math.max(a[0], b[0]) &&
+    Math.min(a[1], b[1]) <= p[1] &&
+    p[1] <= Math.max(a[1], b[1])
+  );
+}
+
+/** Closed segments ab and cd share at least one point. */
+function segmentsTouch(a: XY, b: XY, c: XY, d: XY): boolean {
+  const o1 = orient(a, b, c);
+  const o2 = orient(a, b, d);
+  const o3 = orient(c, d, a);
+  const o4 = orient(c, d, b);
+  if (o1 !== o2 && o3 !== o4) return true;
+  if (o1 === 0 && onSegment(a, b, c)) return true;
+  if (o2 === 0 && onSegment(a, b, d)) return true;
+  if (o3 === 0 && onSegment(c, d, a)) return true;
+  if (o4 === 0 && onSegment(c, d, b)) return true;
+  return false;
+}

@@ -1,0 +1,220 @@
+import { z } from 'zod';
+import { FIELD_EXTENT_CHORDS_DEFAULT, GAMMA_AIR } from '../solver/constants';
+import { allCollinear, findRepeatedPoint, findSelfIntersection, signedArea } from './polygon';
+
+/**
+ * The solve input, shared by the API route, the CLI and the browser worker.
+ *
+ * `{ section: { points: [[x,y],...] }, flow: { mach, alphaDeg, gamma? = 1.4 },
+ *    reference?: { momentPoint?: [x,y] }, options?: { fieldExtentChords? = 1.5, waves? = true } }`
+ *
+ * Rules: at least 3 finite points forming a simple polygon (no repeated point, no
+ * self-intersection, non-zero area); 1 < mach ≤ 50; |alphaDeg| < 90; 1 < gamma ≤ 5/3;
+ * 0 < fieldExtentChords ≤ 100. Every message names the field and says what is wrong.
+ */
+
+/** Largest free-stream Mach number accepted. */
+export const MACH_MAX = 50;
+/** Largest |α| accepted, degrees (exclusive). */
+export const ALPHA_LIMIT_DEG = 90;
+/** Largest γ accepted (monatomic gas). */
+export const GAMMA_MAX = 5 / 3;
+/** Largest wave-map field margin accepted, chords. */
+export const FIELD_EXTENT_CHORDS_MAX = 100;
+
+const fmt = (v: unknown): string => (typeof v === 'number' ? String(v) : JSON.stringify(v) ?? String(v));
+
+const finite = (field: string) =>
+  z.number({
+    error: (iss) =>
+      iss.input === undefined ? `${field} is missing.` : `${field} must be a finite number; got ${fmt(iss.input)}.`,
+  });
+
+const pointSchema = (field: string) =>
+  z.tuple([finite(`${field}[0] (x)`), finite(`${field}[1] (y)`)], {
+    error: (iss) =>
+      iss.input === undefined
+        ? `${field} is missing.`
+        : `${field} must be a pair [x, y] of finite numbers; got ${fmt(iss.input)}.`,
+  });
+
+/** Points of a section: validated one by one so that messages carry the index. */
+const pointsSchema = z
+  .array(z.unknown(), {
+    error: (iss) =>
+      iss.input === undefined
+        ? 'section.points is missing: give the section as a list of [x, y] points.'
+        : 'section.points must be a list of [x, y] points.',
+  })
+  .transform((raw, ctx) => {
+    const out: [number, number][] = [];
+    raw.forEach((p, i) => {
+      const ok =
+        Array.isArray(p) &&
+        p.length === 2 &&
+        typeof p[0] === 'number' &&
+        typeof p[1] === 'number' &&
+        Number.isFinite(p[0]) &&
+        Number.isFinite(p[1]);
+      if (!ok) {
+        ctx.addIssue({
+          code: 'custom',
+          path: [i],
+          message: `section.points[${i}] must be a pair [x, y] of finite numbers; got ${fmt(p)}.`,
+        });
+      } else out.push([p[0] as number, p[1] as number]);
+    });
+    if (out.length !== raw.length) return z.NEVER;
+    if (out.length < 3) {
+      ctx.addIssue({
+        code: 'custom',
+        message: `section.points needs at least 3 points to enclose a section; got ${out.length}.`,
+      });
+      return z.NEVER;
+    }
+    const repeated = findRepeatedPoint(out);
+    if (repeated) {
+      const [a, b] = repeated;
+      ctx.addIssue({
+        code: 'custom',
+        path: [b],
+        message: `section.points[${b}] repeats section.points[${a}] (${fmt(out[a])}); each vertex must be distinct.`,
+      });
+      return z.NEVER;
+    }
+    if (allCollinear(out)) {
+      ctx.addIssue({
+        code: 'custom',
+        message: 'section.points enclose no area (all points lie on one line).',
+      });
+      return z.NEVER;
+    }
+    const crossing = findSelfIntersection(out);
+    if (crossing) {
+      const n = out.length;
+      const { edgeA, edgeB } = crossing;
+      ctx.addIssue({
+        code: 'custom',
+        path: [edgeB],
+        message:
+          `section.points[${edgeB}]: the side from point ${edgeB} to point ${(edgeB + 1) % n} ` +
+          `crosses or touches the side from point ${edgeA} to point ${(edgeA + 1) % n}; ` +
+          'the section must be a simple polygon.',
+      });
+      return z.NEVER;
+    }
+    if (signedArea(out) === 0) {
+      ctx.addIssue({
+        code: 'custom',
+        message: 'section.points enclose no area.',
+      });
+      return z.NEVER;
+    }
+    return out;
+  });
+
+export const solveInputSchema = z.object(
+  {
+    section: z.object(
+      { points: pointsSchema },
+      {
+        error: (iss) =>
+          iss.input === undefined
+            ? 'section is missing: give { "points": [[x, y], ...] }.'
+            : 'section must be an object { "points": [[x, y], ...] }.',
+      },
+    ),
+    flow: z.object(
+      {
+        mach: finite('flow.mach')
+          .gt(1, { error: (iss) => `flow.mach must be above 1 (supersonic); got ${fmt(iss.input)}.` })
+          .lte(MACH_MAX, { error: (iss) => `flow.mach must be at most ${MACH_MAX}; got ${fmt(iss.input)}.` }),
+        alphaDeg: finite('flow.alphaDeg')
+          .gt(-ALPHA_LIMIT_DEG, {
+            error: (iss) => `flow.alphaDeg must lie strictly between −90 and 90 degrees; got ${fmt(iss.input)}.`,
+          })
+          .lt(ALPHA_LIMIT_DEG, {
+            error: (iss) => `flow.alphaDeg must lie strictly between −90 and 90 degrees; got ${fmt(iss.input)}.`,
+          }),
+        gamma: finite('flow.gamma')
+          .gt(1, { error: (iss) => `flow.gamma must be above 1; got ${fmt(iss.input)}.` })
+          .lte(GAMMA_MAX, {
+            error: (iss) => `flow.gamma must be at most 5/3 (a monatomic gas); got ${fmt(iss.input)}.`,
+          })
+          .default(GAMMA_AIR),
+      },
+      {
+        error: (iss) =>
+          iss.input === undefined
+            ? 'flow is missing: give { "mach": M, "alphaDeg": a }.'
+            : 'flow must be an object { "mach": M, "alphaDeg": a, "gamma": g }.',
+      },
+    ),
+    reference: z
+      .object(
+        { momentPoint: pointSchema('reference.momentPoint').optional() },
+        { error: () => 'reference must be an object { "momentPoint": [x, y] }.' },
+      )
+      .optional(),
+    options: z
+      .object(
+        {
+          fieldExtentChords: finite('options.fieldExtentChords')
+            .gt(0, {
+              error: (iss) => `options.fieldExtentChords must be above 0; got ${fmt(iss.input)}.`,
+            })
+            .lte(FIELD_EXTENT_CHORDS_MAX, {
+              error: (iss) =>
+                `options.fieldExtentChords must be at most ${FIELD_EXTENT_CHORDS_MAX}; got ${fmt(iss.input)}.`,
+            })
+            .default(FIELD_EXTENT_CHORDS_DEFAULT),
+          waves: z
+            .boolean({ error: (iss) => `options.waves must be true or false; got ${fmt(iss.input)}.` })
+            .default(true),
+        },
+        { error: () => 'options must be an object { "fieldExtentChords": n, "waves": true|false }.' },
+      )
+      .prefault({}),
+  },
+  {
+    error: () => 'The solve input must be a JSON object with "section" and "flow".',
+  },
+);
+
+/** What the caller sends (defaults optional). */
+export type SolveInputRaw = z.input<typeof solveInputSchema>;
+/** The parsed input with defaults applied: what `solveSection` takes. */
+export type SolveInput = z.output<typeof solveInputSchema>;
+
+/** One validation problem: the field as a path (`section.points[3]`, `flow.mach`) and why. */
+export interface SolveInputIssue {
+  path: string;
+  message: string;
+}
+
+export type ParseSolveInputResult =
+  | { ok: true; value: SolveInput }
+  | { ok: false; issues: SolveInputIssue[] };
+
+/**
+ * Validates and normalises an unknown value (e.g. a parsed JSON body) as a solve input.
+ * Never throws; on failure each issue names its field (`input` for the whole value).
+ */
+export function parseSolveInput(raw: unknown): ParseSolveInputResult {
+  const r = solveInputSchema.safeParse(raw);
+  if (r.success) return { ok: true, value: r.data };
+  return {
+    ok: false,
+    issues: r.error.issues.map((iss) => ({ path: formatPath(iss.path), message: iss.message })),
+  };
+}
+
+/** ['section', 'points', 3] → 'section.points[3]'; [] → 'input'. */
+export function formatPath(path: readonly PropertyKey[]): string {
+  let out = '';
+  for (const key of path) {
+    if (typeof key === 'number') out += `[${key}]`;
+    else out += out ? `.${String(key)}` : String(key);
+  }
+  return out || 'input';
+}

@@ -1,0 +1,78 @@
+import { describe, expect, it } from 'vitest';
+import { expectClose } from '../../helpers/expectClose';
+import {
+  allCollinear,
+  findRepeatedPoint,
+  findSelfIntersection,
+  isSimplePolygon,
+  signedArea,
+  type XY,
+} from '../../../shared/model/polygon';
+
+const square: XY[] = [
+  [0, 0],
+  [1, 0],
+  [1, 1],
+  [0, 1],
+];
+
+describe('signedArea', () => {
+  it('signedArea(unit square, counter-clockwise) = +1, clockwise = −1 (shoelace formula)', () => {
+    expectClose(signedArea(square), 1, 1e-15);
+    expectClose(signedArea([...square].reverse()), -1, 1e-15);
+  });
+
+  it('signedArea of a far-off triangle keeps its digits (coordinates taken relative to vertex 0)', () => {
+    const off = 1e9;
+    expectClose(signedArea([[off, off], [off + 1, off], [off, off + 1]]), 0.5, 1e-12);
+  });
+
+  it('signedArea of fewer than 3 points or collinear points is 0 (degenerate)', () => {
+    expect(signedArea([[0, 0], [1, 1]])).toBe(0);
+    expect(signedArea([[0, 0], [1, 1], [2, 2]])).toBe(0);
+  });
+});
+
+describe('findSelfIntersection', () => {
+  it('findSelfIntersection(square) is null (simple polygon)', () => {
+    expect(findSelfIntersection(square)).toBeNull();
+  });
+
+  it('findSelfIntersection(bow tie) reports the two crossing sides', () => {
+    const bowTie: XY[] = [[0, 0], [1, 1], [1, 0], [0, 1]];
+    expect(findSelfIntersection(bowTie)).toEqual({ edgeA: 0, edgeB: 2 });
+  });
+
+  it('findSelfIntersection catches a spike folding back along its own side (adjacent overlap)', () => {
+    const spike: XY[] = [[0, 0], [2, 0], [1, 0], [1, 1]];
+    expect(findSelfIntersection(spike)).not.toBeNull();
+  });
+
+  it('findSelfIntersection catches a vertex touching a non-adjacent side', () => {
+    const touching: XY[] = [[0, 0], [2, 0], [2, 2], [1, 0], [0, 2]];
+    expect(findSelfIntersection(touching)).not.toBeNull();
+  });
+});
+
+describe('allCollinear', () => {
+  it('allCollinear is true for points on one line and false for a triangle', () => {
+    expect(allCollinear([[0, 0], [1, 0.5], [2, 1], [-1, -0.5]])).toBe(true);
+    expect(allCollinear([[0, 0], [1, 0.5], [2, 1.0001]])).toBe(false);
+  });
+});
+
+describe('findRepeatedPoint and isSimplePolygon', () => {
+  it('findRepeatedPoint finds the first repeat (and treats −0 as 0)', () => {
+    expect(findRepeatedPoint([[0, 0], [1, 0], [0, 1], [1, 0]])).toEqual([1, 3]);
+    expect(findRepeatedPoint([[0, 0], [1, 0], [-0, 0]])).toEqual([0, 2]);
+    expect(findRepeatedPoint(square)).toBeNull();
+  });
+
+  it('isSimplePolygon accepts a square and rejects repeats, crossings and zero area', () => {
+    expect(isSimplePolygon(square)).toBe(true);
+    expect(isSimplePolygon([[0, 0], [1, 0], [1, 0], [0, 1]])).toBe(false);
+    expect(isSimplePolygon([[0, 0], [1, 1], [1, 0], [0, 1]])).toBe(false);
+    expect(isSimplePolygon([[0, 0], [1, 1], [2, 2]])).toBe(false);
+    expect(isSimplePolygon([[0, 0], [1, 1]])).toBe(false);
+  });
+});

@@ -1,4 +1,5 @@
 import { existsSync } from 'node:fs';
+import { EventEmitter } from 'node:events';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import express, { type Express, type RequestHandler } from 'express';
@@ -103,6 +104,7 @@ export function createApp({ env, database, log = (l) => console.log(l), mailer, 
     publicUrl: () => (env.PUBLIC_URL ?? publicUrl?.() ?? `http://${env.HOST}:${env.PORT}`).replace(/\/$/, ''),
     log,
     devPages: env.NODE_ENV !== 'production',
+    events: new EventEmitter(),
   };
   const sizes = { ...DEFAULT_LIMITS, ...limits };
   const HOUR = 60 * 60 * 1000;
@@ -121,9 +123,9 @@ export function createApp({ env, database, log = (l) => console.log(l), mailer, 
   app.use('/api/health', healthRouter(database.pool));
   app.use('/api/auth', authRouter(context, passport, { signIn: signInLimit, reset: resetLimit }));
   // Everything below needs a signed-in user; each service then checks the team role.
-  app.use('/api/teams/:teamId/sketches', requireUser, teamSketchesRouter(database.db));
+  app.use('/api/teams/:teamId/sketches', requireUser, teamSketchesRouter(context));
   app.use('/api/teams', requireUser, teamsRouter(context, { invite: inviteLimit }));
-  app.use('/api/sketches', requireUser, sketchesRouter(database.db));
+  app.use('/api/sketches', requireUser, sketchesRouter(context));
   if (context.devPages) app.use('/api/dev/mailbox', requireUser, mailboxRouter(context));
   app.use('/api', notFoundApi);
 

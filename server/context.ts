@@ -1,5 +1,13 @@
 import type { Db } from './db/client.ts';
+import type { EventEmitter } from 'node:events';
 import type { Mailer } from './mail/mailer.ts';
+import type { AppliedEdit } from '../shared/protocol/messages.ts';
+
+/** Events services raise for the realtime layer (which relays them to every instance). */
+export interface AppEvents {
+  /** An edit was applied outside the socket channel (REST save, rename, restore). */
+  sketchEdited: [sketchId: string, edit: AppliedEdit];
+}
 
 /**
  * What services need besides their arguments: the database, outgoing mail and the public base
@@ -13,4 +21,5 @@ export interface AppContext {
   log(line: string): void;
   /** Whether developer-only pages (the mailbox) exist. */
   devPages: boolean;
+  events: EventEmitter<AppEvents>;
 }

@@ -1,5 +1,8 @@
 import {
+  bigserial,
+  customType,
   index,
+  uniqueIndex,
   integer,
   jsonb,
   json,
@@ -16,6 +19,8 @@ import {
  * id is text carrying its kind (`user_…`, `team_…`, `sketch_…`, see shared/model/ids.ts).
  * Migrations are generated from this file by `npm run db:generate` into drizzle/.
  */
+
+const bytea = customType<{ data: Buffer }>({ dataType: () => 'bytea' });
 
 const timestamps = {
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
@@ -181,4 +186,47 @@ export const rateLimits = pgTable('rate_limits', {
   key: text('key').primaryKey(),
   hits: integer('hits').notNull(),
   resetAt: timestamp('reset_at', { withTimezone: true }).notNull(),
+});
+
+/**
+ * The edit log of every sketch: one row per edit the realtime channel received, applied or not.
+ * Applied rows carry the revision they produced (replayed to reconnecting clients); the
+ * (sketch, op id) pair is unique, which is what makes a re-sent op harmless.
+ */
+export const sketchEdits = pgTable(
+  'sketch_edits',
+  {
+    id: text('id').primaryKey(),
+    sketchId: text('sketch_id')
+      .notNull()
+      .references(() => sketches.id, { onDelete: 'cascade' }),
+    opId: text('op_id').notNull(),
+    /** Null when rejected. */
+    revision: integer('revision'),
+    userId: text('user_id').references(() => users.id, { onDelete: 'set null' }),
+    /** The op as applied (after rebasing), or as received when rejected. */
+    op: jsonb('op').notNull(),
+    status: text('status').notNull(),
+    reason: text('reason'),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex('sketch_edits_op_idx').on(t.sketchId, t.opId), index('sketch_edits_revision_idx').on(t.sketchId, t.revision)],
+);
+
+/** Who leads the walkthrough of a sketch, if anyone (shared by every server instance). */
+export const walkthroughs = pgTable('walkthroughs', {
+  sketchId: text('sketch_id')
+    .primaryKey()
+    .references(() => sketches.id, { onDelete: 'cascade' }),
+  leadUserId: text('lead_user_id')
+    .notNull()
+    .references(() => users.id, { onDelete: 'cascade' }),
+  startedAt: timestamp('started_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+/** Payloads over 8 KB that @socket.io/postgres-adapter passes between instances. */
+export const socketIoAttachments = pgTable('socket_io_attachments', {
+  id: bigserial('id', { mode: 'number' }).primaryKey(),
+  createdAt: timestamp('created_at', { withTimezone: true }).defaultNow(),
+  payload: bytea('payload'),
 });

@@ -1,9 +1,50 @@
 import type { Server as HttpServer, IncomingMessage, ServerResponse } from 'node:http';
-import { Server } from 'socket.io';
+import { Server, type Socket } from 'socket.io';
+import { createAdapter } from '@socket.io/postgres-adapter';
 import type { RequestHandler } from 'express';
+import type pg from 'pg';
+import { eq } from 'drizzle-orm';
 import type { SessionUser } from '../auth/passport.ts';
+import type { AppContext } from '../context.ts';
+import { sketches, walkthroughs, users } from '../db/schema.ts';
+import { findRole } from '../api/auth/repository.ts';
+import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
+import type { SketchDocument } from '../../shared/model/sketch.ts';
+import {
+  clientMessageSchema,
+  MAX_REPLAY_EDITS,
+  PING_INTERVAL_MS,
+  PING_TIMEOUT_MS,
+  PROTOCOL_VERSION,
+  type ClientMessage,
+  type ClientToServerEvents,
+  type Person,
+  type ServerMessage,
+  type ServerToClientEvents,
+  type WalkthroughState,
+} from '../../shared/protocol/messages.ts';
+import { applyEditToSketch, editsSince } from './editLog.ts';
 
+interface SocketData {
+  user: SessionUser;
+  /** Sketches this connection has joined, with the role it had when joining. */
+  rooms: Map<string, Role>;
+  /** Presence card per joined sketch (role may differ per team). */
+  people: Record<string, Person>;
+}
+type IoServer = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
+type IoSocket = Socket<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
 type EngineMiddleware = (req: IncomingMessage & { _query?: Record<string, string> }, res: ServerResponse, next: (err?: unknown) => void) => void;
+
+const room = (sketchId: string) => `sketch:${sketchId}`;
+
+/** Eight colours that stay distinct on the canvas background; a person keeps theirs everywhere. */
+const PERSON_COLOURS = ['#e4572e', '#17bebb', '#ffc914', '#a855f7', '#76b041', '#f472b6', '#3b82f6', '#f97316'];
+export function personColour(userId: string): string {
+  let h = 0;
+  for (const c of userId) h = (h * 31 + c.charCodeAt(0)) >>> 0;
+  return PERSON_COLOURS[h % PERSON_COLOURS.length];
+}
 
 /** Runs an Express middleware on the socket.io handshake request only (not every poll). */
 function onHandshake(middleware: RequestHandler): EngineMiddleware {
@@ -18,13 +59,32 @@ function refuse(res: ServerResponse, status: number, code: string, message: stri
   res.end(JSON.stringify({ error: { code, message } }));
 }
 
+export interface RealtimeOptions {
+  /** Pool for the cross-instance adapter; without it rooms live in this process only. */
+  adapterPool?: pg.Pool;
+}
+
 /**
- * socket.io on the HTTP server. The handshake reuses the Express session and passport: a socket
- * without a signed-in user is refused with 401 before any event is handled, and a handshake from
- * another site's page (Origin mismatch) is refused with 403 — WebSockets are not covered by CORS.
+ * socket.io on the HTTP server: the collaboration channel of the sketch editor.
+ *
+ * The handshake reuses the Express session and passport: a socket without a signed-in user is
+ * refused with 401 before any event is handled, and a handshake from another site's page (Origin
+ * mismatch) with 403 — WebSockets are not covered by CORS. Rooms span server processes through
+ * @socket.io/postgres-adapter; edit order across processes comes from the row lock taken in
+ * applyEditToSketch. Each connection's messages are handled one at a time, in arrival order.
  */
-export function attachRealtime(httpServer: HttpServer, session: RequestHandler, passportMiddleware: RequestHandler[]): Server {
-  const io = new Server(httpServer, { serveClient: false, maxHttpBufferSize: 1e6 });
+export function attachRealtime(httpServer: HttpServer, session: RequestHandler, passportMiddleware: RequestHandler[], ctx: AppContext, options: RealtimeOptions = {}): IoServer {
+  const io: IoServer = new Server(httpServer, {
+    serveClient: false,
+    maxHttpBufferSize: 1e6,
+    pingInterval: PING_INTERVAL_MS,
+    pingTimeout: PING_TIMEOUT_MS,
+    connectionStateRecovery: undefined,
+  });
+  if (options.adapterPool) {
+    io.adapter(createAdapter(options.adapterPool, { errorHandler: (err) => ctx.log(`[realtime] adapter: ${err.message}`), heartbeatInterval: 1000, heartbeatTimeout: 4000 }));
+  }
+
   io.engine.use(((req, res, next) => {
     const origin = req.headers.origin;
     if (origin && req._query?.sid === undefined) {
@@ -45,9 +105,202 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     if (!(req as IncomingMessage & { user?: SessionUser }).user) return refuse(res, 401, 'signed_out', 'Sign in to connect.');
     next();
   }) as EngineMiddleware);
-  io.on('connection', (socket) => {
-    const user = (socket.request as IncomingMessage & { user?: SessionUser }).user!;
-    socket.data.user = user;
+
+  const send = (target: { emit: IoSocket['emit'] } | ReturnType<IoServer['to']>, msg: ServerMessage): void => {
+    target.emit('message', msg);
+  };
+
+  async function peopleIn(sketchId: string): Promise<Person[]> {
+    const sockets = await io.in(room(sketchId)).fetchSockets();
+    return sockets.map((s) => s.data.people?.[sketchId]).filter((p): p is Person => Boolean(p));
+  }
+
+  async function broadcastPeople(sketchId: string): Promise<void> {
+    try {
+      send(io.to(room(sketchId)), { type: 'people', sketchId, people: await peopleIn(sketchId) });
+    } catch (err) {
+      ctx.log(`[realtime] people list for ${sketchId}: ${(err as Error).message}`);
+    }
+  }
+
+  async function walkthroughState(sketchId: string): Promise<WalkthroughState> {
+    const rows = await ctx.db
+      .select({ leadUserId: walkthroughs.leadUserId, leadName: users.name, startedAt: walkthroughs.startedAt })
+      .from(walkthroughs)
+      .innerJoin(users, eq(users.id, walkthroughs.leadUserId))
+      .where(eq(walkthroughs.sketchId, sketchId));
+    const row = rows[0];
+    return row ? { leadUserId: row.leadUserId, leadName: row.leadName, startedAt: row.startedAt.toISOString() } : null;
+  }
+
+  async function setWalkthrough(sketchId: string, leadUserId: string | null): Promise<void> {
+    if (leadUserId) {
+      await ctx.db
+        .insert(walkthroughs)
+        .values({ sketchId, leadUserId })
+        .onConflictDoUpdate({ target: walkthroughs.sketchId, set: { leadUserId, startedAt: new Date() } });
+    } else {
+      await ctx.db.delete(walkthroughs).where(eq(walkthroughs.sketchId, sketchId));
+    }
+    send(io.to(room(sketchId)), { type: 'walkthrough', sketchId, state: await walkthroughState(sketchId) });
+  }
+
+  /** When the lead's last connection leaves a sketch, the walkthrough ends. */
+  async function endWalkthroughIfLeadGone(sketchId: string, userId: string): Promise<void> {
+    const state = await walkthroughState(sketchId);
+    if (!state || state.leadUserId !== userId) return;
+    const stillHere = (await peopleIn(sketchId)).some((p) => p.userId === userId);
+    if (!stillHere) await setWalkthrough(sketchId, null);
+  }
+
+  // Edits saved outside the socket channel (REST) reach every editor of the sketch.
+  ctx.events.on('sketchEdited', (sketchId, edit) => send(io.to(room(sketchId)), { type: 'edit', sketchId, ...edit }));
+
+  async function handle(socket: IoSocket, msg: ClientMessage): Promise<void> {
+    const user = socket.data.user;
+    const fail = (code: string, reason: string): void => send(socket, { type: 'error', code, reason, about: msg.type });
+    if (msg.type !== 'join' && !socket.data.rooms.has(msg.sketchId)) return fail('not_joined', 'Join the sketch before sending to it.');
+
+    switch (msg.type) {
+      case 'join': {
+        if (msg.protocol !== PROTOCOL_VERSION) return fail('protocol_mismatch', `This page speaks protocol ${msg.protocol}, the server ${PROTOCOL_VERSION}: reload the page.`);
+        const row = await ctx.db.query.sketches.findFirst({ where: eq(sketches.id, msg.sketchId), columns: { teamId: true, title: true, document: true, revision: true } });
+        const role = row ? await findRole(ctx.db, user.id, row.teamId) : null;
+        if (!row || !role) return fail('not_found', 'No such sketch, or you are not a member of its team.');
+        const you: Person = { connectionId: socket.id, userId: user.id, name: user.name, role, colour: personColour(user.id) };
+        socket.data.rooms.set(msg.sketchId, role);
+        socket.data.people[msg.sketchId] = you;
+        await socket.join(room(msg.sketchId));
+        const people = await peopleIn(msg.sketchId);
+        const walkthrough = await walkthroughState(msg.sketchId);
+        const replay = msg.lastRevision === undefined ? null : await editsSince(ctx.db, msg.sketchId, msg.lastRevision, row.revision, MAX_REPLAY_EDITS);
+        send(socket, { type: 'joined', sketchId: msg.sketchId, title: row.title, document: row.document as SketchDocument, revision: row.revision, people, walkthrough, you });
+        // A rejoining client keeps its own state and gets what it missed: the edits when the
+        // log bridges the gap, else the whole state.
+        if (msg.lastRevision !== undefined) {
+          if (replay) send(socket, { type: 'replay', sketchId: msg.sketchId, edits: replay, revision: row.revision });
+          else send(socket, { type: 'snapshot', sketchId: msg.sketchId, title: row.title, document: row.document as SketchDocument, revision: row.revision });
+        }
+        send(socket.to(room(msg.sketchId)), { type: 'people', sketchId: msg.sketchId, people });
+        return;
+      }
+      case 'leave': {
+        await socket.leave(room(msg.sketchId));
+        socket.data.rooms.delete(msg.sketchId);
+        delete socket.data.people[msg.sketchId];
+        await broadcastPeople(msg.sketchId);
+        await endWalkthroughIfLeadGone(msg.sketchId, user.id);
+        return;
+      }
+      case 'edit': {
+        const outcome = await applyEditToSketch(ctx.db, { sketchId: msg.sketchId, userId: user.id, baseRevision: msg.baseRevision, op: msg.op });
+        if (outcome.status === 'rejected') {
+          send(socket, { type: 'ack', sketchId: msg.sketchId, opId: msg.op.opId, status: 'rejected', reason: outcome.reason });
+          return;
+        }
+        send(socket, { type: 'ack', sketchId: msg.sketchId, opId: msg.op.opId, status: outcome.status, revision: outcome.revision, op: outcome.op });
+        if (!outcome.duplicate) {
+          send(socket.to(room(msg.sketchId)), { type: 'edit', sketchId: msg.sketchId, revision: outcome.revision, op: outcome.op, userId: user.id });
+        }
+        return;
+      }
+      case 'resync': {
+        const row = await ctx.db.query.sketches.findFirst({ where: eq(sketches.id, msg.sketchId), columns: { title: true, document: true, revision: true } });
+        if (!row) return fail('not_found', 'This sketch no longer exists.');
+        const replay = msg.lastRevision === undefined ? null : await editsSince(ctx.db, msg.sketchId, msg.lastRevision, row.revision, MAX_REPLAY_EDITS);
+        if (replay) send(socket, { type: 'replay', sketchId: msg.sketchId, edits: replay, revision: row.revision });
+        else send(socket, { type: 'snapshot', sketchId: msg.sketchId, title: row.title, document: row.document as SketchDocument, revision: row.revision });
+        return;
+      }
+      case 'presence': {
+        // Volatile: dropped rather than queued when a peer is slow [R4].
+        socket.to(room(msg.sketchId)).volatile.emit('message', {
+          type: 'presence',
+          sketchId: msg.sketchId,
+          connectionId: socket.id,
+          userId: user.id,
+          cursor: msg.cursor,
+          selection: msg.selection,
+        });
+        return;
+      }
+      case 'walkthroughStart': {
+        const role = await currentRole(msg.sketchId, user.id);
+        if (!roleAtLeast(role, 'editor')) return fail('forbidden', 'Leading a walkthrough needs the editor role or higher.');
+        const state = await walkthroughState(msg.sketchId);
+        if (state && state.leadUserId !== user.id && (await peopleIn(msg.sketchId)).some((p) => p.userId === state.leadUserId)) {
+          return fail('walkthrough_running', `${state.leadName} is leading a walkthrough; ask them to hand over.`);
+        }
+        await setWalkthrough(msg.sketchId, user.id);
+        return;
+      }
+      case 'walkthroughStop': {
+        const state = await walkthroughState(msg.sketchId);
+        if (!state) return;
+        if (state.leadUserId !== user.id && !roleAtLeast(await currentRole(msg.sketchId, user.id), 'owner')) {
+          return fail('forbidden', 'Only the lead (or a team owner) can end the walkthrough.');
+        }
+        await setWalkthrough(msg.sketchId, null);
+        return;
+      }
+      case 'walkthroughHandOver': {
+        const state = await walkthroughState(msg.sketchId);
+        if (!state || state.leadUserId !== user.id) return fail('forbidden', 'Only the lead can hand the walkthrough over.');
+        const target = (await peopleIn(msg.sketchId)).find((p) => p.userId === msg.toUserId);
+        if (!target) return fail('not_present', 'That person is not in this sketch right now.');
+        if (!roleAtLeast(await currentRole(msg.sketchId, target.userId), 'editor')) return fail('forbidden', `${target.name} needs the editor role or higher to lead.`);
+        await setWalkthrough(msg.sketchId, target.userId);
+        return;
+      }
+      case 'walkthroughView': {
+        const state = await walkthroughState(msg.sketchId);
+        if (!state || state.leadUserId !== user.id) return fail('forbidden', 'Only the lead steers the walkthrough.');
+        socket.to(room(msg.sketchId)).volatile.emit('message', { type: 'walkthroughView', sketchId: msg.sketchId, view: msg.view, highlight: msg.highlight, leadUserId: user.id });
+        return;
+      }
+    }
+  }
+
+  async function currentRole(sketchId: string, userId: string): Promise<Role | null> {
+    const row = await ctx.db.query.sketches.findFirst({ where: eq(sketches.id, sketchId), columns: { teamId: true } });
+    return row ? findRole(ctx.db, userId, row.teamId) : null;
+  }
+
+  io.on('connection', (socket: IoSocket) => {
+    socket.data.user = (socket.request as IncomingMessage & { user?: SessionUser }).user!;
+    socket.data.rooms = new Map();
+    socket.data.people = {};
+    let queue: Promise<void> = Promise.resolve();
+
+    socket.on('message', (raw: unknown) => {
+      const parsed = clientMessageSchema.safeParse(raw);
+      if (!parsed.success) {
+        const issue = parsed.error.issues[0];
+        send(socket, { type: 'error', code: 'invalid_message', reason: `The message was refused: ${issue.path.join('.') || 'message'} ${issue.message}.`, about: (raw as { type?: string })?.type });
+        return;
+      }
+      queue = queue
+        .then(() => handle(socket, parsed.data))
+        .catch((err) => {
+          ctx.log(`[realtime] ${parsed.data.type} failed: ${(err as Error).stack ?? err}`);
+          if (parsed.data.type === 'edit') {
+            // Not acked: the client keeps the op pending and re-sends it (same id) after a resync.
+            send(socket, { type: 'error', code: 'internal', reason: 'The server could not process that edit; it will be retried.', about: 'edit' });
+          } else {
+            send(socket, { type: 'error', code: 'internal', reason: 'The server could not process that message.', about: parsed.data.type });
+          }
+        });
+    });
+
+    socket.on('disconnect', () => {
+      const left = [...socket.data.rooms.keys()];
+      void queue.then(async () => {
+        for (const sketchId of left) {
+          await broadcastPeople(sketchId);
+          await endWalkthroughIfLeadGone(sketchId, socket.data.user.id).catch(() => {});
+        }
+      });
+    });
   });
   return io;
 }

@@ -1,4 +1,4 @@
-import { and, desc, eq, sql } from 'drizzle-orm';
+import { desc, eq } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { Db } from '../../db/client.ts';
 import { sketches, users } from '../../db/schema.ts';
@@ -57,34 +57,6 @@ export async function insertSketch(
     lastSolveStatus: row.lastSolveStatus,
     lastResult: row.lastResult,
   });
-}
-
-export async function renameSketch(db: Db, id: string, title: string, userId: string) {
-  await db.update(sketches).set({ title, updatedBy: userId, updatedAt: sql`now()` }).where(eq(sketches.id, id));
-}
-
-/**
- * Replaces the document if the stored revision is still `baseRevision`; returns the new revision,
- * or null when someone else saved first.
- */
-export async function replaceDocument(
-  db: Db,
-  id: string,
-  input: { document: SketchDocument; baseRevision: number; userId: string; lastSolveStatus: string | null; lastResult: unknown },
-): Promise<number | null> {
-  const rows = await db
-    .update(sketches)
-    .set({
-      document: input.document,
-      revision: sql`${sketches.revision} + 1`,
-      updatedBy: input.userId,
-      updatedAt: sql`now()`,
-      lastSolveStatus: input.lastSolveStatus,
-      lastResult: input.lastResult,
-    })
-    .where(and(eq(sketches.id, id), eq(sketches.revision, input.baseRevision)))
-    .returning({ revision: sketches.revision });
-  return rows[0]?.revision ?? null;
 }
 
 export async function deleteSketch(db: Db, id: string) {

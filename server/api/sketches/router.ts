@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { Db } from '../../db/client.ts';
+import type { AppContext } from '../../context.ts';
 import { currentUser } from '../../auth/guards.ts';
 import { parseOr400 } from '../../http/validate.ts';
 import { createSketchSchema, renameSketchSchema, saveDocumentSchema } from '../../../shared/model/sketchApi.ts';
@@ -10,7 +10,8 @@ const teamParams = z.object({ teamId: z.string().regex(/^team_[a-z0-9]{20}$/, 'm
 const sketchParams = z.object({ sketchId: z.string().regex(/^sketch_[a-z0-9]{20}$/, 'must be a sketch id') });
 
 /** Team-scoped list/create: mounted at /api/teams/:teamId/sketches. */
-export function teamSketchesRouter(db: Db): Router {
+export function teamSketchesRouter(ctx: AppContext): Router {
+  const { db } = ctx;
   const router = Router({ mergeParams: true });
   router.get('/', async (req, res) => {
     const { teamId } = parseOr400(teamParams, req.params, 'params');
@@ -25,7 +26,8 @@ export function teamSketchesRouter(db: Db): Router {
 }
 
 /** One sketch: mounted at /api/sketches. */
-export function sketchesRouter(db: Db): Router {
+export function sketchesRouter(ctx: AppContext): Router {
+  const { db } = ctx;
   const router = Router();
   router.get('/:sketchId', async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');
@@ -34,12 +36,12 @@ export function sketchesRouter(db: Db): Router {
   router.patch('/:sketchId', async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');
     const { title } = parseOr400(renameSketchSchema, req.body);
-    res.json(await service.renameSketch(db, currentUser(req).id, sketchId, title));
+    res.json(await service.renameSketch(ctx, currentUser(req).id, sketchId, title));
   });
   router.put('/:sketchId/document', async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');
     const body = parseOr400(saveDocumentSchema, req.body);
-    res.json(await service.saveDocument(db, currentUser(req).id, sketchId, body));
+    res.json(await service.saveDocument(ctx, currentUser(req).id, sketchId, body));
   });
   router.post('/:sketchId/duplicate', async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');

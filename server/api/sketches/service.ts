@@ -7,6 +7,8 @@ import type { Role } from '../../../shared/model/roles.ts';
 import type { Sketch, SketchSummary } from '../../../shared/model/sketchApi.ts';
 import { solveDocument } from './solveDocument.ts';
 import * as repo from './repository.ts';
+import type { AppContext } from '../../context.ts';
+import { applyEditToSketch } from '../../realtime/editLog.ts';
 
 /** Role check for a sketch: looks up its team first (404 when it does not exist). */
 export async function authorizeSketch(db: Db, userId: string, sketchId: string, needed: Role, what: string): Promise<{ teamId: string; role: Role }> {
@@ -86,24 +88,37 @@ export async function duplicateSketch(db: Db, userId: string, sketchId: string):
   return createSketch(db, userId, teamId, { title: `${source.title} (copy)`.slice(0, 200), document: source.document as SketchDocument });
 }
 
-export async function renameSketch(db: Db, userId: string, sketchId: string, title: string): Promise<Sketch> {
-  await authorizeSketch(db, userId, sketchId, 'editor', 'rename sketches');
-  await repo.renameSketch(db, sketchId, title, userId);
-  return getSketch(db, userId, sketchId);
+/**
+ * Renames through the edit log (a rename is an ordered edit like any other), so people with the
+ * sketch open see it at once.
+ */
+export async function renameSketch(ctx: AppContext, userId: string, sketchId: string, title: string): Promise<Sketch> {
+  await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'rename sketches');
+  const current = await repo.findSketch(ctx.db, sketchId);
+  if (!current) throw new HttpError(404, 'not_found', 'No such sketch.');
+  const op = { type: 'rename' as const, opId: newId('op'), title };
+  const outcome = await applyEditToSketch(ctx.db, { sketchId, userId, baseRevision: current.revision, op });
+  if (outcome.status === 'rejected') throw new HttpError(409, 'edit_rejected', outcome.reason);
+  ctx.events.emit('sketchEdited', sketchId, { revision: outcome.revision, op: outcome.op, userId });
+  return getSketch(ctx.db, userId, sketchId);
 }
 
-/** Saves a whole document (autosave); the server solves it again and stores its own result. */
-export async function saveDocument(db: Db, userId: string, sketchId: string, input: { document: SketchDocument; baseRevision: number }): Promise<Sketch> {
-  await authorizeSketch(db, userId, sketchId, 'editor', 'edit sketches');
-  const solved = solveDocument(input.document);
-  const revision = await repo.replaceDocument(db, sketchId, { ...input, userId, lastSolveStatus: solved.status, lastResult: solved.result });
-  if (revision === null) {
-    const current = await repo.findSketch(db, sketchId);
-    throw new HttpError(409, 'revision_conflict', `The sketch changed since revision ${input.baseRevision} (now at ${current?.revision ?? '?'}); reload it and apply your edit again.`, {
-      revision: current?.revision ?? null,
-    });
+/**
+ * Saves a whole document (autosave, scripts). It must be based on the current revision (409
+ * otherwise: nobody overwrites edits they have not seen); it goes through the edit log, the
+ * server solves it again and stores its own result, and open editors receive it.
+ */
+export async function saveDocument(ctx: AppContext, userId: string, sketchId: string, input: { document: SketchDocument; baseRevision: number }): Promise<Sketch> {
+  await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'edit sketches');
+  const op = { type: 'replaceDocument' as const, opId: newId('op'), document: input.document };
+  const outcome = await applyEditToSketch(ctx.db, { sketchId, userId, baseRevision: input.baseRevision, op, requireBase: true });
+  if (outcome.status === 'rejected') {
+    const current = await repo.findSketch(ctx.db, sketchId);
+    const stale = current && current.revision !== input.baseRevision;
+    throw new HttpError(stale ? 409 : 400, stale ? 'revision_conflict' : 'invalid_document', outcome.reason, { revision: current?.revision ?? null });
   }
-  return getSketch(db, userId, sketchId);
+  ctx.events.emit('sketchEdited', sketchId, { revision: outcome.revision, op: outcome.op, userId });
+  return getSketch(ctx.db, userId, sketchId);
 }
 
 export async function deleteSketch(db: Db, userId: string, sketchId: string): Promise<void> {

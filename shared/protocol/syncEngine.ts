@@ -1,0 +1,303 @@
+import type { SketchDocument } from '../model/sketch.ts';
+import { applyEdit, transformOp, type SketchState } from './transform.ts';
+import { GAP_RESYNC_AFTER_MS, PROTOCOL_VERSION, type ClientMessage, type EditOp, type ServerMessage } from './messages.ts';
+
+/**
+ * The client half of the edit protocol, as a pure state machine with no socket in it: the
+ * browser store drives it from socket.io, the realtime tests drive twenty of them at once.
+ *
+ * Model (one edit in flight, the rest buffered, like a classic OT client):
+ * - `server` is the last state the server confirmed, at `revision`; edits from the server are
+ *   applied to it strictly in revision order (out-of-order arrivals wait; a gap that stays open
+ *   for GAP_RESYNC_AFTER_MS triggers a `resync`).
+ * - `pending` = the in-flight edit (sent, not yet acked) followed by buffered local edits. The
+ *   local view is always `server` + `pending`, so once pending drains every client shows exactly
+ *   the server's state [R6].
+ * - A remote edit rebases pending edits past it; our in-flight edit is sent with the revision it
+ *   was made on and the server rebases it the same way [R5].
+ * - After a reconnect the engine rejoins with its revision; the server replays what it missed
+ *   (or sends a snapshot) and the in-flight edit is re-sent with its original id [R3].
+ * - Remote edits are reported through `onRemoteEdit` so an undo stack can rebase past them
+ *   (remote edits never enter local undo).
+ */
+export interface SyncEngineOptions {
+  send(msg: ClientMessage): void;
+  /** The local view changed (re-render). */
+  onChange?(): void;
+  /** A remote edit was applied to the server state (rebase undo entries past it). */
+  onRemoteEdit?(op: EditOp): void;
+  /** The server refused one of our edits, or it could no longer apply after a rebase. */
+  onRejected?(op: EditOp, reason: string): void;
+  /** One of our edits was confirmed at `revision`. */
+  onAcked?(op: EditOp, revision: number): void;
+  now?(): number;
+}
+
+interface Pending {
+  /** The edit as it now applies (rebased past remote edits seen since it was made). */
+  op: EditOp;
+  /** Set once sent: the edit and revision as first sent (re-sent as is after a snapshot). */
+  sent?: { op: EditOp; base: number };
+}
+
+export interface SyncEngine {
+  readonly sketchId: string | null;
+  /** Local view: confirmed state + pending edits. Null before the first join answer. */
+  readonly state: SketchState | null;
+  readonly revision: number;
+  readonly pendingCount: number;
+  readonly connected: boolean;
+  join(sketchId: string): void;
+  /** Applies an edit locally and queues it for the server; refuses it if it does not apply. */
+  submit(op: EditOp): { ok: true } | { ok: false; reason: string };
+  receive(msg: ServerMessage): void;
+  connectionOpened(): void;
+  connectionLost(): void;
+  /** Call periodically (e.g. every 250 ms): resyncs a gap that stayed open. */
+  tick(): void;
+}
+
+export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
+  const now = options.now ?? (() => Date.now());
+  let sketchId: string | null = null;
+  let server: { state: SketchState; revision: number } | null = null;
+  let pending: Pending[] = [];
+  let local: SketchState | null = null;
+  let connected = false;
+  /** True between a reconnect's join and the replay/snapshot that brings us up to date. */
+  let rejoining = false;
+  const future = new Map<number, { op: EditOp; own: boolean }>();
+  let gapSince: number | null = null;
+
+  function recompute(): void {
+    if (!server) {
+      local = null;
+      return;
+    }
+    let state = server.state;
+    const kept: Pending[] = [];
+    for (const [i, p] of pending.entries()) {
+      const r = applyEdit(state, p.op);
+      if (r.ok) {
+        state = r.state;
+        kept.push(p);
+      } else if (i === 0 && p.sent) {
+        // In flight: the server decides; keep waiting for its answer.
+        kept.push(p);
+      } else {
+        options.onRejected?.(p.op, r.reason);
+      }
+    }
+    pending = kept;
+    local = state;
+  }
+
+  function sendInFlight(first: Pending, asFirstSent: boolean): void {
+    if (!server || !sketchId) return;
+    if (asFirstSent && first.sent) {
+      options.send({ type: 'edit', sketchId, baseRevision: first.sent.base, op: first.sent.op });
+    } else {
+      first.sent = { op: first.op, base: server.revision };
+      options.send({ type: 'edit', sketchId, baseRevision: server.revision, op: first.op });
+    }
+  }
+
+  function flush(): void {
+    if (!connected || rejoining || !server || pending.length === 0) return;
+    const first = pending[0];
+    if (!first.sent) sendInFlight(first, false);
+  }
+
+  /** Rebases the pending edits past a remote edit the server ordered before them. */
+  function rebasePending(remote: EditOp): void {
+    let r: EditOp | null = remote;
+    const out: Pending[] = [];
+    for (const p of pending) {
+      if (r === null) {
+        out.push(p);
+        continue;
+      }
+      const moved = transformOp(p.op, r);
+      if (moved.ok) {
+        const rPast = transformOp(r, p.op, true);
+        r = rPast.ok ? rPast.op : null;
+        out.push({ ...p, op: moved.op });
+      } else if (p.sent) {
+        // The server will reach the same verdict and reject it; keep it until it says so.
+        out.push(p);
+      } else {
+        options.onRejected?.(p.op, moved.reason);
+      }
+    }
+    pending = out;
+  }
+
+  function applyConfirmed(op: EditOp): void {
+    const r = applyEdit(server!.state, op);
+    // The server validated it against the same state; failure here would be a protocol bug.
+    if (r.ok) server!.state = r.state;
+    server!.revision += 1;
+  }
+
+  function drainFuture(): void {
+    if (!server) return;
+    let changed = false;
+    while (future.has(server.revision + 1)) {
+      const entry = future.get(server.revision + 1)!;
+      future.delete(server.revision + 1);
+      changed = true;
+      const first = pending[0];
+      const ours = entry.own || (first?.sent && first.sent.op.opId === entry.op.opId);
+      applyConfirmed(entry.op);
+      if (ours && first) {
+        pending.shift();
+        options.onAcked?.(entry.op, server.revision);
+      } else {
+        rebasePending(entry.op);
+        options.onRemoteEdit?.(entry.op);
+      }
+    }
+    gapSince = future.size > 0 ? (gapSince ?? now()) : null;
+    if (changed) {
+      recompute();
+      flush();
+      options.onChange?.();
+    }
+  }
+
+  function adopt(title: string, document: SketchDocument, revision: number): void {
+    server = { state: { title, document }, revision };
+    for (const r of [...future.keys()]) if (r <= revision) future.delete(r);
+  }
+
+  return {
+    get sketchId() {
+      return sketchId;
+    },
+    get state() {
+      return local;
+    },
+    get revision() {
+      return server?.revision ?? 0;
+    },
+    get pendingCount() {
+      return pending.length;
+    },
+    get connected() {
+      return connected;
+    },
+
+    join(id) {
+      if (sketchId !== id) {
+        sketchId = id;
+        server = null;
+        pending = [];
+        local = null;
+        future.clear();
+      }
+      if (connected) {
+        rejoining = server !== null;
+        options.send({ type: 'join', protocol: PROTOCOL_VERSION, sketchId: id, ...(server ? { lastRevision: server.revision } : {}) });
+      }
+    },
+
+    submit(op) {
+      if (!local || !server) return { ok: false, reason: 'The sketch is still loading.' };
+      const r = applyEdit(local, op);
+      if (!r.ok) return r;
+      pending.push({ op });
+      local = r.state;
+      flush();
+      options.onChange?.();
+      return { ok: true };
+    },
+
+    receive(msg) {
+      if (msg.type === 'error') {
+        if (msg.about === 'edit' && msg.code === 'internal' && pending[0]?.sent && sketchId) {
+          // Not processed: ask for what we missed; the edit is re-sent after the replay.
+          rejoining = true;
+          options.send({ type: 'resync', sketchId, lastRevision: server?.revision });
+        }
+        return;
+      }
+      if (msg.sketchId !== sketchId) return;
+      switch (msg.type) {
+        case 'joined':
+          if (!server) {
+            adopt(msg.title, msg.document, msg.revision);
+            rejoining = false;
+            recompute();
+            flush();
+            options.onChange?.();
+          }
+          return;
+        case 'replay':
+          for (const e of msg.edits) if (!server || e.revision > server.revision) future.set(e.revision, { op: e.op, own: false });
+          rejoining = false;
+          drainFuture();
+          // Still unconfirmed after the replay: the server never applied it; send it again.
+          if (pending[0]?.sent) sendInFlight(pending[0], false);
+          flush();
+          return;
+        case 'snapshot': {
+          adopt(msg.title, msg.document, msg.revision);
+          rejoining = false;
+          // We cannot tell which of our edits the snapshot holds: re-send the in-flight one as
+          // first sent (same id, same base); the server answers a duplicate with its outcome.
+          if (pending[0]?.sent) sendInFlight(pending[0], true);
+          recompute();
+          flush();
+          options.onChange?.();
+          return;
+        }
+        case 'edit':
+          if (server && msg.revision > server.revision) future.set(msg.revision, { op: msg.op, own: false });
+          drainFuture();
+          return;
+        case 'ack': {
+          const first = pending[0];
+          if (!first?.sent || first.sent.op.opId !== msg.opId) return;
+          if (msg.status === 'rejected') {
+            pending.shift();
+            options.onRejected?.(first.op, msg.reason);
+            recompute();
+            flush();
+            options.onChange?.();
+            return;
+          }
+          if (server && msg.revision <= server.revision) {
+            // Already part of the confirmed state (a snapshot included it).
+            pending.shift();
+            options.onAcked?.(msg.op, msg.revision);
+            recompute();
+            flush();
+            options.onChange?.();
+            return;
+          }
+          future.set(msg.revision, { op: msg.op, own: true });
+          drainFuture();
+          return;
+        }
+        default:
+          return;
+      }
+    },
+
+    connectionOpened() {
+      connected = true;
+      if (sketchId) this.join(sketchId);
+    },
+
+    connectionLost() {
+      connected = false;
+    },
+
+    tick() {
+      if (gapSince !== null && server && sketchId && connected && now() - gapSince > GAP_RESYNC_AFTER_MS) {
+        gapSince = now();
+        options.send({ type: 'resync', sketchId, lastRevision: server.revision });
+      }
+    },
+  };
+}

@@ -1,0 +1,57 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import path from 'node:path';
+
+const ROOT = path.resolve(import.meta.dirname, '../..');
+
+export interface ServerProcess {
+  url: string;
+  child: ChildProcess;
+  /** SIGKILL: no drain, no goodbye to sockets — a crash. */
+  kill(): Promise<void>;
+  stop(): Promise<void>;
+}
+
+/** Starts `server/index.ts` in its own process (for crash and multi-instance tests). */
+export async function startServerProcess(databaseUrl: string, port: number): Promise<ServerProcess> {
+  // One process (node with tsx's loader), so a kill really kills the server.
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    cwd: ROOT,
+    env: {
+      PATH: process.env.PATH,
+      NODE_ENV: 'test',
+      PORT: String(port),
+      DATABASE_URL: databaseUrl,
+      SESSION_SECRET: 'test-secret-test-secret-test-secret-0123',
+      LOG_REQUESTS: 'false',
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let output = '';
+  child.stdout!.on('data', (d) => (output += d));
+  child.stderr!.on('data', (d) => (output += d));
+  const url = `http://127.0.0.1:${port}`;
+  await new Promise<void>((resolve, reject) => {
+    const t = setTimeout(() => reject(new Error(`server on ${port} did not start:\n${output}`)), 20_000);
+    const check = () => {
+      if (output.includes('listening on')) {
+        clearTimeout(t);
+        resolve();
+      }
+    };
+    child.stdout!.on('data', check);
+    child.once('exit', (code) => reject(new Error(`server exited with ${code}:\n${output}`)));
+  });
+  const exited = () => new Promise<void>((r) => (child.exitCode !== null || child.signalCode !== null ? r() : child.once('exit', () => r())));
+  return {
+    url,
+    child,
+    async kill() {
+      child.kill('SIGKILL');
+      await exited();
+    },
+    async stop() {
+      child.kill('SIGTERM');
+      await exited();
+    },
+  };
+}

@@ -1,0 +1,165 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { applyEdit, transformOp, transformPast, type SketchState } from '../../../shared/protocol/transform.ts';
+import type { EditOp } from '../../../shared/protocol/messages.ts';
+import { sketchDocumentSchema } from '../../../shared/model/sketch.ts';
+import { createSyncEngine } from '../../../shared/protocol/syncEngine.ts';
+import type { ClientMessage, ServerMessage } from '../../../shared/protocol/messages.ts';
+
+function octagon(): SketchState {
+  const points: [number, number][] = [];
+  for (let i = 0; i < 8; i++) {
+    const t = (2 * Math.PI * i) / 8;
+    points.push([0.5 - 0.5 * Math.cos(t), 0.2 * Math.sin(t)]);
+  }
+  return { title: 'T', document: sketchDocumentSchema.parse({ version: 1, section: { points }, condition: { mach: 2, alphaDeg: 0 } }) };
+}
+
+describe('transformOp [R5]', () => {
+  it('shifts a move past an insert before it, not past one after it', () => {
+    const ins: EditOp = { type: 'insertVertex', opId: 'i', index: 3, at: [0, 0] };
+    expect(transformOp({ type: 'moveVertices', opId: 'm', indices: [2, 5], to: [[0, 0], [1, 1]] }, ins)).toEqual({
+      ok: true,
+      op: { type: 'moveVertices', opId: 'm', indices: [2, 6], to: [[0, 0], [1, 1]] },
+    });
+  });
+
+  it('drops a moved vertex that someone deleted, keeps the rest, and refuses when none is left', () => {
+    const del: EditOp = { type: 'deleteVertex', opId: 'd', index: 4 };
+    expect(transformOp({ type: 'moveVertices', opId: 'm', indices: [4, 6], to: [[0, 0], [1, 1]] }, del)).toEqual({
+      ok: true,
+      op: { type: 'moveVertices', opId: 'm', indices: [5], to: [[1, 1]] },
+    });
+    expect(transformOp({ type: 'moveVertices', opId: 'm', indices: [4], to: [[0, 0]] }, del)).toEqual({
+      ok: false,
+      reason: 'Someone deleted vertex 4 meanwhile; there is nothing left to move.',
+    });
+  });
+
+  it('refuses a second delete of the same vertex and any vertex edit after a replacement', () => {
+    expect(transformOp({ type: 'deleteVertex', opId: 'a', index: 2 }, { type: 'deleteVertex', opId: 'b', index: 2 }).ok).toBe(false);
+    expect(transformOp({ type: 'insertVertex', opId: 'a', index: 2, at: [0, 0] }, { type: 'replaceSection', opId: 'b', points: [[0, 0], [1, 0], [0, 1]] }).ok).toBe(false);
+  });
+
+  it('leaves field edits alone (the later one wins)', () => {
+    const op: EditOp = { type: 'setCondition', opId: 's', field: 'mach', value: 3 };
+    expect(transformOp(op, { type: 'deleteVertex', opId: 'd', index: 1 })).toEqual({ ok: true, op });
+  });
+
+  it('two inserts into one slot: both application orders give the same section (server order breaks the tie)', () => {
+    const s0 = octagon();
+    const [v1, v2] = [s0.document.section.points[1], s0.document.section.points[2]];
+    const on = (t: number): [number, number] => [v1[0] + (v2[0] - v1[0]) * t, v1[1] + (v2[1] - v1[1]) * t];
+    const a: EditOp = { type: 'insertVertex', opId: 'a', index: 2, at: on(1 / 3) };
+    const b: EditOp = { type: 'insertVertex', opId: 'b', index: 2, at: on(2 / 3) };
+    const apply = (s: SketchState, op: EditOp) => {
+      const r = applyEdit(s, op);
+      if (!r.ok) throw new Error(r.reason);
+      return r.state;
+    };
+    const bPastA = transformOp(b, a);
+    const aPastB = transformOp(a, b, true);
+    if (!bPastA.ok || !aPastB.ok) throw new Error('transform refused');
+    // The server applied a first: b goes after it. A client that applied b first and then
+    // receives a rebases a with a ordered first: same section either way.
+    expect(apply(apply(s0, a), bPastA.op)).toEqual(apply(apply(s0, b), aPastB.op));
+    expect(apply(apply(s0, a), bPastA.op).document.section.points.slice(1, 5)).toEqual([v1, on(1 / 3), on(2 / 3), v2]);
+  });
+
+  it('property: rebasing a move past random inserts/deletes still moves the same vertex (by position)', () => {
+    fc.assert(
+      fc.property(fc.array(fc.tuple(fc.boolean(), fc.integer({ min: 0, max: 7 })), { maxLength: 4 }), fc.integer({ min: 0, max: 7 }), (edits, target) => {
+        let state = octagon();
+        const original = state.document.section.points[target];
+        const applied: EditOp[] = [];
+        for (const [isInsert, k] of edits) {
+          const n = state.document.section.points.length;
+          const index = k % n;
+          if (index === target && !isInsert) continue;
+          const op: EditOp = isInsert
+            ? { type: 'insertVertex', opId: `e${applied.length}`, index, at: midpoint(state, index) }
+            : { type: 'deleteVertex', opId: `e${applied.length}`, index };
+          const r = applyEdit(state, op);
+          if (!r.ok) continue;
+          // Track the target through earlier edits: only apply edits that keep it.
+          const t = transformPast({ type: 'moveVertices', opId: 'm', indices: [target], to: [[0, 0]] }, [...applied, op]);
+          if (!t.ok) return;
+          state = r.state;
+          applied.push(op);
+        }
+        const moved = transformPast({ type: 'moveVertices', opId: 'm', indices: [target], to: [[0, 0]] }, applied);
+        if (!moved.ok) return;
+        const idx = (moved.op as Extract<EditOp, { type: 'moveVertices' }>).indices[0];
+        expect(state.document.section.points[idx]).toEqual(original);
+      }),
+    );
+  });
+});
+
+function midpoint(state: SketchState, index: number): [number, number] {
+  const pts = state.document.section.points;
+  const a = pts[(index - 1 + pts.length) % pts.length];
+  const b = pts[index];
+  return [(a[0] + b[0]) / 2, (a[1] + b[1]) / 2];
+}
+
+describe('createSyncEngine [R6]', () => {
+  function harness() {
+    const sent: ClientMessage[] = [];
+    const engine = createSyncEngine({ send: (m) => sent.push(m) });
+    engine.connectionOpened();
+    engine.join('sketch_aaaaaaaaaaaaaaaaaaaa');
+    const s0 = octagon();
+    engine.receive({ type: 'joined', sketchId: 'sketch_aaaaaaaaaaaaaaaaaaaa', title: s0.title, document: s0.document, revision: 4, people: [], walkthrough: null, you: { connectionId: 'c', userId: 'u', name: 'N', role: 'editor', colour: '#fff' } });
+    return { sent, engine, s0, id: 'sketch_aaaaaaaaaaaaaaaaaaaa' };
+  }
+
+  it('keeps one edit in flight and sends the next after its ack, on the new revision', () => {
+    const { sent, engine, id } = harness();
+    engine.submit({ type: 'setCondition', opId: 'a', field: 'mach', value: 3 });
+    engine.submit({ type: 'setCondition', opId: 'b', field: 'mach', value: 4 });
+    const edits = () => sent.filter((m) => m.type === 'edit') as Extract<ClientMessage, { type: 'edit' }>[];
+    expect(edits().map((m) => [m.op.opId, m.baseRevision])).toEqual([['a', 4]]);
+    expect(engine.state!.document.condition.mach).toBe(4);
+    engine.receive({ type: 'ack', sketchId: id, opId: 'a', status: 'applied', revision: 5, op: { type: 'setCondition', opId: 'a', field: 'mach', value: 3 } });
+    expect(edits().map((m) => [m.op.opId, m.baseRevision])).toEqual([['a', 4], ['b', 5]]);
+    expect(engine.revision).toBe(5);
+  });
+
+  it('applies broadcasts in revision order even when they arrive out of order, and asks to resync a gap', () => {
+    let t = 0;
+    const sent: ClientMessage[] = [];
+    const engine = createSyncEngine({ send: (m) => sent.push(m), now: () => t });
+    engine.connectionOpened();
+    engine.join('sketch_aaaaaaaaaaaaaaaaaaaa');
+    const s0 = octagon();
+    const id = 'sketch_aaaaaaaaaaaaaaaaaaaa';
+    engine.receive({ type: 'joined', sketchId: id, title: 'T', document: s0.document, revision: 0, people: [], walkthrough: null, you: { connectionId: 'c', userId: 'u', name: 'N', role: 'editor', colour: '#fff' } });
+    const edit = (revision: number, value: number): ServerMessage => ({ type: 'edit', sketchId: id, revision, userId: 'x', op: { type: 'setCondition', opId: `r${revision}`, field: 'mach', value } });
+    engine.receive(edit(2, 2.2));
+    expect(engine.revision).toBe(0);
+    engine.receive(edit(1, 2.1));
+    expect(engine.revision).toBe(2);
+    expect(engine.state!.document.condition.mach).toBe(2.2);
+    engine.receive(edit(4, 2.4));
+    t = 2000;
+    engine.tick();
+    expect(sent.at(-1)).toEqual({ type: 'resync', sketchId: id, lastRevision: 2 });
+  });
+
+  it('a rejected edit disappears from the local view with its reason', () => {
+    const rejected: string[] = [];
+    const sent: ClientMessage[] = [];
+    const engine = createSyncEngine({ send: (m) => sent.push(m), onRejected: (_op, reason) => rejected.push(reason) });
+    engine.connectionOpened();
+    const id = 'sketch_aaaaaaaaaaaaaaaaaaaa';
+    engine.join(id);
+    const s0 = octagon();
+    engine.receive({ type: 'joined', sketchId: id, title: 'T', document: s0.document, revision: 0, people: [], walkthrough: null, you: { connectionId: 'c', userId: 'u', name: 'N', role: 'viewer', colour: '#fff' } });
+    engine.submit({ type: 'setCondition', opId: 'a', field: 'mach', value: 3 });
+    expect(engine.state!.document.condition.mach).toBe(3);
+    engine.receive({ type: 'ack', sketchId: id, opId: 'a', status: 'rejected', reason: 'Your role in this team is viewer; editing needs the editor role.' });
+    expect(engine.state!.document.condition.mach).toBe(2);
+    expect(rejected).toEqual(['Your role in this team is viewer; editing needs the editor role.']);
+  });
+});

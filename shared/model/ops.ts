@@ -1,0 +1,243 @@
+import { z } from 'zod';
+import { newId } from './ids.ts';
+import { findRepeatedPoint, findSelfIntersection, signedArea } from './polygon.ts';
+import {
+  conditionSchema,
+  flapSchema,
+  pointSchema,
+  type Condition,
+  type Point,
+  type SketchDocument,
+} from './sketch.ts';
+
+/**
+ * Small edit ops on a sketch document. The editor's undo/redo, its autosave rebase and (later)
+ * the realtime channel all speak these. Invariants (see shared/model/README.md):
+ *
+ * - [O1] `applyOp` never mutates its inputs; it returns a new document or a reason.
+ * - [O2] A document that `applyOp` returns is valid: its section is a simple polygon of
+ *   3…2000 vertices and its condition, flap and moment point pass their zod schemas.
+ * - [O3] `applyOp(applyOp(doc, op), invertOp(doc, op))` gives back `doc` (same values).
+ * - [O4] Every op carries an `opId` so a server can ignore a duplicate.
+ *
+ * Renaming a sketch is not an op: the title is not part of the document.
+ */
+
+/** Most vertices a section may have (same limit as the document schema). */
+export const MAX_SECTION_VERTICES = 2000;
+
+const opIdSchema = z.string().min(1, 'must not be empty').max(64, 'must be at most 64 characters');
+const indexSchema = z.number().int('must be a whole number').min(0, 'must be at least 0');
+
+export const moveVerticesOpSchema = z.object({
+  type: z.literal('moveVertices'),
+  opId: opIdSchema,
+  /** Vertices to move (distinct). */
+  indices: z.array(indexSchema).min(1, 'name at least one vertex'),
+  /** New positions, one per index, in body axes. */
+  to: z.array(pointSchema),
+});
+
+export const insertVertexOpSchema = z.object({
+  type: z.literal('insertVertex'),
+  opId: opIdSchema,
+  /** Position the new vertex takes in the list (0…n); the vertices from there on shift by one. */
+  index: indexSchema,
+  at: pointSchema,
+});
+
+export const deleteVertexOpSchema = z.object({
+  type: z.literal('deleteVertex'),
+  opId: opIdSchema,
+  index: indexSchema,
+});
+
+export const replaceSectionOpSchema = z.object({
+  type: z.literal('replaceSection'),
+  opId: opIdSchema,
+  points: z.array(pointSchema),
+});
+
+export const CONDITION_FIELDS = ['mach', 'alphaDeg', 'gamma', 'altitudeM'] as const;
+export type ConditionField = (typeof CONDITION_FIELDS)[number];
+
+export const setConditionOpSchema = z.object({
+  type: z.literal('setCondition'),
+  opId: opIdSchema,
+  field: z.enum(CONDITION_FIELDS),
+  /** `null` only for altitudeM (no altitude given). */
+  value: z.number().nullable(),
+});
+
+export const setFlapOpSchema = z.object({
+  type: z.literal('setFlap'),
+  opId: opIdSchema,
+  flap: flapSchema.nullable(),
+});
+
+export const setMomentPointOpSchema = z.object({
+  type: z.literal('setMomentPoint'),
+  opId: opIdSchema,
+  /** `null` = the default quarter chord. */
+  point: pointSchema.nullable(),
+});
+
+export const sketchOpSchema = z.discriminatedUnion('type', [
+  moveVerticesOpSchema,
+  insertVertexOpSchema,
+  deleteVertexOpSchema,
+  replaceSectionOpSchema,
+  setConditionOpSchema,
+  setFlapOpSchema,
+  setMomentPointOpSchema,
+]);
+export type SketchOp = z.infer<typeof sketchOpSchema>;
+export type SketchOpType = SketchOp['type'];
+
+/** An op without its id, as tools and forms build it; `withOpId` completes it. */
+export type SketchOpDraft = SketchOp extends infer T ? (T extends SketchOp ? Omit<T, 'opId'> : never) : never;
+
+export type ApplyOpResult = { ok: true; doc: SketchDocument } | { ok: false; reason: string };
+
+/** Gives a draft a fresh `op_…` id. */
+export function withOpId(draft: SketchOpDraft, opId: string = newId('op')): SketchOp {
+  return { ...draft, opId } as SketchOp;
+}
+
+/**
+ * Applies one op to a document and validates the result [O1][O2]. A rejected op leaves
+ * nothing changed and says why in one sentence a user can act on.
+ */
+export function applyOp(doc: SketchDocument, op: SketchOp): ApplyOpResult {
+  const parsed = sketchOpSchema.safeParse(op);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    return { ok: false, reason: `The edit is malformed: ${issue.path.join('.') || 'op'} ${issue.message}.` };
+  }
+  const points = doc.section.points;
+  const n = points.length;
+  switch (op.type) {
+    case 'moveVertices': {
+      if (op.indices.length !== op.to.length) {
+        return { ok: false, reason: `The edit names ${op.indices.length} vertices but gives ${op.to.length} positions.` };
+      }
+      if (new Set(op.indices).size !== op.indices.length) {
+        return { ok: false, reason: 'The edit names the same vertex twice.' };
+      }
+      const outOfRange = op.indices.find((i) => i >= n);
+      if (outOfRange !== undefined) return { ok: false, reason: `There is no vertex ${outOfRange}; the section has ${n}.` };
+      const next = points.map((p) => [p[0], p[1]] as Point);
+      op.indices.forEach((i, k) => {
+        next[i] = [op.to[k][0], op.to[k][1]];
+      });
+      const verb = op.indices.length === 1 ? `Moving vertex ${op.indices[0]} there` : `Moving those ${op.indices.length} vertices there`;
+      return withSection(doc, next, verb);
+    }
+    case 'insertVertex': {
+      if (op.index > n) return { ok: false, reason: `A vertex can go at positions 0 to ${n}; got ${op.index}.` };
+      if (n + 1 > MAX_SECTION_VERTICES) return { ok: false, reason: `A section has at most ${MAX_SECTION_VERTICES} vertices.` };
+      const next = points.map((p) => [p[0], p[1]] as Point);
+      next.splice(op.index, 0, [op.at[0], op.at[1]]);
+      return withSection(doc, next, 'A vertex there');
+    }
+    case 'deleteVertex': {
+      if (op.index >= n) return { ok: false, reason: `There is no vertex ${op.index}; the section has ${n}.` };
+      if (n <= 3) return { ok: false, reason: 'A section needs at least 3 vertices; this one has 3.' };
+      const next = points.filter((_, i) => i !== op.index).map((p) => [p[0], p[1]] as Point);
+      return withSection(doc, next, `Deleting vertex ${op.index}`);
+    }
+    case 'replaceSection': {
+      if (op.points.length < 3) return { ok: false, reason: `A section needs at least 3 vertices; got ${op.points.length}.` };
+      if (op.points.length > MAX_SECTION_VERTICES) {
+        return { ok: false, reason: `A section has at most ${MAX_SECTION_VERTICES} vertices; got ${op.points.length}.` };
+      }
+      return withSection(doc, op.points.map((p) => [p[0], p[1]] as Point), 'That section');
+    }
+    case 'setCondition': {
+      if (op.value === null && op.field !== 'altitudeM') return { ok: false, reason: `${FIELD_LABEL[op.field]} needs a value.` };
+      const candidate = { ...doc.condition, [op.field]: op.value };
+      const checked = conditionSchema.safeParse(candidate);
+      if (!checked.success) {
+        const issue = checked.error.issues[0];
+        const field = (issue.path[0] as ConditionField | undefined) ?? op.field;
+        return { ok: false, reason: `${FIELD_LABEL[field] ?? field} ${issue.message}.` };
+      }
+      const condition: Condition = checked.data;
+      return { ok: true, doc: { ...doc, condition } };
+    }
+    case 'setFlap':
+      return { ok: true, doc: { ...doc, flap: op.flap ? { ...op.flap } : null } };
+    case 'setMomentPoint':
+      return { ok: true, doc: { ...doc, momentPoint: op.point ? [op.point[0], op.point[1]] : null } };
+  }
+}
+
+/**
+ * The op that undoes `op` when applied to the document `op` produced [O3]. `docBefore` is the
+ * document `op` was applied to. The inverse gets its own fresh op id.
+ */
+export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string = newId('op')): SketchOp {
+  const points = docBefore.section.points;
+  switch (op.type) {
+    case 'moveVertices':
+      return { type: 'moveVertices', opId, indices: [...op.indices], to: op.indices.map((i) => [points[i][0], points[i][1]] as Point) };
+    case 'insertVertex':
+      return { type: 'deleteVertex', opId, index: op.index };
+    case 'deleteVertex':
+      return { type: 'insertVertex', opId, index: op.index, at: [points[op.index][0], points[op.index][1]] };
+    case 'replaceSection':
+      return { type: 'replaceSection', opId, points: points.map((p) => [p[0], p[1]] as Point) };
+    case 'setCondition':
+      return { type: 'setCondition', opId, field: op.field, value: docBefore.condition[op.field] };
+    case 'setFlap':
+      return { type: 'setFlap', opId, flap: docBefore.flap ? { ...docBefore.flap } : null };
+    case 'setMomentPoint':
+      return { type: 'setMomentPoint', opId, point: docBefore.momentPoint ? [docBefore.momentPoint[0], docBefore.momentPoint[1]] : null };
+  }
+}
+
+/**
+ * Where the vertex that sat at `index` before `op` sits after it, or null when `op` deleted it.
+ * Used to keep a selection pointing at the same vertices across inserts and deletes.
+ */
+export function remapVertexIndex(index: number, op: SketchOp): number | null {
+  switch (op.type) {
+    case 'insertVertex':
+      return index >= op.index ? index + 1 : index;
+    case 'deleteVertex':
+      return index === op.index ? null : index > op.index ? index - 1 : index;
+    case 'replaceSection':
+      return index < op.points.length ? index : null;
+    default:
+      return index;
+  }
+}
+
+/** Human names of the condition fields, for messages. */
+export const FIELD_LABEL: Record<ConditionField, string> = {
+  mach: 'Mach number',
+  alphaDeg: 'Incidence α',
+  gamma: 'γ',
+  altitudeM: 'Altitude',
+};
+
+/**
+ * Checks that `points` form a valid section and explains the first problem in terms of the
+ * facets a user sees (facet i runs from vertex i to vertex i + 1). Null when valid.
+ */
+export function explainSectionProblem(points: readonly Point[]): string | null {
+  const n = points.length;
+  if (n < 3) return `a section needs at least 3 vertices; it would have ${n}`;
+  const repeated = findRepeatedPoint(points);
+  if (repeated) return `vertex ${repeated[1]} would sit exactly on vertex ${repeated[0]}`;
+  const crossing = findSelfIntersection(points);
+  if (crossing) return `facet ${crossing.edgeB} (vertex ${crossing.edgeB} → ${(crossing.edgeB + 1) % n}) would cross or touch facet ${crossing.edgeA} (vertex ${crossing.edgeA} → ${(crossing.edgeA + 1) % n})`;
+  if (signedArea(points) === 0) return 'the vertices would all lie on one line';
+  return null;
+}
+
+function withSection(doc: SketchDocument, points: Point[], what: string): ApplyOpResult {
+  const problem = explainSectionProblem(points);
+  if (problem) return { ok: false, reason: `${what} is not allowed: ${problem}. The section must stay a simple polygon.` };
+  return { ok: true, doc: { ...doc, section: { ...doc.section, points } } };
+}

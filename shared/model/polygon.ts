@@ -72,17 +72,47 @@ export function findSelfIntersection(points: readonly XY[]): EdgeCrossing | null
   return null;
 }
 
-/** Index pair of the first two vertices that coincide, or null. */
-export function findRepeatedPoint(points: readonly XY[]): [number, number] | null {
-  const seen = new Map<string, number>();
-  for (let i = 0; i < points.length; i++) {
-    // -0 and 0 are the same point.
-    const key = `${points[i][0] + 0},${points[i][1] + 0}`;
-    const prev = seen.get(key);
-    if (prev !== undefined) return [prev, i];
-    seen.set(key, i);
+/** Vertices closer than this fraction of the section's size count as one repeated point. */
+export const REPEATED_POINT_TOLERANCE = 1e-9;
+
+/**
+ * The first vertex that repeats an earlier one, as [earlier, later], or null. Two vertices
+ * repeat when they are closer than 1e-9 × the larger side of the bounding box (exact
+ * duplicates always do): a side shorter than that has no meaningful direction. O(n log n).
+ */
+export function findRepeatedPoint(
+  points: readonly XY[],
+  relTol: number = REPEATED_POINT_TOLERANCE,
+): [number, number] | null {
+  const n = points.length;
+  if (n < 2) return null;
+  let minX = Infinity;
+  let maxX = -Infinity;
+  let minY = Infinity;
+  let maxY = -Infinity;
+  for (const [x, y] of points) {
+    if (x < minX) minX = x;
+    if (x > maxX) maxX = x;
+    if (y < minY) minY = y;
+    if (y > maxY) maxY = y;
   }
-  return null;
+  const tol = relTol * Math.max(maxX - minX, maxY - minY);
+  const order = points.map((_, i) => i).sort((a, b) => points[a][0] - points[b][0] || a - b);
+  let best: [number, number] | null = null;
+  for (let s = 0; s < n; s++) {
+    const i = order[s];
+    for (let t = s + 1; t < n; t++) {
+      const j = order[t];
+      if (points[j][0] - points[i][0] > tol) break;
+      const dx = points[j][0] - points[i][0];
+      const dy = points[j][1] - points[i][1];
+      if (Math.sqrt(dx * dx + dy * dy) <= tol) {
+        const pair: [number, number] = i < j ? [i, j] : [j, i];
+        if (!best || pair[1] < best[1] || (pair[1] === best[1] && pair[0] < best[0])) best = pair;
+      }
+    }
+  }
+  return best;
 }
 
 /** True when every point lies on one straight line (so the polygon encloses no area). */

@@ -78,7 +78,11 @@ const pointsSchema = z
       ctx.addIssue({
         code: 'custom',
         path: [b],
-        message: `section.points[${b}] repeats section.points[${a}] (${fmt(out[a])}); each vertex must be distinct.`,
+        message:
+          out[a][0] === out[b][0] && out[a][1] === out[b][1]
+            ? `section.points[${b}] repeats section.points[${a}] (${fmt(out[a])}); each vertex must be distinct.`
+            : `section.points[${b}] ${fmt(out[b])} is practically the same point as section.points[${a}] ` +
+              `${fmt(out[a])} (closer than a billionth of the section's size); each vertex must be distinct.`,
       });
       return z.NEVER;
     }

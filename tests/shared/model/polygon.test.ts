@@ -68,6 +68,11 @@ describe('findRepeatedPoint and isSimplePolygon', () => {
     expect(findRepeatedPoint(square)).toBeNull();
   });
 
+  it('findRepeatedPoint counts vertices within 1e-9 of the section size as repeated (tolerance edge)', () => {
+    expect(findRepeatedPoint([[0, 0], [1, 0], [0.5, 0.2], [1 + 4e-10, 0]])).toEqual([1, 3]);
+    expect(findRepeatedPoint([[0, 0], [1, 0], [0.5, 0.2], [1 + 4e-9, 0]])).toBeNull();
+  });
+
   it('isSimplePolygon accepts a square and rejects repeats, crossings and zero area', () => {
     expect(isSimplePolygon(square)).toBe(true);
     expect(isSimplePolygon([[0, 0], [1, 0], [1, 0], [0, 1]])).toBe(false);

@@ -1,0 +1,177 @@
+import { VACUUM_MARGIN_RELATIVE, ZERO_TURN_RAD } from './constants';
+import { obliqueShock } from './obliqueShock';
+import { machAfterExpansion, prandtlMeyer, prandtlMeyerMax } from './prandtlMeyer';
+import { sonicDeflection } from './sonicDeflection';
+import type { FacetWave } from './types';
+
+/** Why a surface march stopped. Angles in radians. */
+export interface SurfaceLimit {
+  status: 'detached' | 'subsonic' | 'vacuum';
+  /** Facet (0-based, nose → tail) whose leading vertex could not be passed. */
+  facet: number;
+  /** The turn asked for there (+ = compression); for facet 0 the deflection from the stream. */
+  turn: number;
+  /** Mach number ahead of that vertex. */
+  machAhead: number;
+  /** detached and subsonic: θmax at machAhead. */
+  thetaMax?: number;
+  /** subsonic: the sonic deflection at machAhead, and the Mach number behind the shock. */
+  thetaSonic?: number;
+  machBehind?: number;
+  /** vacuum: the Prandtl-Meyer angle the expansion needs, and ν_max. */
+  nu?: number;
+  nuMax?: number;
+}
+
+/**
+ * The march along one surface. Arrays are per facet (nose → tail); states exist for the first
+ * `solved` facets only (later entries are 0). Ratios are over free-stream values.
+ */
+export interface SurfaceMarch {
+  /** Number of facets with a state (all of them unless `limit`). */
+  solved: number;
+  /** Wave at each facet's leading vertex, from the sign of the turn (every facet). */
+  wave: FacetWave[];
+  /** Turn at each facet's leading vertex, radians (+ = compression; facet 0: θ0). */
+  turn: number[];
+  mach: number[];
+  pRatio: number[];
+  p0Ratio: number[];
+  /** Prandtl-Meyer angle of each state, radians. */
+  nu: number[];
+  /** Shock angle from the upstream flow at the leading vertex (0 where no shock). */
+  beta: number[];
+  /** θmax at the Mach number ahead of each shock (0 where no shock). */
+  thetaMax: number[];
+  limit: SurfaceLimit | null;
+}
+
+/**
+ * Shock-expansion march along one surface.
+ *
+ * `theta[k]` is facet k's deflection from the free stream (radians, + = into the flow, i.e.
+ * compression: θ = φ − α on the upper surface, α − φ on the lower). The turn at facet k's
+ * leading vertex is θ[k] − θ[k−1] (θ[−1] = 0, the free stream). A turn > 1e-12 rad is an
+ * oblique shock (weak branch) from the local state, a turn < −1e-12 a Prandtl-Meyer fan, and
+ * anything smaller no wave (the first facet's is a Mach line). Each facet carries one uniform
+ * state. Across a fan the stagnation state is kept: p2/p1 = (X1/X2)^(γ/(γ−1)) with
+ * X = 1 + (γ−1)M²/2.
+ *
+ * Limits (results, not exceptions), which stop the march at that vertex: `detached` when the
+ * turn exceeds θmax at the local Mach number; `subsonic` when the flow behind a shock has
+ * M < 1 (between the sonic deflection and θmax); `vacuum` when the expansion would take ν to
+ * ν_max·(1 − 1e-9) or beyond. Cost: O(facets), one shock or one inverse Prandtl-Meyer per
+ * vertex (a small fan costs one evaluation of ν).
+ *
+ * Sources: shock-expansion method (e.g. Anderson, "Modern Compressible Flow", chapter on
+ * oblique shocks and expansion waves, from memory); NACA Report 1135 for the wave relations.
+ */
+export function marchSurface(theta: readonly number[], machInf: number, gamma: number): SurfaceMarch {
+  const m = theta.length;
+  const g1 = gamma - 1;
+  const halfG1 = 0.5 * g1;
+  const pExp = gamma / g1;
+  const twiceExp = 2 * pExp;
+  // γ = 1.4 (7/2) and γ = 5/3 (5/2) give half-integer exponents: powers by multiplication.
+  const halfInteger = Math.abs(twiceExp - Math.round(twiceExp)) < 1e-12 && twiceExp < 64 ? Math.round(twiceExp) : 0;
+  const nuMax = prandtlMeyerMax(gamma);
+  const nuLimit = nuMax * (1 - VACUUM_MARGIN_RELATIVE);
+
+  const wave: FacetWave[] = new Array(m);
+  const turn: number[] = new Array(m);
+  const mach: number[] = new Array(m);
+  const pRatio: number[] = new Array(m);
+  const p0Ratio: number[] = new Array(m);
+  const nu: number[] = new Array(m);
+  const beta: number[] = new Array(m);
+  const thetaMax: number[] = new Array(m);
+  let limit: SurfaceLimit | null = null;
+
+  let prevTheta = 0;
+  for (let k = 0; k < m; k++) {
+    const d = theta[k] - prevTheta;
+    prevTheta = theta[k];
+    turn[k] = d;
+    wave[k] = d > ZERO_TURN_RAD ? 'shock' : d < -ZERO_TURN_RAD ? 'fan' : k === 0 ? 'mach' : 'none';
+  }
+
+  let mAhead = machInf;
+  let xAhead = 1 + halfG1 * machInf * machInf; // X = T0/T
+  let pAhead = 1;
+  let p0Ahead = 1;
+  let nuAhead = prandtlMeyer(machInf, gamma);
+  let k = 0;
+  for (; k < m; k++) {
+    const d = turn[k];
+    const kind = wave[k];
+    let b = 0;
+    let tMax = 0;
+    if (kind === 'shock') {
+      const shock = obliqueShock(mAhead, d, gamma);
+      if (shock.status === 'detached') {
+        limit = { status: 'detached', facet: k, turn: d, machAhead: mAhead, thetaMax: shock.thetaMax };
+        break;
+      }
+      if (shock.mach2 < 1) {
+        limit = {
+          status: 'subsonic',
+          facet: k,
+          turn: d,
+          machAhead: mAhead,
+          thetaMax: shock.thetaMax,
+          thetaSonic: sonicDeflection(mAhead, gamma).thetaSonic,
+          machBehind: shock.mach2,
+        };
+        break;
+      }
+      mAhead = shock.mach2;
+      xAhead = 1 + halfG1 * mAhead * mAhead;
+      pAhead *= shock.pRatio;
+      p0Ahead *= shock.p0Ratio;
+      nuAhead = prandtlMeyer(mAhead, gamma);
+      b = shock.beta;
+      tMax = shock.thetaMax;
+    } else if (kind === 'fan') {
+      const target = nuAhead - d;
+      if (target >= nuLimit) {
+        limit = { status: 'vacuum', facet: k, turn: d, machAhead: mAhead, nu: target, nuMax };
+        break;
+      }
+      const mNew = machAfterExpansion(mAhead, nuAhead, -d, gamma);
+      const xNew = 1 + halfG1 * mNew * mNew;
+      const r = xAhead / xNew;
+      pAhead *= halfInteger ? halfIntegerPower(r, halfInteger) : Math.exp(pExp * Math.log(r));
+      mAhead = mNew;
+      xAhead = xNew;
+      nuAhead = target;
+    }
+    mach[k] = mAhead;
+    pRatio[k] = pAhead;
+    p0Ratio[k] = p0Ahead;
+    nu[k] = nuAhead;
+    beta[k] = b;
+    thetaMax[k] = tMax;
+  }
+  for (let j = k; j < m; j++) {
+    mach[j] = 0;
+    pRatio[j] = 0;
+    p0Ratio[j] = 0;
+    nu[j] = 0;
+    beta[j] = 0;
+    thetaMax[j] = 0;
+  }
+  return { solved: k, wave, turn, mach, pRatio, p0Ratio, nu, beta, thetaMax, limit };
+}
+
+/** r^(n/2) for a small positive integer n, by multiplications and one square root. */
+function halfIntegerPower(r: number, n: number): number {
+  let out = n % 2 === 1 ? Math.sqrt(r) : 1;
+  let base = r;
+  let e = n >> 1;
+  while (e > 0) {
+    if (e & 1) out *= base;
+    base *= base;
+    e >>= 1;
+  }
+  return out;
+}

@@ -1,0 +1,77 @@
+import type { SurfaceChain } from './splitSurfaces';
+
+/**
+ * Largest vertical distance between the upper and the lower surface, over the chord.
+ *
+ * Sampled at every vertex x (the distance is piecewise linear in x between vertices, so its
+ * maximum sits at a vertex). O(facets) when both chains run monotonically in x (the usual
+ * section); otherwise the polygon's vertical extent at each vertex x, O(facets²).
+ * Edge case: chord 0 gives 0.
+ *
+ * Source: common practice (thickness ratio t/c).
+ */
+export function maxThicknessRatio(
+  upper: Pick<SurfaceChain, 'xs' | 'ys'>,
+  lower: Pick<SurfaceChain, 'xs' | 'ys'>,
+  chord: number,
+): number {
+  if (!(chord > 0)) return 0;
+  if (monotone(upper.xs) && monotone(lower.xs)) {
+    const t = Math.max(sweep(upper, lower, 1), sweep(lower, upper, -1));
+    return Math.max(0, t) / chord;
+  }
+  return extentAtVertices(upper, lower) / chord;
+}
+
+function monotone(xs: readonly number[]): boolean {
+  for (let i = 1; i < xs.length; i++) if (xs[i] < xs[i - 1]) return false;
+  return true;
+}
+
+/** max over a's vertices of sign·(y_a − y_b(x)), walking b alongside. */
+function sweep(a: Pick<SurfaceChain, 'xs' | 'ys'>, b: Pick<SurfaceChain, 'xs' | 'ys'>, sign: 1 | -1): number {
+  let best = -Infinity;
+  let j = 0;
+  const nb = b.xs.length;
+  for (let i = 0; i < a.xs.length; i++) {
+    const x = a.xs[i];
+    while (j < nb - 2 && b.xs[j + 1] < x) j++;
+    const x0 = b.xs[j];
+    const x1 = b.xs[j + 1];
+    let yb: number;
+    if (x1 > x0) {
+      const f = Math.min(1, Math.max(0, (x - x0) / (x1 - x0)));
+      yb = b.ys[j] + f * (b.ys[j + 1] - b.ys[j]);
+    } else {
+      // A vertical step in b: take the side that keeps the thickness smallest.
+      yb = sign > 0 ? Math.max(b.ys[j], b.ys[j + 1]) : Math.min(b.ys[j], b.ys[j + 1]);
+    }
+    const t = sign * (a.ys[i] - yb);
+    if (t > best) best = t;
+  }
+  return best;
+}
+
+function extentAtVertices(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower: Pick<SurfaceChain, 'xs' | 'ys'>): number {
+  const edges: [number, number, number, number][] = [];
+  for (const c of [upper, lower]) {
+    for (let k = 0; k + 1 < c.xs.length; k++) edges.push([c.xs[k], c.ys[k], c.xs[k + 1], c.ys[k + 1]]);
+  }
+  let best = 0;
+  for (const c of [upper, lower]) {
+    for (const x of c.xs) {
+      let lo = Infinity;
+      let hi = -Infinity;
+      for (const [x0, y0, x1, y1] of edges) {
+        if (x < Math.min(x0, x1) || x > Math.max(x0, x1)) continue;
+        const ys = x1 === x0 ? [y0, y1] : [y0 + ((x - x0) / (x1 - x0)) * (y1 - y0)];
+        for (const y of ys) {
+          if (y < lo) lo = y;
+          if (y > hi) hi = y;
+        }
+      }
+      if (hi - lo > best) best = hi - lo;
+    }
+  }
+  return best;
+}

@@ -1,0 +1,532 @@
+import type { SolveInput } from '../model/solveInput';
+import {
+  COEFFICIENT_ZERO,
+  DEG_PER_RAD,
+  FIELD_EXTENT_CHORDS_DEFAULT,
+  NEAR_DETACHMENT_WARNING_DEG,
+  NEAR_SONIC_WARNING_MACH,
+  PERFECT_GAS_WARNING_MACH,
+  RAD_PER_DEG,
+  SMALL_DEFLECTION_WARNING_DEG,
+  ZERO_TURN_RAD,
+} from './constants';
+import { facetDeflections } from './facetDeflections';
+import { integrateLoads, type Loads } from './integrateLoads';
+import { linearTheoryCp } from './linearTheory';
+import { marchSurface, type SurfaceLimit, type SurfaceMarch } from './marchSurface';
+import { matchTrailingEdge, type TailMatch, type TailTurn } from './matchTrailingEdge';
+import { maxThicknessRatio } from './maxThicknessRatio';
+import { busemannCoefficients } from './secondOrderTheory';
+import { splitSurfaces, type SurfaceChain } from './splitSurfaces';
+import { traceWaves } from './traceWaves';
+import type {
+  Coefficients,
+  Facet,
+  FacetWave,
+  Point,
+  SolveLimit,
+  SolveResult,
+  SolveStatus,
+  SurfaceName,
+  TailWave,
+  TheoryResult,
+  TrailingEdge,
+} from './types';
+
+/**
+ * Solves a polygonal section in a supersonic stream: the exact shock-expansion march over
+ * both surfaces, the trailing-edge matching, integrated loads, Ackeret (linear) and Busemann
+ * (second-order) theories on the same facets, and (unless `options.waves` is false) the wave
+ * map.
+ *
+ * Conventions (see shared/solver/README.md):
+ * - Body axes, x toward the tail, y up; chord c = max x − min x; nose = min-x vertex, tail =
+ *   max-x vertex; a tie within 1e-9·c at either end is `blunt` (no coefficients, no theories).
+ * - α > 0 is nose up: the free stream flows along (cos α, sin α), so the LOWER surface is
+ *   compressed at positive α. Input vertex order (cw or ccw) changes no result.
+ * - Facet angle φ = atan2(dy, dx) nose → tail; deflection θ = φ − α (upper), α − φ (lower);
+ *   θ > 0 turns into the flow. The first facet's deflection makes a shock, fan or Mach line;
+ *   every later vertex's turn a shock (concave), a fan (convex) or nothing.
+ * - Limits are results: `detached`, `subsonic`, `vacuum` stop that surface's march at the
+ *   vertex (listed in `limits` with numbers and a sentence); with both surfaces stopped the
+ *   status is the worse one in the order detached > subsonic > vacuum. Coefficients are
+ *   null unless the status is `ok`; the thin-airfoil theories are always given (except blunt).
+ * - Loads: each facet's force is −Cp·n_out·length at its midpoint; cl, cd (wind axes) over
+ *   q∞·c; cm over q∞·c² about the moment point (default [x_nose + c/4, y_nose]), nose up +.
+ * - Trailing edge: common flow direction and pressure of the two streams (slip line), each
+ *   stream turned by a shock or a fan; no attached matching leaves the status `ok` (the loads
+ *   do not depend on it) and says so in `trailingEdge.message` and `warnings`.
+ *
+ * Cost: O(facets) without the wave map; the wave map is O(waves²) (crossing search).
+ * Never throws for a parsed input; every number in the result is finite (absent = null).
+ *
+ * Sources: shock-expansion theory (e.g. Anderson, "Modern Compressible Flow", from memory);
+ * NACA Report 1135 for the wave relations; Ackeret and Busemann thin-airfoil theories.
+ */
+export function solveSection(input: SolveInput): SolveResult {
+  const points = input.section.points;
+  const { mach, alphaDeg } = input.flow;
+  const gamma = input.flow.gamma ?? 1.4;
+  const alpha = alphaDeg * RAD_PER_DEG;
+  const split = splitSurfaces(points);
+  const chord = split.chord;
+  const nosePt = points[split.noseIndex];
+  const tailPt = points[split.tailIndex];
+  const nose: Point = [nosePt[0], nosePt[1]];
+  const tail: Point = [tailPt[0], tailPt[1]];
+  const mp = input.reference?.momentPoint;
+  const momentPoint: Point = mp ? [mp[0], mp[1]] : [nose[0] + 0.25 * chord, nose[1]];
+  const upperChain = split.upper;
+  const lowerChain = split.lower;
+
+  const geometry = {
+    chord,
+    noseIndex: split.noseIndex,
+    tailIndex: split.tailIndex,
+    nose,
+    tail,
+    upper: upperChain.vertices.slice(),
+    lower: lowerChain.vertices.slice(),
+    momentPoint,
+    maxThicknessRatio: maxThicknessRatio(upperChain, lowerChain, chord),
+  };
+  const condition = { mach, alphaDeg, gamma };
+
+  const thetaU = facetDeflections(upperChain, alpha, 'upper');
+  const thetaL = facetDeflections(lowerChain, alpha, 'lower');
+  const { c1, c2 } = busemannCoefficients(mach, gamma);
+  // Ackeret's Cp is linear in θ: its slope is linearTheoryCp(1 rad).
+  const linearSlope = linearTheoryCp(1, mach);
+  const cpLinU = theoryCp(thetaU, linearSlope, 0);
+  const cpLinL = theoryCp(thetaL, linearSlope, 0);
+  const cp2U = theoryCp(thetaU, c1, c2);
+  const cp2L = theoryCp(thetaL, c1, c2);
+
+  const ctx: FacetContext = { mach, gamma, chord, noseX: nose[0] };
+
+  if (split.bluntNose || split.bluntTail) {
+    const limits: SolveLimit[] = [];
+    if (split.bluntNose) limits.push(bluntLimit(points, split.bluntNose, 'nose'));
+    if (split.bluntTail) limits.push(bluntLimit(points, split.bluntTail, 'tail'));
+    return {
+      status: 'blunt',
+      limits,
+      condition,
+      geometry,
+      surfaces: {
+        upper: buildFacets(upperChain, thetaU, null, cpLinU, cp2U, ctx),
+        lower: buildFacets(lowerChain, thetaL, null, cpLinL, cp2L, ctx),
+      },
+      coefficients: null,
+      bySurface: null,
+      theories: null,
+      trailingEdge: noTrailingEdge('The section is blunt, so the trailing edge was not solved.'),
+      waves: [],
+      intersections: [],
+      warnings: [],
+    };
+  }
+
+  const marchU = marchSurface(thetaU, mach, gamma);
+  const marchL = marchSurface(thetaL, mach, gamma);
+  const cpU: number[] = new Array(thetaU.length).fill(0);
+  const cpL: number[] = new Array(thetaL.length).fill(0);
+  const facetsU = buildFacets(upperChain, thetaU, marchU, cpLinU, cp2U, ctx, cpU);
+  const facetsL = buildFacets(lowerChain, thetaL, marchL, cpLinL, cp2L, ctx, cpL);
+
+  const limits: SolveLimit[] = [];
+  if (marchU.limit) limits.push(surfaceLimit(marchU.limit, 'upper', upperChain, points, gamma));
+  if (marchL.limit) limits.push(surfaceLimit(marchL.limit, 'lower', lowerChain, points, gamma));
+  const status: SolveStatus = limits.length === 0 ? 'ok' : worstStatus(limits);
+  const ok = status === 'ok';
+
+  let coefficients: Coefficients | null = null;
+  let bySurface: SolveResult['bySurface'] = null;
+  if (ok) {
+    const exact = integrateLoads(upperChain, cpU, lowerChain, cpL, alpha, momentPoint, nose, chord);
+    coefficients = exact.total;
+    bySurface = { upper: exact.upper, lower: exact.lower };
+  }
+  const linear = integrateLoads(upperChain, cpLinU, lowerChain, cpLinL, alpha, momentPoint, nose, chord);
+  const second = integrateLoads(upperChain, cp2U, lowerChain, cp2L, alpha, momentPoint, nose, chord);
+  const theories = {
+    linear: theoryResult(linear, coefficients),
+    secondOrder: theoryResult(second, coefficients),
+  };
+
+  const warnings: string[] = [];
+  let match: TailMatch | null = null;
+  let trailingEdge: TrailingEdge;
+  if (ok) {
+    const lu = facetsU.length - 1;
+    const ll = facetsL.length - 1;
+    match = matchTrailingEdge(
+      { mach: marchU.mach[lu], pRatio: marchU.pRatio[lu], direction: upperChain.phi[lu] },
+      { mach: marchL.mach[ll], pRatio: marchL.pRatio[ll], direction: lowerChain.phi[ll] },
+      gamma,
+    );
+    trailingEdge = trailingEdgeResult(match);
+    if (trailingEdge.message) warnings.push(trailingEdge.message);
+  } else {
+    trailingEdge = noTrailingEdge('The march did not reach the trailing edge, so it was not solved.');
+  }
+
+  collectWarnings(warnings, mach, upperChain, lowerChain, thetaU, thetaL, marchU, marchL, match);
+
+  let waves: SolveResult['waves'] = [];
+  let intersections: SolveResult['intersections'] = [];
+  if (input.options?.waves ?? true) {
+    const map = traceWaves({
+      points,
+      upper: upperChain,
+      lower: lowerChain,
+      marchUpper: marchU,
+      marchLower: marchL,
+      tail: match && match.status === 'matched' ? match : null,
+      tailIndex: split.tailIndex,
+      alpha,
+      mach,
+      gamma,
+      box: fieldBox(split, input.options?.fieldExtentChords ?? FIELD_EXTENT_CHORDS_DEFAULT),
+      chord,
+    });
+    waves = map.waves;
+    intersections = map.intersections;
+  }
+
+  return {
+    status,
+    limits,
+    condition,
+    geometry,
+    surfaces: { upper: facetsU, lower: facetsL },
+    coefficients,
+    bySurface,
+    theories,
+    trailingEdge,
+    waves,
+    intersections,
+    warnings,
+  };
+}
+
+interface FacetContext {
+  mach: number;
+  gamma: number;
+  chord: number;
+  noseX: number;
+}
+
+/** Pressure coefficients c1·θ + c2·θ² per facet (c2 = 0: linear theory). */
+function theoryCp(theta: readonly number[], c1: number, c2: number): number[] {
+  const out: number[] = new Array(theta.length);
+  for (let k = 0; k < theta.length; k++) {
+    const t = theta[k];
+    out[k] = c1 * t + c2 * t * t;
+  }
+  return out;
+}
+
+/**
+ * Facet records of one surface. Consecutive facets share their common vertex's point array
+ * (one facet's `to` is the next one's `from`). Writes the exact Cp of solved facets into
+ * `cpOut` (for the load integration).
+ */
+function buildFacets(
+  chain: SurfaceChain,
+  theta: readonly number[],
+  march: SurfaceMarch | null,
+  cpLin: readonly number[],
+  cp2: readonly number[],
+  ctx: FacetContext,
+  cpOut?: number[],
+): Facet[] {
+  const { mach, gamma, chord, noseX } = ctx;
+  const h = 0.5 * (gamma - 1);
+  const t0 = 1 + h * mach * mach; // T0/T∞
+  const qScale = 2 / (gamma * mach * mach); // p∞/q∞
+  const m = theta.length;
+  const out: Facet[] = new Array(m);
+  const xs = chain.xs;
+  const ys = chain.ys;
+  const solvedCount = march ? march.solved : 0;
+  let from: Point = [xs[0], ys[0]];
+  for (let k = 0; k < m; k++) {
+    const turn = k === 0 ? theta[0] : theta[k] - theta[k - 1];
+    const to: Point = [xs[k + 1], ys[k + 1]];
+    const wave: FacetWave = march
+      ? march.wave[k]
+      : turn > ZERO_TURN_RAD
+        ? 'shock'
+        : turn < -ZERO_TURN_RAD
+          ? 'fan'
+          : k === 0
+            ? 'mach'
+            : 'none';
+    let facet: Facet;
+    if (march && k < solvedCount) {
+      const mk = march.mach[k];
+      const p = march.pRatio[k];
+      const t = t0 / (1 + h * mk * mk);
+      const cp = (p - 1) * qScale;
+      if (cpOut) cpOut[k] = cp;
+      facet = {
+        index: chain.edges[k],
+        from,
+        to,
+        length: chain.length[k],
+        phiDeg: chain.phi[k] * DEG_PER_RAD,
+        thetaDeg: theta[k] * DEG_PER_RAD,
+        turnDeg: turn * DEG_PER_RAD,
+        wave,
+        solved: true,
+        mach: mk,
+        pRatio: p,
+        tRatio: t,
+        rhoRatio: p / t,
+        p0Ratio: march.p0Ratio[k],
+        cp,
+        cpLinear: cpLin[k],
+        cpSecondOrder: cp2[k],
+        xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
+      };
+    } else {
+      facet = {
+        index: chain.edges[k],
+        from,
+        to,
+        length: chain.length[k],
+        phiDeg: chain.phi[k] * DEG_PER_RAD,
+        thetaDeg: theta[k] * DEG_PER_RAD,
+        turnDeg: turn * DEG_PER_RAD,
+        wave,
+        solved: false,
+        mach: null,
+        pRatio: null,
+        tRatio: null,
+        rhoRatio: null,
+        p0Ratio: null,
+        cp: null,
+        cpLinear: cpLin[k],
+        cpSecondOrder: cp2[k],
+        xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
+      };
+    }
+    out[k] = facet;
+    from = to;
+  }
+  return out;
+}
+
+function theoryResult(loads: Loads, exact: Coefficients | null): TheoryResult {
+  const t = loads.total;
+  return {
+    cl: t.cl,
+    cd: t.cd,
+    cm: t.cm,
+    cn: t.cn,
+    ca: t.ca,
+    xcpOverC: t.xcpOverC,
+    liftToDrag: t.liftToDrag,
+    difference: exact
+      ? { cl: percent(t.cl, exact.cl), cd: percent(t.cd, exact.cd), cm: percent(t.cm, exact.cm) }
+      : { cl: null, cd: null, cm: null },
+  };
+}
+
+/** 100·(theory − exact)/|exact|, or null when the exact value is ~0. */
+function percent(theory: number, exact: number): number | null {
+  return Math.abs(exact) < COEFFICIENT_ZERO ? null : (100 * (theory - exact)) / Math.abs(exact);
+}
+
+const STATUS_RANK: Record<SolveStatus, number> = { blunt: 4, detached: 3, subsonic: 2, vacuum: 1, ok: 0 };
+
+function worstStatus(limits: readonly SolveLimit[]): SolveStatus {
+  let worst: SolveStatus = 'ok';
+  for (const l of limits) if (STATUS_RANK[l.status] > STATUS_RANK[worst]) worst = l.status;
+  return worst;
+}
+
+const deg = (rad: number) => (rad * DEG_PER_RAD).toFixed(1);
+const m2 = (mach: number) => mach.toFixed(2);
+
+function surfaceLimit(
+  limit: SurfaceLimit,
+  surface: SurfaceName,
+  chain: SurfaceChain,
+  points: readonly (readonly [number, number])[],
+  gamma: number,
+): SolveLimit {
+  const vertex = chain.vertices[limit.facet];
+  const at: Point = [points[vertex][0], points[vertex][1]];
+  const atNose = limit.facet === 0;
+  const where = atNose ? 'at the nose' : `at vertex ${vertex}`;
+  const what = atNose ? 'deflection' : 'turn';
+  const machWords = atNose ? `M ${m2(limit.machAhead)}` : `local M ${m2(limit.machAhead)}`;
+  const base = { surface, vertex, at, thetaDeg: limit.turn * DEG_PER_RAD };
+  if (limit.status === 'detached') {
+    const thetaMax = limit.thetaMax ?? 0;
+    return {
+      status: 'detached',
+      ...base,
+      thetaMaxDeg: thetaMax * DEG_PER_RAD,
+      message:
+        `${atNose ? 'Nose shock' : `Shock at vertex ${vertex}`} detaches on the ${surface} surface: ` +
+        `${what} ${deg(limit.turn)}° exceeds the maximum ${deg(thetaMax)}° at ${machWords}.`,
+    };
+  }
+  if (limit.status === 'subsonic') {
+    const thetaMax = limit.thetaMax ?? 0;
+    const machBehind = limit.machBehind ?? 0;
+    return {
+      status: 'subsonic',
+      ...base,
+      thetaMaxDeg: thetaMax * DEG_PER_RAD,
+      machBehind,
+      message:
+        `Flow behind the ${atNose ? 'nose shock' : `shock at vertex ${vertex}`} on the ${surface} surface ` +
+        `is subsonic (M ${m2(machBehind)}): ${what} ${deg(limit.turn)}° lies between the sonic ` +
+        `${deg(limit.thetaSonic ?? 0)}° and the maximum ${deg(thetaMax)}° at ${machWords}.`,
+    };
+  }
+  const nu = limit.nu ?? 0;
+  const nuMax = limit.nuMax ?? 0;
+  return {
+    status: 'vacuum',
+    ...base,
+    nuDeg: nu * DEG_PER_RAD,
+    nuMaxDeg: nuMax * DEG_PER_RAD,
+    message:
+      `Expansion ${where} on the ${surface} surface exceeds the Prandtl-Meyer limit: ` +
+      `${what} ${deg(-limit.turn)}° would need ν ${deg(nu)}°, beyond the maximum ` +
+      `${deg(nuMax)}° for γ ${gamma.toFixed(2)}.`,
+  };
+}
+
+function bluntLimit(
+  points: readonly (readonly [number, number])[],
+  tied: readonly number[],
+  end: 'nose' | 'tail',
+): SolveLimit {
+  // The tied vertex of least y is the one the geometry reports as nose/tail.
+  let vertex = tied[0];
+  for (const i of tied) if (points[i][1] < points[vertex][1]) vertex = i;
+  const list =
+    tied.length === 2 ? `vertices ${tied[0]} and ${tied[1]} both lie` : `vertices ${tied.slice(0, -1).join(', ')} and ${tied[tied.length - 1]} all lie`;
+  return {
+    status: 'blunt',
+    surface: end === 'nose' ? 'leadingEdge' : 'trailingEdge',
+    vertex,
+    at: [points[vertex][0], points[vertex][1]],
+    message:
+      `Blunt ${end}: ${list} at the ${end === 'nose' ? 'minimum' : 'maximum'} x (a vertical face); ` +
+      `the shock-expansion method needs a single sharp ${end}.`,
+  };
+}
+
+function noTrailingEdge(message: string): TrailingEdge {
+  return { slipDeg: null, pressureRatio: null, upperWave: null, lowerWave: null, message };
+}
+
+function tailWave(turn: TailTurn): TailWave {
+  const w: TailWave = {
+    kind: turn.kind,
+    deflectionDeg: turn.deflection * DEG_PER_RAD,
+    machAfter: turn.machAfter,
+    pRatioAfter: turn.pRatioAfter,
+  };
+  if (turn.kind === 'shock') w.betaDeg = turn.beta * DEG_PER_RAD;
+  return w;
+}
+
+function trailingEdgeResult(match: TailMatch): TrailingEdge {
+  if (match.status === 'unmatched') {
+    return noTrailingEdge(
+      `No attached wave pattern matches the two streams at the trailing edge: ${match.reason}.`,
+    );
+  }
+  return {
+    slipDeg: match.slip * DEG_PER_RAD,
+    pressureRatio: match.pRatio,
+    upperWave: tailWave(match.upper),
+    lowerWave: tailWave(match.lower),
+  };
+}
+
+function collectWarnings(
+  warnings: string[],
+  mach: number,
+  upperChain: SurfaceChain,
+  lowerChain: SurfaceChain,
+  thetaU: readonly number[],
+  thetaL: readonly number[],
+  marchU: SurfaceMarch,
+  marchL: SurfaceMarch,
+  match: TailMatch | null,
+): void {
+  let maxTheta = 0;
+  for (const t of thetaU) if (Math.abs(t) > maxTheta) maxTheta = Math.abs(t);
+  for (const t of thetaL) if (Math.abs(t) > maxTheta) maxTheta = Math.abs(t);
+  if (maxTheta * DEG_PER_RAD > SMALL_DEFLECTION_WARNING_DEG) {
+    warnings.push(
+      `Linear and second-order theories assume small deflections; the largest facet deflection here ` +
+        `is ${deg(maxTheta)}°, so read them as indicative only.`,
+    );
+  }
+  shockWarnings(warnings, 'upper', marchU, upperChain, mach);
+  shockWarnings(warnings, 'lower', marchL, lowerChain, mach);
+  if (match && match.status === 'matched') {
+    for (const [side, turn] of [
+      ['upper', match.upper],
+      ['lower', match.lower],
+    ] as const) {
+      if (turn.kind === 'shock' && turn.machAfter < 1) {
+        warnings.push(
+          `Flow behind the trailing-edge shock in the ${side} stream is subsonic (M ${m2(turn.machAfter)}); ` +
+            'the wake pattern there is approximate.',
+        );
+      }
+    }
+  }
+  if (mach > PERFECT_GAS_WARNING_MACH) {
+    warnings.push(
+      `At M ${m2(mach)} a constant γ (perfect gas) is an approximation; real-gas effects grow with Mach number.`,
+    );
+  }
+}
+
+function shockWarnings(
+  warnings: string[],
+  surface: SurfaceName,
+  march: SurfaceMarch,
+  chain: SurfaceChain,
+  machInf: number,
+): void {
+  for (let k = 0; k < march.solved; k++) {
+    if (march.wave[k] !== 'shock') continue;
+    const name = k === 0 ? 'nose shock' : `shock at vertex ${chain.vertices[k]}`;
+    const turn = march.turn[k];
+    const mAhead = k === 0 ? machInf : march.mach[k - 1];
+    if ((march.thetaMax[k] - turn) * DEG_PER_RAD < NEAR_DETACHMENT_WARNING_DEG) {
+      warnings.push(
+        `The ${name} on the ${surface} surface is within 1° of detachment: ` +
+          `${k === 0 ? 'deflection' : 'turn'} ${deg(turn)}° against a maximum of ` +
+          `${deg(march.thetaMax[k])}° at ${k === 0 ? 'M' : 'local M'} ${m2(mAhead)}.`,
+      );
+    }
+    if (march.mach[k] < NEAR_SONIC_WARNING_MACH) {
+      warnings.push(
+        `Flow behind the ${name} on the ${surface} surface is barely supersonic ` +
+          `(M ${m2(march.mach[k])}); a slightly larger deflection would make it subsonic.`,
+      );
+    }
+  }
+}
+
+function fieldBox(
+  split: { minX: number; maxX: number; minY: number; maxY: number; chord: number },
+  extentChords: number,
+): { minX: number; maxX: number; minY: number; maxY: number } {
+  const e = extentChords * split.chord;
+  return { minX: split.minX - e, maxX: split.maxX + e, minY: split.minY - e, maxY: split.maxY + e };
+}

@@ -1,0 +1,173 @@
+import { signedArea, type XY } from '../model/polygon';
+import { atanNearZero } from './atanNearZero';
+import { BLUNT_TIE_CHORDS } from './constants';
+
+/** One surface as a vertex chain from the nose to the tail. Angles in radians. */
+export interface SurfaceChain {
+  /** Input vertex indices, nose first, tail last (facet count + 1 entries). */
+  vertices: number[];
+  /** Input edge index of each facet (edge i runs points[i] → points[(i+1) % n]). */
+  edges: number[];
+  /** Vertex coordinates in chain order. */
+  xs: number[];
+  ys: number[];
+  /** Facet angle φ = atan2(dy, dx), nose → tail, in (−π, π]. */
+  phi: number[];
+  /** Turn at each facet's leading vertex: the change of direction from the previous facet,
+   *  counter-clockwise positive, in (−π, π]; 0 for the first facet. */
+  turn: number[];
+  length: number[];
+}
+
+/** The section split at its nose and tail. */
+export interface SplitSection {
+  chord: number;
+  minX: number;
+  maxX: number;
+  minY: number;
+  maxY: number;
+  noseIndex: number;
+  tailIndex: number;
+  /** Vertices tied for the minimum x (a vertical nose face), or null for a sharp nose. */
+  bluntNose: number[] | null;
+  /** Vertices tied for the maximum x (a vertical tail face), or null for a sharp tail. */
+  bluntTail: number[] | null;
+  upper: SurfaceChain;
+  lower: SurfaceChain;
+}
+
+/**
+ * Splits a closed polygon into its upper and lower surfaces.
+ *
+ * Conventions: body axes; chord = max x − min x; nose = the vertex of min x, tail = the vertex of
+ * max x. Vertices within 1e-9·chord of the min (max) x tie: the nose (tail) is then blunt and
+ * `bluntNose` (`bluntTail`) lists them, the chosen nose/tail being the tied vertex of least y.
+ * The upper surface is the chain from nose to tail that runs over the top: for a
+ * counter-clockwise polygon that is the backward chain, for a clockwise one the forward chain,
+ * so the input's vertex order never changes the surfaces. Everything is computed nose → tail,
+ * so both orders give bit-identical numbers. The first facet's angle is atan2(dy, dx); each
+ * later one adds the turn atan2(cross, dot) of consecutive facet vectors (a series for the
+ * small turns of a fine section), which is exact to rounding and never jumps by 2π.
+ *
+ * Edge case: a zero-length facet (repeated point, rejected by validation) gets φ = 0.
+ *
+ * Source: common practice (shoelace orientation test).
+ */
+export function splitSurfaces(points: readonly XY[]): SplitSection {
+  const n = points.length;
+  let minX = Infinity;
+  let maxX = -Infinity;
+  let minY = Infinity;
+  let maxY = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const x = points[i][0];
+    const y = points[i][1];
+    if (x < minX) minX = x;
+    if (x > maxX) maxX = x;
+    if (y < minY) minY = y;
+    if (y > maxY) maxY = y;
+  }
+  const chord = maxX - minX;
+  const tol = BLUNT_TIE_CHORDS * chord;
+
+  let noseIndex = -1;
+  let tailIndex = -1;
+  let noseTies = 0;
+  let tailTies = 0;
+  for (let i = 0; i < n; i++) {
+    const x = points[i][0];
+    if (x <= minX + tol) {
+      noseTies++;
+      if (noseIndex < 0 || points[i][1] < points[noseIndex][1]) noseIndex = i;
+    }
+  }
+  for (let i = 0; i < n; i++) {
+    const x = points[i][0];
+    if (x >= maxX - tol && i !== noseIndex) {
+      tailTies++;
+      if (tailIndex < 0 || points[i][1] < points[tailIndex][1]) tailIndex = i;
+    }
+  }
+  if (tailIndex < 0) tailIndex = (noseIndex + 1) % n; // all vertices at the nose: chord 0
+  const bluntNose = noseTies > 1 ? tiedIndices(points, (x) => x <= minX + tol) : null;
+  const bluntTail =
+    tailTies > 1 || noseTies === n ? tiedIndices(points, (x) => x >= maxX - tol) : null;
+
+  const forward = chain(points, noseIndex, tailIndex, 1);
+  const backward = chain(points, noseIndex, tailIndex, -1);
+  const ccw = signedArea(points) > 0;
+  return {
+    chord,
+    minX,
+    maxX,
+    minY,
+    maxY,
+    noseIndex,
+    tailIndex,
+    bluntNose,
+    bluntTail,
+    upper: ccw ? backward : forward,
+    lower: ccw ? forward : backward,
+  };
+}
+
+function tiedIndices(points: readonly XY[], tied: (x: number) => boolean): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < points.length; i++) if (tied(points[i][0])) out.push(i);
+  return out;
+}
+
+/** Walks from the nose to the tail in the given index direction. */
+function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1): SurfaceChain {
+  const n = points.length;
+  const m = step === 1 ? (tail - nose + n) % n : (nose - tail + n) % n; // facet count
+  const vertices: number[] = new Array(m + 1);
+  const edges: number[] = new Array(m);
+  const xs: number[] = new Array(m + 1);
+  const ys: number[] = new Array(m + 1);
+  const phi: number[] = new Array(m);
+  const turn: number[] = new Array(m);
+  const length: number[] = new Array(m);
+  let i = nose;
+  let x0 = points[i][0];
+  let y0 = points[i][1];
+  vertices[0] = i;
+  xs[0] = x0;
+  ys[0] = y0;
+  let pdx = 0;
+  let pdy = 0;
+  let angle = 0;
+  for (let k = 0; k < m; k++) {
+    let j = i + step;
+    if (j === n) j = 0;
+    else if (j < 0) j = n - 1;
+    const x1 = points[j][0];
+    const y1 = points[j][1];
+    const dx = x1 - x0;
+    const dy = y1 - y0;
+    edges[k] = step === 1 ? i : j;
+    if (k === 0) {
+      angle = Math.atan2(dy, dx);
+      turn[0] = 0;
+    } else {
+      const cross = pdx * dy - pdy * dx;
+      const dot = pdx * dx + pdy * dy;
+      const d = dot > 0 && cross <= 0.1 * dot && cross >= -0.1 * dot ? atanNearZero(cross / dot) : Math.atan2(cross, dot);
+      turn[k] = d;
+      angle += d;
+      if (angle > Math.PI) angle -= 2 * Math.PI;
+      else if (angle <= -Math.PI) angle += 2 * Math.PI;
+    }
+    phi[k] = angle;
+    length[k] = Math.sqrt(dx * dx + dy * dy);
+    vertices[k + 1] = j;
+    xs[k + 1] = x1;
+    ys[k + 1] = y1;
+    i = j;
+    x0 = x1;
+    y0 = y1;
+    pdx = dx;
+    pdy = dy;
+  }
+  return { vertices, edges, xs, ys, phi, turn, length };
+}

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { formatQuantity, fromDisplay, QUANTITIES, toDisplay, type Quantity } from '../../../shared/flight/units.ts';
+import { formatQuantity, fromDisplay, QUANTITIES, toDisplay, unitLabel, type Quantity } from '../../../shared/flight/units.ts';
 import { expectCloseRel } from '../../helpers/expectClose.ts';
 
 describe('units', () => {
@@ -19,8 +19,9 @@ describe('units', () => {
     ['density', 1.225, 0.0023769, 'slug/ft³'],
     ['force', 4.4482216152605, 1, 'lbf'],
     ['temperature', 288.15, 518.67, '°R'],
-  ] as const)('%s: %f SI is %f US (NIST SP 811 factors; sea-level values from the 1976 standard, from memory)', (q, si, us) => {
+  ] as const)('%s: %f SI is %f %s (NIST SP 811 factors; sea-level values from the 1976 standard, from memory)', (q, si, us, label) => {
     expectCloseRel(toDisplay(si, q, 'us'), us, 2e-5);
+    expect(unitLabel(q, 'us')).toBe(label);
   });
 
   it('formats with the unit label', () => {

@@ -1,6 +1,6 @@
 import { VACUUM_MARGIN_RELATIVE, ZERO_TURN_RAD } from './constants';
 import { obliqueShock } from './obliqueShock';
-import { machAfterExpansion, prandtlMeyer, prandtlMeyerMax } from './prandtlMeyer';
+import { machParameterAfterExpansion, prandtlMeyer, prandtlMeyerMax } from './prandtlMeyer';
 import { sonicDeflection } from './sonicDeflection';
 import type { FacetWave } from './types';
 
@@ -96,6 +96,7 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
   }
 
   let mAhead = machInf;
+  let sAhead = Math.sqrt((machInf - 1) * (machInf + 1)); // Mach parameter √(M²−1)
   let xAhead = 1 + halfG1 * machInf * machInf; // X = T0/T
   let pAhead = 1;
   let p0Ahead = 1;
@@ -125,6 +126,7 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
         break;
       }
       mAhead = shock.mach2;
+      sAhead = Math.sqrt((mAhead - 1) * (mAhead + 1));
       xAhead = 1 + halfG1 * mAhead * mAhead;
       pAhead *= shock.pRatio;
       p0Ahead *= shock.p0Ratio;
@@ -137,11 +139,13 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
         limit = { status: 'vacuum', facet: k, turn: d, machAhead: mAhead, nu: target, nuMax };
         break;
       }
-      const mNew = machAfterExpansion(mAhead, nuAhead, -d, gamma);
-      const xNew = 1 + halfG1 * mNew * mNew;
+      const sNew = machParameterAfterExpansion(sAhead, nuAhead, -d, gamma);
+      const m2New = 1 + sNew * sNew;
+      const xNew = 1 + halfG1 * m2New;
       const r = xAhead / xNew;
       pAhead *= halfInteger ? halfIntegerPower(r, halfInteger) : Math.exp(pExp * Math.log(r));
-      mAhead = mNew;
+      mAhead = Math.sqrt(m2New);
+      sAhead = sNew;
       xAhead = xNew;
       nuAhead = target;
     }

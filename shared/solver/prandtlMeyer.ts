@@ -74,12 +74,22 @@ export function machFromPrandtlMeyer(nu: number, gamma: number, nearMach?: numbe
  */
 export function machAfterExpansion(mach: number, nu: number, dNu: number, gamma: number): number {
   if (dNu === 0) return mach;
+  const s = machParameterAfterExpansion(Math.sqrt((mach - 1) * (mach + 1)), nu, dNu, gamma);
+  return Number.isFinite(s) ? Math.sqrt(1 + s * s) : s;
+}
+
+/**
+ * `machAfterExpansion` in terms of the Mach parameter s = √(M² − 1): takes s0 of the stream
+ * and returns s after the turn (+Infinity for vacuum, 0 for ν + dNu ≤ 0). The march carries s
+ * from facet to facet so that no square root sits on its critical path.
+ */
+export function machParameterAfterExpansion(s0: number, nu: number, dNu: number, gamma: number): number {
+  if (dNu === 0) return s0;
   const k2 = (gamma + 1) / (gamma - 1);
   const k = Math.sqrt(k2);
   const target = nu + dNu;
   if (target >= (Math.PI / 2) * (k - 1)) return Number.POSITIVE_INFINITY;
-  if (target <= 0) return 1;
-  const s0 = Math.sqrt((mach - 1) * (mach + 1));
+  if (target <= 0) return 0;
   let start: number;
   if (s0 > 0) {
     // Second-order Taylor step: Δs ≈ Δν/ν' − (ν''/ν')·(Δν/ν')²/2.
@@ -91,8 +101,7 @@ export function machAfterExpansion(mach: number, nu: number, dNu: number, gamma:
   }
   const lo = dNu > 0 ? s0 : 0;
   const hi = dNu > 0 ? Number.POSITIVE_INFINITY : s0;
-  const s = solveS(s0, nu, target, k, start, lo, hi, PRANDTL_MEYER_TOLERANCE_RAD * Math.max(1, target));
-  return Math.sqrt(1 + s * s);
+  return solveS(s0, nu, target, k, start, lo, hi, PRANDTL_MEYER_TOLERANCE_RAD * Math.max(1, target));
 }
 
 /**

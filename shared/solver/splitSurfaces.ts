@@ -43,7 +43,8 @@ export interface SplitSection {
  * max x. Vertices within 1e-9·chord of the min (max) x tie: the nose (tail) is then blunt and
  * `bluntNose` (`bluntTail`) lists them, the chosen nose/tail being the tied vertex of least y.
  * The upper surface is the chain from nose to tail that runs over the top: for a
- * counter-clockwise polygon that is the backward chain, for a clockwise one the forward chain,
+ * counter-clockwise polygon that is the backward chain, for a clockwise one the forward chain
+ * (the orientation is read from the turn at the nose, an extreme vertex),
  * so the input's vertex order never changes the surfaces. Everything is computed nose → tail,
  * so both orders give bit-identical numbers. The first facet's angle is atan2(dy, dx); each
  * later one adds the turn atan2(cross, dot) of consecutive facet vectors (a series for the
@@ -95,7 +96,8 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
 
   const forward = chain(points, noseIndex, tailIndex, 1);
   const backward = chain(points, noseIndex, tailIndex, -1);
-  const ccw = signedArea(points) > 0;
+  // A blunt nose's chosen vertex need not be extreme: use the area there.
+  const ccw = bluntNose ? signedArea(points) > 0 : counterClockwise(points, noseIndex);
   return {
     chord,
     minX,
@@ -109,6 +111,20 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
     upper: ccw ? backward : forward,
     lower: ccw ? forward : backward,
   };
+}
+
+/**
+ * Orientation from the turn at the nose: the vertex of least (x, y) is an extreme point, so the
+ * polygon turns left there exactly when it runs counter-clockwise. Falls back to the signed
+ * area if that turn is degenerate (it is not, for a simple polygon).
+ */
+function counterClockwise(points: readonly XY[], v: number): boolean {
+  const n = points.length;
+  const p = points[(v + n - 1) % n];
+  const c = points[v];
+  const q = points[(v + 1) % n];
+  const cross = (c[0] - p[0]) * (q[1] - c[1]) - (c[1] - p[1]) * (q[0] - c[0]);
+  return cross !== 0 ? cross > 0 : signedArea(points) > 0;
 }
 
 function tiedIndices(points: readonly XY[], tied: (x: number) => boolean): number[] {

@@ -1,6 +1,7 @@
 /**
  * Property tests (fast-check) over random simple polygons and conditions. Each property names
- * the invariant of shared/solver/README.md it checks.
+ * the invariant of shared/solver/README.md it checks. The per-test timeouts are only generous
+ * limits for a busy shared machine; nothing here asserts on time.
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
@@ -96,7 +97,7 @@ describe('solveSection properties (fast-check)', () => {
       }),
       { numRuns: 600 },
     );
-  });
+  }, 60_000);
 
   it('[S1] reversing the vertex order changes no coefficient, facet state or slip line', () => {
     fc.assert(
@@ -113,7 +114,7 @@ describe('solveSection properties (fast-check)', () => {
       }),
       { numRuns: 300 },
     );
-  });
+  }, 60_000);
 
   it('[S2] translating and scaling the section (moment point with it) leaves the coefficients unchanged', () => {
     fc.assert(
@@ -136,7 +137,7 @@ describe('solveSection properties (fast-check)', () => {
       ),
       { numRuns: 300 },
     );
-  });
+  }, 60_000);
 
   it('[S3] a section symmetric about its chord line at α = 0 has cl = 0 and cm = 0 about any point on that line', () => {
     fc.assert(
@@ -158,7 +159,7 @@ describe('solveSection properties (fast-check)', () => {
       ),
       { numRuns: 300 },
     );
-  });
+  }, 60_000);
 
   it('[S4] cd > 0 for any closed section in attached flow', () => {
     let attached = 0;
@@ -172,7 +173,7 @@ describe('solveSection properties (fast-check)', () => {
       { numRuns: 1500 },
     );
     expect(attached).toBeGreaterThan(100);
-  });
+  }, 60_000);
 
   it('[S7] exact → linear as thickness and α → 0: pressure differences shrink like ε, force differences like the dropped C2θ² term', () => {
     fc.assert(
@@ -215,7 +216,7 @@ describe('solveSection properties (fast-check)', () => {
       ),
       { numRuns: 200 },
     );
-  });
+  }, 60_000);
 
   it('[S7] second-order is closer to exact than linear for thin sections (surface pressures, length-weighted)', () => {
     // Busemann's law adds the θ² term the exact Cp has, so its error is O(θ³) against
@@ -241,7 +242,7 @@ describe('solveSection properties (fast-check)', () => {
       ),
       { numRuns: 300 },
     );
-  });
+  }, 60_000);
 });
 
 /** √(Σ len·v²) over all facets. */

@@ -7,7 +7,11 @@ import type { AppliedEdit } from '../shared/protocol/messages.ts';
 export interface AppEvents {
   /** An edit was applied outside the socket channel (REST save, rename, restore). */
   sketchEdited: [sketchId: string, edit: AppliedEdit];
+  /** Something besides the document changed (pins, snapshots, status): clients refetch it. */
+  sketchNotice: [sketchId: string, topic: NoticeTopic];
 }
+
+export type NoticeTopic = 'pins' | 'snapshots' | 'status' | 'activity';
 
 /**
  * What services need besides their arguments: the database, outgoing mail and the public base

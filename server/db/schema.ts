@@ -230,3 +230,86 @@ export const socketIoAttachments = pgTable('socket_io_attachments', {
   createdAt: timestamp('created_at', { withTimezone: true }).defaultNow(),
   payload: bytea('payload'),
 });
+
+export const pinStatusEnum = pgEnum('pin_status', ['open', 'resolved']);
+
+/**
+ * Review pins: a comment placed on a point, a facet or a wave of a sketch, opening a thread.
+ * `target` is shared/model/review.ts `PinTarget` (validated on the way in).
+ */
+export const pins = pgTable(
+  'pins',
+  {
+    id: text('id').primaryKey(),
+    sketchId: text('sketch_id')
+      .notNull()
+      .references(() => sketches.id, { onDelete: 'cascade' }),
+    authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
+    target: jsonb('target').notNull(),
+    status: pinStatusEnum('status').notNull().default('open'),
+    resolvedBy: text('resolved_by').references(() => users.id, { onDelete: 'set null' }),
+    resolvedAt: timestamp('resolved_at', { withTimezone: true }),
+    ...timestamps,
+  },
+  (t) => [index('pins_sketch_idx').on(t.sketchId, t.createdAt)],
+);
+
+/** The messages of a pin's thread; the first one is the pin's opening comment. */
+export const pinReplies = pgTable(
+  'pin_replies',
+  {
+    id: text('id').primaryKey(),
+    pinId: text('pin_id')
+      .notNull()
+      .references(() => pins.id, { onDelete: 'cascade' }),
+    authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
+    body: text('body').notNull(),
+    /** Members @mentioned (each got an e-mail notice). */
+    mentions: text('mentions').array().notNull().default([]),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('pin_replies_pin_idx').on(t.pinId, t.createdAt)],
+);
+
+export const snapshotKindEnum = pgEnum('snapshot_kind', ['manual', 'before_restore', 'before_import']);
+
+/** Named, restorable versions of a sketch: title, document and the stored result at a revision. */
+export const snapshots = pgTable(
+  'snapshots',
+  {
+    id: text('id').primaryKey(),
+    sketchId: text('sketch_id')
+      .notNull()
+      .references(() => sketches.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    note: text('note').notNull().default(''),
+    kind: snapshotKindEnum('kind').notNull().default('manual'),
+    revision: integer('revision').notNull(),
+    title: text('title').notNull(),
+    document: jsonb('document').notNull(),
+    result: jsonb('result'),
+    createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('snapshots_sketch_idx').on(t.sketchId, t.createdAt)],
+);
+
+/**
+ * What happened to a sketch besides edits (edits are read from sketch_edits): pins, replies,
+ * resolutions, snapshots, restores, imports, review requests, status changes. The activity feed
+ * merges both.
+ */
+export const sketchEvents = pgTable(
+  'sketch_events',
+  {
+    id: text('id').primaryKey(),
+    sketchId: text('sketch_id')
+      .notNull()
+      .references(() => sketches.id, { onDelete: 'cascade' }),
+    actorId: text('actor_id').references(() => users.id, { onDelete: 'set null' }),
+    kind: text('kind').notNull(),
+    detail: jsonb('detail').notNull().default({}),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('sketch_events_sketch_idx').on(t.sketchId, t.createdAt)],
+);

@@ -155,6 +155,8 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
 
   // Edits saved outside the socket channel (REST) reach every editor of the sketch.
   ctx.events.on('sketchEdited', (sketchId, edit) => send(io.to(room(sketchId)), { type: 'edit', sketchId, ...edit }));
+  // Pins, snapshots, status: clients refetch what the notice names.
+  ctx.events.on('sketchNotice', (sketchId, topic) => send(io.to(room(sketchId)), { type: 'notice', sketchId, topic }));
 
   async function handle(socket: IoSocket, msg: ClientMessage): Promise<void> {
     const user = socket.data.user;

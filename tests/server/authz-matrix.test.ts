@@ -5,7 +5,7 @@ import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
 import { defaultSketchDocument } from '../../shared/model/sketch.ts';
 import { hashToken } from '../../server/auth/tokens.ts';
 import { eq } from 'drizzle-orm';
-import { invitations, mailMessages, memberships, teams, users } from '../../server/db/schema.ts';
+import { invitations, mailMessages, memberships, pinReplies, pins, snapshots, teams, users } from '../../server/db/schema.ts';
 import { listRoutes } from '../helpers/routes.ts';
 import { ACTORS, CSRF, createWorld, freshSketch, freshTeam, signIn, type Actor, type World } from '../helpers/world.ts';
 
@@ -40,6 +40,21 @@ async function invitation(w: World, teamId: string, email = `${newId('user')}@ex
   const id = newId('invite');
   await w.database.db.insert(invitations).values({ id, teamId, email, role: 'editor', tokenHash: hashToken(token), invitedBy: w.users.owner.id, expiresAt: new Date(Date.now() + 86_400_000) });
   return { id, token, email };
+}
+
+async function freshPin(w: World): Promise<string> {
+  const sketchId = await freshSketch(w);
+  const id = newId('pin');
+  await w.database.db.insert(pins).values({ id, sketchId, authorId: w.users.reviewer.id, target: { kind: 'point', at: [0.5, 0.1] } });
+  await w.database.db.insert(pinReplies).values({ id: newId('reply'), pinId: id, authorId: w.users.reviewer.id, body: 'Check the nose shock here.' });
+  return id;
+}
+
+async function freshSnapshot(w: World): Promise<string> {
+  const sketchId = await freshSketch(w);
+  const id = newId('snap');
+  await w.database.db.insert(snapshots).values({ id, sketchId, name: 'Baseline', revision: 0, title: 'Test sketch', document: defaultSketchDocument(), createdBy: w.users.owner.id });
+  return id;
 }
 
 const TABLE: Record<string, Entry> = {
@@ -136,6 +151,32 @@ const TABLE: Record<string, Entry> = {
   },
   'POST /api/sketches/:sketchId/duplicate': { need: 'editor', ok: 201, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/duplicate` }) },
   'DELETE /api/sketches/:sketchId': { need: 'owner', ok: 204, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}` }) },
+  'GET /api/sketches/:sketchId/pins': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/pins` }) },
+  'POST /api/sketches/:sketchId/pins': {
+    need: 'reviewer',
+    ok: 201,
+    prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/pins`, body: { target: { kind: 'facet', facet: 1, at: [0.7, 0.01] }, body: 'Why so thick here?' } }),
+  },
+  'GET /api/pins/:pinId': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/pins/${await freshPin(w)}` }) },
+  'POST /api/pins/:pinId/replies': { need: 'reviewer', ok: 201, prepare: async (w) => ({ path: `/api/pins/${await freshPin(w)}/replies`, body: { body: 'Agreed.' } }) },
+  'POST /api/pins/:pinId/resolve': { need: 'reviewer', ok: 200, prepare: async (w) => ({ path: `/api/pins/${await freshPin(w)}/resolve` }) },
+  'POST /api/pins/:pinId/reopen': { need: 'reviewer', ok: 200, prepare: async (w) => ({ path: `/api/pins/${await freshPin(w)}/reopen` }) },
+  'GET /api/sketches/:sketchId/snapshots': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/snapshots` }) },
+  'POST /api/sketches/:sketchId/snapshots': { need: 'editor', ok: 201, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/snapshots`, body: { name: 'Before the thinning' } }) },
+  'GET /api/snapshots/:snapshotId': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/snapshots/${await freshSnapshot(w)}` }) },
+  'POST /api/snapshots/:snapshotId/restore': { need: 'editor', ok: 200, prepare: async (w) => ({ path: `/api/snapshots/${await freshSnapshot(w)}/restore` }) },
+  'POST /api/sketches/:sketchId/import': {
+    need: 'editor',
+    ok: 200,
+    prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/import`, body: { points: [[0, 0], [0.5, 0.04], [1, 0], [0.5, -0.04]], fileName: 'fin.csv' } }),
+  },
+  'GET /api/sketches/:sketchId/activity': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/activity` }) },
+  'PUT /api/sketches/:sketchId/status': { need: 'editor', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/status`, body: { status: 'in_review' } }) },
+  'POST /api/sketches/:sketchId/review-requests': {
+    need: 'editor',
+    ok: 200,
+    prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/review-requests`, body: { reviewerIds: [w.users.reviewer.id] } }),
+  },
   'GET /api/dev/mailbox': { need: 'anyOwner', ok: 200, prepare: async () => ({ path: '/api/dev/mailbox' }) },
   'GET /api/dev/mailbox/:mailId': {
     need: 'anyOwner',

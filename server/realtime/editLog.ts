@@ -1,10 +1,10 @@
-import { and, asc, eq, gt, sql } from 'drizzle-orm';
+import { and, asc, eq, gt, inArray, sql } from 'drizzle-orm';
 import type { Db } from '../db/client.ts';
-import { sketchEdits, sketches } from '../db/schema.ts';
+import { memberships, sketchEdits, sketches } from '../db/schema.ts';
 import { newId } from '../../shared/model/ids.ts';
 import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
 import type { SketchDocument } from '../../shared/model/sketch.ts';
-import { applyEdit, transformPast } from '../../shared/protocol/transform.ts';
+import { applyEdit, transformPast, type SketchState } from '../../shared/protocol/transform.ts';
 import type { AppliedEdit, EditOp } from '../../shared/protocol/messages.ts';
 import { solveDocument } from '../api/sketches/solveDocument.ts';
 
@@ -12,92 +12,197 @@ export type EditOutcome =
   | { status: 'applied' | 'rebased'; revision: number; op: EditOp; duplicate: boolean }
   | { status: 'rejected'; reason: string; duplicate: boolean };
 
+export interface EditInput {
+  sketchId: string;
+  userId: string;
+  baseRevision: number;
+  op: EditOp;
+  /** Whole-document saves: refuse instead of rebasing when the base is stale. */
+  requireBase?: boolean;
+}
+
 /**
- * Applies one edit to a sketch, the single place where revisions are assigned [R2]. In one
- * transaction: lock the sketch row (so edits arriving at several server instances queue up
- * here, in order), answer a repeated op id with its first outcome [R3], check the editor role,
- * rebase an edit made on an older revision past the logged edits since [R5], apply and
- * validate it, solve the new document, write document + log row, commit.
+ * Applies a batch of edits to one sketch — the single place where revisions are assigned [R2].
+ * One transaction: lock the sketch row (edits reaching several server instances queue up here,
+ * in one order), read earlier outcomes of these op ids [R3], the callers' roles and the logged
+ * edits a stale edit must be rebased past [R5]; then apply the edits in order in memory, solve
+ * the final document once, write the document and all log rows, commit. Under load, edits that
+ * arrive while a batch is being written form the next batch (group commit), so a busy sketch
+ * costs a handful of statements per batch rather than per edit.
  */
-export async function applyEditToSketch(
-  db: Db,
-  input: { sketchId: string; userId: string; baseRevision: number; op: EditOp; requireBase?: boolean },
-): Promise<EditOutcome> {
+export async function applyEditBatch(db: Db, sketchId: string, items: EditInput[]): Promise<EditOutcome[]> {
   return db.transaction(async (tx) => {
-    // One round trip: lock the sketch row, read the caller's role and any earlier outcome of this op id.
-    const locked = await tx.execute<{
-      team_id: string;
-      title: string;
-      document: SketchDocument;
-      revision: number;
-      role: Role | null;
-      seen_status: string | null;
-      seen_revision: number | null;
-      seen_op: EditOp | null;
-      seen_reason: string | null;
-    }>(sql`
-      select s.team_id, s.title, s.document, s.revision, m.role,
-             e.status as seen_status, e.revision as seen_revision, e.op as seen_op, e.reason as seen_reason
-        from sketches s
-        left join memberships m on m.team_id = s.team_id and m.user_id = ${input.userId}
-        left join sketch_edits e on e.sketch_id = s.id and e.op_id = ${input.op.opId}
-       where s.id = ${input.sketchId}
-         for update of s`);
+    const locked = await tx.execute<{ team_id: string; title: string; document: SketchDocument; revision: number }>(
+      sql`select team_id, title, document, revision from sketches where id = ${sketchId} for update`,
+    );
     const row = locked.rows[0];
-    if (!row) return { status: 'rejected', reason: 'This sketch no longer exists.', duplicate: false };
+    if (!row) return items.map(() => ({ status: 'rejected' as const, reason: 'This sketch no longer exists.', duplicate: false }));
 
-    if (row.seen_status) {
-      return row.seen_status === 'rejected'
-        ? { status: 'rejected', reason: row.seen_reason ?? 'Rejected earlier.', duplicate: true }
-        : { status: row.seen_status as 'applied' | 'rebased', revision: row.seen_revision!, op: row.seen_op!, duplicate: true };
+    const opIds = [...new Set(items.map((i) => i.op.opId))];
+    const seen = new Map<string, EditOutcome>();
+    for (const s of await tx
+      .select({ opId: sketchEdits.opId, status: sketchEdits.status, revision: sketchEdits.revision, op: sketchEdits.op, reason: sketchEdits.reason })
+      .from(sketchEdits)
+      .where(and(eq(sketchEdits.sketchId, sketchId), inArray(sketchEdits.opId, opIds)))) {
+      seen.set(
+        s.opId,
+        s.status === 'rejected'
+          ? { status: 'rejected', reason: s.reason ?? 'Rejected earlier.', duplicate: true }
+          : { status: s.status as 'applied' | 'rebased', revision: s.revision!, op: s.op as EditOp, duplicate: true },
+      );
     }
-
-    const reject = async (reason: string): Promise<EditOutcome> => {
-      await tx.insert(sketchEdits).values({ id: newId('op'), sketchId: input.sketchId, opId: input.op.opId, revision: null, userId: input.userId, op: input.op, status: 'rejected', reason });
-      return { status: 'rejected', reason, duplicate: false };
-    };
-
-    const role = row.role;
-    if (!roleAtLeast(role, 'editor')) {
-      return reject(role ? `Your role in this team is ${role}; editing needs the editor role.` : 'You are not a member of this sketch’s team.');
-    }
-    if (input.baseRevision > row.revision) return reject(`Your edit claims revision ${input.baseRevision}, but the sketch is at ${row.revision}; reload it.`);
-
-    let op = input.op;
-    if (input.baseRevision < row.revision) {
-      if (input.requireBase) return reject(`The sketch changed since revision ${input.baseRevision} (now at ${row.revision}); reload it and apply your change again.`);
-      const since = await tx
+    const userIds = [...new Set(items.map((i) => i.userId))];
+    const roles = new Map<string, Role>(
+      (await tx.select({ userId: memberships.userId, role: memberships.role }).from(memberships).where(and(eq(memberships.teamId, row.team_id), inArray(memberships.userId, userIds)))).map((m) => [m.userId, m.role]),
+    );
+    const staleBases = items.filter((i) => i.baseRevision < row.revision).map((i) => i.baseRevision);
+    const logged = new Map<number, EditOp>();
+    if (staleBases.length) {
+      for (const e of await tx
         .select({ revision: sketchEdits.revision, op: sketchEdits.op })
         .from(sketchEdits)
-        .where(and(eq(sketchEdits.sketchId, input.sketchId), gt(sketchEdits.revision, input.baseRevision)))
-        .orderBy(asc(sketchEdits.revision));
-      if (since.length !== row.revision - input.baseRevision) {
-        return reject(`Your edit was made on revision ${input.baseRevision}, too far behind to rebase; reload the sketch.`);
+        .where(and(eq(sketchEdits.sketchId, sketchId), gt(sketchEdits.revision, Math.min(...staleBases))))
+        .orderBy(asc(sketchEdits.revision))) {
+        logged.set(e.revision!, e.op as EditOp);
       }
-      const rebased = transformPast(op, since.map((s) => s.op as EditOp));
-      if (!rebased.ok) return reject(rebased.reason);
-      op = rebased.op;
     }
 
-    const next = applyEdit({ title: row.title, document: row.document }, op);
-    if (!next.ok) return reject(next.reason);
-    const revision = row.revision + 1;
-    const solved = op.type === 'rename' ? null : solveDocument(next.state.document);
-    await tx
-      .update(sketches)
-      .set({
-        title: next.state.title,
-        document: next.state.document,
-        revision,
-        updatedBy: input.userId,
-        updatedAt: sql`now()`,
-        ...(solved ? { lastSolveStatus: solved.status, lastResult: solved.result } : {}),
-      })
-      .where(eq(sketches.id, input.sketchId));
-    const status = input.baseRevision < row.revision ? 'rebased' : 'applied';
-    await tx.insert(sketchEdits).values({ id: newId('op'), sketchId: input.sketchId, opId: input.op.opId, revision, userId: input.userId, op, status });
-    return { status, revision, op, duplicate: false };
+    let state: SketchState = { title: row.title, document: row.document };
+    let revision = row.revision;
+    let lastEditor: string | null = null;
+    const rows: (typeof sketchEdits.$inferInsert)[] = [];
+    const outcomes: EditOutcome[] = [];
+    const reject = (item: EditInput, reason: string): EditOutcome => {
+      const outcome: EditOutcome = { status: 'rejected', reason, duplicate: false };
+      rows.push({ id: newId('op'), sketchId, opId: item.op.opId, revision: null, userId: item.userId, op: item.op, status: 'rejected', reason });
+      seen.set(item.op.opId, { ...outcome, duplicate: true });
+      return outcome;
+    };
+
+    for (const item of items) {
+      const earlier = seen.get(item.op.opId);
+      if (earlier) {
+        outcomes.push({ ...earlier, duplicate: true });
+        continue;
+      }
+      const role = roles.get(item.userId) ?? null;
+      if (!roleAtLeast(role, 'editor')) {
+        outcomes.push(reject(item, role ? `Your role in this team is ${role}; editing needs the editor role.` : 'You are not a member of this sketch’s team.'));
+        continue;
+      }
+      if (item.baseRevision > revision) {
+        outcomes.push(reject(item, `Your edit claims revision ${item.baseRevision}, but the sketch is at ${revision}; reload it.`));
+        continue;
+      }
+      let op = item.op;
+      if (item.baseRevision < revision) {
+        if (item.requireBase) {
+          outcomes.push(reject(item, `The sketch changed since revision ${item.baseRevision} (now at ${revision}); reload it and apply your change again.`));
+          continue;
+        }
+        const since: EditOp[] = [];
+        for (let r = item.baseRevision + 1; r <= revision; r++) {
+          const e = logged.get(r);
+          if (!e) break;
+          since.push(e);
+        }
+        if (since.length !== revision - item.baseRevision) {
+          outcomes.push(reject(item, `Your edit was made on revision ${item.baseRevision}, too far behind to rebase; reload the sketch.`));
+          continue;
+        }
+        const rebased = transformPast(op, since);
+        if (!rebased.ok) {
+          outcomes.push(reject(item, rebased.reason));
+          continue;
+        }
+        op = rebased.op;
+      }
+      const next = applyEdit(state, op);
+      if (!next.ok) {
+        outcomes.push(reject(item, next.reason));
+        continue;
+      }
+      state = next.state;
+      revision += 1;
+      lastEditor = item.userId;
+      logged.set(revision, op);
+      const status = item.baseRevision < revision - 1 ? 'rebased' : 'applied';
+      rows.push({ id: newId('op'), sketchId, opId: item.op.opId, revision, userId: item.userId, op, status });
+      const outcome: EditOutcome = { status, revision, op, duplicate: false };
+      seen.set(item.op.opId, { ...outcome, duplicate: true });
+      outcomes.push(outcome);
+    }
+
+    if (revision !== row.revision) {
+      const documentChanged = state.document !== row.document;
+      const solved = documentChanged ? solveDocument(state.document) : null;
+      await tx
+        .update(sketches)
+        .set({
+          title: state.title,
+          document: state.document,
+          revision,
+          updatedBy: lastEditor,
+          updatedAt: sql`now()`,
+          ...(solved ? { lastSolveStatus: solved.status, lastResult: solved.result } : {}),
+        })
+        .where(eq(sketches.id, sketchId));
+    }
+    if (rows.length) await tx.insert(sketchEdits).values(rows);
+    return outcomes;
   });
+}
+
+/** One edit on its own (REST saves, restores, imports). */
+export async function applyEditToSketch(db: Db, input: EditInput): Promise<EditOutcome> {
+  return (await applyEditBatch(db, input.sketchId, [input]))[0];
+}
+
+/**
+ * Per-sketch queues that feed applyEditBatch: edits arriving while a batch is in its transaction
+ * wait and go together in the next one. Order within a sketch is arrival order.
+ */
+export interface EditQueue {
+  submit(input: EditInput): Promise<EditOutcome>;
+}
+
+export const MAX_EDIT_BATCH = 200;
+
+export function createEditQueue(db: Db): EditQueue {
+  const queues = new Map<string, { items: { input: EditInput; resolve: (o: EditOutcome) => void; reject: (e: unknown) => void }[]; running: boolean }>();
+
+  async function drain(sketchId: string): Promise<void> {
+    const q = queues.get(sketchId)!;
+    q.running = true;
+    try {
+      while (q.items.length) {
+        const batch = q.items.splice(0, MAX_EDIT_BATCH);
+        try {
+          const outcomes = await applyEditBatch(db, sketchId, batch.map((b) => b.input));
+          batch.forEach((b, i) => b.resolve(outcomes[i]));
+        } catch (err) {
+          for (const b of batch) b.reject(err);
+        }
+      }
+    } finally {
+      q.running = false;
+      queues.delete(sketchId);
+    }
+  }
+
+  return {
+    submit(input) {
+      return new Promise((resolve, reject) => {
+        let q = queues.get(input.sketchId);
+        if (!q) {
+          q = { items: [], running: false };
+          queues.set(input.sketchId, q);
+        }
+        q.items.push({ input, resolve, reject });
+        if (!q.running) void drain(input.sketchId);
+      });
+    },
+  };
 }
 
 /**

@@ -15,6 +15,7 @@ import {
   MAX_REPLAY_EDITS,
   PING_INTERVAL_MS,
   PING_TIMEOUT_MS,
+  PEOPLE_REFRESH_MS,
   PROTOCOL_VERSION,
   type ClientMessage,
   type ClientToServerEvents,
@@ -23,7 +24,7 @@ import {
   type ServerToClientEvents,
   type WalkthroughState,
 } from '../../shared/protocol/messages.ts';
-import { applyEditToSketch, editsSince } from './editLog.ts';
+import { editsSince } from './editLog.ts';
 
 interface SocketData {
   user: SessionUser;
@@ -71,7 +72,7 @@ export interface RealtimeOptions {
  * refused with 401 before any event is handled, and a handshake from another site's page (Origin
  * mismatch) with 403 — WebSockets are not covered by CORS. Rooms span server processes through
  * @socket.io/postgres-adapter; edit order across processes comes from the row lock taken in
- * applyEditToSketch. Each connection's messages are handled one at a time, in arrival order.
+ * applyEditBatch. Each connection's messages are handled one at a time, in arrival order.
  */
 export function attachRealtime(httpServer: HttpServer, session: RequestHandler, passportMiddleware: RequestHandler[], ctx: AppContext, options: RealtimeOptions = {}): IoServer {
   const io: IoServer = new Server(httpServer, {
@@ -195,7 +196,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
         return;
       }
       case 'edit': {
-        const outcome = await applyEditToSketch(ctx.db, { sketchId: msg.sketchId, userId: user.id, baseRevision: msg.baseRevision, op: msg.op });
+        const outcome = await ctx.edits.submit({ sketchId: msg.sketchId, userId: user.id, baseRevision: msg.baseRevision, op: msg.op });
         if (outcome.status === 'rejected') {
           send(socket, { type: 'ack', sketchId: msg.sketchId, opId: msg.op.opId, status: 'rejected', reason: outcome.reason });
           return;
@@ -267,6 +268,20 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     const row = await ctx.db.query.sketches.findFirst({ where: eq(sketches.id, sketchId), columns: { teamId: true } });
     return row ? findRole(ctx.db, userId, row.teamId) : null;
   }
+
+  // Heal people lists: a join seen before two instances discovered each other, or a broadcast
+  // lost with a crashed instance, is corrected within PEOPLE_REFRESH_MS.
+  const refresh = setInterval(() => {
+    for (const name of io.of('/').adapter.rooms.keys()) {
+      if (name.startsWith('sketch:')) void broadcastPeople(name.slice('sketch:'.length));
+    }
+  }, PEOPLE_REFRESH_MS);
+  refresh.unref();
+  const closeIo = io.close.bind(io);
+  io.close = (fn) => {
+    clearInterval(refresh);
+    return closeIo(fn);
+  };
 
   io.on('connection', (socket: IoSocket) => {
     socket.data.user = (socket.request as IncomingMessage & { user?: SessionUser }).user!;

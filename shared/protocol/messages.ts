@@ -140,5 +140,7 @@ export const GAP_RESYNC_AFTER_MS = 1_000;
 /** Server heartbeat: a dropped connection is noticed within about PING_INTERVAL + PING_TIMEOUT. */
 export const PING_INTERVAL_MS = 3_000;
 export const PING_TIMEOUT_MS = 3_000;
+/** Every server instance re-sends the people list of its rooms this often (heals misses). */
+export const PEOPLE_REFRESH_MS = 5_000;
 /** Longest op log the server replays on reconnect before sending a snapshot instead. */
 export const MAX_REPLAY_EDITS = 500;

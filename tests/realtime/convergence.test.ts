@@ -164,7 +164,7 @@ describe('two server instances on one database', () => {
     await until(() => clients.every((c) => {
       const last = [...c.received].reverse().find((m) => m.type === 'people' || m.type === 'joined') as { people: unknown[] } | undefined;
       return last?.people.length === 8;
-    }), 10_000, 'people lists across instances');
+    }), 15_000, 'people lists across instances');
     await storm(clients, 3000, 50, 23);
     await expectConverged(database, world, clients);
   });

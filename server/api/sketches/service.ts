@@ -8,7 +8,6 @@ import type { Sketch, SketchSummary } from '../../../shared/model/sketchApi.ts';
 import { solveDocument } from './solveDocument.ts';
 import * as repo from './repository.ts';
 import type { AppContext } from '../../context.ts';
-import { applyEditToSketch } from '../../realtime/editLog.ts';
 
 /** Role check for a sketch: looks up its team first (404 when it does not exist). */
 export async function authorizeSketch(db: Db, userId: string, sketchId: string, needed: Role, what: string): Promise<{ teamId: string; role: Role }> {
@@ -97,7 +96,7 @@ export async function renameSketch(ctx: AppContext, userId: string, sketchId: st
   const current = await repo.findSketch(ctx.db, sketchId);
   if (!current) throw new HttpError(404, 'not_found', 'No such sketch.');
   const op = { type: 'rename' as const, opId: newId('op'), title };
-  const outcome = await applyEditToSketch(ctx.db, { sketchId, userId, baseRevision: current.revision, op });
+  const outcome = await ctx.edits.submit({ sketchId, userId, baseRevision: current.revision, op });
   if (outcome.status === 'rejected') throw new HttpError(409, 'edit_rejected', outcome.reason);
   ctx.events.emit('sketchEdited', sketchId, { revision: outcome.revision, op: outcome.op, userId });
   return getSketch(ctx.db, userId, sketchId);
@@ -111,7 +110,7 @@ export async function renameSketch(ctx: AppContext, userId: string, sketchId: st
 export async function saveDocument(ctx: AppContext, userId: string, sketchId: string, input: { document: SketchDocument; baseRevision: number }): Promise<Sketch> {
   await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'edit sketches');
   const op = { type: 'replaceDocument' as const, opId: newId('op'), document: input.document };
-  const outcome = await applyEditToSketch(ctx.db, { sketchId, userId, baseRevision: input.baseRevision, op, requireBase: true });
+  const outcome = await ctx.edits.submit({ sketchId, userId, baseRevision: input.baseRevision, op, requireBase: true });
   if (outcome.status === 'rejected') {
     const current = await repo.findSketch(ctx.db, sketchId);
     const stale = current && current.revision !== input.baseRevision;

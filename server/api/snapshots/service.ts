@@ -3,7 +3,6 @@ import { HttpError } from '../../http/errors.ts';
 import { authorizeSketch, getSketch } from '../sketches/service.ts';
 import { findSketch } from '../sketches/repository.ts';
 import { recordSketchEvent } from '../activity/repository.ts';
-import { applyEditToSketch } from '../../realtime/editLog.ts';
 import { newId } from '../../../shared/model/ids.ts';
 import { explainSectionProblem } from '../../../shared/model/ops.ts';
 import type { Point, SketchDocument } from '../../../shared/model/sketch.ts';
@@ -68,7 +67,7 @@ export async function restoreSnapshot(ctx: AppContext, userId: string, snapshotI
   if (!current) throw new HttpError(404, 'not_found', 'No such sketch.');
   await capture(ctx, userId, sketchId, `Before restoring “${snap.name}”`, `Automatic: the sketch at revision ${current.revision}, kept before restoring revision ${snap.revision}.`, 'before_restore');
   const op = { type: 'replaceDocument' as const, opId: newId('op'), document: snap.document as SketchDocument };
-  const outcome = await applyEditToSketch(ctx.db, { sketchId, userId, baseRevision: current.revision, op });
+  const outcome = await ctx.edits.submit({ sketchId, userId, baseRevision: current.revision, op });
   if (outcome.status === 'rejected') throw new HttpError(409, 'edit_rejected', outcome.reason);
   ctx.events.emit('sketchEdited', sketchId, { revision: outcome.revision, op: outcome.op, userId });
   await recordSketchEvent(ctx.db, { sketchId, actorId: userId, kind: 'snapshot.restored', detail: { snapshotId, name: snap.name, revision: outcome.revision, fromRevision: snap.revision } });
@@ -89,7 +88,7 @@ export async function importSection(ctx: AppContext, userId: string, sketchId: s
   if (problem) throw new HttpError(400, 'invalid_section', `The imported section is not allowed: ${problem}. The section must be a simple polygon.`);
   await capture(ctx, userId, sketchId, `Before importing ${input.fileName}`, `Automatic: the sketch at revision ${current.revision}, kept before an import.`, 'before_import');
   const op = { type: 'replaceSection' as const, opId: newId('op'), points: input.points };
-  const outcome = await applyEditToSketch(ctx.db, { sketchId, userId, baseRevision: current.revision, op });
+  const outcome = await ctx.edits.submit({ sketchId, userId, baseRevision: current.revision, op });
   if (outcome.status === 'rejected') throw new HttpError(400, 'invalid_section', outcome.reason);
   ctx.events.emit('sketchEdited', sketchId, { revision: outcome.revision, op: outcome.op, userId });
   await recordSketchEvent(ctx.db, { sketchId, actorId: userId, kind: 'section.imported', detail: { fileName: input.fileName, vertexCount: input.points.length, revision: outcome.revision } });

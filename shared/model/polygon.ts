@@ -10,6 +10,9 @@ export type XY = readonly [number, number];
  * Signed area by the shoelace formula: positive when the vertices run counter-clockwise
  * (x right, y up), negative clockwise, 0 for fewer than 3 points or a degenerate polygon.
  * Coordinates are taken relative to the first vertex so that a far-off section loses no digits.
+ * Units: the square of the coordinates' unit.
+ *
+ * Source: shoelace (surveyor's) formula, common practice.
  */
 export function signedArea(points: readonly XY[]): number {
   const n = points.length;

@@ -31,8 +31,11 @@ export function maxDeflection(mach: number, gamma: number): MaxDeflection {
 }
 
 /**
- * cot β at the maximum deflection (see `maxDeflection`); the weak branch has larger cot β.
- * M ≤ 1 returns 0 (β = π/2).
+ * cot β at the maximum deflection: the positive root of B u⁴ + (AB + 3C) u² − AC = 0 (see
+ * `maxDeflection`), dimensionless. The weak branch lies at larger cot β (smaller β), the strong
+ * one at smaller. Edge case: M ≤ 1 returns 0 (β = π/2).
+ *
+ * Source: NACA Report 1135, oblique-shock relations (condition for maximum deflection).
  */
 export function cotBetaAtMaxDeflection(mach: number, gamma: number): number {
   if (!(mach > 1)) return 0;

@@ -103,9 +103,14 @@ export function obliqueShock(
 }
 
 /**
- * cot β of the attached shock with tan θ = `tanTheta` at Mach `mach1`, on the weak or strong
- * branch: the root used by `obliqueShock`, for callers that need only β (the trailing-edge
- * matching). The caller guarantees 0 ≤ θ ≤ θmax; `uMax` is `cotBetaAtMaxDeflection`.
+ * cot β (dimensionless) of the attached shock that turns a stream of Mach `mach1` through the
+ * deflection whose tangent is `tanTheta`, on the weak (`weak = true`) or strong branch: the
+ * bare root used by `obliqueShock`, for callers that need only β (the trailing-edge matching
+ * evaluates it several times per solve). The caller guarantees 0 ≤ θ ≤ θmax and passes
+ * `uMax = cotBetaAtMaxDeflection(mach1, gamma)`. Edge case: tanTheta = 0 gives √(M²−1) (Mach
+ * wave, weak) or 0 (normal shock, strong).
+ *
+ * Source: as `obliqueShock`.
  */
 export function shockCotAngle(mach1: number, tanTheta: number, gamma: number, uMax: number, weak: boolean): number {
   const m2 = mach1 * mach1;

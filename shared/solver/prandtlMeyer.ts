@@ -18,7 +18,7 @@ export function prandtlMeyer(mach: number, gamma: number): number {
 
 /**
  * Largest Prandtl-Meyer angle ν_max = (π/2)(√((γ+1)/(γ−1)) − 1), radians: the expansion into
- * vacuum (M → ∞, p → 0). 130.45° for γ = 1.4, 90° for γ = 5/3.
+ * vacuum (M → ∞, p → 0). 130.45° for γ = 1.4, 90° for γ = 5/3; grows without bound as γ → 1.
  *
  * Source: NACA Report 1135, Prandtl-Meyer flow relations (ν at M = ∞).
  */
@@ -79,9 +79,13 @@ export function machAfterExpansion(mach: number, nu: number, dNu: number, gamma:
 }
 
 /**
- * `machAfterExpansion` in terms of the Mach parameter s = √(M² − 1): takes s0 of the stream
- * and returns s after the turn (+Infinity for vacuum, 0 for ν + dNu ≤ 0). The march carries s
- * from facet to facet so that no square root sits on its critical path.
+ * `machAfterExpansion` in terms of the Mach parameter s = √(M² − 1) (dimensionless): takes s0
+ * of the stream, its Prandtl-Meyer angle `nu` and the change `dNu` (radians, > 0 expansion),
+ * and returns s after the turn. The march carries s from facet to facet so that no square root
+ * sits on its critical path. Edge cases: dNu = 0 → s0; ν + dNu ≥ ν_max → +Infinity (vacuum);
+ * ν + dNu ≤ 0 → 0 (sonic).
+ *
+ * Source: as `machAfterExpansion`.
  */
 export function machParameterAfterExpansion(s0: number, nu: number, dNu: number, gamma: number): number {
   if (dNu === 0) return s0;

@@ -13,6 +13,7 @@ import { authRouter } from './api/auth/router.ts';
 import { sketchesRouter, teamSketchesRouter } from './api/sketches/router.ts';
 import { teamsRouter } from './api/teams/router.ts';
 import { reviewRouter } from './api/review/router.ts';
+import { solveRouter } from './api/solve/router.ts';
 import { mailboxRouter } from './api/mailbox/router.ts';
 import { csrfGuard } from './http/csrf.ts';
 import { clientKey, createLimiter } from './http/rateLimit.ts';
@@ -130,6 +131,7 @@ export function createApp({ env, database, log = (l) => console.log(l), mailer, 
   app.use('/api/teams', requireUser, teamsRouter(context, { invite: inviteLimit }));
   app.use('/api/sketches', requireUser, sketchesRouter(context));
   app.use('/api', reviewRouter(context));
+  app.use('/api/solve', solveRouter(log));
   if (context.devPages) app.use('/api/dev/mailbox', requireUser, mailboxRouter(context));
   app.use('/api', notFoundApi);
 

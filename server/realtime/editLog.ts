@@ -3,7 +3,7 @@ import type { Db } from '../db/client.ts';
 import { memberships, sketchEdits, sketches } from '../db/schema.ts';
 import { newId } from '../../shared/model/ids.ts';
 import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
-import type { SketchDocument } from '../../shared/model/sketch.ts';
+import { normalizeDocument, type SketchDocument } from '../../shared/model/sketch.ts';
 import { applyEdit, transformPast, type SketchState } from '../../shared/protocol/transform.ts';
 import type { AppliedEdit, EditOp } from '../../shared/protocol/messages.ts';
 import { solveDocument } from '../api/sketches/solveDocument.ts';
@@ -67,7 +67,8 @@ export async function applyEditBatch(db: Db, sketchId: string, items: EditInput[
       }
     }
 
-    let state: SketchState = { title: row.title, document: row.document };
+    const stored = normalizeDocument(row.document);
+    let state: SketchState = { title: row.title, document: stored };
     let revision = row.revision;
     let lastEditor: string | null = null;
     const rows: (typeof sketchEdits.$inferInsert)[] = [];
@@ -134,7 +135,7 @@ export async function applyEditBatch(db: Db, sketchId: string, items: EditInput[
     }
 
     if (revision !== row.revision) {
-      const documentChanged = state.document !== row.document;
+      const documentChanged = state.document !== stored;
       const solved = documentChanged ? solveDocument(state.document) : null;
       await tx
         .update(sketches)

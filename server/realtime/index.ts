@@ -9,7 +9,7 @@ import type { AppContext } from '../context.ts';
 import { sketches, walkthroughs, users } from '../db/schema.ts';
 import { findRole } from '../api/auth/repository.ts';
 import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
-import type { SketchDocument } from '../../shared/model/sketch.ts';
+import { normalizeDocument } from '../../shared/model/sketch.ts';
 import {
   clientMessageSchema,
   MAX_REPLAY_EDITS,
@@ -177,12 +177,12 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
         const people = await peopleIn(msg.sketchId);
         const walkthrough = await walkthroughState(msg.sketchId);
         const replay = msg.lastRevision === undefined ? null : await editsSince(ctx.db, msg.sketchId, msg.lastRevision, row.revision, MAX_REPLAY_EDITS);
-        send(socket, { type: 'joined', sketchId: msg.sketchId, title: row.title, document: row.document as SketchDocument, revision: row.revision, people, walkthrough, you });
+        send(socket, { type: 'joined', sketchId: msg.sketchId, title: row.title, document: normalizeDocument(row.document), revision: row.revision, people, walkthrough, you });
         // A rejoining client keeps its own state and gets what it missed: the edits when the
         // log bridges the gap, else the whole state.
         if (msg.lastRevision !== undefined) {
           if (replay) send(socket, { type: 'replay', sketchId: msg.sketchId, edits: replay, revision: row.revision });
-          else send(socket, { type: 'snapshot', sketchId: msg.sketchId, title: row.title, document: row.document as SketchDocument, revision: row.revision });
+          else send(socket, { type: 'snapshot', sketchId: msg.sketchId, title: row.title, document: normalizeDocument(row.document), revision: row.revision });
         }
         send(socket.to(room(msg.sketchId)), { type: 'people', sketchId: msg.sketchId, people });
         return;
@@ -212,7 +212,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
         if (!row) return fail('not_found', 'This sketch no longer exists.');
         const replay = msg.lastRevision === undefined ? null : await editsSince(ctx.db, msg.sketchId, msg.lastRevision, row.revision, MAX_REPLAY_EDITS);
         if (replay) send(socket, { type: 'replay', sketchId: msg.sketchId, edits: replay, revision: row.revision });
-        else send(socket, { type: 'snapshot', sketchId: msg.sketchId, title: row.title, document: row.document as SketchDocument, revision: row.revision });
+        else send(socket, { type: 'snapshot', sketchId: msg.sketchId, title: row.title, document: normalizeDocument(row.document), revision: row.revision });
         return;
       }
       case 'presence': {

@@ -25,6 +25,17 @@ export const flapSchema = z.object({
 });
 export type Flap = z.infer<typeof flapSchema>;
 
+/** The physical section for dimensional loads and friction (issue-free defaults: 1 m by 1 m, turbulent). */
+export const loadsSettingsSchema = z.object({
+  /** Physical chord, m. */
+  chordM: z.number().gt(0, 'must be a positive length').max(1000, 'must be at most 1000 m').default(1),
+  /** Span the section load acts over, m. */
+  spanM: z.number().gt(0, 'must be a positive length').max(1000, 'must be at most 1000 m').default(1),
+  /** Boundary-layer state for the friction estimate. */
+  friction: z.enum(['turbulent', 'laminar', 'none']).default('turbulent'),
+});
+export type LoadsSettings = z.infer<typeof loadsSettingsSchema>;
+
 export const sketchDocumentSchema = z.object({
   version: z.literal(1),
   section: z.object({ points: z.array(pointSchema).min(3, 'a section needs at least 3 vertices').max(2000, 'at most 2000 vertices') }),
@@ -33,6 +44,7 @@ export const sketchDocumentSchema = z.object({
   /** Moment reference point in body axes; null = quarter chord on the nose's y. */
   momentPoint: pointSchema.nullable().default(null),
   notes: z.string().max(10_000).default(''),
+  loads: loadsSettingsSchema.default({ chordM: 1, spanM: 1, friction: 'turbulent' }),
 });
 export type SketchDocument = z.infer<typeof sketchDocumentSchema>;
 
@@ -47,5 +59,14 @@ export function defaultSketchDocument(): SketchDocument {
     flap: null,
     momentPoint: null,
     notes: '',
+    loads: { chordM: 1, spanM: 1, friction: 'turbulent' },
   };
+}
+
+/**
+ * A stored document read back: documents saved before a field existed get its default, so
+ * every reader sees the current shape.
+ */
+export function normalizeDocument(raw: unknown): SketchDocument {
+  return sketchDocumentSchema.parse(raw);
 }

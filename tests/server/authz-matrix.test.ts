@@ -177,6 +177,11 @@ const TABLE: Record<string, Entry> = {
     ok: 200,
     prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/review-requests`, body: { reviewerIds: [w.users.reviewer.id] } }),
   },
+  'POST /api/solve': {
+    need: 'signedIn',
+    ok: 200,
+    prepare: async () => ({ path: '/api/solve', body: { section: { points: [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]] }, flow: { mach: 2, alphaDeg: 2 } } }),
+  },
   'GET /api/dev/mailbox': { need: 'anyOwner', ok: 200, prepare: async () => ({ path: '/api/dev/mailbox' }) },
   'GET /api/dev/mailbox/:mailId': {
     need: 'anyOwner',

@@ -2,7 +2,7 @@ import type { Db } from '../../db/client.ts';
 import { HttpError } from '../../http/errors.ts';
 import { assertTeamRole } from '../../auth/guards.ts';
 import { newId } from '../../../shared/model/ids.ts';
-import { defaultSketchDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
+import { defaultSketchDocument, normalizeDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
 import type { Role } from '../../../shared/model/roles.ts';
 import type { Sketch, SketchSummary } from '../../../shared/model/sketchApi.ts';
 import { solveDocument } from './solveDocument.ts';
@@ -32,7 +32,7 @@ function toSketch(row: SketchRow): Sketch {
     teamId: row.teamId,
     title: row.title,
     revision: row.revision,
-    document: row.document as SketchDocument,
+    document: normalizeDocument(row.document),
     lastSolveStatus: row.lastSolveStatus,
     lastResult: row.lastResult ?? null,
     createdAt: row.createdAt.toISOString(),

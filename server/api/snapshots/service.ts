@@ -5,7 +5,7 @@ import { findSketch } from '../sketches/repository.ts';
 import { recordSketchEvent } from '../activity/repository.ts';
 import { newId } from '../../../shared/model/ids.ts';
 import { explainSectionProblem } from '../../../shared/model/ops.ts';
-import type { Point, SketchDocument } from '../../../shared/model/sketch.ts';
+import { normalizeDocument, type Point } from '../../../shared/model/sketch.ts';
 import type { SnapshotDetail, SnapshotSummary } from '../../../shared/model/review.ts';
 import type { Sketch } from '../../../shared/model/sketchApi.ts';
 import * as repo from './repository.ts';
@@ -24,7 +24,7 @@ async function capture(ctx: AppContext, userId: string, sketchId: string, name: 
     kind,
     revision: current.revision,
     title: current.title,
-    document: current.document as SketchDocument,
+    document: normalizeDocument(current.document),
     result: current.lastResult ?? null,
     createdBy: userId,
   });
@@ -50,7 +50,7 @@ export async function getSnapshot(ctx: AppContext, userId: string, snapshotId: s
   if (!row) throw new HttpError(404, 'not_found', 'No such snapshot.');
   await authorizeSketch(ctx.db, userId, row.sketchId, 'viewer', 'see snapshots');
   const { title, document, result, ...rest } = row;
-  return { ...toSummary(rest), title, document: document as SketchDocument, result: result ?? null };
+  return { ...toSummary(rest), title, document: normalizeDocument(document), result: result ?? null };
 }
 
 /**
@@ -66,7 +66,7 @@ export async function restoreSnapshot(ctx: AppContext, userId: string, snapshotI
   const current = await findSketch(ctx.db, sketchId);
   if (!current) throw new HttpError(404, 'not_found', 'No such sketch.');
   await capture(ctx, userId, sketchId, `Before restoring “${snap.name}”`, `Automatic: the sketch at revision ${current.revision}, kept before restoring revision ${snap.revision}.`, 'before_restore');
-  const op = { type: 'replaceDocument' as const, opId: newId('op'), document: snap.document as SketchDocument };
+  const op = { type: 'replaceDocument' as const, opId: newId('op'), document: normalizeDocument(snap.document) };
   const outcome = await ctx.edits.submit({ sketchId, userId, baseRevision: current.revision, op });
   if (outcome.status === 'rejected') throw new HttpError(409, 'edit_rejected', outcome.reason);
   ctx.events.emit('sketchEdited', sketchId, { revision: outcome.revision, op: outcome.op, userId });

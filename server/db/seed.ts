@@ -5,6 +5,7 @@ import { newId } from '../../shared/model/ids.ts';
 import type { Role } from '../../shared/model/roles.ts';
 import { sketchDocumentSchema, type SketchDocument } from '../../shared/model/sketch.ts';
 import { hashPassword } from '../auth/passwords.ts';
+import { solveDocument } from '../api/sketches/solveDocument.ts';
 
 /**
  * Demo data: Harrowgate Dynamics, a fictional maker of small sounding rockets, and the fins
@@ -20,8 +21,9 @@ export const DEMO_PEOPLE: { name: string; email: string; role: Role }[] = [
   { name: 'Oren Lindqvist', email: 'oren@harrowgate.example', role: 'viewer' },
 ];
 
-function doc(points: [number, number][], mach: number, alphaDeg: number, extra: Partial<SketchDocument> = {}): SketchDocument {
-  return sketchDocumentSchema.parse({ version: 1, section: { points }, condition: { mach, alphaDeg }, ...extra });
+function doc(points: [number, number][], mach: number, alphaDeg: number, extra: Partial<SketchDocument> & { altitudeM?: number } = {}): SketchDocument {
+  const { altitudeM = null, ...rest } = extra;
+  return sketchDocumentSchema.parse({ version: 1, section: { points }, condition: { mach, alphaDeg, altitudeM }, ...rest });
 }
 
 /** Faceted circular-arc (biconvex) section: `perSide` facets on each surface, thickness `t`. */
@@ -40,15 +42,24 @@ export const DEMO_SKETCHES: { title: string; document: SketchDocument }[] = [
     title: 'Tern fin root — double wedge, 5% thick, ridge at 40%',
     document: doc([[0, 0], [0.4, 0.025], [1, 0], [0.4, -0.025]], 2.6, 4, {
       notes: 'Root section of the HD-7 Tern tail fin at the burnout condition.',
+      altitudeM: 12_000,
+      loads: { chordM: 0.32, spanM: 0.18, friction: 'turbulent' },
     }),
   },
   {
     title: 'Tern fin tip — hexagonal, 4% thick',
-    document: doc([[0, 0], [0.25, 0.02], [0.75, 0.02], [1, 0], [0.75, -0.02], [0.25, -0.02]], 3.1, 2),
+    document: doc([[0, 0], [0.25, 0.02], [0.75, 0.02], [1, 0], [0.75, -0.02], [0.25, -0.02]], 3.1, 2, {
+      altitudeM: 18_000,
+      loads: { chordM: 0.2, spanM: 0.18, friction: 'turbulent' },
+    }),
   },
   {
     title: 'Tern canard — faceted biconvex, 6%, six facets a side',
-    document: doc(facetedBiconvex(0.06, 6), 1.8, 6, { flap: { hingeXOverC: 0.7, deflectionDeg: 5 } }),
+    document: doc(facetedBiconvex(0.06, 6), 1.8, 6, {
+      flap: { hingeXOverC: 0.7, deflectionDeg: 5 },
+      altitudeM: 6_000,
+      loads: { chordM: 0.12, spanM: 0.09, friction: 'turbulent' },
+    }),
   },
   {
     title: 'Tern intake ramp — two-stage compression',
@@ -81,7 +92,8 @@ export async function seedDemoOnce(db: Db): Promise<'seeded' | 'already'> {
     }
     for (const [i, s] of DEMO_SKETCHES.entries()) {
       const author = ids[i % 2]; // the owner and the editor drew them
-      await tx.insert(sketches).values({ id: newId('sketch'), teamId, title: s.title, document: s.document, createdBy: author, updatedBy: author });
+      const solved = solveDocument(s.document);
+      await tx.insert(sketches).values({ id: newId('sketch'), teamId, title: s.title, document: s.document, createdBy: author, updatedBy: author, lastSolveStatus: solved.status, lastResult: solved.result });
     }
     await tx.insert(appMeta).values({ key: 'demo_seeded_at', value: new Date().toISOString() });
   });

@@ -57,22 +57,30 @@ export async function startServer(
 }
 
 /**
- * Runs `cleanup` once on SIGINT/SIGTERM, then exits. A second signal while draining exits at
- * once (an impatient Ctrl-C must still end the process).
+ * Runs `cleanup` once on SIGINT/SIGTERM, then exits. One Ctrl-C reaches this process several
+ * times (the terminal signals the whole process group, and npm and tsx relay it again), so
+ * repeats within DUPLICATE_SIGNAL_MS are ignored. A later, deliberate second Ctrl-C while
+ * draining runs `emergency` (synchronous: e.g. stop PostgreSQL) and exits at once.
  */
-export function exitOnSignals(cleanup: () => Promise<void>, log: (l: string) => void = console.log): void {
-  let stopping = false;
+const DUPLICATE_SIGNAL_MS = 1500;
+
+export function exitOnSignals(cleanup: () => Promise<void>, options: { log?: (l: string) => void; emergency?: () => void } = {}): void {
+  const log = options.log ?? console.log;
+  let firstAt: number | null = null;
   const onSignal = (signal: NodeJS.Signals) => {
-    if (stopping) {
-      log(`${signal} again: exiting now.`);
+    if (firstAt !== null) {
+      if (Date.now() - firstAt < DUPLICATE_SIGNAL_MS) return;
+      log(`${signal} again: stopping now.`);
+      options.emergency?.();
       process.exit(130);
     }
-    stopping = true;
+    firstAt = Date.now();
     log(`${signal}: shutting down…`);
     cleanup().then(
       () => process.exit(0),
       (err) => {
         console.error(`Shutdown failed: ${(err as Error).message}`);
+        options.emergency?.();
         process.exit(1);
       },
     );

@@ -44,10 +44,13 @@ async function main(): Promise<void> {
     if (build.status !== 0) throw new Error('The client build failed; see above.');
 
     const running = await startServer(env);
-    exitOnSignals(async () => {
-      await running.close();
-      await stopAll();
-    });
+    exitOnSignals(
+      async () => {
+        await running.close();
+        await stopAll();
+      },
+      { emergency: () => stack.stop() },
+    );
     const owner = DEMO_PEOPLE[0];
     console.log('');
     console.log(`Shockwright is running at ${running.url}  (ready in ${((Date.now() - started) / 1000).toFixed(1)} s)`);

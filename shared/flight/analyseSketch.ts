@@ -1,4 +1,4 @@
-import { parseSolveInput } from '../model/solveInput.ts';
+import { formatPath, parseSolveInput, solveInputSchema, type SolveInput } from '../model/solveInput.ts';
 import type { Point, SketchDocument } from '../model/sketch.ts';
 import { solveSection } from '../solver/solveSection.ts';
 import type { SolveResult, SolveStatus } from '../solver/types.ts';
@@ -37,13 +37,37 @@ export interface AnalyseOptions {
 }
 
 export function analyseSketch(doc: SketchDocument, options: AnalyseOptions = {}): SketchAnalysis {
+  return analysePrepared(prepareSketch(doc, options), options);
+}
+
+/**
+ * What an analysis needs that depends only on the section, the flap deflection and the wave-map
+ * switch: the deflected section and the parsed solver input. Sweeps (studies) prepare once per
+ * flap deflection and call `analysePrepared` per flow point, so a point of a study is computed by
+ * exactly the code of a single `analyseSketch` call without re-parsing the section every time.
+ */
+export type PreparedSketch =
+  | { ok: false; analysis: SketchAnalysis }
+  | {
+      ok: true;
+      doc: SketchDocument;
+      input: SolveInput;
+      points: Point[];
+      flapDef: { hingeXOverC: number; deflectionDeg: number } | null;
+      deflected: Extract<ReturnType<typeof deflectFlap>, { ok: true }> | null;
+    };
+
+/** Deflects the flap and parses the solver input at the options' (or the document's) flow. */
+export function prepareSketch(doc: SketchDocument, options: AnalyseOptions = {}): PreparedSketch {
   const mach = options.mach ?? doc.condition.mach;
   const alphaDeg = options.alphaDeg ?? doc.condition.alphaDeg;
-  const altitudeM = options.altitudeM === undefined ? doc.condition.altitudeM : options.altitudeM;
   const flapDef = doc.flap ? { hingeXOverC: doc.flap.hingeXOverC, deflectionDeg: options.flapDeg ?? doc.flap.deflectionDeg } : null;
   let points: Point[] = doc.section.points;
   let deflected: ReturnType<typeof deflectFlap> | null = null;
-  const fail = (problem: string): SketchAnalysis => ({ status: 'invalid', problem, result: null, solvedPoints: points, flap: null, loads: null, loadsNote: null });
+  const fail = (problem: string): PreparedSketch => ({
+    ok: false,
+    analysis: { status: 'invalid', problem, result: null, solvedPoints: points, flap: null, loads: null, loadsNote: null },
+  });
 
   if (flapDef) {
     deflected = deflectFlap(points, flapDef);
@@ -57,10 +81,34 @@ export function analyseSketch(doc: SketchDocument, options: AnalyseOptions = {})
     options: { waves: options.waves ?? true },
   });
   if (!parsed.ok) return fail(parsed.issues.map((i) => `${i.path}: ${i.message}`).join('; '));
-  const result = solveSection(parsed.value);
+  return { ok: true, doc, input: parsed.value, points, flapDef, deflected };
+}
+
+/**
+ * The analysis of a prepared sketch at the options' flow point (Mach, α, altitude, friction;
+ * the flap deflection and wave-map switch were fixed by `prepareSketch`). A flow other than the
+ * prepared one is validated with the same schema and messages as a full parse.
+ */
+export function analysePrepared(prepared: PreparedSketch, options: AnalyseOptions = {}): SketchAnalysis {
+  if (!prepared.ok) return prepared.analysis;
+  const { doc, points, flapDef, deflected } = prepared;
+  const mach = options.mach ?? doc.condition.mach;
+  const alphaDeg = options.alphaDeg ?? doc.condition.alphaDeg;
+  const altitudeM = options.altitudeM === undefined ? doc.condition.altitudeM : options.altitudeM;
+
+  let input = prepared.input;
+  if (input.flow.mach !== mach || input.flow.alphaDeg !== alphaDeg) {
+    const flow = solveInputSchema.shape.flow.safeParse({ mach, alphaDeg, gamma: doc.condition.gamma });
+    if (!flow.success) {
+      const problem = flow.error.issues.map((i) => `${formatPath(['flow', ...i.path])}: ${i.message}`).join('; ');
+      return { status: 'invalid', problem, result: null, solvedPoints: points, flap: null, loads: null, loadsNote: null };
+    }
+    input = { ...input, flow: flow.data };
+  }
+  const result = solveSection(input);
 
   let flap: SketchAnalysis['flap'] = null;
-  if (deflected?.ok && flapDef) {
+  if (deflected && flapDef) {
     flap = {
       hinge: deflected.hinge,
       hingeXOverC: flapDef.hingeXOverC,

@@ -1,0 +1,265 @@
+import { z } from 'zod';
+import { isIdOf } from './ids.ts';
+
+/**
+ * A study: a sweep of one sketch over Mach × α × flap deflection at one altitude and friction
+ * regime. Declared once here; the browser worker, the API and the stored rows all use these.
+ *
+ * Invariants (tests cite the ids):
+ * - [ST1] A study point is computed by the same code as a single analysis (`analyseSketch` with
+ *   `waves: false`): its numbers equal a single solve at that Mach, α and deflection.
+ * - [ST2] Ranges expand start, start + step, … up to end inclusive (within 1e-9 of a step);
+ *   Mach lists and flap deflections are sorted and de-duplicated; a sketch without a flap is
+ *   swept at the one "no flap" deflection (null).
+ * - [ST3] Stored and transferred rows keep 7 significant figures (`packStudyRows`).
+ * - [ST4] At most STUDY_MAX_POINTS points per study.
+ */
+
+export const STUDY_MAX_POINTS = 20_000;
+export const STUDY_MAX_MACH_VALUES = 100;
+export const STUDY_MAX_ALPHA_VALUES = 721;
+export const STUDY_MAX_FLAP_VALUES = 21;
+/** Significant figures kept in packed rows ([ST3]). */
+export const STUDY_SIGNIFICANT_DIGITS = 7;
+
+const mach = z.number({ error: 'must be a number' }).gt(1, 'must be above 1 (supersonic)').lte(50, 'must be at most 50');
+const alpha = z.number({ error: 'must be a number' }).gt(-90, 'must be above −90°').lt(90, 'must be below 90°');
+
+export const machSpecSchema = z.discriminatedUnion('kind', [
+  z.object({
+    kind: z.literal('list'),
+    values: z.array(mach).min(1, 'give at least one Mach number').max(STUDY_MAX_MACH_VALUES, `at most ${STUDY_MAX_MACH_VALUES} Mach numbers`),
+  }),
+  z.object({ kind: z.literal('range'), start: mach, end: mach, step: z.number({ error: 'must be a number' }).gt(0, 'must be above 0') }),
+]);
+export type MachSpec = z.infer<typeof machSpecSchema>;
+
+export const alphaRangeSchema = z.object({
+  startDeg: alpha,
+  endDeg: alpha,
+  stepDeg: z.number({ error: 'must be a number' }).gt(0, 'must be above 0'),
+});
+export type AlphaRange = z.infer<typeof alphaRangeSchema>;
+
+export const studyFrictionSchema = z.enum(['turbulent', 'laminar', 'none']);
+
+const definitionObject = z.object({
+  mach: machSpecSchema,
+  alpha: alphaRangeSchema,
+  /** Flap deflections, degrees, trailing edge down positive; ignored when the sketch has no flap,
+   *  and empty means "the sketch's own deflection". */
+  flapDeg: z
+    .array(z.number({ error: 'must be a number' }).gte(-45, 'must be at least −45°').lte(45, 'must be at most 45°'))
+    .max(STUDY_MAX_FLAP_VALUES, `at most ${STUDY_MAX_FLAP_VALUES} deflections`)
+    .default([]),
+  /** Geometric altitude for friction drag (1976 standard atmosphere); null = wave drag only. */
+  altitudeM: z.number({ error: 'must be a number' }).min(0, 'must be at least 0 m').max(86_000, 'must be at most 86 km').nullable().default(null),
+  friction: studyFrictionSchema.default('turbulent'),
+});
+
+export const studyDefinitionSchema = definitionObject.superRefine((def, ctx) => {
+  if (def.mach.kind === 'range') {
+    if (def.mach.end < def.mach.start) ctx.addIssue({ code: 'custom', path: ['mach', 'end'], message: 'must not be below the start' });
+    else if (rangeCount(def.mach.start, def.mach.end, def.mach.step) > STUDY_MAX_MACH_VALUES) {
+      ctx.addIssue({ code: 'custom', path: ['mach', 'step'], message: `gives more than ${STUDY_MAX_MACH_VALUES} Mach numbers; use a larger step` });
+    }
+  }
+  if (def.alpha.endDeg < def.alpha.startDeg) ctx.addIssue({ code: 'custom', path: ['alpha', 'endDeg'], message: 'must not be below the start' });
+  else if (rangeCount(def.alpha.startDeg, def.alpha.endDeg, def.alpha.stepDeg) > STUDY_MAX_ALPHA_VALUES) {
+    ctx.addIssue({ code: 'custom', path: ['alpha', 'stepDeg'], message: `gives more than ${STUDY_MAX_ALPHA_VALUES} incidences; use a larger step` });
+  }
+  const n = machValues(def.mach).length * alphaValues(def.alpha).length * Math.max(1, new Set(def.flapDeg).size);
+  if (n > STUDY_MAX_POINTS) ctx.addIssue({ code: 'custom', path: [], message: `the study has ${n} points; at most ${STUDY_MAX_POINTS} are allowed` });
+});
+export type StudyDefinition = z.infer<typeof studyDefinitionSchema>;
+export type StudyDefinitionInput = z.input<typeof studyDefinitionSchema>;
+
+/** Number of values of start, start + step, … ≤ end (inclusive within 1e-9 of a step). */
+function rangeCount(start: number, end: number, step: number): number {
+  if (!(step > 0) || end < start) return 0;
+  return Math.floor((end - start) / step + 1e-9) + 1;
+}
+
+/** Values of a range, each rounded to 10 decimals so that 0.1-steps read as typed ([ST2]). */
+export function rangeValues(start: number, end: number, step: number): number[] {
+  const n = Math.min(rangeCount(start, end, step), 100_000);
+  return Array.from({ length: n }, (_, i) => Number((start + i * step).toFixed(10)));
+}
+
+const sortedUnique = (values: number[]) => [...new Set(values)].sort((a, b) => a - b);
+
+export function machValues(spec: MachSpec): number[] {
+  return spec.kind === 'list' ? sortedUnique(spec.values) : rangeValues(spec.start, spec.end, spec.step);
+}
+
+export function alphaValues(range: AlphaRange): number[] {
+  return rangeValues(range.startDeg, range.endDeg, range.stepDeg);
+}
+
+/** The deflections swept: null (no flap) for a sketch without one; else the study's, or the sketch's own. */
+export function flapValues(flapDeg: number[], sketchFlapDeg: number | null): (number | null)[] {
+  if (sketchFlapDeg === null) return [null];
+  return flapDeg.length ? sortedUnique(flapDeg) : [sketchFlapDeg];
+}
+
+export const STUDY_STATUSES = ['ok', 'detached', 'subsonic', 'vacuum', 'blunt', 'invalid'] as const;
+export type StudyStatus = (typeof STUDY_STATUSES)[number];
+
+/**
+ * One point of a study. Coefficients per unit span over q∞·c (cm over q∞·c² about the sketch's
+ * moment point, nose up positive; ch over q∞·c_f² about the hinge, positive trailing edge down).
+ * Exact values are null unless the status is ok; the thin-section theories are given whenever
+ * the solver gives them (they ignore the limits). cd is wave drag; cdFriction is null without an
+ * altitude or with friction "none", and cdTotal = cd + (cdFriction ?? 0).
+ */
+export interface StudyRow {
+  mach: number;
+  alphaDeg: number;
+  flapDeg: number | null;
+  status: StudyStatus;
+  cl: number | null;
+  cd: number | null;
+  cdFriction: number | null;
+  cdTotal: number | null;
+  cm: number | null;
+  xcpOverC: number | null;
+  /** cl / cdTotal (wave + friction where estimated). */
+  liftToDrag: number | null;
+  /** cl / cd (wave drag only), the solver's figure. */
+  liftToDragWave: number | null;
+  chExact: number | null;
+  chLinear: number | null;
+  chSecondOrder: number | null;
+  clLinear: number | null;
+  cdLinear: number | null;
+  cmLinear: number | null;
+  clSecondOrder: number | null;
+  cdSecondOrder: number | null;
+  cmSecondOrder: number | null;
+  /** Why the point is not ok: the first limit's sentence (or why it could not be solved). */
+  limit: string | null;
+}
+
+/** Column order of packed rows and CSV files. */
+export const STUDY_COLUMNS = [
+  'mach', 'alphaDeg', 'flapDeg', 'status', 'cl', 'cd', 'cdFriction', 'cdTotal', 'cm', 'xcpOverC', 'liftToDrag',
+  'liftToDragWave', 'chExact', 'chLinear', 'chSecondOrder', 'clLinear', 'cdLinear', 'cmLinear', 'clSecondOrder',
+  'cdSecondOrder', 'cmSecondOrder', 'limit',
+] as const satisfies readonly (keyof StudyRow)[];
+
+export type PackedRow = (number | string | null)[];
+
+/** Per Mach: where the nose shock detaches, and the best L/D point for each deflection. */
+export interface StudyMachSummary {
+  mach: number;
+  /** α above which the lower-surface nose shock detaches (its deflection α − φ exceeds θmax), degrees. */
+  detachAlphaHighDeg: number | null;
+  /** α below which the upper-surface nose shock detaches (φ − α exceeds θmax), degrees. */
+  detachAlphaLowDeg: number | null;
+  best: { flapDeg: number | null; alphaDeg: number; liftToDrag: number; cl: number; cdTotal: number }[];
+}
+
+export interface StudyResults {
+  version: 1;
+  machs: number[];
+  alphasDeg: number[];
+  flapsDeg: (number | null)[];
+  altitudeM: number | null;
+  friction: 'turbulent' | 'laminar' | 'none';
+  columns: typeof STUDY_COLUMNS;
+  /** [ST3] packed rows, flap outermost, then Mach, then α (ascending). */
+  rows: PackedRow[];
+  summaries: StudyMachSummary[];
+  counts: Partial<Record<StudyStatus, number>>;
+}
+
+const cell = z.union([z.number(), z.string(), z.null()]);
+export const studyResultsSchema = z.object({
+  version: z.literal(1),
+  machs: z.array(z.number()),
+  alphasDeg: z.array(z.number()),
+  flapsDeg: z.array(z.number().nullable()),
+  altitudeM: z.number().nullable(),
+  friction: studyFrictionSchema,
+  columns: z.array(z.string()),
+  rows: z.array(z.array(cell)),
+  summaries: z.array(
+    z.object({
+      mach: z.number(),
+      detachAlphaHighDeg: z.number().nullable(),
+      detachAlphaLowDeg: z.number().nullable(),
+      best: z.array(z.object({ flapDeg: z.number().nullable(), alphaDeg: z.number(), liftToDrag: z.number(), cl: z.number(), cdTotal: z.number() })),
+    }),
+  ),
+  counts: z.record(z.string(), z.number()),
+}) as unknown as z.ZodType<StudyResults>;
+
+function round(v: number): number {
+  return v === 0 ? 0 : Number(v.toPrecision(STUDY_SIGNIFICANT_DIGITS));
+}
+
+/** Rows → arrays in STUDY_COLUMNS order, numbers to 7 significant figures ([ST3]). */
+export function packStudyRows(rows: readonly StudyRow[]): PackedRow[] {
+  return rows.map((r) => STUDY_COLUMNS.map((k) => (typeof r[k] === 'number' ? round(r[k] as number) : (r[k] as string | null))));
+}
+
+export function unpackStudyRows(results: Pick<StudyResults, 'columns' | 'rows'>): StudyRow[] {
+  const index = STUDY_COLUMNS.map((k) => results.columns.indexOf(k));
+  return results.rows.map((row) => {
+    const out = {} as Record<string, unknown>;
+    STUDY_COLUMNS.forEach((k, i) => (out[k] = index[i] >= 0 ? (row[index[i]] ?? null) : null));
+    return out as unknown as StudyRow;
+  });
+}
+
+// ---- API shapes ----
+
+export const studyIdSchema = z.string().refine((s) => isIdOf('study', s), 'must be a study id');
+
+export const createStudySchema = z.object({
+  name: z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
+  definition: studyDefinitionSchema,
+});
+export type CreateStudy = z.infer<typeof createStudySchema>;
+
+export const studySummarySchema = z.object({
+  id: z.string(),
+  sketchId: z.string(),
+  name: z.string(),
+  definition: z.unknown(),
+  revision: z.number().int(),
+  points: z.number().int(),
+  counts: z.record(z.string(), z.number()),
+  createdByName: z.string().nullable(),
+  createdAt: z.string(),
+});
+export type StudySummary = Omit<z.infer<typeof studySummarySchema>, 'definition'> & { definition: StudyDefinition };
+
+export type StudyDetail = StudySummary & { results: StudyResults; elapsedMs: number | null };
+
+/** `{ items, total, limit, offset }` like every paginated list. */
+export interface StudyPage {
+  items: StudySummary[];
+  total: number;
+  limit: number;
+  offset: number;
+}
+
+/** A study as CSV: `#` lines (sketch, condition, caution) then one row per point. */
+export function studyCsv(meta: { title: string; studyName: string; revision: number; caution: string }, results: StudyResults): string {
+  const oneLine = (s: string) => s.replace(/[\r\n]+/g, ' ');
+  const esc = (v: number | string | null) => {
+    if (v === null) return '';
+    if (typeof v === 'number') return String(v);
+    return /[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
+  };
+  const index = STUDY_COLUMNS.map((k) => results.columns.indexOf(k));
+  return [
+    `# Shockwright study: ${oneLine(meta.studyName)} — sketch ${oneLine(meta.title)}, revision ${meta.revision}`,
+    `# altitude ${results.altitudeM === null ? 'none (wave drag only)' : `${results.altitudeM} m`}, friction ${results.friction}; alpha and flap in degrees (flap trailing edge down positive)`,
+    `# ${meta.caution}`,
+    STUDY_COLUMNS.join(','),
+    ...results.rows.map((row) => index.map((i) => esc(i >= 0 ? (row[i] ?? null) : null)).join(',')),
+    '',
+  ].join('\n');
+}

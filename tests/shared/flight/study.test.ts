@@ -1,0 +1,191 @@
+import { describe, expect, it } from 'vitest';
+import { analyseSketch } from '../../../shared/flight/analyseSketch.ts';
+import { planStudy, runStudy, runStudySliced, studyRow } from '../../../shared/flight/study.ts';
+import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
+import { defaultSketchDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
+import {
+  STUDY_COLUMNS,
+  STUDY_MAX_POINTS,
+  packStudyRows,
+  studyCsv,
+  studyDefinitionSchema,
+  unpackStudyRows,
+  type StudyDefinitionInput,
+  type StudyResults,
+} from '../../../shared/model/study.ts';
+import { expectClose, expectCloseRel } from '../../helpers/expectClose.ts';
+
+/** Our own 6 %-thick diamond fin with a 25 % flap (the demo's kind of section). */
+function flappedDiamond(): SketchDocument {
+  return {
+    ...defaultSketchDocument(),
+    section: { points: [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]] },
+    condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: 11_000 },
+    flap: { hingeXOverC: 0.75, deflectionDeg: 0 },
+    loads: { chordM: 0.4, spanM: 0.3, friction: 'turbulent' },
+  };
+}
+
+const def = (input: StudyDefinitionInput) => studyDefinitionSchema.parse(input);
+
+function done(outcome: ReturnType<typeof runStudy>): StudyResults {
+  if (outcome.status !== 'done') throw new Error(`study did not finish: ${JSON.stringify(outcome)}`);
+  return outcome.results;
+}
+
+describe('study definitions [ST2] [ST4]', () => {
+  it('expands ranges inclusively, reads 0.1 steps as typed, sorts lists, and sweeps a flapless sketch at null', () => {
+    const doc = { ...flappedDiamond(), flap: null };
+    const p = planStudy(doc, def({ mach: { kind: 'range', start: 1.5, end: 2.5, step: 0.1 }, alpha: { startDeg: -2, endDeg: 2, stepDeg: 1 }, flapDeg: [5, -5] }));
+    if (!p.ok) throw new Error(p.reason);
+    expect(p.plan.machs).toEqual([1.5, 1.6, 1.7, 1.8, 1.9, 2, 2.1, 2.2, 2.3, 2.4, 2.5]);
+    expect(p.plan.alphasDeg).toEqual([-2, -1, 0, 1, 2]);
+    expect(p.plan.flapsDeg).toEqual([null]);
+    expect(p.plan.total).toBe(55);
+    const list = planStudy(flappedDiamond(), def({ mach: { kind: 'list', values: [3, 1.5, 3, 2] }, alpha: { startDeg: 0, endDeg: 0, stepDeg: 1 } }));
+    if (!list.ok) throw new Error(list.reason);
+    expect(list.plan.machs).toEqual([1.5, 2, 3]);
+    expect(list.plan.flapsDeg).toEqual([0]); // no deflections given: the sketch's own
+  });
+
+  it('refuses an end below the start, a Mach number at or below 1, and more than STUDY_MAX_POINTS points', () => {
+    const bad = studyDefinitionSchema.safeParse({ mach: { kind: 'range', start: 3, end: 2, step: 0.5 }, alpha: { startDeg: 0, endDeg: 1, stepDeg: 1 } });
+    expect(bad.success).toBe(false);
+    expect(bad.error!.issues[0]).toMatchObject({ path: ['mach', 'end'], message: 'must not be below the start' });
+    expect(studyDefinitionSchema.safeParse({ mach: { kind: 'list', values: [1] }, alpha: { startDeg: 0, endDeg: 1, stepDeg: 1 } }).success).toBe(false);
+    const huge = studyDefinitionSchema.safeParse({ mach: { kind: 'range', start: 1.1, end: 5, step: 0.04 }, alpha: { startDeg: -30, endDeg: 30, stepDeg: 0.1 }, flapDeg: [0, 1, 2] });
+    expect(huge.success).toBe(false);
+    expect(huge.error!.issues.map((i) => i.message).join(' ')).toMatch(new RegExp(`at most ${STUDY_MAX_POINTS}`));
+  });
+});
+
+describe('runStudy', () => {
+  const doc = flappedDiamond();
+  const definition = def({ mach: { kind: 'list', values: [1.4, 2, 3.2] }, alpha: { startDeg: -20, endDeg: 24, stepDeg: 4 }, flapDeg: [-10, 0, 10], altitudeM: 11_000, friction: 'turbulent' });
+
+  it('[ST1] every row equals a single analyseSketch at the same Mach, α and deflection (wave map off)', () => {
+    const results = done(runStudy(doc, definition));
+    const rows = unpackStudyRows(results);
+    expect(rows).toHaveLength(3 * 12 * 3);
+    let i = 0;
+    for (const flapDeg of [-10, 0, 10]) {
+      for (const mach of [1.4, 2, 3.2]) {
+        for (let alphaDeg = -20; alphaDeg <= 24; alphaDeg += 4) {
+          const single = analyseSketch(doc, { waves: false, mach, alphaDeg, flapDeg, altitudeM: 11_000, friction: 'turbulent' });
+          // Packed rows keep 7 significant figures ([ST3]); compare with the single solve packed alike.
+          expect(results.rows[i]).toEqual(packStudyRows([studyRow(single, mach, alphaDeg, flapDeg)])[0]);
+          i++;
+        }
+      }
+    }
+    // The sweep crosses the nose detachment boundary, so both kinds of rows are compared.
+    expect(new Set(rows.map((r) => r.status))).toEqual(new Set(['ok', 'detached']));
+  });
+
+  it('[ST3] packing keeps 7 significant figures and round-trips the columns', () => {
+    const results = done(runStudy(doc, def({ mach: { kind: 'list', values: [2.2] }, alpha: { startDeg: 3, endDeg: 3, stepDeg: 1 }, flapDeg: [5], altitudeM: 9000 })));
+    const single = studyRow(analyseSketch(doc, { waves: false, mach: 2.2, alphaDeg: 3, flapDeg: 5, altitudeM: 9000 }), 2.2, 3, 5);
+    const [row] = unpackStudyRows(results);
+    expect(results.columns).toEqual(STUDY_COLUMNS);
+    for (const k of ['cl', 'cd', 'cdFriction', 'cm', 'chExact', 'clLinear', 'cdSecondOrder'] as const) expectCloseRel(row[k]!, single[k]!, 5e-7);
+    expect(row.status).toBe('ok');
+    expect(row.limit).toBeNull();
+  });
+
+  it('total drag is wave + friction at an altitude, and wave drag alone without one', () => {
+    const [high] = unpackStudyRows(done(runStudy(doc, def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 2, endDeg: 2, stepDeg: 1 }, altitudeM: 11_000 }))));
+    expect(high.cdFriction!).toBeGreaterThan(0);
+    expectClose(high.cdTotal!, high.cd! + high.cdFriction!, 1e-7);
+    expectCloseRel(high.liftToDrag!, high.cl! / high.cdTotal!, 1e-6);
+    const [none] = unpackStudyRows(done(runStudy(doc, def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 2, endDeg: 2, stepDeg: 1 }, altitudeM: null }))));
+    expect(none.cdFriction).toBeNull();
+    expect(none.cdTotal).toBe(none.cd);
+    expect(none.liftToDrag).toBe(none.liftToDragWave);
+  });
+
+  it('hinge moment sign at study level: restoring (dch/dδ < 0), zero for the symmetric diamond at α = 0, δ = 0 (common practice)', () => {
+    const results = done(runStudy(doc, def({ mach: { kind: 'list', values: [1.6, 2.5, 4] }, alpha: { startDeg: 0, endDeg: 0, stepDeg: 1 }, flapDeg: [-8, -4, 0, 4, 8] })));
+    const rows = unpackStudyRows(results);
+    for (const mach of [1.6, 2.5, 4]) {
+      const line = rows.filter((r) => r.mach === mach).sort((a, b) => a.flapDeg! - b.flapDeg!);
+      expect(line.map((r) => r.status)).toEqual(['ok', 'ok', 'ok', 'ok', 'ok']);
+      for (let k = 1; k < line.length; k++) {
+        expect(line[k].chExact!).toBeLessThan(line[k - 1].chExact!);
+        expect(line[k].chLinear!).toBeLessThan(line[k - 1].chLinear!);
+      }
+      const zero = line.find((r) => r.flapDeg === 0)!;
+      expectClose(zero.chExact!, 0, 1e-9);
+      expect(line.find((r) => r.flapDeg === 8)!.chExact!).toBeLessThan(0);
+    }
+  });
+
+  it('the nose detachment boundary is α = φ_lower + θmax: detached at the nose just above it, not just below (θmax(M=2) = 22.97°, NACA Report 1135, from memory)', () => {
+    const results = done(runStudy(doc, def({ mach: { kind: 'list', values: [1.5, 2, 3] }, alpha: { startDeg: 0, endDeg: 1, stepDeg: 1 }, flapDeg: [0] })));
+    const phiLowerDeg = (Math.atan2(-0.03, 0.5) * 180) / Math.PI;
+    const m2 = results.summaries.find((s) => s.mach === 2)!;
+    expectClose(m2.detachAlphaHighDeg!, phiLowerDeg + 22.97, 0.01);
+    expectClose(m2.detachAlphaLowDeg!, -phiLowerDeg - 22.97, 0.01); // symmetric section
+    for (const s of results.summaries) {
+      const noseDetached = (alphaDeg: number) =>
+        analyseSketch(doc, { waves: false, mach: s.mach, alphaDeg, flapDeg: 0 }).result!.limits.some((l) => l.status === 'detached' && l.surface === 'lower' && l.vertex === 0);
+      expect(noseDetached(s.detachAlphaHighDeg! + 0.01)).toBe(true);
+      expect(noseDetached(s.detachAlphaHighDeg! - 0.01)).toBe(false);
+    }
+  });
+
+  it('best L/D per Mach and deflection is the largest L/D among that line’s ok points', () => {
+    const results = done(runStudy(doc, definition));
+    const rows = unpackStudyRows(results);
+    for (const s of results.summaries) {
+      expect(s.best.map((b) => b.flapDeg)).toEqual([-10, 0, 10]);
+      for (const b of s.best) {
+        const line = rows.filter((r) => r.mach === s.mach && r.flapDeg === b.flapDeg && r.status === 'ok');
+        const top = Math.max(...line.map((r) => r.liftToDrag!));
+        expectCloseRel(b.liftToDrag, top, 1e-6);
+        expect(line.find((r) => r.alphaDeg === b.alphaDeg)!.liftToDrag).toBe(top);
+      }
+    }
+  });
+
+  it('reports progress up to the total and stops between points when cancelled', () => {
+    const seen: number[] = [];
+    const full = runStudy(doc, definition, { progressEvery: 20, onProgress: (p) => seen.push(p.done) });
+    expect(full.status).toBe('done');
+    expect(seen.at(-1)).toBe(108);
+    expect(seen).toEqual([...seen].sort((a, b) => a - b));
+    let calls = 0;
+    // The flag is read after each point: the 31st read says stop, so 31 points were computed.
+    const cancelled = runStudy(doc, definition, { isCancelled: () => ++calls > 30 });
+    expect(cancelled).toEqual({ status: 'cancelled', done: 31, total: 108 });
+  });
+
+  it('the sliced runner gives the same results and can be cancelled between slices', async () => {
+    const pause = () => new Promise<void>((r) => setImmediate(r));
+    const sliced = await runStudySliced(doc, definition, { pause, sliceMs: 0 });
+    expect(done(sliced as ReturnType<typeof runStudy>)).toEqual(done(runStudy(doc, definition)));
+    let progressCalls = 0;
+    let stop = false;
+    const cancelled = await runStudySliced(doc, definition, {
+      pause,
+      sliceMs: 0,
+      onProgress: () => (stop = ++progressCalls >= 2),
+      isCancelled: () => stop,
+    });
+    expect(cancelled.status).toBe('cancelled');
+  });
+
+  it('a flap deflection that folds the section gives invalid rows with the reason, not an exception', () => {
+    const deep = { ...doc, section: { points: [[0, 0], [0.6, 0.3], [1, 0], [0.62, -0.3]] as [number, number][] }, flap: { hingeXOverC: 0.6, deflectionDeg: 0 } };
+    const rows = unpackStudyRows(done(runStudy(deep, def({ mach: { kind: 'list', values: [3] }, alpha: { startDeg: 0, endDeg: 0, stepDeg: 1 }, flapDeg: [0, 45] }))));
+    expect(rows[1]).toMatchObject({ flapDeg: 45, status: 'invalid', cl: null, limit: expect.stringContaining('folds the section') });
+  });
+
+  it('CSV export carries the caution, a header and one line per point', () => {
+    const results = done(runStudy(doc, definition));
+    const csv = studyCsv({ title: 'HD-7 fin', studyName: 'Envelope', revision: 4, caution: RESULTS_CAUTION }, results);
+    const lines = csv.trimEnd().split('\n');
+    expect(lines[2]).toBe(`# ${RESULTS_CAUTION}`);
+    expect(lines[3]).toBe(STUDY_COLUMNS.join(','));
+    expect(lines).toHaveLength(4 + 108);
+  });
+});

@@ -37,6 +37,8 @@ export const users = pgTable('users', {
   name: text('name').notNull(),
   /** argon2id PHC string. */
   passwordHash: text('password_hash').notNull(),
+  /** Display units for dimensional results: 'si' or 'us' (shared/flight/units.ts). */
+  unitSystem: text('unit_system').notNull().default('si'),
   ...timestamps,
 });
 
@@ -312,4 +314,31 @@ export const sketchEvents = pgTable(
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [index('sketch_events_sketch_idx').on(t.sketchId, t.createdAt)],
+);
+
+/**
+ * Studies: a sweep of one sketch over Mach × α × flap deflection. The server computes the
+ * results itself (shared/flight/study.ts) from the sketch at `revision`; `definition` is
+ * shared/model/study.ts `StudyDefinition`, `results` its packed `StudyResults`.
+ */
+export const studies = pgTable(
+  'studies',
+  {
+    id: text('id').primaryKey(),
+    sketchId: text('sketch_id')
+      .notNull()
+      .references(() => sketches.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    definition: jsonb('definition').notNull(),
+    results: jsonb('results').notNull(),
+    /** The sketch revision the study was computed on. */
+    revision: integer('revision').notNull(),
+    points: integer('points').notNull(),
+    /** Status counts ({ ok: n, detached: n, … }), for lists without loading the rows. */
+    counts: jsonb('counts').notNull().default({}),
+    elapsedMs: integer('elapsed_ms'),
+    createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
+    ...timestamps,
+  },
+  (t) => [index('studies_sketch_idx').on(t.sketchId, t.createdAt)],
 );

@@ -1,0 +1,167 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { defaultSketchDocument, type Point, type SketchDocument } from '../../../shared/model/sketch.ts';
+import { applyOp, invertOp, remapVertexIndex, sketchOpSchema, withOpId, type SketchOp } from '../../../shared/model/ops.ts';
+
+/** The demo double wedge: nose 0, upper ridge 1, tail 2, lower ridge 3. */
+function doc(): SketchDocument {
+  return defaultSketchDocument();
+}
+
+function deepFreeze<T>(value: T): T {
+  if (value && typeof value === 'object') {
+    Object.values(value).forEach(deepFreeze);
+    Object.freeze(value);
+  }
+  return value;
+}
+
+function applied(d: SketchDocument, op: SketchOp): SketchDocument {
+  const r = applyOp(d, op);
+  if (!r.ok) throw new Error(r.reason);
+  return r.doc;
+}
+
+describe('applyOp', () => {
+  it('[O1] moveVertices moves one vertex and leaves the input untouched', () => {
+    // Arrange
+    const before = deepFreeze(doc());
+    // Act
+    const r = applyOp(before, withOpId({ type: 'moveVertices', indices: [1], to: [[0.5, 0.04]] }));
+    // Assert
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.doc.section.points[1]).toEqual([0.5, 0.04]);
+    expect(before.section.points[1]).toEqual([0.5, 0.025]);
+    expect(r.doc.condition).toEqual(before.condition);
+  });
+
+  it('[O2] moveVertices refuses a move that makes the section cross itself, naming the facets', () => {
+    // The nose dragged past the upper ridge: facet 3 (lower ridge → nose) then crosses facet 1.
+    const r = applyOp(doc(), withOpId({ type: 'moveVertices', indices: [0], to: [[0.75, 0.05]] }));
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.reason).toMatch(/^Moving vertex 0 there is not allowed: facet 3 \(vertex 3 → 0\) would cross or touch facet 1 /);
+    expect(r.reason).toContain('simple polygon');
+  });
+
+  it('[O2] moveVertices refuses a vertex placed on another vertex', () => {
+    const r = applyOp(doc(), withOpId({ type: 'moveVertices', indices: [1], to: [[1, 0]] }));
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.reason).toMatch(/sit exactly on vertex/);
+  });
+
+  it('moveVertices moves several vertices at once and checks lengths, duplicates and range', () => {
+    const moved = applied(doc(), withOpId({ type: 'moveVertices', indices: [1, 3], to: [[0.4, 0.03], [0.4, -0.03]] }));
+    expect(moved.section.points).toEqual([[0, 0], [0.4, 0.03], [1, 0], [0.4, -0.03]]);
+    const mismatch = applyOp(doc(), withOpId({ type: 'moveVertices', indices: [1, 3], to: [[0.4, 0.03]] }));
+    expect(mismatch).toEqual({ ok: false, reason: 'The edit names 2 vertices but gives 1 positions.' });
+    const twice = applyOp(doc(), withOpId({ type: 'moveVertices', indices: [1, 1], to: [[0.4, 0.03], [0.4, 0.03]] }));
+    expect(twice.ok).toBe(false);
+    const range = applyOp(doc(), withOpId({ type: 'moveVertices', indices: [9], to: [[0.4, 0.03]] }));
+    expect(range).toEqual({ ok: false, reason: 'There is no vertex 9; the section has 4.' });
+  });
+
+  it('insertVertex puts the new vertex at the index and shifts the rest', () => {
+    const d = applied(doc(), withOpId({ type: 'insertVertex', index: 1, at: [0.25, 0.02] }));
+    expect(d.section.points).toEqual([[0, 0], [0.25, 0.02], [0.5, 0.025], [1, 0], [0.5, -0.025]]);
+    const atEnd = applied(doc(), withOpId({ type: 'insertVertex', index: 4, at: [0.25, -0.02] }));
+    expect(atEnd.section.points[4]).toEqual([0.25, -0.02]);
+    expect(applyOp(doc(), withOpId({ type: 'insertVertex', index: 6, at: [0.2, 0] })).ok).toBe(false);
+  });
+
+  it('deleteVertex removes a vertex but never below 3', () => {
+    const five = applied(doc(), withOpId({ type: 'insertVertex', index: 1, at: [0.25, 0.02] }));
+    const back = applied(five, withOpId({ type: 'deleteVertex', index: 1 }));
+    expect(back.section.points).toEqual(doc().section.points);
+    const three = applied(doc(), withOpId({ type: 'deleteVertex', index: 3 }));
+    expect(three.section.points).toHaveLength(3);
+    expect(applyOp(three, withOpId({ type: 'deleteVertex', index: 0 }))).toEqual({
+      ok: false,
+      reason: 'A section needs at least 3 vertices; this one has 3.',
+    });
+  });
+
+  it('replaceSection takes a whole new polygon and refuses a bow tie', () => {
+    const hex: Point[] = [[0, 0], [0.25, 0.02], [0.75, 0.02], [1, 0], [0.75, -0.02], [0.25, -0.02]];
+    expect(applied(doc(), withOpId({ type: 'replaceSection', points: hex })).section.points).toEqual(hex);
+    const bowTie = applyOp(doc(), withOpId({ type: 'replaceSection', points: [[0, 0], [1, 1], [1, 0], [0, 1]] }));
+    expect(bowTie.ok).toBe(false);
+    const line = applyOp(doc(), withOpId({ type: 'replaceSection', points: [[0, 0], [1, 0]] }));
+    expect(line.ok).toBe(false);
+  });
+
+  it('[O2] setCondition checks the same ranges as the document schema', () => {
+    expect(applied(doc(), withOpId({ type: 'setCondition', field: 'mach', value: 3.2 })).condition.mach).toBe(3.2);
+    const sub = applyOp(doc(), withOpId({ type: 'setCondition', field: 'mach', value: 0.8 }));
+    expect(sub).toEqual({ ok: false, reason: 'Mach number must be above 1 (supersonic).' });
+    const gamma = applyOp(doc(), withOpId({ type: 'setCondition', field: 'gamma', value: 1.8 }));
+    expect(gamma.ok).toBe(false);
+    const alpha = applyOp(doc(), withOpId({ type: 'setCondition', field: 'alphaDeg', value: 95 }));
+    expect(alpha.ok).toBe(false);
+    const noMach = applyOp(doc(), withOpId({ type: 'setCondition', field: 'mach', value: null }));
+    expect(noMach).toEqual({ ok: false, reason: 'Mach number needs a value.' });
+    expect(applied(doc(), withOpId({ type: 'setCondition', field: 'altitudeM', value: null })).condition.altitudeM).toBeNull();
+  });
+
+  it('setFlap and setMomentPoint validate through their schemas', () => {
+    const flapped = applied(doc(), withOpId({ type: 'setFlap', flap: { hingeXOverC: 0.7, deflectionDeg: 5 } }));
+    expect(flapped.flap).toEqual({ hingeXOverC: 0.7, deflectionDeg: 5 });
+    expect(applyOp(doc(), withOpId({ type: 'setFlap', flap: { hingeXOverC: 1.2, deflectionDeg: 5 } })).ok).toBe(false);
+    const moment = applied(doc(), withOpId({ type: 'setMomentPoint', point: [0.5, 0] }));
+    expect(moment.momentPoint).toEqual([0.5, 0]);
+  });
+
+  it('rejects a malformed op with a message instead of throwing', () => {
+    const r = applyOp(doc(), { type: 'moveVertices', opId: '', indices: [1], to: [[0, 0]] } as SketchOp);
+    expect(r.ok).toBe(false);
+  });
+});
+
+describe('invertOp', () => {
+  const cases: [string, SketchOp][] = [
+    ['moveVertices', withOpId({ type: 'moveVertices', indices: [1, 3], to: [[0.4, 0.05], [0.6, -0.05]] })],
+    ['insertVertex', withOpId({ type: 'insertVertex', index: 2, at: [0.8, 0.015] })],
+    ['deleteVertex', withOpId({ type: 'deleteVertex', index: 1 })],
+    ['replaceSection', withOpId({ type: 'replaceSection', points: [[0, 0], [1, 0.1], [1.2, 0]] })],
+    ['setCondition', withOpId({ type: 'setCondition', field: 'alphaDeg', value: -3 })],
+    ['setFlap', withOpId({ type: 'setFlap', flap: { hingeXOverC: 0.75, deflectionDeg: -8 } })],
+    ['setMomentPoint', withOpId({ type: 'setMomentPoint', point: [0.4, 0.01] })],
+  ];
+  it.each(cases)('[O3] %s followed by its inverse gives the document back', (_name, op) => {
+    const before = deepFreeze(doc());
+    const after = applied(before, op);
+    const inverse = invertOp(before, op);
+    expect(inverse.opId).not.toBe(op.opId);
+    expect(sketchOpSchema.safeParse(inverse).success).toBe(true);
+    expect(applied(after, inverse)).toEqual(before);
+  });
+
+  it('[O3] holds for random moves of the demo wedge that the validator accepts', () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 0, max: 3 }),
+        fc.double({ min: -2, max: 2, noNaN: true }),
+        fc.double({ min: -2, max: 2, noNaN: true }),
+        (i, x, y) => {
+          const before = doc();
+          const op = withOpId({ type: 'moveVertices', indices: [i], to: [[x, y]] });
+          const r = applyOp(before, op);
+          if (!r.ok) return true;
+          expect(applied(r.doc, invertOp(before, op))).toEqual(before);
+          return true;
+        },
+      ),
+      { numRuns: 200 },
+    );
+  });
+});
+
+describe('remapVertexIndex', () => {
+  it('follows a vertex across inserts and deletes', () => {
+    const insert = withOpId({ type: 'insertVertex', index: 2, at: [0, 0] });
+    expect([0, 1, 2, 3].map((i) => remapVertexIndex(i, insert))).toEqual([0, 1, 3, 4]);
+    const del = withOpId({ type: 'deleteVertex', index: 1 });
+    expect([0, 1, 2, 3].map((i) => remapVertexIndex(i, del))).toEqual([0, null, 1, 2]);
+  });
+});

@@ -1,0 +1,67 @@
+import type { Facet, SolveResult } from '../solver/types.ts';
+import { RESULTS_CAUTION } from './caution.ts';
+import type { Point, SketchDocument } from './sketch.ts';
+
+/**
+ * Plain-text exports of a sketch: the section as CSV (readable back by `parseCoordinates`), the
+ * per-facet result as CSV and the whole result as JSON. Result exports carry the caution line.
+ */
+
+/** A file name from a sketch title: letters, digits, dashes; never empty. */
+export function fileSafeName(title: string): string {
+  const s = title
+    .normalize('NFKD')
+    .replace(/[^\w\s-]/g, '')
+    .trim()
+    .replace(/[\s_]+/g, '-')
+    .replace(/-+/g, '-')
+    .slice(0, 80)
+    .replace(/^-|-$/g, '');
+  return s || 'sketch';
+}
+
+/** Strips line breaks so a title cannot break out of a `#` comment line. */
+function oneLine(s: string): string {
+  return s.replace(/[\r\n]+/g, ' ');
+}
+
+/** The section's vertices as `x,y` rows under a `#` comment and a header. */
+export function sectionCsv(title: string, points: readonly Point[]): string {
+  const rows = points.map(([x, y]) => `${x},${y}`);
+  return [`# Shockwright section: ${oneLine(title)}`, '# Vertices in drawing order, body axes (x aft, y up).', 'x,y', ...rows, ''].join('\n');
+}
+
+export const FACET_CSV_COLUMNS = [
+  'surface', 'facet', 'x_from', 'y_from', 'x_to', 'y_to', 'x_mid_over_c', 'length', 'phi_deg', 'theta_deg',
+  'turn_deg', 'wave', 'solved', 'mach', 'p_over_pinf', 'T_over_Tinf', 'rho_over_rhoinf', 'p0_over_p0inf',
+  'cp', 'cp_linear', 'cp_second_order',
+] as const;
+
+const num = (v: number | null): string => (v === null ? '' : String(v));
+
+function facetRow(surface: string, f: Facet): string {
+  return [
+    surface, f.index, f.from[0], f.from[1], f.to[0], f.to[1], f.xMidOverC, f.length, f.phiDeg, f.thetaDeg, f.turnDeg,
+    f.wave, f.solved, num(f.mach), num(f.pRatio), num(f.tRatio), num(f.rhoRatio), num(f.p0Ratio), num(f.cp),
+    f.cpLinear, f.cpSecondOrder,
+  ].join(',');
+}
+
+/** One row per facet (upper surface nose → tail, then lower), empty cells where unsolved. */
+export function facetCsv(title: string, result: SolveResult): string {
+  const c = result.condition;
+  return [
+    `# Shockwright result per facet: ${oneLine(title)}`,
+    `# M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}; status ${result.status}`,
+    `# ${RESULTS_CAUTION}`,
+    FACET_CSV_COLUMNS.join(','),
+    ...result.surfaces.upper.map((f) => facetRow('upper', f)),
+    ...result.surfaces.lower.map((f) => facetRow('lower', f)),
+    '',
+  ].join('\n');
+}
+
+/** The document and the full solve result, with the caution, as pretty JSON. */
+export function resultJson(title: string, document: SketchDocument, result: SolveResult): string {
+  return `${JSON.stringify({ title, caution: RESULTS_CAUTION, document, result }, null, 2)}\n`;
+}

@@ -1,0 +1,348 @@
+import { defineStore } from 'pinia';
+import { computed, ref, shallowRef } from 'vue';
+import { api, ApiError } from '@/api/client';
+import { sketchSchema, type Sketch } from '@shared/model/sketchApi';
+import type { SketchDocument } from '@shared/model/sketch';
+import {
+  applyOp,
+  invertOp,
+  remapVertexIndex,
+  withOpId,
+  type ApplyOpResult,
+  type SketchOp,
+  type SketchOpDraft,
+} from '@shared/model/ops';
+import type { SketchAnalysis } from '@shared/flight/analyseSketch';
+import { AUTOSAVE_DEBOUNCE_MS, AUTOSAVE_RETRY_MS } from '@/timing';
+
+/** One local edit in the history: the op as applied and the op that takes it back. */
+interface HistoryEntry {
+  op: SketchOp;
+  inverse: SketchOp;
+}
+
+export type SaveState = 'saved' | 'unsaved' | 'saving' | 'error';
+
+export interface SketchNotice {
+  kind: 'conflict' | 'error' | 'info';
+  message: string;
+}
+
+/**
+ * The open sketch: its document and revision, local undo/redo of ops, the saved/unsaved state
+ * and autosave, and the result the server stored on its last save. Invariants:
+ *
+ * - Every change to the document goes through `dispatch` (or undo/redo), which applies one op
+ *   with `applyOp`; a rejected op changes nothing and is not recorded.
+ * - Undo and redo apply recorded ops with fresh op ids; a new edit clears the redo stack.
+ * - Autosave PUTs the whole document with the revision it was based on; on a 409 the store
+ *   reloads the server's document, re-applies the edits not yet saved on top of it, and says
+ *   so in `notice`.
+ * - The store never imports Konva or the socket (tools call `dispatch`).
+ */
+export const useSketchStore = defineStore('sketch', () => {
+  const sketchId = ref<string | null>(null);
+  const teamId = ref<string | null>(null);
+  const title = ref('');
+  const document = shallowRef<SketchDocument | null>(null);
+  const revision = ref(0);
+  const updatedAt = ref<string | null>(null);
+  const updatedByName = ref<string | null>(null);
+  /** What the server analysed and stored on its last save (the authoritative result). */
+  const serverAnalysis = shallowRef<SketchAnalysis | null>(null);
+  const serverStatus = ref<string | null>(null);
+  const isLoading = ref(false);
+  const loadError = ref<string | null>(null);
+  const saveState = ref<SaveState>('saved');
+  const saveError = ref<string | null>(null);
+  const notice = ref<SketchNotice | null>(null);
+  /** Why the last edit was refused (shown near the canvas), cleared by the next good edit. */
+  const lastRejection = ref<string | null>(null);
+  const readOnly = ref(false);
+  const selection = ref<number[]>([]);
+  const undoStack = shallowRef<HistoryEntry[]>([]);
+  const redoStack = shallowRef<HistoryEntry[]>([]);
+
+  /** The document the server holds at `revision`. */
+  let savedDocument: SketchDocument | null = null;
+  /** Ops applied locally since `savedDocument`, oldest first (re-applied after a conflict). */
+  let unsavedOps: SketchOp[] = [];
+  let saveTimer: ReturnType<typeof setTimeout> | null = null;
+  let saving: Promise<void> | null = null;
+
+  const canUndo = computed(() => !readOnly.value && undoStack.value.length > 0);
+  const canRedo = computed(() => !readOnly.value && redoStack.value.length > 0);
+  const isDirty = computed(() => saveState.value !== 'saved');
+
+  function accept(sketch: Sketch) {
+    sketchId.value = sketch.id;
+    teamId.value = sketch.teamId;
+    title.value = sketch.title;
+    revision.value = sketch.revision;
+    updatedAt.value = sketch.updatedAt;
+    updatedByName.value = sketch.updatedByName;
+    serverAnalysis.value = asAnalysis(sketch.lastResult);
+    serverStatus.value = sketch.lastSolveStatus;
+  }
+
+  /** Opens a sketch, dropping whatever was open (and its history). */
+  async function open(id: string): Promise<void> {
+    cancelTimer();
+    isLoading.value = true;
+    loadError.value = null;
+    try {
+      const sketch = await api.get(`/api/sketches/${id}`, sketchSchema);
+      accept(sketch);
+      document.value = sketch.document;
+      savedDocument = sketch.document;
+      unsavedOps = [];
+      undoStack.value = [];
+      redoStack.value = [];
+      selection.value = [];
+      saveState.value = 'saved';
+      saveError.value = null;
+      notice.value = null;
+      lastRejection.value = null;
+    } catch (err) {
+      loadError.value = err instanceof ApiError ? err.message : 'The sketch could not be opened.';
+      document.value = null;
+    } finally {
+      isLoading.value = false;
+    }
+  }
+
+  /** Applies an op to the open document; records it for undo and schedules a save. */
+  function dispatch(input: SketchOp | SketchOpDraft): ApplyOpResult {
+    const op: SketchOp = 'opId' in input ? input : withOpId(input);
+    const r = applyLocal(op);
+    if (!r.ok) return r;
+    undoStack.value = [...undoStack.value, { op, inverse: r.inverse }];
+    redoStack.value = [];
+    return { ok: true, doc: r.doc };
+  }
+
+  function undo(): boolean {
+    const entry = undoStack.value.at(-1);
+    if (!entry || readOnly.value) return false;
+    const r = applyLocal(withOpId(stripId(entry.inverse)));
+    if (!r.ok) return false;
+    undoStack.value = undoStack.value.slice(0, -1);
+    redoStack.value = [...redoStack.value, entry];
+    return true;
+  }
+
+  function redo(): boolean {
+    const entry = redoStack.value.at(-1);
+    if (!entry || readOnly.value) return false;
+    const r = applyLocal(withOpId(stripId(entry.op)));
+    if (!r.ok) return false;
+    redoStack.value = redoStack.value.slice(0, -1);
+    undoStack.value = [...undoStack.value, { op: entry.op, inverse: r.inverse }];
+    return true;
+  }
+
+  function applyLocal(op: SketchOp): { ok: true; doc: SketchDocument; inverse: SketchOp } | { ok: false; reason: string } {
+    const before = document.value;
+    if (!before) return { ok: false, reason: 'No sketch is open.' };
+    if (readOnly.value) return { ok: false, reason: 'Your role on this team can read this sketch but not edit it.' };
+    const r = applyOp(before, op);
+    if (!r.ok) {
+      lastRejection.value = r.reason;
+      return r;
+    }
+    lastRejection.value = null;
+    const inverse = invertOp(before, op);
+    document.value = r.doc;
+    selection.value = selection.value.map((i) => remapVertexIndex(i, op)).filter((i): i is number => i !== null && i < r.doc.section.points.length);
+    unsavedOps.push(op);
+    markUnsaved();
+    return { ok: true, doc: r.doc, inverse };
+  }
+
+  function markUnsaved() {
+    if (saveState.value !== 'saving') saveState.value = 'unsaved';
+    scheduleSave(AUTOSAVE_DEBOUNCE_MS);
+  }
+
+  function cancelTimer() {
+    if (saveTimer) clearTimeout(saveTimer);
+    saveTimer = null;
+  }
+
+  function scheduleSave(delayMs: number) {
+    cancelTimer();
+    saveTimer = setTimeout(() => {
+      saveTimer = null;
+      void save();
+    }, delayMs);
+  }
+
+  /** Saves now (also what the autosave timer calls). Resolves when the document is stored. */
+  async function save(): Promise<void> {
+    cancelTimer();
+    if (saving) {
+      await saving;
+      if (document.value !== savedDocument) return save();
+      return;
+    }
+    const doc = document.value;
+    const id = sketchId.value;
+    if (!doc || !id || doc === savedDocument) {
+      if (doc === savedDocument && saveState.value !== 'error') saveState.value = 'saved';
+      return;
+    }
+    const sentOps = unsavedOps.length;
+    saveState.value = 'saving';
+    saveError.value = null;
+    saving = (async () => {
+      try {
+        const sketch = await api.put(`/api/sketches/${id}/document`, { document: doc, baseRevision: revision.value }, sketchSchema);
+        if (sketchId.value !== id) return;
+        accept(sketch);
+        savedDocument = doc;
+        unsavedOps = unsavedOps.slice(sentOps);
+        saveState.value = document.value === doc ? 'saved' : 'unsaved';
+      } catch (err) {
+        if (sketchId.value !== id) return;
+        if (err instanceof ApiError && err.status === 409) await rebaseAfterConflict(id);
+        else if (err instanceof ApiError && err.status === 403) {
+          readOnly.value = true;
+          saveState.value = 'error';
+          saveError.value = err.message;
+          notice.value = { kind: 'error', message: `Not saved: ${err.message}` };
+        } else {
+          saveState.value = 'error';
+          saveError.value = err instanceof ApiError ? err.message : 'The sketch could not be saved.';
+          scheduleSave(AUTOSAVE_RETRY_MS);
+        }
+      }
+    })();
+    try {
+      await saving;
+    } finally {
+      saving = null;
+    }
+    // The request above may have changed the state (TS cannot see through the await).
+    if ((saveState.value as SaveState) === 'unsaved') scheduleSave(AUTOSAVE_DEBOUNCE_MS);
+  }
+
+  /**
+   * Someone else saved first: take their document and revision, re-apply our unsaved edits on
+   * top (those that still make sense), and tell the user what happened.
+   */
+  async function rebaseAfterConflict(id: string) {
+    let server: Sketch;
+    try {
+      server = await api.get(`/api/sketches/${id}`, sketchSchema);
+    } catch (err) {
+      saveState.value = 'error';
+      saveError.value = err instanceof ApiError ? err.message : 'The sketch could not be reloaded.';
+      scheduleSave(AUTOSAVE_RETRY_MS);
+      return;
+    }
+    accept(server);
+    savedDocument = server.document;
+    let doc = server.document;
+    const kept: SketchOp[] = [];
+    for (const op of unsavedOps) {
+      const r = applyOp(doc, op);
+      if (r.ok) {
+        doc = r.doc;
+        kept.push(op);
+      }
+    }
+    const dropped = unsavedOps.length - kept.length;
+    unsavedOps = kept;
+    document.value = doc;
+    undoStack.value = [];
+    redoStack.value = [];
+    selection.value = selection.value.filter((i) => i < doc.section.points.length);
+    const who = server.updatedByName ? `${server.updatedByName} saved` : 'Someone saved';
+    const mine =
+      kept.length === 0 && dropped === 0
+        ? ''
+        : dropped === 0
+          ? ` Your ${kept.length} unsaved edit${kept.length === 1 ? ' was' : 's were'} re-applied on top.`
+          : ` ${kept.length} of your unsaved edits were re-applied on top; ${dropped} no longer fit and ${dropped === 1 ? 'was' : 'were'} dropped.`;
+    notice.value = { kind: 'conflict', message: `${who} this sketch while you were editing (now revision ${server.revision}); it was reloaded.${mine} Undo history was cleared.` };
+    saveState.value = kept.length > 0 ? 'unsaved' : 'saved';
+  }
+
+  async function rename(next: string): Promise<void> {
+    const id = sketchId.value;
+    if (!id) return;
+    const sketch = await api.patch(`/api/sketches/${id}`, { title: next }, sketchSchema);
+    title.value = sketch.title;
+    updatedAt.value = sketch.updatedAt;
+  }
+
+  function setSelection(indices: number[]) {
+    const n = document.value?.section.points.length ?? 0;
+    selection.value = [...new Set(indices)].filter((i) => i >= 0 && i < n).sort((a, b) => a - b);
+  }
+
+  function dismissNotice() {
+    notice.value = null;
+  }
+
+  /** Forgets the open sketch (leaving the editor). Does not save: call `save()` first. */
+  function close() {
+    cancelTimer();
+    sketchId.value = null;
+    document.value = null;
+    savedDocument = null;
+    unsavedOps = [];
+    undoStack.value = [];
+    redoStack.value = [];
+    selection.value = [];
+    serverAnalysis.value = null;
+    saveState.value = 'saved';
+    notice.value = null;
+  }
+
+  return {
+    sketchId,
+    teamId,
+    title,
+    document,
+    revision,
+    updatedAt,
+    updatedByName,
+    serverAnalysis,
+    serverStatus,
+    isLoading,
+    loadError,
+    saveState,
+    saveError,
+    notice,
+    lastRejection,
+    readOnly,
+    selection,
+    undoStack,
+    redoStack,
+    canUndo,
+    canRedo,
+    isDirty,
+    open,
+    dispatch,
+    undo,
+    redo,
+    save,
+    rename,
+    setSelection,
+    dismissNotice,
+    close,
+  };
+});
+
+/** The stored analysis, if the server stored one in the current shape (older rows may not). */
+function asAnalysis(raw: unknown): SketchAnalysis | null {
+  if (!raw || typeof raw !== 'object') return null;
+  const r = raw as Partial<SketchAnalysis>;
+  return typeof r.status === 'string' && 'result' in r ? (raw as SketchAnalysis) : null;
+}
+
+function stripId(op: SketchOp): SketchOpDraft {
+  const { opId: _opId, ...rest } = op;
+  return rest as SketchOpDraft;
+}

@@ -1,0 +1,118 @@
+import type { Context } from 'konva/lib/Context';
+
+/**
+ * Plain drawing primitives in screen pixels. Renderers produce these (pure, testable); one
+ * Konva Shape per layer strokes them all in its sceneFunc, which keeps hundreds of wave lines
+ * to a single node and a single draw call per layer.
+ */
+export interface StrokePath {
+  /** Flat [x0, y0, x1, y1, …] in screen pixels. */
+  points: number[];
+  colour: string;
+  width: number;
+  dash?: number[];
+  alpha?: number;
+  closed?: boolean;
+  /** Fill colour for closed paths. */
+  fill?: string;
+}
+
+export interface Dot {
+  x: number;
+  y: number;
+  radius: number;
+  fill: string;
+  stroke?: string;
+  strokeWidth?: number;
+}
+
+export interface TextItem {
+  x: number;
+  y: number;
+  text: string;
+  colour: string;
+  /** CSS font shorthand. */
+  font: string;
+  align?: CanvasTextAlign;
+  baseline?: CanvasTextBaseline;
+}
+
+/** A horizontal colour gradient (legend). */
+export interface GradientBar {
+  x: number;
+  y: number;
+  width: number;
+  height: number;
+  stops: [number, string][];
+}
+
+export interface DrawList {
+  paths: StrokePath[];
+  dots: Dot[];
+  texts?: TextItem[];
+  bars?: GradientBar[];
+}
+
+export const EMPTY_DRAW_LIST: DrawList = { paths: [], dots: [] };
+
+/** Draws a list on a 2D context (used inside Konva sceneFuncs and by tests with a fake). */
+export function drawList(ctx: CanvasRenderingContext2D, list: DrawList): void {
+  ctx.save();
+  ctx.lineCap = 'round';
+  ctx.lineJoin = 'round';
+  for (const p of list.paths) {
+    if (p.points.length < 4) continue;
+    ctx.beginPath();
+    ctx.moveTo(p.points[0], p.points[1]);
+    for (let i = 2; i < p.points.length; i += 2) ctx.lineTo(p.points[i], p.points[i + 1]);
+    if (p.closed) ctx.closePath();
+    ctx.globalAlpha = p.alpha ?? 1;
+    if (p.fill) {
+      ctx.fillStyle = p.fill;
+      ctx.fill();
+    }
+    if (p.width > 0) {
+      ctx.setLineDash(p.dash ?? []);
+      ctx.strokeStyle = p.colour;
+      ctx.lineWidth = p.width;
+      ctx.stroke();
+    }
+  }
+  ctx.globalAlpha = 1;
+  ctx.setLineDash([]);
+  for (const d of list.dots) {
+    ctx.beginPath();
+    ctx.arc(d.x, d.y, d.radius, 0, Math.PI * 2);
+    ctx.fillStyle = d.fill;
+    ctx.fill();
+    if (d.stroke) {
+      ctx.strokeStyle = d.stroke;
+      ctx.lineWidth = d.strokeWidth ?? 1;
+      ctx.stroke();
+    }
+  }
+  for (const b of list.bars ?? []) {
+    const g = ctx.createLinearGradient(b.x, 0, b.x + b.width, 0);
+    for (const [t, c] of b.stops) g.addColorStop(t, c);
+    ctx.fillStyle = g;
+    ctx.fillRect(b.x, b.y, b.width, b.height);
+  }
+  for (const t of list.texts ?? []) {
+    ctx.font = t.font;
+    ctx.fillStyle = t.colour;
+    ctx.textAlign = t.align ?? 'left';
+    ctx.textBaseline = t.baseline ?? 'alphabetic';
+    ctx.fillText(t.text, t.x, t.y);
+  }
+  ctx.restore();
+}
+
+/** A Konva Shape config that draws `list` and takes no pointer events (hit tests are ours). */
+export function drawListShape(list: DrawList, name: string) {
+  return {
+    name,
+    listening: false,
+    perfectDrawEnabled: false,
+    sceneFunc: (ctx: Context) => drawList(ctx._context, list),
+  };
+}

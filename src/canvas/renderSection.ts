@@ -1,0 +1,98 @@
+import type { Point } from '@shared/model/sketch';
+import type { SolveResult } from '@shared/solver/types';
+import {
+  HOVER,
+  SECTION_FILL,
+  SECTION_INVALID,
+  SECTION_OUTLINE,
+  UNSOLVED_FACET,
+  VERTEX_FILL,
+  VERTEX_SELECTED,
+  pressureColour,
+  type PressureDomain,
+} from './colors';
+import type { Dot, DrawList, StrokePath } from './drawPaths';
+import type { LayerSettings } from './layers';
+import { toScreen, type View } from './view';
+
+/** Facet stroke width when shaded by Cp, pixels. */
+export const FACET_CP_WIDTH_PX = 4;
+export const VERTEX_RADIUS_PX = 3.5;
+export const SELECTED_RADIUS_PX = 5;
+
+export interface SectionRenderOptions {
+  selection: readonly number[];
+  /** The section as drawn is not a simple polygon (outline in the warning colour). */
+  invalid: boolean;
+  hoverVertex: number | null;
+  hoverFacet: number | null;
+  /** Vertices get dots (off while moving the whole section, for instance). */
+  showVertices: boolean;
+  /**
+   * The outline the solver saw when it differs from the drawn one (a deflected flap): drawn
+   * dashed, and the facets are shaded along it.
+   */
+  solvedPoints?: readonly Point[] | null;
+}
+
+function sameOutline(a: readonly Point[], b: readonly Point[]): boolean {
+  return a.length === b.length && a.every((p, i) => p[0] === b[i][0] && p[1] === b[i][1]);
+}
+
+/**
+ * p/p∞ per facet index (input edge i → i+1), when `result` solved a section with as many
+ * facets as `pointCount`; otherwise null (the result is for another outline).
+ */
+export function facetPressures(result: SolveResult | null, pointCount: number): (number | null)[] | null {
+  if (!result) return null;
+  const facets = [...result.surfaces.upper, ...result.surfaces.lower];
+  if (facets.length !== pointCount) return null;
+  const out: (number | null)[] = new Array(pointCount).fill(null);
+  for (const f of facets) if (f.index >= 0 && f.index < pointCount) out[f.index] = f.solved ? f.pRatio : null;
+  return out;
+}
+
+/**
+ * The section: a filled body, each facet stroked in the colour of its pressure (or neutral
+ * when unsolved or shading is off), vertices as dots with the selection highlighted.
+ */
+export function renderSection(points: readonly Point[], result: SolveResult | null, view: View, layers: LayerSettings, domain: PressureDomain, options: SectionRenderOptions): DrawList {
+  const n = points.length;
+  const paths: StrokePath[] = [];
+  const dots: Dot[] = [];
+  if (n === 0) return { paths, dots };
+  const screen = points.map((p) => toScreen(view, p));
+  const flat = screen.flat();
+  paths.push({ points: flat, colour: options.invalid ? SECTION_INVALID : SECTION_OUTLINE, width: 1, closed: true, fill: SECTION_FILL, dash: options.invalid ? [4, 3] : undefined });
+  const solved = options.solvedPoints && !sameOutline(options.solvedPoints, points) ? options.solvedPoints : null;
+  const shaded = solved ? solved.map((p) => toScreen(view, p)) : screen;
+  if (solved) paths.push({ points: shaded.flat(), colour: SECTION_OUTLINE, width: 1, dash: [5, 4], closed: true, alpha: 0.8 });
+  const m = shaded.length;
+  const pressures = layers.surfaceCp && !options.invalid ? facetPressures(result, m) : null;
+  if (pressures) {
+    for (let i = 0; i < m; i++) {
+      const a = shaded[i];
+      const b = shaded[(i + 1) % m];
+      const p = pressures[i];
+      paths.push({
+        points: [a[0], a[1], b[0], b[1]],
+        colour: p === null ? UNSOLVED_FACET : pressureColour(p, domain),
+        width: FACET_CP_WIDTH_PX,
+        dash: p === null ? [3, 3] : undefined,
+      });
+    }
+  }
+  if (options.hoverFacet !== null && options.hoverFacet < n) {
+    const a = screen[options.hoverFacet];
+    const b = screen[(options.hoverFacet + 1) % n];
+    paths.push({ points: [a[0], a[1], b[0], b[1]], colour: HOVER, width: 1.5, alpha: 0.9 });
+  }
+  if (options.showVertices) {
+    const selected = new Set(options.selection);
+    screen.forEach(([x, y], i) => {
+      if (selected.has(i)) dots.push({ x, y, radius: SELECTED_RADIUS_PX, fill: VERTEX_SELECTED, stroke: '#0b2b2a', strokeWidth: 1.5 });
+      else dots.push({ x, y, radius: i === options.hoverVertex ? SELECTED_RADIUS_PX : VERTEX_RADIUS_PX, fill: VERTEX_FILL, stroke: '#0c1418', strokeWidth: 1 });
+    });
+  }
+  return { paths, dots };
+}

@@ -1,0 +1,167 @@
+import { describe, expect, it } from 'vitest';
+import type { Point } from '@shared/model/sketch';
+import { parseSolveInput } from '@shared/model/solveInput';
+import { solveSection } from '@shared/solver';
+import {
+  CANVAS_BACKGROUND,
+  PRESSURE_SCALE_START,
+  UNSOLVED_FACET,
+  contrastRatio,
+  cpFromPressureRatio,
+  pressureColour,
+  pressureColourAt,
+  pressureDomain,
+  pressureRatioFromCp,
+  pressureT,
+} from '@/canvas/colors';
+import { DEFAULT_LAYERS } from '@/canvas/layers';
+import { legendModel } from '@/canvas/legend';
+import { renderLimits } from '@/canvas/renderLimits';
+import { FACET_CP_WIDTH_PX, facetPressures, renderSection } from '@/canvas/renderSection';
+import { SLIP_DASH_PX, renderWaves, resultDomain } from '@/canvas/renderWaves';
+import { facetTooltip, waveTooltip } from '@/canvas/tooltips';
+import { toScreen } from '@/canvas/view';
+import { expectClose } from '../../helpers/expectClose';
+
+function solve(points: Point[], mach: number, alphaDeg: number) {
+  const parsed = parseSolveInput({ section: { points }, flow: { mach, alphaDeg } });
+  if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+  return solveSection(parsed.value);
+}
+
+const wedge: Point[] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
+const view = { scale: 400, originX: 100, originY: 250 };
+const size = { width: 900, height: 500 };
+const sectionOptions = { selection: [], invalid: false, hoverVertex: null, hoverFacet: null, showVertices: true };
+
+describe('pressure colours', () => {
+  it('[C1] every colour of the scale keeps at least 3:1 contrast with the canvas background', () => {
+    for (let i = 0; i <= 100; i++) expect(contrastRatio(pressureColourAt(i / 100), CANVAS_BACKGROUND)).toBeGreaterThanOrEqual(3);
+  });
+
+  it('[C1] the cut of the scale is needed: the part below it would fall under 3:1', () => {
+    expect(PRESSURE_SCALE_START).toBeGreaterThan(0);
+    expect(contrastRatio('#440154', CANVAS_BACKGROUND)).toBeLessThan(3); // viridis(0)
+  });
+
+  it('[C2] the domain is symmetric about p/p∞ = 1 in log, so free-stream pressure is mid-scale', () => {
+    const d = pressureDomain([0.6, 1.3, 2.1]);
+    expectClose(d.min * d.max, 1, 1e-12);
+    expect(d.max).toBeGreaterThanOrEqual(2.1);
+    expectClose(pressureT(1, d), 0.5, 1e-12);
+    expect(pressureT(d.max, d)).toBeCloseTo(1, 12);
+    // Rounded to 0.05 in ln(p/p∞): a small change of the largest pressure keeps the domain.
+    expect(pressureDomain([2.1]).max).toBe(pressureDomain([2.11]).max);
+  });
+
+  it('Cp and p/p∞ convert both ways (Cp = 2/(γM²)(p/p∞ − 1), definition)', () => {
+    expectClose(cpFromPressureRatio(1.5, 2, 1.4), (2 / (1.4 * 4)) * 0.5, 1e-15);
+    expectClose(pressureRatioFromCp(cpFromPressureRatio(0.7, 3, 1.3), 3, 1.3), 0.7, 1e-14);
+  });
+
+  it('the legend keeps its colours and changes only its tick labels between p/p∞ and Cp', () => {
+    const d = pressureDomain([0.5, 2]);
+    const p = legendModel(d, 'pressureRatio', 2, 1.4);
+    const cp = legendModel(d, 'cp', 2, 1.4);
+    expect(cp.stops).toEqual(p.stops);
+    expect(p.ticks.map((t) => t.label)[2]).toBe('1');
+    expect(cp.ticks.map((t) => t.label)[2]).toBe('0');
+    expect(cp.title).toMatch(/^Cp/);
+  });
+});
+
+describe('wave map renderer', () => {
+  const result = solve(wedge, 2, 2);
+  const domain = resultDomain(result);
+
+  it('draws each shock, Mach and slip line once and each fan ray, coloured by the pressure behind', () => {
+    const list = renderWaves(result, view, DEFAULT_LAYERS, domain);
+    const expected = result.waves.reduce((n, w) => n + (w.kind === 'fan' && w.rays?.length ? w.rays.length : 1), 0);
+    expect(list.paths).toHaveLength(expected);
+    const shock = result.waves.find((w) => w.kind === 'shock')!;
+    const drawn = list.paths.find((p) => p.points[2] === toScreen(view, shock.end)[0] && p.points[3] === toScreen(view, shock.end)[1])!;
+    expect(drawn.colour).toBe(pressureColour(shock.pRatioBehind, domain));
+    expect(drawn.points.slice(0, 2)).toEqual(toScreen(view, shock.origin));
+  });
+
+  it('draws the slip line dashed, and only the slip line', () => {
+    const list = renderWaves(result, view, DEFAULT_LAYERS, domain);
+    const dashed = list.paths.filter((p) => p.dash);
+    expect(dashed).toHaveLength(result.waves.filter((w) => w.kind === 'slip').length);
+    expect(dashed[0].dash).toEqual(SLIP_DASH_PX);
+  });
+
+  it('layer toggles remove their kind of wave', () => {
+    const noFans = renderWaves(result, view, { ...DEFAULT_LAYERS, fans: false }, domain);
+    const fanRays = result.waves.filter((w) => w.kind === 'fan').reduce((n, w) => n + (w.rays?.length ?? 1), 0);
+    expect(renderWaves(result, view, DEFAULT_LAYERS, domain).paths.length - noFans.paths.length).toBe(fanRays);
+    expect(renderWaves(null, view, DEFAULT_LAYERS, domain).paths).toEqual([]);
+  });
+});
+
+describe('section renderer', () => {
+  it('shades every solved facet by its pressure', () => {
+    const result = solve(wedge, 2, 2);
+    const domain = resultDomain(result);
+    const list = renderSection(wedge, result, view, DEFAULT_LAYERS, domain, sectionOptions);
+    const facets = list.paths.filter((p) => p.width === FACET_CP_WIDTH_PX);
+    expect(facets).toHaveLength(4);
+    const pressures = facetPressures(result, 4)!;
+    facets.forEach((f, i) => expect(f.colour).toBe(pressureColour(pressures[i]!, domain)));
+    expect(list.dots).toHaveLength(4);
+  });
+
+  it('draws unsolved facets (past a limit) in the neutral dashed style', () => {
+    const result = solve([[0, 0], [0.5, 0.06], [1, 0], [0.5, -0.06]], 1.4, 5);
+    expect(result.status).toBe('detached');
+    const list = renderSection(result.geometry.lower.length ? [[0, 0], [0.5, 0.06], [1, 0], [0.5, -0.06]] : [], result, view, DEFAULT_LAYERS, resultDomain(result), sectionOptions);
+    const unsolved = list.paths.filter((p) => p.width === FACET_CP_WIDTH_PX && p.colour === UNSOLVED_FACET);
+    expect(unsolved.length).toBeGreaterThan(0);
+    expect(unsolved.every((p) => p.dash)).toBe(true);
+  });
+
+  it('a result for another outline is not used for shading; selection is highlighted', () => {
+    const result = solve(wedge, 2, 2);
+    const five: Point[] = [[0, 0], [0.3, 0.02], [0.6, 0.02], [1, 0], [0.5, -0.02]];
+    expect(facetPressures(result, 5)).toBeNull();
+    const list = renderSection(five, result, view, DEFAULT_LAYERS, resultDomain(result), { ...sectionOptions, selection: [2] });
+    expect(list.paths.filter((p) => p.width === FACET_CP_WIDTH_PX)).toHaveLength(0);
+    expect(list.dots[2].radius).toBeGreaterThan(list.dots[1].radius);
+  });
+});
+
+describe('limits and tooltips', () => {
+  it('puts a labelled ring at the limit vertex with the numbers and the sentence, inside the canvas', () => {
+    const result = solve([[0, 0], [0.5, 0.06], [1, 0], [0.5, -0.06]], 1.4, 5);
+    const { marks, labels } = renderLimits(result, view, size);
+    expect(marks.dots).toHaveLength(result.limits.length);
+    expect([marks.dots[0].x, marks.dots[0].y]).toEqual(toScreen(view, result.limits[0].at));
+    expect(labels[0].title).toBe('detached at vertex 0, lower surface');
+    expect(labels[0].numbers).toMatch(/^θ 11\.8°, θmax 9\.4°$/);
+    expect(labels[0].sentence).toBe(result.limits[0].message);
+    for (const l of labels) {
+      expect(l.x).toBeGreaterThanOrEqual(0);
+      expect(l.y).toBeGreaterThanOrEqual(0);
+    }
+  });
+
+  it('a wave tooltip gives kind, angle, M before and after and the pressure ratio', () => {
+    const result = solve(wedge, 2, 2);
+    const shock = result.waves.find((w) => w.kind === 'shock')!;
+    const tip = waveTooltip(shock, null, result, 'pressureRatio');
+    expect(tip.title).toMatch(/^Oblique shock · (upper|lower) surface, vertex \d+$/);
+    const text = tip.lines.join('\n');
+    expect(text).toContain(`angle ${Number(shock.angleDeg.toPrecision(4))}°`);
+    expect(text).toContain(`M ${Number(shock.upstream.mach.toPrecision(4))} → ${Number(shock.downstream.mach.toPrecision(4))}`);
+    expect(text).toContain('pressure ratio across');
+    const fan = result.waves.find((w) => w.kind === 'fan')!;
+    expect(waveTooltip(fan, 1, result, 'cp').title).toMatch(/^Expansion fan \(ray 2 of \d+\)/);
+  });
+
+  it('a facet tooltip gives its Mach number and Cp', () => {
+    const result = solve(wedge, 2, 2);
+    const tip = facetTooltip(0, result)!;
+    const facet = [...result.surfaces.upper, ...result.surfaces.lower].find((f) => f.index === 0)!;
+    expect(tip.lines[0]).toBe(`M ${Number(facet.mach!.toPrecision(4))}, Cp ${Number(facet.cp!.toPrecision(4))}`);
+  });
+});

@@ -17,10 +17,13 @@ export default defineConfig({
     }),
   ],
   resolve: {
-    alias: {
-      '@': fileURLToPath(new URL('./src', import.meta.url)),
-      '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
-    },
+    alias: [
+      { find: '@', replacement: fileURLToPath(new URL('./src', import.meta.url)) },
+      { find: '@shared', replacement: fileURLToPath(new URL('./shared', import.meta.url)) },
+      // vue-konva/core imports the bare 'konva' package (every shape and filter, ~25 KB gzip)
+      // only to read a flag; point it at Konva's core. The canvas registers the shapes it uses.
+      { find: /^konva$/, replacement: 'konva/lib/Core' },
+    ],
   },
   build: {
     outDir: 'dist/client',

@@ -1,0 +1,47 @@
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { gzipSync } from 'node:zlib';
+
+/** One chunk of a Vite build manifest (build.manifest: true). */
+interface ManifestChunk {
+  file: string;
+  src?: string;
+  isEntry?: boolean;
+  imports?: string[];
+  dynamicImports?: string[];
+}
+
+export interface RouteSize {
+  files: { file: string; bytes: number; gzip: number }[];
+  bytes: number;
+  gzip: number;
+}
+
+/**
+ * The JavaScript a browser must load before a lazily imported route renders: the entry chunk,
+ * the route's own chunk, and everything either imports statically (dynamic imports — the
+ * chart, dialogs, the worker — are not counted). Sizes from the built files, gzip level 9.
+ */
+export function routeInitialJs(outDir: string, routeSource: string): RouteSize {
+  const manifest = JSON.parse(readFileSync(path.join(outDir, '.vite/manifest.json'), 'utf8')) as Record<string, ManifestChunk>;
+  const entry = Object.entries(manifest).find(([, c]) => c.isEntry)?.[0];
+  if (!entry) throw new Error('The build manifest has no entry chunk.');
+  if (!manifest[routeSource]) throw new Error(`The build manifest has no chunk for ${routeSource}.`);
+  const seen = new Set<string>();
+  const visit = (key: string) => {
+    if (seen.has(key)) return;
+    seen.add(key);
+    for (const imp of manifest[key].imports ?? []) visit(imp);
+  };
+  visit(entry);
+  visit(routeSource);
+  const files = [...seen]
+    .map((key) => manifest[key].file)
+    .filter((f) => f.endsWith('.js'))
+    .map((file) => {
+      const buf = readFileSync(path.join(outDir, file));
+      return { file, bytes: buf.length, gzip: gzipSync(buf, { level: 9 }).length };
+    })
+    .sort((a, b) => b.gzip - a.gzip);
+  return { files, bytes: files.reduce((s, f) => s + f.bytes, 0), gzip: files.reduce((s, f) => s + f.gzip, 0) };
+}

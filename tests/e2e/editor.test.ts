@@ -1,0 +1,211 @@
+import { readFileSync } from 'node:fs';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { startServer, type RunningServer } from '../../server/index.ts';
+import { seedDemoOnce, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
+import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
+import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
+import { testEnv } from '../helpers/app.ts';
+import { openBrowser, screenshot, type BrowserSession } from '../helpers/browser.ts';
+
+/** Screen position of vertex `i` (from the vertex table and the canvas's view attribute). */
+async function vertexOnScreen(page: Page, i: number): Promise<{ x: number; y: number }> {
+  const canvas = page.getByTestId('sketch-canvas');
+  const box = (await canvas.boundingBox())!;
+  const [scale, originX, originY] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
+  const vx = Number(await page.getByTestId(`vertex-x-${i}`).inputValue());
+  const vy = Number(await page.getByTestId(`vertex-y-${i}`).inputValue());
+  return { x: box.x + vx * scale + originX, y: box.y - vy * scale + originY };
+}
+
+async function signIn(page: Page, email: string, baseUrl: string) {
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
+  await page.getByTestId('sign-in-submit').click();
+  await page.getByTestId('sketch-table').waitFor();
+}
+
+const text = (page: Page, id: string) => page.getByTestId(id).textContent();
+
+describe('sketch editor in Chromium', () => {
+  let database: TestDatabase;
+  let server: RunningServer;
+  let browser: BrowserSession;
+
+  beforeAll(async () => {
+    database = await createTestDatabase();
+    await seedDemoOnce(database.db);
+    server = await startServer(testEnv(database.url), { log: () => {} });
+    browser = await openBrowser(server.url);
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await server?.close();
+    await database?.drop();
+  });
+
+  it('lists the team’s sketches on the home table and filters them by search', async () => {
+    const { page } = browser;
+    await signIn(page, DEMO_PEOPLE[0].email, server.url);
+    const rows = page.locator('[data-testid^="sketch-row-"]');
+    await expect.poll(() => rows.count()).toBe(DEMO_SKETCHES.length);
+    await page.getByTestId('home-search').fill('canard');
+    await expect.poll(() => rows.count()).toBe(1);
+    expect(await rows.first().textContent()).toContain('Tern canard');
+    await page.getByTestId('home-search').fill('');
+    await screenshot(page, 'editor-home');
+  });
+
+  it('creates a sketch from a template and shows its wave map, coefficients and the caution', async () => {
+    const { page } = browser;
+    await page.getByTestId('new-sketch').click();
+    await page.getByTestId('template-hexagonal').click();
+    // The test id lands on the number input itself or on its wrapper, depending on the component.
+    const thickness = page.getByTestId('template-param-thicknessPercent').locator('xpath=descendant-or-self::input');
+    await thickness.fill('5');
+    await thickness.press('Tab');
+    await expect.poll(() => page.getByTestId('create-title').inputValue()).toBe('Hexagonal — thickness ratio 5 % c, flat length 50 % c');
+    await page.getByTestId('create-confirm').click();
+    await page.getByTestId('sketch-canvas').waitFor();
+    expect(await text(page, 'sketch-title')).toContain('Hexagonal — thickness ratio 5 % c');
+    expect(await page.locator('[data-testid^="vertex-row-"]').count()).toBe(6);
+    expect(await page.getByTestId('vertex-y-1').inputValue()).toBe('0.025');
+    await expect.poll(() => text(page, 'results-status')).toBe('ok');
+    expect(Number(await text(page, 'coef-exact-cl'))).toBeGreaterThan(0);
+    expect(Number(await page.getByTestId('sketch-canvas').getAttribute('data-wave-count'))).toBeGreaterThan(0);
+    expect(await text(page, 'results-caution')).toBe(RESULTS_CAUTION);
+    await page.getByTestId('cp-chart').waitFor();
+    await screenshot(page, 'editor-template');
+    expect(browser.foreignRequests).toEqual([]);
+  });
+
+  it('drags a vertex: cl changes, one edit is saved, and undo/redo step it back and forth', async () => {
+    const { page } = browser;
+    const clBefore = await text(page, 'coef-exact-cl');
+    const yBefore = await page.getByTestId('vertex-y-1').inputValue();
+    const start = await vertexOnScreen(page, 1);
+    // Act: press on vertex 1 (upper front shoulder) and drag it 30 px up in small steps.
+    await page.mouse.move(start.x, start.y);
+    await page.mouse.down();
+    for (let i = 1; i <= 10; i++) await page.mouse.move(start.x, start.y - 3 * i);
+    await page.mouse.up();
+    // Assert: the table shows the new position, cl changed, and the edit was saved.
+    await expect.poll(() => page.getByTestId('vertex-y-1').inputValue()).not.toBe(yBefore);
+    const yAfter = await page.getByTestId('vertex-y-1').inputValue();
+    expect(Number(yAfter)).toBeGreaterThan(Number(yBefore));
+    await expect.poll(() => text(page, 'coef-exact-cl')).not.toBe(clBefore);
+    const clAfter = await text(page, 'coef-exact-cl');
+    await expect.poll(() => page.getByTestId('save-state').getAttribute('data-state'), { timeout: 10_000 }).toBe('saved');
+    await screenshot(page, 'editor-drag');
+
+    // Undo with the keyboard, redo with Ctrl+Shift+Z, undo again with the toolbar button.
+    await page.getByTestId('sketch-canvas').focus();
+    await page.keyboard.press('Control+z');
+    await expect.poll(() => page.getByTestId('vertex-y-1').inputValue()).toBe(yBefore);
+    await expect.poll(() => text(page, 'coef-exact-cl')).toBe(clBefore);
+    await page.keyboard.press('Control+Shift+z');
+    await expect.poll(() => page.getByTestId('vertex-y-1').inputValue()).toBe(yAfter);
+    await expect.poll(() => text(page, 'coef-exact-cl')).toBe(clAfter);
+    await page.getByTestId('undo').click();
+    await expect.poll(() => page.getByTestId('vertex-y-1').inputValue()).toBe(yBefore);
+    await page.keyboard.press('Control+y');
+    await expect.poll(() => page.getByTestId('vertex-y-1').inputValue()).toBe(yAfter);
+    await expect.poll(() => page.getByTestId('save-state').getAttribute('data-state'), { timeout: 10_000 }).toBe('saved');
+
+    // The saved document survives a reload.
+    await page.reload();
+    await page.getByTestId('vertex-y-1').waitFor();
+    expect(await page.getByTestId('vertex-y-1').inputValue()).toBe(yAfter);
+  });
+
+  it('edits a vertex in the table and refuses a crossing with the reason', async () => {
+    const { page } = browser;
+    const cell = page.getByTestId('vertex-x-1');
+    await cell.fill('0.3');
+    await cell.press('Enter');
+    await expect.poll(() => page.getByTestId('vertex-x-1').inputValue()).toBe('0.3');
+    // Move the nose beyond the tail's neighbours: the outline would cross itself.
+    const nose = page.getByTestId('vertex-x-0');
+    await nose.fill('0.9');
+    await nose.press('Enter');
+    await expect.poll(() => text(page, 'vertex-table-error')).toMatch(/not allowed: facet \d .* cross/);
+    await nose.press('Escape');
+    expect(await page.getByTestId('vertex-x-0').inputValue()).toBe('0');
+  });
+
+  it('imports a coordinates file: an error is listed with its line and nothing changes; a good file replaces the section', async () => {
+    const { page } = browser;
+    const countBefore = await page.locator('[data-testid^="vertex-row-"]').count();
+    await page.getByTestId('open-import').click();
+    await page.getByTestId('import-file').setInputFiles({
+      name: 'tern-ramp.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from('# Tern ramp, bad file\nx,y\n0,0\n0.5,0.04\n1;0;2\n0.5,-0.04\n'),
+    });
+    await page.getByTestId('import-issues').waitFor();
+    expect(await text(page, 'import-issues')).toContain('Line 5: expected two values (x y), found 3.');
+    expect(await page.getByTestId('import-confirm').isDisabled()).toBe(true);
+    await screenshot(page, 'editor-import-error');
+    expect(await page.locator('[data-testid^="vertex-row-"]').count()).toBe(countBefore);
+
+    await page.getByTestId('import-file').setInputFiles({
+      name: 'tern-ramp.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from('x y\n0 0\n0.3 0.03\n0.7 0.03\n1 0\n0.5 -0.02\n'),
+    });
+    await page.getByTestId('import-ready').waitFor();
+    await page.getByTestId('import-confirm').click();
+    await expect.poll(() => page.locator('[data-testid^="vertex-row-"]').count()).toBe(5);
+    expect(await page.getByTestId('vertex-y-2').inputValue()).toBe('0.03');
+  });
+
+  it('exports the section as CSV and the per-facet result with the caution', async () => {
+    const { page } = browser;
+    await page.getByTestId('open-export').click();
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-sectionCsv').click()]);
+    expect(download.suggestedFilename()).toMatch(/-section\.csv$/);
+    const csv = readFileSync((await download.path())!, 'utf8').trim().split('\n');
+    expect(csv[0]).toMatch(/^# Shockwright section: /);
+    expect(csv.slice(2)).toEqual(['x,y', '0,0', '0.3,0.03', '0.7,0.03', '1,0', '0.5,-0.02']);
+
+    await page.getByTestId('open-export').click();
+    const [facets] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-facetCsv').click()]);
+    const facetText = readFileSync((await facets.path())!, 'utf8');
+    expect(facetText).toContain(`# ${RESULTS_CAUTION}`);
+    expect(facetText.trim().split('\n').filter((l) => /^(upper|lower),/.test(l))).toHaveLength(5);
+    expect(browser.foreignRequests).toEqual([]);
+  });
+
+  it('draws a limit at its vertex and says in the results what is not valid', async () => {
+    const { page } = browser;
+    await page.getByTestId('back-home').click();
+    await page.getByRole('link', { name: /Booster fin/ }).click();
+    await page.getByTestId('sketch-canvas').waitFor();
+    await expect.poll(() => text(page, 'results-status')).toBe('detached');
+    const validity = await text(page, 'results-validity');
+    expect(validity).toContain('Nose shock detaches on the lower surface');
+    expect(validity).toContain('Exact (shock-expansion) coefficients are not given');
+    expect(await text(page, 'coef-exact-cl')).toBe('—');
+    expect(await text(page, 'results-caution')).toBe(RESULTS_CAUTION);
+    await screenshot(page, 'editor-detached');
+  });
+
+  it('a viewer sees the table and the editor without editing controls', async () => {
+    const { page } = browser;
+    await page.getByTestId('back-home').click();
+    await page.getByRole('button', { name: 'Sign out' }).click();
+    await page.getByTestId('sign-in-email').waitFor();
+    await signIn(page, DEMO_PEOPLE[3].email, server.url);
+    expect(await page.getByTestId('new-sketch').count()).toBe(0);
+    expect(await page.locator('[data-testid^="rename-"]').count()).toBe(0);
+    expect(await page.locator('[data-testid^="delete-"]').count()).toBe(0);
+    await page.locator('[data-testid^="open-sketch_"]').first().click();
+    await page.getByTestId('sketch-canvas').waitFor();
+    expect(await text(page, 'status-line')).toContain('Read only');
+    expect(await page.getByTestId('tool-draw').isDisabled()).toBe(true);
+    expect(await page.getByTestId('open-import').count()).toBe(0);
+    expect(await page.getByTestId('vertex-x-0').getAttribute('readonly')).not.toBeNull();
+    expect(browser.foreignRequests).toEqual([]);
+  });
+});

@@ -12,7 +12,7 @@ export interface AppEvents {
   sketchNotice: [sketchId: string, topic: NoticeTopic];
 }
 
-export type NoticeTopic = 'pins' | 'snapshots' | 'status' | 'activity';
+export type NoticeTopic = 'pins' | 'snapshots' | 'status' | 'activity' | 'studies';
 
 /**
  * What services need besides their arguments: the database, outgoing mail and the public base

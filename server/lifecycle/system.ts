@@ -51,14 +51,23 @@ export function findPostgresBin(): string | null {
 }
 
 export const CHROMIUM_PATH = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+/** poppler-utils: the report tests read PDFs with pdftotext, pdffonts and pdftoppm. */
+export const PDFTOPPM_PATH = '/usr/bin/pdftoppm';
 
-/** Makes sure the PostgreSQL server binaries (and optionally Chromium) are present. */
+const PACKAGE_WORDS: Record<string, string> = {
+  postgresql: 'the PostgreSQL server',
+  chromium: 'Chromium (for browser tests)',
+  'poppler-utils': 'poppler-utils (to check PDF reports in tests)',
+};
+
+/** Makes sure the PostgreSQL server binaries (and, for tests, Chromium and poppler-utils) are present. */
 export function ensureSystemPackages(options: { chromium: boolean }): { pgBin: string } {
   const missing: string[] = [];
   if (!findPostgresBin()) missing.push('postgresql');
   if (options.chromium && !existsSync(CHROMIUM_PATH)) missing.push('chromium');
+  if (options.chromium && !existsSync(PDFTOPPM_PATH)) missing.push('poppler-utils');
   if (missing.length) {
-    aptInstall(missing, `Missing ${missing.map((m) => (m === 'postgresql' ? 'the PostgreSQL server' : 'Chromium (for browser tests)')).join(' and ')}.`);
+    aptInstall(missing, `Missing ${missing.map((m) => PACKAGE_WORDS[m]).join(' and ')}.`);
   }
   const pgBin = findPostgresBin();
   if (!pgBin) throw new Error('PostgreSQL server binaries not found under /usr/lib/postgresql/*/bin even after installing; install the Debian package postgresql.');

@@ -118,8 +118,8 @@ export type ServerMessage =
   | { type: 'people'; sketchId: string; people: Person[] }
   | { type: 'walkthrough'; sketchId: string; state: WalkthroughState }
   | { type: 'walkthroughView'; sketchId: string; view: View; highlight: Highlight; leadUserId: string }
-  /** Pins, snapshots, status or activity of the sketch changed: refetch that list. */
-  | { type: 'notice'; sketchId: string; topic: 'pins' | 'snapshots' | 'status' | 'activity' }
+  /** Pins, snapshots, status, activity or studies of the sketch changed: refetch that list. */
+  | { type: 'notice'; sketchId: string; topic: 'pins' | 'snapshots' | 'status' | 'activity' | 'studies' }
   | { type: 'error'; code: string; reason: string; about?: string };
 
 /** socket.io typed event maps: one event each way. */

@@ -5,7 +5,9 @@ import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
 import { defaultSketchDocument } from '../../shared/model/sketch.ts';
 import { hashToken } from '../../server/auth/tokens.ts';
 import { eq } from 'drizzle-orm';
-import { invitations, mailMessages, memberships, pinReplies, pins, snapshots, teams, users } from '../../server/db/schema.ts';
+import { invitations, mailMessages, memberships, pinReplies, pins, snapshots, studies, teams, users } from '../../server/db/schema.ts';
+import { runStudy } from '../../shared/flight/study.ts';
+import { studyDefinitionSchema } from '../../shared/model/study.ts';
 import { listRoutes } from '../helpers/routes.ts';
 import { ACTORS, CSRF, createWorld, freshSketch, freshTeam, signIn, type Actor, type World } from '../helpers/world.ts';
 
@@ -55,6 +57,18 @@ async function freshSnapshot(w: World): Promise<string> {
   const id = newId('snap');
   await w.database.db.insert(snapshots).values({ id, sketchId, name: 'Baseline', revision: 0, title: 'Test sketch', document: defaultSketchDocument(), createdBy: w.users.owner.id });
   return id;
+}
+
+const SMALL_STUDY = { mach: { kind: 'list', values: [1.5, 2.5] }, alpha: { startDeg: -2, endDeg: 2, stepDeg: 2 } } as const;
+
+async function freshStudy(w: World): Promise<{ sketchId: string; studyId: string }> {
+  const sketchId = await freshSketch(w);
+  const definition = studyDefinitionSchema.parse(SMALL_STUDY);
+  const outcome = runStudy(defaultSketchDocument(), definition);
+  if (outcome.status !== 'done') throw new Error('study fixture failed');
+  const studyId = newId('study');
+  await w.database.db.insert(studies).values({ id: studyId, sketchId, name: 'Sweep', definition, results: outcome.results, revision: 0, points: outcome.results.rows.length, counts: outcome.results.counts, createdBy: w.users.editor.id });
+  return { sketchId, studyId };
 }
 
 const TABLE: Record<string, Entry> = {
@@ -177,6 +191,24 @@ const TABLE: Record<string, Entry> = {
     ok: 200,
     prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/review-requests`, body: { reviewerIds: [w.users.reviewer.id] } }),
   },
+  'GET /api/sketches/:sketchId/studies': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/studies` }) },
+  'POST /api/sketches/:sketchId/studies': {
+    need: 'editor',
+    ok: 201,
+    prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/studies`, body: { name: 'Envelope', definition: SMALL_STUDY } }),
+  },
+  'GET /api/studies/:studyId': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/studies/${(await freshStudy(w)).studyId}` }) },
+  'DELETE /api/studies/:studyId': { need: 'editor', ok: 204, prepare: async (w) => ({ path: `/api/studies/${(await freshStudy(w)).studyId}` }) },
+  'GET /api/sketches/:sketchId/report.pdf': {
+    need: 'viewer',
+    ok: 200,
+    prepare: async (w) => {
+      const { sketchId, studyId } = await freshStudy(w);
+      return { path: `/api/sketches/${sketchId}/report.pdf?study=${studyId}` };
+    },
+  },
+  'GET /api/preferences': { need: 'signedIn', ok: 200, prepare: async () => ({ path: '/api/preferences' }) },
+  'PATCH /api/preferences': { need: 'signedIn', ok: 200, prepare: async () => ({ path: '/api/preferences', body: { unitSystem: 'si' } }) },
   'POST /api/solve': {
     need: 'signedIn',
     ok: 200,

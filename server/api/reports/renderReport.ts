@@ -1,0 +1,553 @@
+import PDFDocument from 'pdfkit';
+import { interpolateViridis } from 'd3-scale-chromatic';
+import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
+import { formatQuantity, toDisplay, unitLabel, type Quantity, type UnitSystem } from '../../../shared/flight/units.ts';
+import { unpackStudyRows, type StudyRow } from '../../../shared/model/study.ts';
+import type { Coefficients, Point, SolveResult, TheoryResult } from '../../../shared/solver/types.ts';
+import { ACCENT, INK, INK_SOFT, RULE, drawLineChart, drawMachKey, machColour, type LineChart } from './pdfCharts.ts';
+import { line, paragraph, registerFonts, widthOf } from './pdfText.ts';
+import type { ReportData, ReportStudy } from './reportData.ts';
+
+/**
+ * The PDF report of a sketch, drawn with pdfkit vectors only: title block, caution, the section
+ * and its wave map coloured by pressure (from the stored analysis' solved points and waves),
+ * condition, coefficients of the three theories, hinge moment, loads in the requester's units,
+ * and optionally a study's charts and tables. Fonts are embedded (see pdfText.ts). Every page
+ * carries the sketch, revision, page number and the caution in its footer.
+ */
+
+/** Largest study whose every point is printed as a table; bigger ones print the per-Mach table only. */
+export const REPORT_POINT_TABLE_MAX = 300;
+
+const PAGE = { width: 595.28, height: 841.89 };
+const M = { left: 44, right: 44, top: 44, bottom: 58 };
+const CONTENT_W = PAGE.width - M.left - M.right;
+const BOTTOM = PAGE.height - M.bottom;
+
+const CANVAS_BG = '#111c22';
+const SECTION_FILL = '#2b3c44';
+const SECTION_OUTLINE = '#c9d6da';
+const UNSOLVED = '#6b7d84';
+const LIMIT = '#ffb547';
+
+export function renderReport(data: ReportData): Promise<Buffer> {
+  const doc = new PDFDocument({
+    size: 'A4',
+    margins: M,
+    bufferPages: true,
+    autoFirstPage: true,
+    info: {
+      Title: `${data.title} — Shockwright report`,
+      Author: data.generatedBy,
+      Subject: `Sketch revision ${data.revision}${data.study ? `, study ${data.study.name}` : ''}`,
+      Creator: 'Shockwright',
+      CreationDate: data.generatedAt,
+    },
+  });
+  const chunks: Buffer[] = [];
+  const done = new Promise<Buffer>((resolve, reject) => {
+    doc.on('data', (c: Buffer) => chunks.push(c));
+    doc.on('end', () => resolve(Buffer.concat(chunks)));
+    doc.on('error', reject);
+  });
+  registerFonts(doc);
+  const ctx: Ctx = { doc, y: M.top, data };
+
+  titleBlock(ctx);
+  cautionBox(ctx);
+  waveMapPanel(ctx);
+  conditionAndStatus(ctx);
+  coefficientsTable(ctx);
+  loadsTables(ctx);
+  if (data.study) studyPages(ctx, data.study);
+  footers(ctx);
+  doc.end();
+  return done;
+}
+
+interface Ctx {
+  doc: PDFKit.PDFDocument;
+  y: number;
+  data: ReportData;
+}
+
+/** Starts a new page when fewer than `height` points are left. */
+function ensure(ctx: Ctx, height: number): void {
+  if (ctx.y + height > BOTTOM) newPage(ctx);
+}
+
+function newPage(ctx: Ctx): void {
+  ctx.doc.addPage();
+  ctx.y = M.top;
+}
+
+/** A section heading, kept on the same page as at least `keep` points of what follows. */
+function heading(ctx: Ctx, text: string, keep = 90): void {
+  ensure(ctx, 21 + keep);
+  line(ctx.doc, text, M.left, ctx.y, { size: 11, weight: 'bold', color: ACCENT });
+  ctx.y += 15;
+  ctx.doc.moveTo(M.left, ctx.y).lineTo(M.left + CONTENT_W, ctx.y).lineWidth(0.6).strokeColor(RULE).stroke();
+  ctx.y += 6;
+}
+
+/** 2.829e+6 → "2.829 × 10⁶" (Reynolds numbers). */
+function sci(v: number, digits = 4): string {
+  const [m, e] = v.toExponential(digits - 1).split('e');
+  const sup: Record<string, string> = { '-': '⁻', '+': '', 0: '⁰', 1: '¹', 2: '²', 3: '³', 4: '⁴', 5: '⁵', 6: '⁶', 7: '⁷', 8: '⁸', 9: '⁹' };
+  return `${Number(m)} × 10${[...e].map((c) => sup[c] ?? c).join('')}`;
+}
+
+const num = (v: number | null | undefined, digits = 4): string => {
+  if (v === null || v === undefined || !Number.isFinite(v)) return '—';
+  if (v === 0) return '0';
+  const abs = Math.abs(v);
+  const s = abs >= 1e-3 && abs < 1e6 ? String(Number(v.toPrecision(digits))) : v.toExponential(digits - 1);
+  return s.replace('-', '−');
+};
+const deg = (v: number | null | undefined) => (v === null || v === undefined ? '—' : `${num(v, 4)}°`);
+const qty = (v: number | null | undefined, q: Quantity, units: UnitSystem) => (v === null || v === undefined ? '—' : formatQuantity(v, q, units, 4).replace(/^-/, '−'));
+
+function titleBlock(ctx: Ctx): void {
+  const { doc, data } = ctx;
+  line(doc, 'SHOCKWRIGHT', M.left, ctx.y, { size: 8, weight: 'bold', color: ACCENT });
+  line(doc, data.study ? 'Section and study report' : 'Section report', M.left, ctx.y, { size: 8, color: INK_SOFT, width: CONTENT_W, align: 'right' });
+  ctx.y += 16;
+  ctx.y += paragraph(doc, data.title, M.left, ctx.y, CONTENT_W, { size: 19, weight: 'bold', color: INK });
+  const when = data.generatedAt.toISOString().replace('T', ' ').slice(0, 16);
+  const meta = [
+    `Sketch revision ${data.revision}`,
+    data.teamName ? `team ${data.teamName}` : null,
+    `generated ${when} UTC by ${data.generatedBy}`,
+    `units: ${data.units === 'si' ? 'SI' : 'US customary'}`,
+  ].filter(Boolean);
+  line(doc, meta.join(' · '), M.left, ctx.y + 2, { size: 8.5, color: INK_SOFT });
+  ctx.y += 20;
+}
+
+function cautionBox(ctx: Ctx): void {
+  const { doc } = ctx;
+  const text = `${RESULTS_CAUTION} Figures come from inviscid shock-expansion theory with linear (Ackeret) and second-order (Busemann) theory beside it; friction drag is a flat-plate estimate.`;
+  const innerW = CONTENT_W - 20;
+  // Measure by drawing off-page first would cost a pass; estimate lines from widths instead.
+  const lines = Math.ceil(widthOf(doc, text, { size: 8.5 }) / innerW) + 1;
+  const h = 16 + lines * 8.5 * 1.3 + 6;
+  doc.rect(M.left, ctx.y, CONTENT_W, h).lineWidth(0.8).fillColor('#fff8ec').strokeColor('#efc47a').fillAndStroke();
+  line(doc, 'Caution', M.left + 10, ctx.y + 6, { size: 9, weight: 'bold', color: '#7a4b00' });
+  paragraph(doc, text, M.left + 10, ctx.y + 19, innerW, { size: 8.5, color: '#4a3a1a' });
+  ctx.y += h + 12;
+}
+
+// ---- section and wave map ----
+
+/** The canvas's pressure scale: viridis from 0.4 up, symmetric in ln(p/p∞), ≥ ±ln 1.25, 0.05 steps. */
+function pressureScale(ratios: number[]): { colour: (p: number | null) => string; min: number; max: number } {
+  let span = Math.log(1.25);
+  for (const p of ratios) if (p > 0 && Number.isFinite(p)) span = Math.max(span, Math.abs(Math.log(p)));
+  span = Math.ceil(span / 0.05 - 1e-9) * 0.05;
+  const colour = (p: number | null) => {
+    if (p === null || !(p > 0)) return UNSOLVED;
+    const t = Math.min(1, Math.max(0, (Math.log(p) + span) / (2 * span)));
+    return interpolateViridis(0.4 + 0.6 * t);
+  };
+  return { colour, min: Math.exp(-span), max: Math.exp(span) };
+}
+
+function waveMapPanel(ctx: Ctx): void {
+  const { doc, data } = ctx;
+  const { analysis } = data;
+  const result = analysis.result;
+  const h = 260;
+  heading(ctx, 'Section and wave map', h + 40);
+  const x0 = M.left;
+  const y0 = ctx.y;
+  doc.rect(x0, y0, CONTENT_W, h).fillColor(CANVAS_BG).fill();
+
+  const pts: Point[] = analysis.solvedPoints;
+  const all: Point[] = [...pts];
+  for (const w of result?.waves ?? []) {
+    all.push(w.origin, w.end);
+    for (const r of w.rays ?? []) all.push(r.end);
+  }
+  const xs = all.map((p) => p[0]);
+  const ys = all.map((p) => p[1]);
+  let minX = Math.min(...xs);
+  let maxX = Math.max(...xs);
+  let minY = Math.min(...ys);
+  let maxY = Math.max(...ys);
+  const padX = (maxX - minX) * 0.04 || 0.1;
+  const padY = (maxY - minY) * 0.04 || 0.1;
+  minX -= padX;
+  maxX += padX;
+  minY -= padY;
+  maxY += padY;
+  const s = Math.min(CONTENT_W / (maxX - minX), h / (maxY - minY));
+  const ox = x0 + (CONTENT_W - (maxX - minX) * s) / 2;
+  const oy = y0 + (h - (maxY - minY) * s) / 2;
+  const X = (p: Point) => ox + (p[0] - minX) * s;
+  const Y = (p: Point) => oy + (maxY - p[1]) * s;
+
+  const ratios: number[] = [];
+  for (const w of result?.waves ?? []) {
+    ratios.push(w.pRatioBehind);
+    for (const r of w.rays ?? []) ratios.push(r.pRatio);
+  }
+  for (const f of [...(result?.surfaces.upper ?? []), ...(result?.surfaces.lower ?? [])]) if (f.pRatio !== null) ratios.push(f.pRatio);
+  const scale = pressureScale(ratios);
+
+  doc.save();
+  doc.rect(x0, y0, CONTENT_W, h).clip();
+  for (const w of result?.waves ?? []) {
+    if (w.kind === 'fan') {
+      doc.lineWidth(0.6);
+      for (const r of w.rays ?? []) doc.moveTo(X(w.origin), Y(w.origin)).lineTo(X(r.end), Y(r.end)).strokeColor(scale.colour(r.pRatio)).stroke();
+    } else if (w.kind === 'shock') {
+      doc.lineWidth(1.5).moveTo(X(w.origin), Y(w.origin)).lineTo(X(w.end), Y(w.end)).strokeColor(scale.colour(w.pRatioBehind)).stroke();
+    } else {
+      doc.lineWidth(0.7).dash(3, { space: 2.5 });
+      doc.moveTo(X(w.origin), Y(w.origin)).lineTo(X(w.end), Y(w.end)).strokeColor(w.kind === 'slip' ? '#e9f1f2' : scale.colour(w.pRatioBehind)).stroke();
+      doc.undash();
+    }
+  }
+  // The section, then each facet coloured by its pressure.
+  if (pts.length >= 3) {
+    doc.polygon(...pts.map((p): [number, number] => [X(p), Y(p)])).lineWidth(0.8).fillColor(SECTION_FILL).strokeColor(SECTION_OUTLINE).fillAndStroke();
+  }
+  doc.lineWidth(2.2).lineCap('round');
+  for (const f of [...(result?.surfaces.upper ?? []), ...(result?.surfaces.lower ?? [])]) {
+    doc.moveTo(X(f.from), Y(f.from)).lineTo(X(f.to), Y(f.to)).strokeColor(scale.colour(f.solved ? f.pRatio : null)).stroke();
+  }
+  doc.lineCap('butt');
+  for (const l of result?.limits ?? []) doc.circle(X(l.at), Y(l.at), 4).lineWidth(1.2).strokeColor(LIMIT).stroke();
+  if (analysis.flap) doc.circle(X(analysis.flap.hinge), Y(analysis.flap.hinge), 2.4).fillColor('#ffffff').fill();
+  doc.restore();
+  ctx.y = y0 + h + 6;
+
+  // Legend: the colour bar in p/p∞, and what the marks mean.
+  const barW = 180;
+  const grad = doc.linearGradient(M.left, 0, M.left + barW, 0);
+  for (let i = 0; i <= 10; i++) grad.stop(i / 10, interpolateViridis(0.4 + 0.06 * i));
+  doc.rect(M.left, ctx.y, barW, 7).fill(grad);
+  for (const t of [0, 0.5, 1]) {
+    const p = Math.exp(Math.log(scale.min) + t * (Math.log(scale.max) - Math.log(scale.min)));
+    const lx = t === 0 ? M.left : t === 1 ? M.left + barW - 40 : M.left + barW / 2 - 20;
+    line(doc, num(p, 3), lx, ctx.y + 9, { size: 6.5, color: INK_SOFT, width: 40, align: t === 0 ? 'left' : t === 1 ? 'right' : 'center' });
+  }
+  line(doc, 'p/p∞ behind each wave and on each facet', M.left + barW + 10, ctx.y - 1, { size: 7.5, color: INK });
+  const waveNote = result?.waves.length
+    ? 'Solid: shocks; thin rays: expansion fans; dashed: Mach lines and the slip line. Amber rings: where the theory stops holding.'
+    : analysis.result
+      ? 'The wave map is not stored for this section (very large sections are stored without it).'
+      : 'The section could not be solved; only its outline is drawn.';
+  paragraph(doc, `${waveNote}${analysis.flap ? ' White dot: flap hinge.' : ''}`, M.left + barW + 10, ctx.y + 9, CONTENT_W - barW - 10, { size: 7, color: INK_SOFT });
+  ctx.y += 34;
+}
+
+// ---- tables ----
+
+interface Column {
+  label: string;
+  width: number;
+  align?: 'left' | 'right';
+}
+
+/** A table with a header row; rows move to a new page (with the header again) as needed. */
+function table(ctx: Ctx, columns: Column[], rows: string[][], opts: { size?: number; rowHeight?: number; emphasise?: (i: number) => boolean } = {}): void {
+  const { doc } = ctx;
+  const size = opts.size ?? 8.5;
+  const rh = opts.rowHeight ?? size * 1.75;
+  const header = () => {
+    let x = M.left;
+    for (const c of columns) {
+      line(doc, c.label, x + 3, ctx.y + 2, { size: size - 0.5, weight: 'bold', color: INK_SOFT, width: c.width - 6, align: c.align ?? 'left' });
+      x += c.width;
+    }
+    ctx.y += rh;
+    doc.moveTo(M.left, ctx.y - 2).lineTo(M.left + columns.reduce((a, c) => a + c.width, 0), ctx.y - 2).lineWidth(0.6).strokeColor(RULE).stroke();
+  };
+  ensure(ctx, rh * 3);
+  header();
+  rows.forEach((row, i) => {
+    if (ctx.y + rh > BOTTOM) {
+      newPage(ctx);
+      header();
+    }
+    if (i % 2 === 1) doc.rect(M.left, ctx.y - 2, columns.reduce((a, c) => a + c.width, 0), rh).fillColor('#f4f6f5').fill();
+    let x = M.left;
+    row.forEach((cell, j) => {
+      const c = columns[j];
+      line(doc, cell, x + 3, ctx.y + 1, { size, weight: opts.emphasise?.(i) && j === 0 ? 'bold' : 'regular', color: INK, width: c.width - 6, align: c.align ?? 'left' });
+      x += c.width;
+    });
+    ctx.y += rh;
+  });
+  ctx.y += 8;
+}
+
+function conditionAndStatus(ctx: Ctx): void {
+  const { data } = ctx;
+  const d = data.document;
+  const u = data.units;
+  heading(ctx, 'Condition');
+  const rows: string[][] = [
+    ['Mach number M∞', num(d.condition.mach, 5)],
+    ['Incidence α (nose up +)', deg(d.condition.alphaDeg)],
+    ['Ratio of specific heats γ', num(d.condition.gamma, 5)],
+    ['Altitude (1976 standard atmosphere)', d.condition.altitudeM === null ? 'not given (no loads or friction)' : qty(d.condition.altitudeM, 'altitude', u)],
+    ['Flap', d.flap ? `hinge at x/c = ${num(d.flap.hingeXOverC, 4)}, deflection δ = ${deg(d.flap.deflectionDeg)} (trailing edge down +)` : 'none'],
+    ['Moment point', d.momentPoint ? `(${num(d.momentPoint[0])}, ${num(d.momentPoint[1])}) in drawing units` : 'quarter chord on the nose line'],
+    ['Physical chord and span', `${qty(d.loads.chordM, 'length', u)} chord, ${qty(d.loads.spanM, 'length', u)} span`],
+    ['Friction', d.loads.friction === 'none' ? 'none (wave drag only)' : `${d.loads.friction} flat plate, reference-temperature method`],
+    ['Section', `${d.section.points.length} vertices${data.analysis.result ? `, max thickness ${num(100 * data.analysis.result.geometry.maxThicknessRatio, 3)} % of chord` : ''}`],
+  ];
+  table(ctx, [{ label: 'Quantity', width: 190 }, { label: 'Value', width: CONTENT_W - 190 }], rows);
+
+  const a = data.analysis;
+  ensure(ctx, 60);
+  const ok = a.status === 'ok';
+  line(ctx.doc, `Status: ${a.status}`, M.left, ctx.y, { size: 9.5, weight: 'bold', color: ok ? '#2e7d32' : '#b3261e' });
+  ctx.y += 14;
+  const notes: string[] = [];
+  if (ok) notes.push('Attached flow over the whole section; all three theories apply.');
+  if (a.problem) notes.push(a.problem);
+  for (const l of a.result?.limits ?? []) notes.push(l.message);
+  if (!ok && a.result?.theories) notes.push('Exact coefficients are not given. The linear and second-order columns assume small deflections everywhere and ignore this limit; do not size anything with them here.');
+  for (const w of a.result?.warnings ?? []) notes.push(w);
+  for (const n of notes) {
+    ensure(ctx, 24);
+    ctx.y += paragraph(ctx.doc, n, M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK }) + 2;
+  }
+  ctx.y += 8;
+}
+
+function coefficientsTable(ctx: Ctx): void {
+  const { data } = ctx;
+  const r: SolveResult | null = data.analysis.result;
+  heading(ctx, 'Coefficients (per unit span)');
+  const c = r?.coefficients ?? null;
+  const lin = r?.theories?.linear ?? null;
+  const sec = r?.theories?.secondOrder ?? null;
+  type Key = keyof Pick<Coefficients, 'cl' | 'cd' | 'cm' | 'xcpOverC' | 'liftToDrag'>;
+  const diff = (t: TheoryResult | null, k: Key) => {
+    if (!t || !c) return '—';
+    const d = k === 'cl' || k === 'cd' || k === 'cm' ? t.difference[k] : (() => {
+      const e = c[k];
+      const v = t[k];
+      return e === null || v === null || Math.abs(e) < 1e-9 ? null : (100 * (v - e)) / Math.abs(e);
+    })();
+    return d === null ? '—' : `${d > 0 ? '+' : ''}${num(d, 3)} %`;
+  };
+  const rows: [string, Key][] = [
+    ['cl (lift over q∞·c)', 'cl'],
+    ['cd (wave drag over q∞·c)', 'cd'],
+    ['cm (about the moment point, nose up +)', 'cm'],
+    ['x_cp/c (from the nose)', 'xcpOverC'],
+    ['L/D (wave drag only)', 'liftToDrag'],
+  ];
+  const body = rows.map(([label, k]) => [label, num(c?.[k] ?? null), num(lin?.[k] ?? null), diff(lin, k), num(sec?.[k] ?? null), diff(sec, k)]);
+  const hm = data.analysis.flap?.hingeMoment;
+  if (hm) body.push(['ch (hinge moment over q∞·c_f², TE down +)', num(hm.exact), num(hm.linear), '', num(hm.secondOrder), '']);
+  table(ctx, [
+    { label: '', width: 187 },
+    { label: 'exact', width: 66, align: 'right' },
+    { label: 'linear', width: 66, align: 'right' },
+    { label: 'vs exact', width: 60, align: 'right' },
+    { label: 'second-order', width: 68, align: 'right' },
+    { label: 'vs exact', width: 60, align: 'right' },
+  ], body);
+  if (data.analysis.flap) {
+    ensure(ctx, 20);
+    ctx.y += paragraph(ctx.doc, `Flap chord c_f = ${num(data.analysis.flap.flapChordOverC, 4)} c. A negative ch tends to raise the trailing edge (restoring for a flap deflected down).`, M.left, ctx.y, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;
+  }
+}
+
+function loadsTables(ctx: Ctx): void {
+  const { data } = ctx;
+  const u = data.units;
+  const loads = data.analysis.loads;
+  heading(ctx, `Free stream and loads (${u === 'si' ? 'SI' : 'US customary'} units)`);
+  if (!loads) {
+    ctx.y += paragraph(ctx.doc, data.analysis.loadsNote ?? 'No loads for this analysis.', M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK }) + 10;
+    return;
+  }
+  const atm = loads.atmosphere;
+  const half = (CONTENT_W - 16) / 2;
+  const startY = ctx.y;
+  const left: string[][] = [
+    ['q∞ (dynamic pressure)', qty(loads.dynamicPressurePa, 'pressure', u)],
+    ['V∞ (flight speed)', qty(loads.velocityMS, 'speed', u)],
+    ['Re (on the chord)', sci(loads.reynoldsChord)],
+    ['p∞', qty(atm.pressurePa, 'pressure', u)],
+    ['T∞', qty(atm.temperatureK, 'temperature', u)],
+    ['ρ∞', qty(atm.densityKgM3, 'density', u)],
+    ['μ∞', `${sci(toDisplay(atm.viscosityPaS, 'viscosity', u))} ${unitLabel('viscosity', u)}`],
+    ['a∞ (speed of sound)', qty(atm.speedOfSoundMS, 'speed', u)],
+  ];
+  const f = loads.friction;
+  const right: string[][] = [
+    ['cd wave', num(loads.cdWave)],
+    ['cd friction', f.regime === 'none' ? 'none' : num(f.cdFriction)],
+    ['cd total (estimate)', num(loads.cdTotal)],
+    ['cf upper / lower', f.regime === 'none' ? '—' : `${num(f.cfUpper)} / ${num(f.cfLower)}`],
+    ['L/D with friction', num(data.analysis.result?.coefficients ? data.analysis.result.coefficients.cl / loads.cdTotal : null)],
+  ];
+  // Two side-by-side tables: draw the left, remember its height, then the right from the same top.
+  const tableAt = (x: number, rows: string[][]) => {
+    let y = startY;
+    rows.forEach((row, i) => {
+      if (i % 2 === 1) ctx.doc.rect(x, y - 2, half, 15).fillColor('#f4f6f5').fill();
+      line(ctx.doc, row[0], x + 3, y + 1, { size: 8.5, color: INK });
+      line(ctx.doc, row[1], x + 3, y + 1, { size: 8.5, color: INK, width: half - 6, align: 'right' });
+      y += 15;
+    });
+    return y;
+  };
+  ensure(ctx, 8 * 15 + 10);
+  const yl = tableAt(M.left, left);
+  const yr = tableAt(M.left + half + 16, right);
+  ctx.y = Math.max(yl, yr) + 10;
+
+  const ps = loads.perSpan;
+  const tot = loads.total;
+  const span = data.document.loads.spanM;
+  const rows: string[][] = [
+    ['Lift', qty(ps.liftNPerM, 'forcePerSpan', u), qty(tot.liftN, 'force', u)],
+    ['Drag, wave', qty(ps.dragWaveNPerM, 'forcePerSpan', u), qty(ps.dragWaveNPerM * span, 'force', u)],
+    ['Drag, friction', qty(ps.dragFrictionNPerM, 'forcePerSpan', u), qty(ps.dragFrictionNPerM * span, 'force', u)],
+    ['Drag, total', qty(ps.dragTotalNPerM, 'forcePerSpan', u), qty(tot.dragN, 'force', u)],
+    ['Pitching moment (nose up +)', qty(ps.momentNMPerM, 'momentPerSpan', u), qty(tot.momentNM, 'moment', u)],
+    ['Hinge moment (TE down +)', qty(ps.hingeMomentNMPerM, 'momentPerSpan', u), qty(tot.hingeMomentNM, 'moment', u)],
+  ];
+  table(ctx, [
+    { label: '', width: 187 },
+    { label: 'per unit span', width: 160, align: 'right' },
+    { label: `over the span (${qty(span, 'length', u)})`, width: CONTENT_W - 347, align: 'right' },
+  ], rows);
+  ensure(ctx, 20);
+  ctx.y += paragraph(ctx.doc, 'Loads act on the physical chord and span given in the sketch; friction is a flat-plate estimate on each surface’s wetted length, with the whole surface in one boundary-layer regime.', M.left, ctx.y, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;
+}
+
+// ---- study ----
+
+function describeStudy(study: ReportStudy, units: UnitSystem): string {
+  const r = study.results;
+  const span = (v: number[], unit: string) => (v.length === 1 ? `${num(v[0])}${unit}` : `${num(v[0])}${unit} to ${num(v[v.length - 1])}${unit} (${v.length} values)`);
+  const flaps = r.flapsDeg[0] === null ? 'no flap' : `flap ${r.flapsDeg.map((f) => `${num(f)}°`).join(', ')}`;
+  const alt = r.altitudeM === null ? 'no altitude (wave drag only)' : `altitude ${qty(r.altitudeM, 'altitude', units)}, ${r.friction === 'none' ? 'no friction' : `${r.friction} friction`}`;
+  return `Mach ${span(r.machs, '')} × α ${span(r.alphasDeg, '°')} × ${flaps}; ${alt}.`;
+}
+
+function studyPages(ctx: Ctx, study: ReportStudy): void {
+  const { doc, data } = ctx;
+  newPage(ctx);
+  const results = study.results;
+  const rows = unpackStudyRows(results);
+  heading(ctx, `Study: ${study.name}`);
+  ctx.y += paragraph(doc, describeStudy(study, data.units), M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK });
+  const counts = Object.entries(results.counts).map(([k, v]) => `${k} ${v}`).join(', ');
+  const rev = study.revision === data.revision ? `computed on revision ${study.revision} (the revision of this report)` : `computed on revision ${study.revision}; this report's section is revision ${data.revision}`;
+  ctx.y += paragraph(doc, `${rows.length} points, ${rev}; by ${study.createdByName ?? 'someone'} on ${study.createdAt.slice(0, 10)}. Status counts: ${counts}.`, M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK_SOFT }) + 4;
+
+  // Charts show one flap deflection (the one nearest zero) with a line per Mach number.
+  const flap = results.flapsDeg.reduce<number | null>((best, f) => (f === null ? null : best === null || Math.abs(f) < Math.abs(best) ? f : best), results.flapsDeg[0] ?? null);
+  const machs = results.machs;
+  const colour = (m: number) => machColour(machs.indexOf(m), machs.length);
+  const lineOf = (m: number, pick: (r: StudyRow) => [number | null, number | null]) =>
+    rows.filter((r) => r.mach === m && r.flapDeg === flap).map((r) => {
+      const [x, y] = pick(r);
+      return x === null || y === null ? null : ([x, y] as [number, number]);
+    });
+  const series = (pick: (r: StudyRow) => [number | null, number | null]) => machs.map((m) => ({ colour: colour(m), points: lineOf(m, pick) }));
+  const best = results.summaries.flatMap((s) => s.best.filter((b) => b.flapDeg === flap).map((b) => ({ mach: s.mach, ...b })));
+  const detach = results.summaries.flatMap((s) => [s.detachAlphaHighDeg, s.detachAlphaLowDeg].filter((a): a is number => a !== null).map((x) => ({ x, colour: colour(s.mach) })));
+  const alphaRange: [number, number] = [results.alphasDeg[0], results.alphasDeg[results.alphasDeg.length - 1]];
+
+  if (flap !== null) ctx.y += paragraph(doc, `Charts at flap deflection δ = ${num(flap)}°.`, M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK_SOFT });
+  ctx.y += 4;
+  drawMachKey(doc, M.left, ctx.y, CONTENT_W, machs);
+  ctx.y += 24;
+
+  const charts: LineChart[] = [
+    { title: 'cl against α (exact)', xLabel: 'α (°)', yLabel: 'cl', series: series((r) => [r.alphaDeg, r.cl]), axisMarks: detach, xRange: alphaRange },
+    { title: 'Drag polar: cl against cd (wave + friction)', xLabel: 'cd total', yLabel: 'cl', series: series((r) => [r.cdTotal, r.cl]), markers: best.map((b) => ({ x: b.cdTotal, y: b.cl, colour: colour(b.mach) })) },
+    { title: 'L/D against α', xLabel: 'α (°)', yLabel: 'L/D', series: series((r) => [r.alphaDeg, r.liftToDrag]), markers: best.map((b) => ({ x: b.alphaDeg, y: b.liftToDrag, colour: colour(b.mach) })), axisMarks: detach, xRange: alphaRange },
+    { title: 'cm against α (exact)', xLabel: 'α (°)', yLabel: 'cm', series: series((r) => [r.alphaDeg, r.cm]), axisMarks: detach, xRange: alphaRange },
+  ];
+  if (results.flapsDeg[0] !== null && results.flapsDeg.length > 1) {
+    // Hinge moment against deflection at the swept α nearest the sketch's own.
+    const a0 = results.alphasDeg.reduce((b, a) => (Math.abs(a - data.document.condition.alphaDeg) < Math.abs(b - data.document.condition.alphaDeg) ? a : b), results.alphasDeg[0]);
+    charts.push({
+      title: `Hinge moment ch against δ at α = ${num(a0)}° (exact)`,
+      xLabel: 'δ (°, trailing edge down +)',
+      yLabel: 'ch',
+      series: machs.map((m) => ({ colour: colour(m), points: rows.filter((r) => r.mach === m && r.alphaDeg === a0).map((r) => (r.chExact === null ? null : ([r.flapDeg!, r.chExact] as [number, number]))) })),
+    });
+  }
+  const cw = (CONTENT_W - 18) / 2;
+  const chH = 196;
+  for (let i = 0; i < charts.length; i += 2) {
+    ensure(ctx, chH + 8);
+    drawLineChart(doc, M.left, ctx.y, cw, chH, charts[i]);
+    if (charts[i + 1]) drawLineChart(doc, M.left + cw + 18, ctx.y, cw, chH, charts[i + 1]);
+    ctx.y += chH + 10;
+  }
+
+  heading(ctx, 'Per Mach number: nose shock detachment and best L/D');
+  const summaryRows = results.summaries.flatMap((s) => {
+    const bests = s.best.length ? s.best : [null];
+    return bests.map((b, i) => [
+      i === 0 ? num(s.mach) : '',
+      i === 0 ? deg(s.detachAlphaLowDeg) : '',
+      i === 0 ? deg(s.detachAlphaHighDeg) : '',
+      b ? (b.flapDeg === null ? '—' : deg(b.flapDeg)) : '—',
+      b ? deg(b.alphaDeg) : '—',
+      b ? num(b.liftToDrag) : 'no ok point',
+      b ? num(b.cl) : '—',
+      b ? num(b.cdTotal) : '—',
+    ]);
+  });
+  table(ctx, [
+    { label: 'Mach', width: 52, align: 'right' },
+    { label: 'detaches below α', width: 74, align: 'right' },
+    { label: 'detaches above α', width: 74, align: 'right' },
+    { label: 'flap δ', width: 52, align: 'right' },
+    { label: 'best L/D at α', width: 70, align: 'right' },
+    { label: 'best L/D', width: 60, align: 'right' },
+    { label: 'cl there', width: 60, align: 'right' },
+    { label: 'cd total there', width: CONTENT_W - 442, align: 'right' },
+  ], summaryRows, { size: 7.5 });
+
+  heading(ctx, 'Study points');
+  if (rows.length > REPORT_POINT_TABLE_MAX) {
+    ctx.y += paragraph(doc, `The study has ${rows.length} points; tables of more than ${REPORT_POINT_TABLE_MAX} are not printed. Export the full table as CSV from the study page.`, M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK }) + 8;
+    return;
+  }
+  table(ctx, [
+    { label: 'Mach', width: 38, align: 'right' },
+    { label: 'α', width: 38, align: 'right' },
+    { label: 'δ', width: 34, align: 'right' },
+    { label: 'status', width: 52 },
+    { label: 'cl', width: 52, align: 'right' },
+    { label: 'cd total', width: 56, align: 'right' },
+    { label: 'cm', width: 56, align: 'right' },
+    { label: 'L/D', width: 48, align: 'right' },
+    { label: 'ch', width: 56, align: 'right' },
+    { label: 'cl linear', width: CONTENT_W - 430, align: 'right' },
+  ], rows.map((r) => [num(r.mach), deg(r.alphaDeg), r.flapDeg === null ? '—' : deg(r.flapDeg), r.status, num(r.cl), num(r.cdTotal), num(r.cm), num(r.liftToDrag), num(r.chExact), num(r.clLinear)]), { size: 7, rowHeight: 11.5 });
+}
+
+function footers(ctx: Ctx): void {
+  const { doc, data } = ctx;
+  const range = doc.bufferedPageRange();
+  for (let i = range.start; i < range.start + range.count; i++) {
+    doc.switchToPage(i);
+    // Drawing below the bottom margin would start a new page; lift the margin while drawing.
+    const bottom = doc.page.margins.bottom;
+    doc.page.margins.bottom = 0;
+    const y = PAGE.height - M.bottom + 14;
+    doc.moveTo(M.left, y - 5).lineTo(M.left + CONTENT_W, y - 5).lineWidth(0.5).strokeColor(RULE).stroke();
+    line(doc, `Shockwright · ${data.title} · revision ${data.revision}`, M.left, y, { size: 7, color: INK_SOFT });
+    line(doc, `page ${i - range.start + 1} of ${range.count}`, M.left, y, { size: 7, color: INK_SOFT, width: CONTENT_W, align: 'right' });
+    paragraph(doc, RESULTS_CAUTION, M.left, y + 11, CONTENT_W, { size: 6.5, color: INK_SOFT });
+    doc.page.margins.bottom = bottom;
+  }
+}

@@ -1,0 +1,34 @@
+import type { SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
+import type { UnitSystem } from '../../../shared/flight/units.ts';
+import type { SketchDocument } from '../../../shared/model/sketch.ts';
+import type { StudyDefinition, StudyResults } from '../../../shared/model/study.ts';
+
+/** Everything one PDF report shows; built by the service, drawn by renderReport (no database). */
+export interface ReportData {
+  title: string;
+  teamName: string | null;
+  /** The sketch revision the analysis belongs to. */
+  revision: number;
+  generatedAt: Date;
+  generatedBy: string;
+  units: UnitSystem;
+  document: SketchDocument;
+  analysis: SketchAnalysis;
+  study: ReportStudy | null;
+}
+
+export interface ReportStudy {
+  id: string;
+  name: string;
+  /** The sketch revision the study was computed on (may be older than the report's). */
+  revision: number;
+  definition: StudyDefinition;
+  results: StudyResults;
+  createdByName: string | null;
+  createdAt: string;
+}
+
+/** True when a stored result is a whole analysis (what the server stores since flaps and loads). */
+export function isSketchAnalysis(value: unknown): value is SketchAnalysis {
+  return !!value && typeof value === 'object' && 'solvedPoints' in value && 'status' in value && 'result' in value;
+}

@@ -1,0 +1,46 @@
+import type { AppContext } from '../../context.ts';
+import { HttpError } from '../../http/errors.ts';
+import type { SessionUser } from '../../auth/passport.ts';
+import { authorizeSketch } from '../sketches/service.ts';
+import { findSketch } from '../sketches/repository.ts';
+import { solveDocument } from '../sketches/solveDocument.ts';
+import { getStudyOfSketch } from '../studies/service.ts';
+import { getPreferences } from '../preferences/service.ts';
+import type { SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
+import type { UnitSystem } from '../../../shared/flight/units.ts';
+import { normalizeDocument } from '../../../shared/model/sketch.ts';
+import { renderReport } from './renderReport.ts';
+import { isSketchAnalysis, type ReportData } from './reportData.ts';
+import { findTeamName } from './repository.ts';
+
+/** "HD-7 Tern fin, root" → "HD-7-Tern-fin-root": letters, digits and dashes only. */
+export function reportFileName(title: string, revision: number): string {
+  const base = title.normalize('NFKD').replace(/[^\w\s-]/g, '').trim().replace(/[\s_]+/g, '-').replace(/-+/g, '-').slice(0, 80).replace(/^-|-$/g, '');
+  return `${base || 'sketch'}-r${revision}-report.pdf`;
+}
+
+/**
+ * The PDF report of a sketch as stored now: its stored analysis (the server's own solve of the
+ * current revision; solved again when an older row lacks one), in the requester's units unless
+ * the query names others, with a study of the same sketch when asked.
+ */
+export async function sketchReport(ctx: AppContext, user: SessionUser, sketchId: string, query: { study?: string; units?: UnitSystem }): Promise<{ pdf: Buffer; fileName: string }> {
+  const { teamId } = await authorizeSketch(ctx.db, user.id, sketchId, 'viewer', 'download reports');
+  const row = await findSketch(ctx.db, sketchId);
+  if (!row) throw new HttpError(404, 'not_found', 'No such sketch.');
+  const document = normalizeDocument(row.document);
+  const analysis: SketchAnalysis = isSketchAnalysis(row.lastResult) ? row.lastResult : (solveDocument(document).result as SketchAnalysis);
+  const study = query.study ? await getStudyOfSketch(ctx, user.id, sketchId, query.study) : null;
+  const data: ReportData = {
+    title: row.title,
+    teamName: await findTeamName(ctx.db, teamId),
+    revision: row.revision,
+    generatedAt: new Date(),
+    generatedBy: user.name,
+    units: query.units ?? (await getPreferences(ctx.db, user.id)).unitSystem,
+    document,
+    analysis,
+    study: study && { id: study.id, name: study.name, revision: study.revision, definition: study.definition, results: study.results, createdByName: study.createdByName, createdAt: study.createdAt },
+  };
+  return { pdf: await renderReport(data), fileName: reportFileName(row.title, row.revision) };
+}

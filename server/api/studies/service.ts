@@ -1,0 +1,88 @@
+import type { AppContext } from '../../context.ts';
+import { HttpError } from '../../http/errors.ts';
+import { authorizeSketch } from '../sketches/service.ts';
+import { findSketch } from '../sketches/repository.ts';
+import { newId } from '../../../shared/model/ids.ts';
+import { normalizeDocument } from '../../../shared/model/sketch.ts';
+import type { CreateStudy, StudyDefinition, StudyDetail, StudyPage, StudyResults, StudySummary } from '../../../shared/model/study.ts';
+import { runStudySliced } from '../../../shared/flight/study.ts';
+import * as repo from './repository.ts';
+
+/** Time the server computes before letting other requests in (see runStudySliced). */
+export const STUDY_SLICE_MS = 25;
+
+type SummaryRow = Awaited<ReturnType<typeof repo.listStudies>>['rows'][number];
+
+const toSummary = (r: SummaryRow): StudySummary => ({
+  id: r.id,
+  sketchId: r.sketchId,
+  name: r.name,
+  definition: r.definition as StudyDefinition,
+  revision: r.revision,
+  points: r.points,
+  counts: (r.counts ?? {}) as Record<string, number>,
+  createdByName: r.createdByName,
+  createdAt: r.createdAt.toISOString(),
+});
+
+/**
+ * Runs a study on the server from the sketch as stored now, and keeps it. The server computes
+ * the numbers itself (the browser worker's run is a preview), so what is stored can be trusted
+ * and is tied to the revision it was computed on. The work is done in slices of
+ * STUDY_SLICE_MS between which the event loop serves other requests.
+ */
+export async function createStudy(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy): Promise<StudyDetail> {
+  await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'run and save studies');
+  const sketch = await findSketch(ctx.db, sketchId);
+  if (!sketch) throw new HttpError(404, 'not_found', 'No such sketch.');
+  const document = normalizeDocument(sketch.document);
+  const outcome = await runStudySliced(document, input.definition, { pause: () => new Promise((r) => setImmediate(r)), sliceMs: STUDY_SLICE_MS });
+  if (outcome.status === 'invalid') throw new HttpError(400, 'invalid_study', outcome.reason);
+  if (outcome.status === 'cancelled') throw new HttpError(500, 'study_cancelled', 'The study stopped before it finished.');
+  const id = newId('study');
+  const counts = outcome.results.counts as Record<string, number>;
+  await repo.insertStudy(ctx.db, {
+    id,
+    sketchId,
+    name: input.name,
+    definition: input.definition,
+    results: outcome.results,
+    revision: sketch.revision,
+    points: outcome.results.rows.length,
+    counts,
+    elapsedMs: Math.round(outcome.elapsedMs),
+    createdBy: userId,
+  });
+  ctx.events.emit('sketchNotice', sketchId, 'studies');
+  return getStudy(ctx, userId, id);
+}
+
+export async function listStudies(ctx: AppContext, userId: string, sketchId: string, page: { limit: number; offset: number }): Promise<StudyPage> {
+  await authorizeSketch(ctx.db, userId, sketchId, 'viewer', 'see studies');
+  const { rows, total } = await repo.listStudies(ctx.db, sketchId, page.limit, page.offset);
+  return { items: rows.map(toSummary), total, ...page };
+}
+
+export async function getStudy(ctx: AppContext, userId: string, studyId: string): Promise<StudyDetail> {
+  const sketchId = await repo.findStudySketch(ctx.db, studyId);
+  if (!sketchId) throw new HttpError(404, 'not_found', 'No such study.');
+  await authorizeSketch(ctx.db, userId, sketchId, 'viewer', 'see studies');
+  const row = await repo.findStudy(ctx.db, studyId);
+  if (!row) throw new HttpError(404, 'not_found', 'No such study.');
+  return { ...toSummary(row), results: row.results as StudyResults, elapsedMs: row.elapsedMs };
+}
+
+/** For the report: a study of this sketch (404 when it belongs to another one). */
+export async function getStudyOfSketch(ctx: AppContext, userId: string, sketchId: string, studyId: string): Promise<StudyDetail> {
+  const study = await getStudy(ctx, userId, studyId);
+  if (study.sketchId !== sketchId) throw new HttpError(404, 'not_found', 'No such study on this sketch.');
+  return study;
+}
+
+export async function deleteStudy(ctx: AppContext, userId: string, studyId: string): Promise<void> {
+  const sketchId = await repo.findStudySketch(ctx.db, studyId);
+  if (!sketchId) throw new HttpError(404, 'not_found', 'No such study.');
+  await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'delete studies');
+  await repo.deleteStudy(ctx.db, studyId);
+  ctx.events.emit('sketchNotice', sketchId, 'studies');
+}

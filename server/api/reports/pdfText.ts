@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
+import { inflateSync } from 'node:zlib';
 
 /**
  * Fonts and text for the PDF reports. Both fonts ship inside npm packages (nothing is fetched at
@@ -21,15 +22,64 @@ const fontFile = (pkg: string, file: string) => path.join(path.dirname(require.r
 
 let cache: Record<string, Buffer> | null = null;
 
-/** The four font files, read once per process. */
+/**
+ * The four fonts as plain TrueType, read and unpacked once per process. pdfkit reads WOFF too,
+ * but inflates it in JavaScript on every document (most of a report's time); Node's zlib does it
+ * once here.
+ */
 export function fontBuffers(): Record<(typeof FONT)[keyof typeof FONT], Buffer> {
+  const load = (pkg: string, file: string) => woffToSfnt(readFileSync(fontFile(pkg, file)));
   cache ??= {
-    [FONT.regular]: readFileSync(fontFile('@fontsource/work-sans', 'work-sans-latin-400-normal.woff')),
-    [FONT.bold]: readFileSync(fontFile('@fontsource/work-sans', 'work-sans-latin-600-normal.woff')),
-    [FONT.fallback]: readFileSync(fontFile('@fontsource/dejavu-sans', 'dejavu-sans-latin-400-normal.woff')),
-    [FONT.fallbackBold]: readFileSync(fontFile('@fontsource/dejavu-sans', 'dejavu-sans-latin-700-normal.woff')),
+    [FONT.regular]: load('@fontsource/work-sans', 'work-sans-latin-400-normal.woff'),
+    [FONT.bold]: load('@fontsource/work-sans', 'work-sans-latin-600-normal.woff'),
+    [FONT.fallback]: load('@fontsource/dejavu-sans', 'dejavu-sans-latin-400-normal.woff'),
+    [FONT.fallbackBold]: load('@fontsource/dejavu-sans', 'dejavu-sans-latin-700-normal.woff'),
   };
   return cache as Record<(typeof FONT)[keyof typeof FONT], Buffer>;
+}
+
+/**
+ * WOFF 1.0 → the SFNT (TrueType/OpenType) file it wraps (W3C WOFF File Format 1.0, sections 3–5):
+ * a 44-byte header, 20-byte table entries, each table zlib-compressed when compLength <
+ * origLength. The output has the usual offset table and 4-byte aligned tables.
+ */
+export function woffToSfnt(woff: Buffer): Buffer {
+  if (woff.readUInt32BE(0) !== 0x774f4646) throw new Error('not a WOFF 1.0 font');
+  const flavor = woff.readUInt32BE(4);
+  const numTables = woff.readUInt16BE(12);
+  const tables = Array.from({ length: numTables }, (_, i) => {
+    const at = 44 + i * 20;
+    const tag = woff.readUInt32BE(at);
+    const offset = woff.readUInt32BE(at + 4);
+    const compLength = woff.readUInt32BE(at + 8);
+    const origLength = woff.readUInt32BE(at + 12);
+    const checksum = woff.readUInt32BE(at + 16);
+    const raw = woff.subarray(offset, offset + compLength);
+    const data = compLength < origLength ? inflateSync(raw) : raw;
+    if (data.length !== origLength) throw new Error('WOFF table has the wrong length after inflating');
+    return { tag, checksum, data };
+  });
+  let pow = 1;
+  while (pow * 2 <= numTables) pow *= 2;
+  const headerSize = 12 + 16 * numTables;
+  const total = headerSize + tables.reduce((sum, t) => sum + ((t.data.length + 3) & ~3), 0);
+  const out = Buffer.alloc(total);
+  out.writeUInt32BE(flavor, 0);
+  out.writeUInt16BE(numTables, 4);
+  out.writeUInt16BE(pow * 16, 6);
+  out.writeUInt16BE(Math.log2(pow), 8);
+  out.writeUInt16BE(numTables * 16 - pow * 16, 10);
+  let offset = headerSize;
+  tables.forEach((t, i) => {
+    const rec = 12 + i * 16;
+    out.writeUInt32BE(t.tag, rec);
+    out.writeUInt32BE(t.checksum, rec + 4);
+    out.writeUInt32BE(offset, rec + 8);
+    out.writeUInt32BE(t.data.length, rec + 12);
+    t.data.copy(out, offset);
+    offset += (t.data.length + 3) & ~3;
+  });
+  return out;
 }
 
 export function registerFonts(doc: PDFKit.PDFDocument): void {

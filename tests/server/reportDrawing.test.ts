@@ -30,7 +30,7 @@ describe('report drawing helpers', () => {
   it('niceTicks covers the data in 1-2-2.5-5 steps and tickLabel prints the decimals the step needs', () => {
     expect(niceTicks(-0.55, 0.6, 5)).toMatchObject({ lo: -0.75, hi: 0.75, step: 0.25 }); // 1.15/5 = 0.23 → 0.25
     expect(niceTicks(-0.55, 0.6, 6)).toMatchObject({ lo: -0.6, hi: 0.6, step: 0.2 });
-    expect(niceTicks(-7.9, 7.2, 5).ticks).toEqual([-7.5, -5, -2.5, 0, 2.5, 5, 7.5]);
+    expect(niceTicks(-7.4, 7.2, 6).ticks).toEqual([-7.5, -5, -2.5, 0, 2.5, 5, 7.5]);
     expect(tickLabel(-7.5, 2.5)).toBe('−7.5');
     expect(tickLabel(0.04, 0.02)).toBe('0.04');
     expect(tickLabel(10, 5)).toBe('10');

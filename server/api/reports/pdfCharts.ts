@@ -25,8 +25,8 @@ export function niceTicks(min: number, max: number, count = 5): { lo: number; hi
   const raw = (max - min) / count;
   const mag = 10 ** Math.floor(Math.log10(raw));
   const step = [1, 2, 2.5, 5, 10].map((f) => f * mag).find((s) => s >= raw) ?? 10 * mag;
-  const lo = Math.floor(min / step + 1e-9) * step;
-  const hi = Math.ceil(max / step - 1e-9) * step;
+  const lo = Number((Math.floor(min / step + 1e-9) * step).toPrecision(12));
+  const hi = Number((Math.ceil(max / step - 1e-9) * step).toPrecision(12));
   const ticks: number[] = [];
   for (let v = lo; v <= hi + step * 1e-6; v += step) ticks.push(Math.abs(v) < step * 1e-9 ? 0 : Number(v.toPrecision(12)));
   return { lo, hi, step, ticks };

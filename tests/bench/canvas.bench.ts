@@ -15,7 +15,7 @@
  *    queueing) and once from our handler's start (the editor's own share).
  */
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { cpus, loadavg, tmpdir } from 'node:os';
 import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { build } from 'vite';
@@ -137,6 +137,8 @@ async function main() {
       console.log(line('pointer event → wave map drawn', fromEvent));
       console.log(line('our handler → wave map drawn', fromHandler));
       console.log('  (target p95 ≤ 16 ms)');
+      const [l1, l5] = loadavg();
+      console.log(`  machine: ${cpus().length} cores, load average ${l1.toFixed(1)} (1 min), ${l5.toFixed(1)} (5 min) — other work on the machine shows in the p95`);
       if (browser.foreignRequests.length > 0) console.log(`  note: the page tried to reach other hosts: ${browser.foreignRequests.join(', ')}`);
     } finally {
       await browser.close();

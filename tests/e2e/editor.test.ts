@@ -191,9 +191,32 @@ describe('sketch editor in Chromium', () => {
     await screenshot(page, 'editor-detached');
   });
 
-  it('a viewer sees the table and the editor without editing controls', async () => {
+  it('duplicates, renames and deletes (after confirming) a sketch from the home table', async () => {
     const { page } = browser;
     await page.getByTestId('back-home').click();
+    const rows = page.locator('[data-testid^="sketch-row-"]');
+    await rows.first().waitFor();
+    const before = await rows.count();
+    const tip = rows.filter({ hasText: 'Tern fin tip' });
+    await tip.locator('[data-testid^="duplicate-"]').click();
+    await expect.poll(() => rows.count()).toBe(before + 1);
+    const copy = rows.filter({ hasText: '(copy)' });
+    expect(await copy.count()).toBe(1);
+
+    await copy.locator('[data-testid^="rename-"]').click();
+    await page.getByTestId('rename-title').fill('Tern fin tip — variant B');
+    await page.getByTestId('rename-confirm').click();
+    const renamed = rows.filter({ hasText: 'variant B' });
+    await expect.poll(() => renamed.count()).toBe(1);
+
+    await renamed.locator('[data-testid^="delete-"]').click();
+    await page.getByTestId('confirm-delete').click();
+    await expect.poll(() => rows.count()).toBe(before);
+    expect(await rows.filter({ hasText: 'variant B' }).count()).toBe(0);
+  });
+
+  it('a viewer sees the table and the editor without editing controls', async () => {
+    const { page } = browser;
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.getByTestId('sign-in-email').waitFor();
     await signIn(page, DEMO_PEOPLE[3].email, server.url);

@@ -20,6 +20,7 @@ export const router = createRouter({
   history: createWebHistory(),
   routes: [
     { path: '/', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { requiresAuth: true, title: 'Sketches' } },
+    { path: '/sketches/:sketchId/studies', name: 'sketch-studies', component: () => import('@/views/StudyView.vue'), meta: { requiresAuth: true, title: 'Studies' }, props: true },
     { path: '/sketches/:sketchId', name: 'sketch', component: () => import('@/views/SketchView.vue'), meta: { requiresAuth: true, title: 'Sketch' }, props: true },
     { path: '/team/members', name: 'members', component: () => import('@/views/MembersView.vue'), meta: { requiresAuth: true, title: 'Members', minRole: 'owner', action: 'manage members' } },
     { path: '/dev/mailbox', name: 'mailbox', component: () => import('@/views/MailboxView.vue'), meta: { requiresAuth: true, title: 'Mailbox', minRole: 'owner', action: 'read the development mailbox' } },

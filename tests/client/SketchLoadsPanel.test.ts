@@ -1,0 +1,98 @@
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { mount, flushPromises } from '@vue/test-utils';
+import { createPinia, setActivePinia } from 'pinia';
+import { analyseSketch } from '@shared/flight/analyseSketch';
+import { RESULTS_CAUTION } from '@shared/model/caution';
+import { defaultSketchDocument, type SketchDocument } from '@shared/model/sketch';
+
+const apiMock = vi.hoisted(() => ({ get: vi.fn(), patch: vi.fn(), post: vi.fn(), put: vi.fn(), delete: vi.fn() }));
+vi.mock('@/api/client', async (importOriginal) => {
+  const real = await importOriginal<typeof import('@/api/client')>();
+  return { ...real, api: apiMock };
+});
+
+const { default: SketchLoadsPanel } = await import('@/components/SketchLoadsPanel.vue');
+const { usePreferencesStore } = await import('@/stores/preferences');
+
+/** Our own fin at 11 km geometric: q∞ = ½γp∞M² with p∞ = 22 700 Pa, T∞ = 216.77 K (1976 standard atmosphere, geometric-altitude table, from memory). */
+const FIN: SketchDocument = {
+  ...defaultSketchDocument(),
+  section: { points: [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]] },
+  condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: 11_000 },
+  flap: { hingeXOverC: 0.75, deflectionDeg: 4 },
+  loads: { chordM: 0.5, spanM: 0.4, friction: 'turbulent' },
+};
+
+function mountPanel(props: Partial<{ readOnly: boolean; document: SketchDocument }> = {}) {
+  const doc = props.document ?? FIN;
+  return mount(SketchLoadsPanel, { props: { analysis: analyseSketch(doc), settings: doc.loads, readOnly: props.readOnly ?? false }, attachTo: document.body });
+}
+
+const text = (w: ReturnType<typeof mountPanel>, id: string) => w.get(`[data-testid="${id}"]`).text();
+
+describe('SketchLoadsPanel', () => {
+  beforeEach(() => {
+    setActivePinia(createPinia());
+    apiMock.get.mockResolvedValue({ unitSystem: 'si' });
+    apiMock.patch.mockImplementation(async (_url: string, body: { unitSystem: string }) => body);
+  });
+  afterEach(() => vi.clearAllMocks());
+
+  it('shows q∞, the free stream and the loads with SI unit labels, and the caution', async () => {
+    const w = mountPanel();
+    await flushPromises();
+    // q∞ = 0.7 × 22 700 Pa × 4 = 63 560 Pa (four significant figures).
+    expect(text(w, 'fs-q')).toBe('63,560 Pa');
+    expect(text(w, 'fs-t')).toBe('216.8 K');
+    expect(text(w, 'force-lift-span')).toMatch(/^[\d,.]+ N\/m$/);
+    expect(text(w, 'force-lift-total')).toMatch(/^[\d,.]+ N$/);
+    expect(text(w, 'force-hinge-span')).toMatch(/^−?[\d,.]+ N·m\/m$/);
+    expect(w.text()).toContain(RESULTS_CAUTION);
+    w.unmount();
+  });
+
+  it('switches to US customary through the preference store (saved on the server) and relabels everything', async () => {
+    const w = mountPanel();
+    await flushPromises();
+    await w.get('[data-testid="units-switch"]').findAll('input')[1].setValue(true);
+    await flushPromises();
+    expect(apiMock.patch).toHaveBeenCalledWith('/api/preferences', { unitSystem: 'us' }, expect.anything());
+    expect(usePreferencesStore().unitSystem).toBe('us');
+    // 63 560 Pa / 47.880 26 Pa per lbf/ft² = 1 327 lbf/ft² (exact factors, shared/flight/units.ts).
+    expect(text(w, 'fs-q')).toBe('1,327 lbf/ft²');
+    expect(text(w, 'fs-t')).toBe('390.2 °R');
+    expect(text(w, 'force-lift-span')).toMatch(/ lbf\/ft$/);
+    expect(text(w, 'force-hinge-total')).toMatch(/ lbf·ft$/);
+    w.unmount();
+  });
+
+  it('emits update:loads in SI once a field is committed, with the chord typed in feet', async () => {
+    setActivePinia(createPinia());
+    apiMock.get.mockResolvedValue({ unitSystem: 'us' });
+    const w = mountPanel();
+    await flushPromises();
+    const chord = w.get('[data-testid="loads-chord"]');
+    expect((chord.element as HTMLInputElement).value).toBe('1.64042'); // 0.5 m in feet
+    await chord.setValue('2');
+    await chord.trigger('blur');
+    // The span was not touched: it keeps its stored value exactly (no round trip through feet).
+    expect(w.emitted('update:loads')).toEqual([[{ chordM: 0.6096, spanM: 0.4, friction: 'turbulent' }]]);
+    // Once the parent has applied it, committing the same value again is not an edit.
+    await w.setProps({ settings: { chordM: 0.6096, spanM: 0.4, friction: 'turbulent' } });
+    expect(Number((chord.element as HTMLInputElement).value)).toBe(2);
+    await chord.trigger('blur');
+    expect(w.emitted('update:loads')).toHaveLength(1);
+    w.unmount();
+  });
+
+  it('read-only: the form is disabled and emits nothing; no altitude: says why there are no loads', async () => {
+    const w = mountPanel({ readOnly: true, document: { ...FIN, condition: { ...FIN.condition, altitudeM: null } } });
+    await flushPromises();
+    const chord = w.get('[data-testid="loads-chord"]');
+    expect((chord.element as HTMLInputElement).disabled).toBe(true);
+    await chord.trigger('blur');
+    expect(w.emitted('update:loads')).toBeUndefined();
+    expect(text(w, 'loads-note')).toBe('Give an altitude to see loads, friction drag and the free-stream state.');
+    w.unmount();
+  });
+});

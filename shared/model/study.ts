@@ -194,9 +194,25 @@ export const studyResultsSchema = z.object({
   counts: z.record(z.string(), z.number()),
 }) as unknown as z.ZodType<StudyResults>;
 
-function round(v: number): number {
-  return v === 0 ? 0 : Number(v.toPrecision(STUDY_SIGNIFICANT_DIGITS));
+/**
+ * v to STUDY_SIGNIFICANT_DIGITS significant figures. Integer arithmetic with exact powers of ten
+ * gives the double nearest the rounded decimal (what parsing toPrecision's text gives) at a
+ * fraction of the cost: packing calls this a quarter of a million times for a large study.
+ */
+export function roundSignificant(v: number): number {
+  if (v === 0) return 0; // also turns −0 into 0
+  if (!Number.isFinite(v)) return v;
+  const decimals = STUDY_SIGNIFICANT_DIGITS - 1 - Math.floor(Math.log10(Math.abs(v)));
+  if (decimals > 22 || decimals < -22) return Number(v.toPrecision(STUDY_SIGNIFICANT_DIGITS));
+  if (decimals >= 0) {
+    const f = POW10[decimals];
+    return Math.round(v * f) / f;
+  }
+  const f = POW10[-decimals];
+  return Math.round(v / f) * f;
 }
+const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
+const round = roundSignificant;
 
 /** Rows → arrays in STUDY_COLUMNS order, numbers to 7 significant figures ([ST3]). */
 export function packStudyRows(rows: readonly StudyRow[]): PackedRow[] {

@@ -8,7 +8,12 @@
  *   cost does not swamp a few-microsecond call; median and p95 are over the samples.
  * - An envelope of 40 Mach × 61 α on a 64-facet section (core solve), median and p95 of
  *   whole-envelope times.
- * Targets: 200 facets ≤ 20 µs median (core); envelope ≤ 100 ms; core cost linear in facets:
+ * - A study of 40 Mach × 61 α × 5 flap deflections (12 200 points) on the 64-facet fin with a
+ *   flap, end to end through shared/flight/study.ts in Node (one pass, and in 30 ms slices as the
+ *   server runs it), then in headless Chromium through the Vite bundle of the study worker;
+ *   and the PDF report's time without and with that study.
+ * Targets: 200 facets ≤ 20 µs median (core); envelope ≤ 100 ms; study ≤ 0.5 s in the worker;
+ * core cost linear in facets:
  * the marginal column (extra time per extra facet since the previous row) should stay roughly
  * flat, while ns/facet falls as the fixed cost is spread. The wave map is O(lines²) by design.
  *
@@ -146,3 +151,161 @@ console.log(`Envelope: ${machs.length} Mach (1.2–5.0) × ${alphas.length} α (
 console.log(`  median ${quantile(env, 0.5).toFixed(1)} ms, p95 ${quantile(env, 0.95).toFixed(1)} ms  (target ≤ 100 ms)`);
 console.log(`  statuses: ${Object.entries(statusCount).map(([k, v]) => `${k} ${v}`).join(', ')}`);
 if (sink === 42.4242) console.log('');
+
+// ---------------------------------------------------------------------------------------------
+// Studies: 40 Mach × 61 α × 5 flap deflections = 12 200 points on the 64-facet demo fin with a
+// 25 % flap, at 10 km with turbulent friction; the engine of shared/flight/study.ts end to end
+// (prepare per deflection, analyse per point, compact rows, summaries, packing). Target ≤ 0.5 s
+// in the worker. Then the same study in headless Chromium through the real worker bundle, and
+// the PDF report. All figures, no assertions.
+// ---------------------------------------------------------------------------------------------
+await (async () => {
+  const { runStudy, runStudySliced } = await import('../../shared/flight/study.ts');
+  const { studyDefinitionSchema } = await import('../../shared/model/study.ts');
+  const { defaultSketchDocument } = await import('../../shared/model/sketch.ts');
+  const { analyseSketch } = await import('../../shared/flight/analyseSketch.ts');
+
+  const doc = {
+    ...defaultSketchDocument(),
+    section: { points: demoSection(64) },
+    condition: { mach: 2.5, alphaDeg: 3, gamma: 1.4, altitudeM: 10_000 },
+    flap: { hingeXOverC: 0.75, deflectionDeg: 0 },
+    loads: { chordM: 0.4, spanM: 0.3, friction: 'turbulent' as const },
+  };
+  const definition = studyDefinitionSchema.parse({
+    mach: { kind: 'range', start: 1.2, end: 5, step: 3.8 / 39 },
+    alpha: { startDeg: -15, endDeg: 15, stepDeg: 0.5 },
+    flapDeg: [-10, -5, 0, 5, 10],
+    altitudeM: 10_000,
+    friction: 'turbulent',
+  });
+  const first = runStudy(doc, definition);
+  if (first.status !== 'done') throw new Error(`bench study did not run: ${JSON.stringify(first)}`);
+  const points = first.results.rows.length;
+  const counts = Object.entries(first.results.counts).map(([k, v]) => `${k} ${v}`).join(', ');
+
+  const syncTimes: number[] = [];
+  for (let i = 0; i < 12; i++) {
+    const t0 = performance.now();
+    runStudy(doc, definition);
+    syncTimes.push(performance.now() - t0);
+  }
+  const slicedTimes: number[] = [];
+  for (let i = 0; i < 8; i++) {
+    const t0 = performance.now();
+    await runStudySliced(doc, definition, { pause: () => new Promise((r) => setImmediate(r)), sliceMs: 30 });
+    slicedTimes.push(performance.now() - t0);
+  }
+  syncTimes.sort((a, b) => a - b);
+  slicedTimes.sort((a, b) => a - b);
+  const json = JSON.stringify(first.results).length;
+  console.log('');
+  console.log(`Study: 40 Mach (1.2–5.0) × 61 α (−15°…15°) × 5 flap (−10°…10°) = ${points} points, 64 facets, 10 km, turbulent friction`);
+  console.log(`  statuses: ${counts}; packed results ${(json / 1024).toFixed(0)} KB of JSON`);
+  console.log(`  Node, one pass:               median ${quantile(syncTimes, 0.5).toFixed(0)} ms, p95 ${quantile(syncTimes, 0.95).toFixed(0)} ms  (${((quantile(syncTimes, 0.5) * 1000) / points).toFixed(1)} µs/point)`);
+  console.log(`  Node, 30 ms slices (server):  median ${quantile(slicedTimes, 0.5).toFixed(0)} ms, p95 ${quantile(slicedTimes, 0.95).toFixed(0)} ms`);
+
+  await chromiumStudy(doc, definition, points);
+
+  // PDF report: the demo fin's analysis alone, and with the study (charts + per-Mach table).
+  const { renderReport } = await import('../../server/api/reports/renderReport.ts');
+  const analysis = analyseSketch(doc);
+  const base = { title: 'Shockwright demo fin', teamName: 'Bench', revision: 1, generatedAt: new Date(), generatedBy: 'Bench', units: 'si' as const, document: doc, analysis };
+  const study = { id: 'study_bench', name: 'Envelope', revision: 1, definition, results: first.results, createdByName: 'Bench', createdAt: new Date().toISOString() };
+  const t0 = performance.now();
+  const firstPdf = await renderReport({ ...base, study: null });
+  const coldMs = performance.now() - t0;
+  const plain: number[] = [];
+  const withStudy: number[] = [];
+  let studyBytes = 0;
+  for (let i = 0; i < 10; i++) {
+    let t = performance.now();
+    await renderReport({ ...base, study: null });
+    plain.push(performance.now() - t);
+    t = performance.now();
+    studyBytes = (await renderReport({ ...base, study })).length;
+    withStudy.push(performance.now() - t);
+  }
+  plain.sort((a, b) => a - b);
+  withStudy.sort((a, b) => a - b);
+  console.log('');
+  console.log('PDF report (pdfkit, fonts embedded, vector wave map and charts)');
+  console.log(`  first report in the process (fonts read and unpacked): ${coldMs.toFixed(0)} ms, ${(firstPdf.length / 1024).toFixed(0)} KB`);
+  console.log(`  section report:              median ${quantile(plain, 0.5).toFixed(0)} ms, p95 ${quantile(plain, 0.95).toFixed(0)} ms`);
+  console.log(`  with the 12 200-point study: median ${quantile(withStudy, 0.5).toFixed(0)} ms, p95 ${quantile(withStudy, 0.95).toFixed(0)} ms, ${(studyBytes / 1024).toFixed(0)} KB`);
+})();
+
+/**
+ * The study in headless Chromium through the real worker: the worker entry is bundled by Vite
+ * (as the app's build does), served from 127.0.0.1, and timed from posting the run to receiving
+ * the results (progress messages, slicing and the results' structured clone included). The
+ * first run includes starting the worker and compiling its code.
+ */
+async function chromiumStudy(doc: unknown, definition: unknown, points: number): Promise<void> {
+  const { existsSync, mkdtempSync, readFileSync, rmSync } = await import('node:fs');
+  const { tmpdir } = await import('node:os');
+  const path = await import('node:path');
+  const http = await import('node:http');
+  const { fileURLToPath } = await import('node:url');
+  const executablePath = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+  console.log('');
+  if (!existsSync(executablePath)) {
+    console.log(`Study in headless Chromium: skipped (no Chromium at ${executablePath}).`);
+    return;
+  }
+  const root = fileURLToPath(new URL('../..', import.meta.url));
+  const out = mkdtempSync(path.join(tmpdir(), 'sw-bench-worker-'));
+  const { build } = await import('vite');
+  await build({
+    configFile: false,
+    logLevel: 'silent',
+    root,
+    resolve: { alias: [{ find: '@shared', replacement: path.join(root, 'shared') }] },
+    build: { outDir: out, emptyOutDir: true, lib: { entry: path.join(root, 'src/workers/study.worker.ts'), formats: ['es'], fileName: () => 'study.worker.js' } },
+  });
+  const page = '<!doctype html><meta charset="utf-8"><link rel="icon" href="data:,"><title>bench</title>';
+  const server = http.createServer((req, res) => {
+    if (req.url === '/study.worker.js') {
+      res.writeHead(200, { 'content-type': 'text/javascript' }).end(readFileSync(path.join(out, 'study.worker.js')));
+    } else res.writeHead(200, { 'content-type': 'text/html' }).end(page);
+  });
+  await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
+  const port = (server.address() as { port: number }).port;
+  const { chromium } = await import('playwright-core');
+  const browser = await chromium.launch({ executablePath, args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking'] });
+  try {
+    const tab = await browser.newPage();
+    await tab.addInitScript('globalThis.__name = (f) => f');
+    await tab.goto(`http://127.0.0.1:${port}/`);
+    const times = await tab.evaluate(
+      async ({ doc, definition }) => {
+        const worker = new Worker('/study.worker.js', { type: 'module' });
+        const runOnce = (id: number) =>
+          new Promise<number>((resolve, reject) => {
+            const t0 = performance.now();
+            worker.onmessage = (e: MessageEvent<{ type: string; id: number; message?: string }>) => {
+              if (e.data.id !== id) return;
+              if (e.data.type === 'done') resolve(performance.now() - t0);
+              else if (e.data.type !== 'progress') reject(new Error(e.data.message ?? e.data.type));
+            };
+            worker.postMessage({ type: 'run', id, document: doc, definition });
+          });
+        const out: number[] = [];
+        for (let i = 1; i <= 8; i++) out.push(await runOnce(i));
+        worker.terminate();
+        return out;
+      },
+      { doc, definition },
+    );
+    const cold = times[0];
+    const warm = times.slice(1).sort((a, b) => a - b);
+    const version = browser.version();
+    console.log(`Study in headless Chromium ${version}, Web Worker (Vite bundle of src/workers/study.worker.ts), ${points} points`);
+    console.log(`  first run (worker start + compile): ${cold.toFixed(0)} ms`);
+    console.log(`  later runs: median ${quantile(warm, 0.5).toFixed(0)} ms, p95 ${quantile(warm, 0.95).toFixed(0)} ms  (target ≤ 500 ms)`);
+  } finally {
+    await browser.close();
+    server.close();
+    rmSync(out, { recursive: true, force: true });
+  }
+}

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { analyseSketch } from '../../../shared/flight/analyseSketch.ts';
 import { planStudy, runStudy, runStudySliced, studyRow } from '../../../shared/flight/study.ts';
 import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
@@ -7,6 +8,7 @@ import {
   STUDY_COLUMNS,
   STUDY_MAX_POINTS,
   packStudyRows,
+  roundSignificant,
   studyCsv,
   studyDefinitionSchema,
   unpackStudyRows,
@@ -56,6 +58,19 @@ describe('study definitions [ST2] [ST4]', () => {
     const huge = studyDefinitionSchema.safeParse({ mach: { kind: 'range', start: 1.1, end: 5, step: 0.04 }, alpha: { startDeg: -30, endDeg: 30, stepDeg: 0.1 }, flapDeg: [0, 1, 2] });
     expect(huge.success).toBe(false);
     expect(huge.error!.issues.map((i) => i.message).join(' ')).toMatch(new RegExp(`at most ${STUDY_MAX_POINTS}`));
+  });
+});
+
+describe('roundSignificant [ST3]', () => {
+  it('keeps 7 significant figures: within one unit of the 7th figure of toPrecision(7), and exactly 7 figures long', () => {
+    fc.assert(
+      fc.property(fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e12, max: 1e12 }), (v) => {
+        const r = roundSignificant(v);
+        expect(Number(r.toPrecision(7))).toBe(r);
+        expect(Math.abs(r - Number(v.toPrecision(7)))).toBeLessThanOrEqual(Math.abs(v) * 1.01e-6);
+      }),
+    );
+    expect([0.1234567891, -3.14159265, 12345678.9, 2.5e-9, 0, 1].map(roundSignificant)).toEqual([0.1234568, -3.141593, 12345680, 2.5e-9, 0, 1]);
   });
 });
 

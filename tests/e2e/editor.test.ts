@@ -1,4 +1,5 @@
-import { readFileSync } from 'node:fs';
+import { copyFileSync, mkdirSync, readFileSync } from 'node:fs';
+import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { startServer, type RunningServer } from '../../server/index.ts';
@@ -6,7 +7,7 @@ import { seedDemoOnce, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SKETCHES } from '../../s
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
 import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { testEnv } from '../helpers/app.ts';
-import { openBrowser, screenshot, type BrowserSession } from '../helpers/browser.ts';
+import { ARTIFACTS_DIR, openBrowser, screenshot, type BrowserSession } from '../helpers/browser.ts';
 
 /** Screen position of vertex `i` (from the vertex table and the canvas's view attribute). */
 async function vertexOnScreen(page: Page, i: number): Promise<{ x: number; y: number }> {
@@ -174,6 +175,18 @@ describe('sketch editor in Chromium', () => {
     const facetText = readFileSync((await facets.path())!, 'utf8');
     expect(facetText).toContain(`# ${RESULTS_CAUTION}`);
     expect(facetText.trim().split('\n').filter((l) => /^(upper|lower),/.test(l))).toHaveLength(5);
+
+    // The canvas picture: a PNG at twice the canvas size with a 60 px caption band (the caution).
+    const box = (await page.getByTestId('sketch-canvas').boundingBox())!;
+    await page.getByTestId('open-export').click();
+    const [png] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-png').click()]);
+    expect(png.suggestedFilename()).toMatch(/-wave-map\.png$/);
+    const bytes = readFileSync((await png.path())!);
+    expect(bytes.subarray(1, 4).toString('ascii')).toBe('PNG');
+    expect(bytes.readUInt32BE(16)).toBe(2 * Math.floor(box.width));
+    expect(bytes.readUInt32BE(20)).toBe(2 * Math.floor(box.height) + 60);
+    mkdirSync(ARTIFACTS_DIR, { recursive: true });
+    copyFileSync((await png.path())!, path.join(ARTIFACTS_DIR, 'editor-export.png'));
     expect(browser.foreignRequests).toEqual([]);
   });
 

@@ -120,8 +120,7 @@ function titleBlock(ctx: Ctx): void {
     `generated ${when} UTC by ${data.generatedBy}`,
     `units: ${data.units === 'si' ? 'SI' : 'US customary'}`,
   ].filter(Boolean);
-  line(doc, meta.join(' · '), M.left, ctx.y + 2, { size: 8.5, color: INK_SOFT });
-  ctx.y += 20;
+  ctx.y += paragraph(doc, meta.join(' · '), M.left, ctx.y + 2, CONTENT_W, { size: 8.5, color: INK_SOFT }) + 9;
 }
 
 function cautionBox(ctx: Ctx): void {

@@ -15,6 +15,10 @@ export interface RouteSize {
   files: { file: string; bytes: number; gzip: number }[];
   bytes: number;
   gzip: number;
+  /** JS the route loads later (its dynamic imports and what they import), not counted above. */
+  later: { file: string; bytes: number; gzip: number }[];
+  /** Web Worker scripts of the build (fetched when a page starts them; run off the main thread). */
+  workers: { file: string; bytes: number; gzip: number }[];
 }
 
 /**
@@ -35,13 +39,24 @@ export function routeInitialJs(outDir: string, routeSource: string): RouteSize {
   };
   visit(entry);
   visit(routeSource);
-  const files = [...seen]
-    .map((key) => manifest[key].file)
-    .filter((f) => f.endsWith('.js'))
-    .map((file) => {
-      const buf = readFileSync(path.join(outDir, file));
-      return { file, bytes: buf.length, gzip: gzipSync(buf, { level: 9 }).length };
-    })
-    .sort((a, b) => b.gzip - a.gzip);
-  return { files, bytes: files.reduce((s, f) => s + f.bytes, 0), gzip: files.reduce((s, f) => s + f.gzip, 0) };
+  const initial = new Set(seen);
+  const lazy = new Set<string>();
+  const visitLazy = (key: string) => {
+    if (lazy.has(key) || initial.has(key)) return;
+    lazy.add(key);
+    for (const imp of [...(manifest[key].imports ?? []), ...(manifest[key].dynamicImports ?? [])]) visitLazy(imp);
+  };
+  for (const dyn of manifest[routeSource].dynamicImports ?? []) visitLazy(dyn);
+  const sizes = (keys: Iterable<string>) =>
+    [...keys]
+      .map((key) => manifest[key].file)
+      .filter((f) => f.endsWith('.js'))
+      .map((file) => {
+        const buf = readFileSync(path.join(outDir, file));
+        return { file, bytes: buf.length, gzip: gzipSync(buf, { level: 9 }).length };
+      })
+      .sort((a, b) => b.gzip - a.gzip);
+  const files = sizes(initial);
+  const workers = sizes(Object.keys(manifest).filter((k) => k.startsWith('_worker_assets/') || /\.worker\.[jt]s$/.test(k)));
+  return { files, bytes: files.reduce((s, f) => s + f.bytes, 0), gzip: files.reduce((s, f) => s + f.gzip, 0), later: sizes(lazy), workers };
 }

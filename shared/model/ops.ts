@@ -4,6 +4,7 @@ import { findRepeatedPoint, findSelfIntersection, signedArea } from './polygon.t
 import {
   conditionSchema,
   flapSchema,
+  loadsSettingsSchema,
   pointSchema,
   type Condition,
   type Point,
@@ -82,6 +83,13 @@ export const setMomentPointOpSchema = z.object({
   point: pointSchema.nullable(),
 });
 
+export const setLoadsOpSchema = z.object({
+  type: z.literal('setLoads'),
+  opId: opIdSchema,
+  /** Physical chord and span (m) and the friction regime used for loads. */
+  loads: loadsSettingsSchema,
+});
+
 export const sketchOpSchema = z.discriminatedUnion('type', [
   moveVerticesOpSchema,
   insertVertexOpSchema,
@@ -90,6 +98,7 @@ export const sketchOpSchema = z.discriminatedUnion('type', [
   setConditionOpSchema,
   setFlapOpSchema,
   setMomentPointOpSchema,
+  setLoadsOpSchema,
 ]);
 export type SketchOp = z.infer<typeof sketchOpSchema>;
 export type SketchOpType = SketchOp['type'];
@@ -172,6 +181,14 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
       return { ok: true, doc: { ...doc, flap: op.flap ? { ...op.flap } : null } };
     case 'setMomentPoint':
       return { ok: true, doc: { ...doc, momentPoint: op.point ? [op.point[0], op.point[1]] : null } };
+    case 'setLoads': {
+      const checked = loadsSettingsSchema.safeParse(op.loads);
+      if (!checked.success) {
+        const issue = checked.error.issues[0];
+        return { ok: false, reason: `${String(issue.path[0] ?? 'Loads')} ${issue.message}.` };
+      }
+      return { ok: true, doc: { ...doc, loads: checked.data } };
+    }
   }
 }
 
@@ -196,6 +213,8 @@ export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string =
       return { type: 'setFlap', opId, flap: docBefore.flap ? { ...docBefore.flap } : null };
     case 'setMomentPoint':
       return { type: 'setMomentPoint', opId, point: docBefore.momentPoint ? [docBefore.momentPoint[0], docBefore.momentPoint[1]] : null };
+    case 'setLoads':
+      return { type: 'setLoads', opId, loads: { ...docBefore.loads } };
   }
 }
 

@@ -165,3 +165,18 @@ describe('remapVertexIndex', () => {
     expect([0, 1, 2, 3].map((i) => remapVertexIndex(i, del))).toEqual([0, null, 1, 2]);
   });
 });
+
+describe('setLoads', () => {
+  it('sets chord, span and friction, refuses a non-positive chord, and inverts [O3]', async () => {
+    const { applyOp, invertOp } = await import('../../../shared/model/ops.ts');
+    const { defaultSketchDocument } = await import('../../../shared/model/sketch.ts');
+    const doc = defaultSketchDocument();
+    const op = { type: 'setLoads' as const, opId: 'l1', loads: { chordM: 0.32, spanM: 0.18, friction: 'laminar' as const } };
+    const r = applyOp(doc, op);
+    if (!r.ok) throw new Error(r.reason);
+    expect(r.doc.loads).toEqual({ chordM: 0.32, spanM: 0.18, friction: 'laminar' });
+    const back = applyOp(r.doc, invertOp(doc, op));
+    expect(back.ok && back.doc).toEqual(doc);
+    expect(applyOp(doc, { ...op, loads: { chordM: 0, spanM: 1, friction: 'none' } })).toEqual({ ok: false, reason: expect.stringMatching(/chordM must be a positive length/) });
+  });
+});

@@ -11,3 +11,12 @@ export const PANEL_SETTLE_DURING_DRAG_MS = 120;
 
 /** How long the reason for a refused canvas edit stays over the canvas. */
 export const REJECTION_SHOWN_MS = 6_000;
+
+/** After edits settle, fetch the server's stored solve of the new revision this much later. */
+export const SERVER_RESULT_REFRESH_MS = 800;
+
+/** How often the realtime channel checks for revision gaps and stale cursors. */
+export const SYNC_TICK_MS = 250;
+
+/** A walkthrough lead re-sends the view this often so late joiners line up. */
+export const WALKTHROUGH_HEARTBEAT_MS = 1_000;

@@ -13,7 +13,11 @@ import {
   type SketchOpDraft,
 } from '@shared/model/ops';
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
-import { AUTOSAVE_DEBOUNCE_MS, AUTOSAVE_RETRY_MS } from '@/timing';
+import { newId } from '@shared/model/ids';
+import { createSyncEngine, type SyncEngine } from '@shared/protocol/syncEngine';
+import { transformOp } from '@shared/protocol/transform';
+import type { ClientMessage, EditOp, ServerMessage } from '@shared/protocol/messages';
+import { AUTOSAVE_DEBOUNCE_MS, AUTOSAVE_RETRY_MS, SERVER_RESULT_REFRESH_MS } from '@/timing';
 
 /** One local edit in the history: the op as applied and the op that takes it back. */
 interface HistoryEntry {
@@ -39,6 +43,9 @@ export interface SketchNotice {
  *   reloads the server's document, re-applies the edits not yet saved on top of it, and says
  *   so in `notice`.
  * - The store never imports Konva or the socket (tools call `dispatch`).
+ * - With a realtime channel attached (`attachChannel`, done by useSketchChannel), edits go to
+ *   the shared sync engine instead of autosave: the document shown is the server's confirmed
+ *   state plus our pending edits; remote edits rebase the undo/redo history and never enter it.
  */
 export const useSketchStore = defineStore('sketch', () => {
   const sketchId = ref<string | null>(null);
@@ -69,6 +76,11 @@ export const useSketchStore = defineStore('sketch', () => {
   let unsavedOps: SketchOp[] = [];
   let saveTimer: ReturnType<typeof setTimeout> | null = null;
   let saving: Promise<void> | null = null;
+  /** The realtime sync engine while a channel is attached; edits go through it. */
+  let engine: SyncEngine | null = null;
+  /** True while edits travel over the realtime channel. */
+  const live = ref(false);
+  let refreshTimer: ReturnType<typeof setTimeout> | null = null;
 
   const canUndo = computed(() => !readOnly.value && undoStack.value.length > 0);
   const canRedo = computed(() => !readOnly.value && redoStack.value.length > 0);
@@ -152,11 +164,125 @@ export const useSketchStore = defineStore('sketch', () => {
     }
     lastRejection.value = null;
     const inverse = invertOp(before, op);
-    document.value = r.doc;
     selection.value = selection.value.map((i) => remapVertexIndex(i, op)).filter((i): i is number => i !== null && i < r.doc.section.points.length);
+    if (engine) {
+      const sent = engine.submit(op);
+      if (!sent.ok) {
+        lastRejection.value = sent.reason;
+        return sent;
+      }
+      return { ok: true, doc: engine.state?.document ?? r.doc, inverse };
+    }
+    document.value = r.doc;
     unsavedOps.push(op);
     markUnsaved();
     return { ok: true, doc: r.doc, inverse };
+  }
+
+  // ---- realtime channel ----
+
+  /** Mirrors the engine's view (confirmed state + pending edits) into the store. */
+  function syncFromEngine() {
+    const state = engine?.state;
+    if (!engine || !state) return;
+    document.value = state.document;
+    title.value = state.title;
+    revision.value = engine.revision;
+    const n = state.document.section.points.length;
+    if (selection.value.some((i) => i >= n)) selection.value = selection.value.filter((i) => i < n);
+    syncSaveState();
+  }
+
+  function syncSaveState() {
+    if (!engine) return;
+    if (engine.pendingCount === 0) {
+      saveState.value = 'saved';
+      saveError.value = null;
+    } else if (engine.connected) {
+      saveState.value = 'saving';
+    } else {
+      saveState.value = 'unsaved';
+      saveError.value = 'Offline: your edits are kept here and sent when the connection returns.';
+    }
+  }
+
+  /** A remote edit was applied before our history's edits: rebase them past it (drop what no longer fits). */
+  function rebaseHistory(remote: EditOp) {
+    const fix = (entries: HistoryEntry[]) =>
+      entries.flatMap((e) => {
+        const op = transformOp(e.op, remote);
+        const inverse = transformOp(e.inverse, remote);
+        return op.ok && inverse.ok ? [{ op: op.op as SketchOp, inverse: inverse.op as SketchOp }] : [];
+      });
+    undoStack.value = fix(undoStack.value);
+    redoStack.value = fix(redoStack.value);
+  }
+
+  /** The server stores its own solve of every revision; fetch it once edits settle. */
+  function scheduleServerRefresh() {
+    if (refreshTimer) clearTimeout(refreshTimer);
+    refreshTimer = setTimeout(async () => {
+      refreshTimer = null;
+      const id = sketchId.value;
+      if (!id || (engine && engine.pendingCount > 0)) return;
+      try {
+        const sketch = await api.get(`/api/sketches/${id}`, sketchSchema);
+        if (sketchId.value !== id) return;
+        serverAnalysis.value = asAnalysis(sketch.lastResult);
+        serverStatus.value = sketch.lastSolveStatus;
+        updatedAt.value = sketch.updatedAt;
+        updatedByName.value = sketch.updatedByName;
+      } catch {
+        // The next settle tries again; the live result is on screen meanwhile.
+      }
+    }, SERVER_RESULT_REFRESH_MS);
+  }
+
+  /**
+   * Connects the store to a realtime channel: `send` delivers client messages; the returned
+   * handlers take what the socket reports. Edits made while offline wait and are sent on
+   * reconnect with their original ids.
+   */
+  function attachChannel(send: (msg: ClientMessage) => void) {
+    cancelTimer();
+    engine = createSyncEngine({
+      send,
+      onChange: syncFromEngine,
+      onRemoteEdit: (op) => {
+        rebaseHistory(op);
+        scheduleServerRefresh();
+      },
+      onRejected: (_op, reason) => {
+        lastRejection.value = reason;
+        notice.value = { kind: 'error', message: `An edit was not applied: ${reason}` };
+      },
+      onAcked: () => scheduleServerRefresh(),
+    });
+    live.value = true;
+    const own = engine;
+    return {
+      join: (id: string) => own.join(id),
+      receive: (msg: ServerMessage) => {
+        own.receive(msg);
+        if (msg.type === 'ack' || msg.type === 'edit' || msg.type === 'replay' || msg.type === 'snapshot') syncSaveState();
+      },
+      connectionOpened: () => {
+        own.connectionOpened();
+        syncSaveState();
+      },
+      connectionLost: () => {
+        own.connectionLost();
+        syncSaveState();
+      },
+      tick: () => own.tick(),
+    };
+  }
+
+  function detachChannel() {
+    engine = null;
+    live.value = false;
+    if (refreshTimer) clearTimeout(refreshTimer);
+    refreshTimer = null;
   }
 
   function markUnsaved() {
@@ -180,6 +306,12 @@ export const useSketchStore = defineStore('sketch', () => {
   /** Saves now (also what the autosave timer calls). Resolves when the document is stored. */
   async function save(): Promise<void> {
     cancelTimer();
+    if (engine) {
+      // Realtime: edits are already on their way; wait (a while) for them to be confirmed.
+      const deadline = Date.now() + 10_000;
+      while (engine && engine.pendingCount > 0 && engine.connected && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));
+      return;
+    }
     if (saving) {
       await saving;
       if (document.value !== savedDocument) return save();
@@ -271,6 +403,11 @@ export const useSketchStore = defineStore('sketch', () => {
   async function rename(next: string): Promise<void> {
     const id = sketchId.value;
     if (!id) return;
+    if (engine) {
+      const r = engine.submit({ type: 'rename', opId: newId('op'), title: next.trim() });
+      if (!r.ok) throw new Error(r.reason);
+      return;
+    }
     const sketch = await api.patch(`/api/sketches/${id}`, { title: next }, sketchSchema);
     title.value = sketch.title;
     updatedAt.value = sketch.updatedAt;
@@ -288,6 +425,7 @@ export const useSketchStore = defineStore('sketch', () => {
   /** Forgets the open sketch (leaving the editor). Does not save: call `save()` first. */
   function close() {
     cancelTimer();
+    detachChannel();
     sketchId.value = null;
     document.value = null;
     savedDocument = null;
@@ -323,6 +461,9 @@ export const useSketchStore = defineStore('sketch', () => {
     canUndo,
     canRedo,
     isDirty,
+    live,
+    attachChannel,
+    detachChannel,
     open,
     dispatch,
     undo,

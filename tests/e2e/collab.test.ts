@@ -1,0 +1,122 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { eq } from 'drizzle-orm';
+import { startServer, type RunningServer } from '../../server/index.ts';
+import { seedDemoOnce, DEMO_PASSWORD, DEMO_PEOPLE } from '../../server/db/seed.ts';
+import { sketches } from '../../server/db/schema.ts';
+import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
+import { testEnv } from '../helpers/app.ts';
+import { openBrowser, screenshot, type BrowserSession } from '../helpers/browser.ts';
+
+async function signIn(page: Page, email: string, baseUrl: string) {
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
+  await page.getByTestId('sign-in-submit').click();
+  await page.getByTestId('sketch-table').waitFor();
+}
+
+/** Screen position of vertex `i` from the canvas's view attribute and the vertex table. */
+async function vertexOnScreen(page: Page, i: number) {
+  const canvas = page.getByTestId('sketch-canvas');
+  const box = (await canvas.boundingBox())!;
+  const [scale, originX, originY] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
+  const vx = Number(await page.getByTestId(`vertex-x-${i}`).inputValue());
+  const vy = Number(await page.getByTestId(`vertex-y-${i}`).inputValue());
+  return { x: box.x + vx * scale + originX, y: box.y - vy * scale + originY };
+}
+
+const text = (page: Page, id: string) => page.getByTestId(id).textContent();
+
+describe('live collaboration in two browsers', () => {
+  let database: TestDatabase;
+  let server: RunningServer;
+  let ines: BrowserSession;
+  let tomasz: BrowserSession;
+  let sketchId: string;
+
+  beforeAll(async () => {
+    database = await createTestDatabase();
+    await seedDemoOnce(database.db);
+    const fin = await database.db.query.sketches.findFirst({ where: eq(sketches.title, 'Tern fin root — double wedge, 5% thick, ridge at 40%') });
+    sketchId = fin!.id;
+    server = await startServer(testEnv(database.url), { log: () => {} });
+    ines = await openBrowser(server.url);
+    tomasz = await openBrowser(server.url);
+  });
+  afterAll(async () => {
+    await ines?.close();
+    await tomasz?.close();
+    await server?.close();
+    await database?.drop();
+  });
+
+  it('both open the same sketch and see each other present', async () => {
+    await signIn(ines.page, DEMO_PEOPLE[0].email, server.url);
+    await signIn(tomasz.page, DEMO_PEOPLE[1].email, server.url);
+    for (const { page } of [ines, tomasz]) {
+      await page.goto(`${server.url}/sketches/${sketchId}`);
+      await page.getByTestId('sketch-canvas').waitFor();
+    }
+    for (const { page } of [ines, tomasz]) {
+      await expect.poll(() => text(page, 'connection-state')).toContain('Live');
+      await page.getByTestId('person-Ines Marlow').waitFor();
+      await page.getByTestId('person-Tomasz Reyes').waitFor();
+    }
+  });
+
+  it('one drags a vertex; the other sees the cursor and the new section and wave map', async () => {
+    const a = ines.page;
+    const b = tomasz.page;
+    const clBefore = await text(b, 'coef-exact-cl');
+    const wavesBefore = await b.getByTestId('sketch-canvas').getAttribute('data-wave-count');
+    const yBefore = await b.getByTestId('vertex-y-1').inputValue();
+
+    const from = await vertexOnScreen(a, 1);
+    await a.mouse.move(from.x, from.y);
+    await a.mouse.down();
+    for (let k = 1; k <= 10; k++) await a.mouse.move(from.x, from.y - 4 * k);
+    // While Ines drags, Tomasz sees her cursor (the presence layer draws it; the page exposes
+    // the count of remote cursors for tests).
+    await expect.poll(() => b.getByTestId('sketch-canvas').getAttribute('data-remote-cursors')).toBe('1');
+    await a.mouse.up();
+
+    await expect.poll(() => b.getByTestId('vertex-y-1').inputValue(), { timeout: 10_000 }).not.toBe(yBefore);
+    await expect.poll(() => text(b, 'coef-exact-cl'), { timeout: 10_000 }).not.toBe(clBefore);
+    expect(await b.getByTestId('vertex-y-1').inputValue()).toBe(await a.getByTestId('vertex-y-1').inputValue());
+    expect(Number(await b.getByTestId('sketch-canvas').getAttribute('data-wave-count'))).toBeGreaterThan(0);
+    expect(wavesBefore).not.toBeNull();
+    await expect.poll(() => text(a, 'save-state')).toContain('Saved');
+    await screenshot(a, 'collab-lead-after-drag');
+    await screenshot(b, 'collab-other-sees-drag');
+    // The server stored it: the revision moved on.
+    const row = await database.db.query.sketches.findFirst({ where: eq(sketches.id, sketchId) });
+    expect(row!.revision).toBeGreaterThan(0);
+  });
+
+  it('a walkthrough: Ines leads, Tomasz’s view follows hers; he can step out and back in', async () => {
+    const a = ines.page;
+    const b = tomasz.page;
+    await a.getByTestId('walkthrough-start').click();
+    await expect.poll(() => text(a, 'walkthrough-state')).toContain('You are leading');
+    await expect.poll(() => text(b, 'walkthrough-state')).toContain('Ines Marlow leads a walkthrough');
+    // Ines zooms in twice; Tomasz's canvas takes the same scale.
+    await a.getByTestId('sketch-canvas').hover();
+    await a.keyboard.press('+');
+    await a.keyboard.press('+');
+    const scaleOf = async (p: Page) => Number((await p.getByTestId('sketch-canvas').getAttribute('data-view'))!.split(' ')[0]);
+    await expect.poll(async () => Math.abs((await scaleOf(b)) - (await scaleOf(a))) / (await scaleOf(a)), { timeout: 10_000 }).toBeLessThan(1e-6);
+    await screenshot(b, 'collab-follower');
+    await b.getByTestId('walkthrough-step-out').click();
+    await b.getByTestId('walkthrough-rejoin').waitFor();
+    await a.keyboard.press('-');
+    await new Promise((r) => setTimeout(r, 600));
+    expect(await scaleOf(b)).not.toBeCloseTo(await scaleOf(a), 6);
+    await b.getByTestId('walkthrough-rejoin').click();
+    await expect.poll(async () => Math.abs((await scaleOf(b)) - (await scaleOf(a))) / (await scaleOf(a)), { timeout: 10_000 }).toBeLessThan(1e-6);
+    await a.getByTestId('walkthrough-stop').click();
+    await expect.poll(() => b.getByTestId('walkthrough-state').count()).toBe(0);
+    expect(ines.foreignRequests).toEqual([]);
+    expect(tomasz.foreignRequests).toEqual([]);
+  });
+});

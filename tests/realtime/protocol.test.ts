@@ -4,7 +4,11 @@ import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { testEnv } from '../helpers/app.ts';
 import { RT_PASSWORD, seedTeam } from '../helpers/realtimeWorld.ts';
 import { signInCookie, simClient, until, type SimClient } from '../helpers/simClient.ts';
-import { PROTOCOL_VERSION, type ServerMessage } from '../../shared/protocol/messages.ts';
+import { PING_INTERVAL_MS, PING_TIMEOUT_MS, PROTOCOL_VERSION, type ServerMessage } from '../../shared/protocol/messages.ts';
+import { spawn } from 'node:child_process';
+import path from 'node:path';
+
+const ROOT = path.resolve(import.meta.dirname, '../..');
 
 describe('realtime protocol against one server', () => {
   let database: TestDatabase;
@@ -134,6 +138,26 @@ describe('realtime protocol against one server', () => {
     c.close();
     const people = (await a.waitFor((m) => m.type === 'people', 12_000, mark)) as Extract<ServerMessage, { type: 'people' }>;
     expect(people.people.map((p) => p.name).sort()).toEqual(['Ada', 'Ben']);
+  });
+
+  it('someone whose connection goes silent (a frozen or cut-off machine) disappears within a few seconds', async () => {
+    const [a] = clients;
+    const cookie = await signInCookie(server.url, world.users[2].email, RT_PASSWORD);
+    const peer = spawn(process.execPath, ['--import', 'tsx', 'tests/helpers/remoteClient.ts', server.url, cookie, world.sketchId], { cwd: ROOT, stdio: ['ignore', 'pipe', 'inherit'] });
+    try {
+      await new Promise<void>((resolve, reject) => {
+        peer.stdout!.on('data', (d) => String(d).includes('joined') && resolve());
+        peer.once('exit', () => reject(new Error('peer exited')));
+      });
+      await a.waitFor((m) => m.type === 'people' && m.people.some((p) => p.name === 'Cy'), 5000, a.received.length - 5);
+      const mark = a.received.length;
+      peer.kill('SIGSTOP'); // no FIN, no pong: only the heartbeat can tell
+      // The heartbeat (ping every PING_INTERVAL_MS, PING_TIMEOUT_MS to answer) notices; the
+      // wait allows generous slack for a loaded machine.
+      await a.waitFor((m) => m.type === 'people' && !m.people.some((p) => p.name === 'Cy'), 3 * (PING_INTERVAL_MS + PING_TIMEOUT_MS), mark);
+    } finally {
+      peer.kill('SIGKILL');
+    }
   });
 
   it('a rejoining client gets the edits it missed, in order', async () => {

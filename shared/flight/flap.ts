@@ -85,6 +85,17 @@ export interface FacetPressures {
   cpSecondOrder: number;
 }
 
+/** Per deflected section, computed once: studies call hingeMoments thousands of times with it. */
+const geometryCache = new WeakMap<object, { onFlap: Set<number>; ccw: boolean }>();
+function flapGeometry(deflected: Extract<DeflectedSection, { ok: true }>) {
+  let g = geometryCache.get(deflected);
+  if (!g) {
+    g = { onFlap: new Set([...deflected.flapVertices, ...deflected.hingeVertices]), ccw: signedArea(deflected.points) > 0 };
+    geometryCache.set(deflected, g);
+  }
+  return g;
+}
+
 export interface HingeMoments {
   /** Exact (shock-expansion); null when some flap facet was not solved. */
   exact: number | null;
@@ -102,8 +113,7 @@ export interface HingeMoments {
 export function hingeMoments(deflected: Extract<DeflectedSection, { ok: true }>, facets: readonly FacetPressures[]): HingeMoments {
   const pts = deflected.points;
   const n = pts.length;
-  const onFlap = new Set([...deflected.flapVertices, ...deflected.hingeVertices]);
-  const ccw = signedArea(pts) > 0;
+  const { onFlap, ccw } = flapGeometry(deflected);
   const sums = { exact: 0, linear: 0, secondOrder: 0 };
   let exactValid = true;
   for (const f of facets) {

@@ -1,0 +1,80 @@
+import type { SketchAnalysis } from '@shared/flight/analyseSketch';
+import type { Coefficients } from '@shared/solver/types';
+import { formatNumber } from '@/canvas/legend';
+
+/** What the compare table lists, per theory. */
+export const COMPARE_THEORIES = [
+  { key: 'exact', label: 'Exact (shock-expansion)' },
+  { key: 'linear', label: 'Linear' },
+  { key: 'secondOrder', label: 'Second-order' },
+] as const;
+export type CompareTheory = (typeof COMPARE_THEORIES)[number]['key'];
+
+export const COMPARE_QUANTITIES = [
+  { key: 'cl', label: 'cl' },
+  { key: 'cd', label: 'cd' },
+  { key: 'cm', label: 'cm' },
+  { key: 'xcpOverC', label: 'x_cp/c' },
+  { key: 'liftToDrag', label: 'L/D' },
+] as const;
+export type CompareQuantity = (typeof COMPARE_QUANTITIES)[number]['key'];
+
+export interface CompareCell {
+  a: number | null;
+  b: number | null;
+  /** B − A; null when either side has no value. */
+  diff: number | null;
+}
+
+/** The stored analysis, if the snapshot has one in the current shape (older rows may not). */
+export function asAnalysis(raw: unknown): SketchAnalysis | null {
+  if (!raw || typeof raw !== 'object') return null;
+  const r = raw as Partial<SketchAnalysis>;
+  return typeof r.status === 'string' && 'result' in r ? (raw as SketchAnalysis) : null;
+}
+
+function coefficientsOf(analysis: SketchAnalysis | null, theory: CompareTheory): Coefficients | null {
+  const r = analysis?.result;
+  if (!r) return null;
+  if (theory === 'exact') return r.coefficients;
+  return r.theories?.[theory] ?? null;
+}
+
+/**
+ * B − A of one quantity. Differences below 1e-9 of the larger value are binary noise of
+ * identical results and are shown as 0.
+ */
+export function difference(a: number | null, b: number | null): number | null {
+  if (a === null || b === null) return null;
+  const d = b - a;
+  return Math.abs(d) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b)) ? 0 : d;
+}
+
+/** The coefficient table of two snapshots: every theory × quantity, with A, B and B − A. */
+export function compareCoefficients(a: SketchAnalysis | null, b: SketchAnalysis | null): Record<CompareTheory, Record<CompareQuantity, CompareCell>> {
+  const out = {} as Record<CompareTheory, Record<CompareQuantity, CompareCell>>;
+  for (const { key: theory } of COMPARE_THEORIES) {
+    const ca = coefficientsOf(a, theory);
+    const cb = coefficientsOf(b, theory);
+    const row = {} as Record<CompareQuantity, CompareCell>;
+    for (const { key } of COMPARE_QUANTITIES) {
+      const va = ca?.[key] ?? null;
+      const vb = cb?.[key] ?? null;
+      row[key] = { a: va, b: vb, diff: difference(va, vb) };
+    }
+    out[theory] = row;
+  }
+  return out;
+}
+
+export function formatValue(v: number | null): string {
+  return v === null ? '—' : formatNumber(v, 4);
+}
+
+/** A difference with its sign ("+0.0021", "−0.013", "0"). */
+export function formatDifference(v: number | null): string {
+  if (v === null) return '—';
+  if (v === 0) return '0';
+  const s = formatNumber(Math.abs(v), 3);
+  return `${v > 0 ? '+' : '−'}${s}`;
+}

@@ -1,0 +1,280 @@
+import { defineStore } from 'pinia';
+import { computed, ref, shallowRef, watch } from 'vue';
+import { api } from '@/api/client';
+import { bump, watchTopic } from '@/composables/useSketchNotices';
+import { useSketchStore } from '@/stores/sketch';
+import type { Point } from '@shared/model/sketch';
+import { sketchSchema } from '@shared/model/sketchApi';
+import { pageOf } from '@shared/model/teams';
+import {
+  activityEntrySchema,
+  pinDetailSchema,
+  pinSummarySchema,
+  snapshotDetailSchema,
+  snapshotSummarySchema,
+  type PinDetail,
+  type PinSummary,
+  type PinTarget,
+  type ReviewStatus,
+  type SnapshotDetail,
+} from '@shared/model/review';
+import type { PinMarker } from '@/canvas/pins';
+import type { CompareOutlines } from '@/canvas/renderReview';
+
+export const REVIEW_TABS = ['pins', 'snapshots', 'activity'] as const;
+export type ReviewTab = (typeof REVIEW_TABS)[number];
+
+/** The canvas shows up to this many pins (the newest); the list pages through all of them. */
+export const CANVAS_PIN_LIMIT = 100;
+
+const pinPage = pageOf(pinSummarySchema);
+
+/**
+ * The review workflow of the open sketch, shared by the editor's review bar, the review panel
+ * and the canvas: which panel tab is open, pin placement, the selected pin, the compared
+ * snapshots' outlines, the pins drawn on the canvas and the review status. Server changes go
+ * through the actions here; each bumps the notice topics it touched so every panel showing
+ * them refreshes (the realtime channel bumps the same topics for other people's changes).
+ * Like every store, it never imports Konva or the socket.
+ */
+export const useReviewStore = defineStore('review', () => {
+  const sketch = useSketchStore();
+
+  const panelOpen = ref(false);
+  const tab = ref<ReviewTab>('pins');
+  /** A click on the canvas places a pin (reviewers and up). */
+  const pinMode = ref(false);
+  /** Where the pin being written points (placed, not yet posted). */
+  const draft = shallowRef<PinTarget | null>(null);
+  const selectedPinId = ref<string | null>(null);
+  /** Centre the canvas on the selected pin once its thread has loaded. */
+  const centrePending = ref(false);
+  const compare = shallowRef<CompareOutlines | null>(null);
+  const canvasPins = shallowRef<PinSummary[]>([]);
+  const canvasPinTotal = ref(0);
+  const reviewStatus = ref<ReviewStatus>('draft');
+
+  const openPinCount = computed(() => canvasPins.value.filter((p) => p.status === 'open').length);
+
+  /** What the canvas draws: every loaded pin, the selected one marked, and the draft. */
+  const markers = computed<PinMarker[]>(() => {
+    const list: PinMarker[] = canvasPins.value.map((p) => ({ id: p.id, at: p.target.at, status: p.status, selected: p.id === selectedPinId.value }));
+    if (draft.value) list.push({ id: 'draft', at: draft.value.at, status: 'draft', selected: false });
+    return list;
+  });
+
+  async function refreshCanvasPins() {
+    const id = sketch.sketchId;
+    if (!id) return;
+    try {
+      const page = await api.get(`/api/sketches/${id}/pins?status=all&limit=${CANVAS_PIN_LIMIT}&offset=0`, pinPage);
+      if (sketch.sketchId !== id) return;
+      canvasPins.value = page.items;
+      canvasPinTotal.value = page.total;
+    } catch {
+      // The list panel shows the error; the canvas keeps the pins it had.
+    }
+  }
+
+  async function refreshStatus() {
+    const id = sketch.sketchId;
+    if (!id) return;
+    try {
+      const s = await api.get(`/api/sketches/${id}`, sketchSchema);
+      if (sketch.sketchId === id) reviewStatus.value = s.reviewStatus;
+    } catch {
+      // Keep the status shown; the next notice tries again.
+    }
+  }
+
+  function reset() {
+    panelOpen.value = false;
+    pinMode.value = false;
+    draft.value = null;
+    selectedPinId.value = null;
+    centrePending.value = false;
+    compare.value = null;
+    canvasPins.value = [];
+    canvasPinTotal.value = 0;
+    reviewStatus.value = 'draft';
+  }
+
+  watch(
+    () => sketch.sketchId,
+    (id) => {
+      reset();
+      if (id) {
+        void refreshCanvasPins();
+        void refreshStatus();
+      }
+    },
+    { immediate: true },
+  );
+  watchTopic('pins', () => void refreshCanvasPins());
+  watchTopic('status', () => void refreshStatus());
+
+  // ---- panel and canvas ----
+  function openPanel(which?: ReviewTab) {
+    panelOpen.value = true;
+    if (which) tab.value = which;
+  }
+
+  function closePanel() {
+    panelOpen.value = false;
+    pinMode.value = false;
+    draft.value = null;
+    compare.value = null;
+  }
+
+  function startPinning() {
+    openPanel('pins');
+    selectedPinId.value = null;
+    draft.value = null;
+    pinMode.value = true;
+  }
+
+  function cancelPinning() {
+    pinMode.value = false;
+    draft.value = null;
+  }
+
+  /** The canvas reports where a pin goes; the panel asks for the first comment. */
+  function placeDraft(target: PinTarget) {
+    draft.value = target;
+    pinMode.value = false;
+    openPanel('pins');
+  }
+
+  function openPin(id: string, options: { centre?: boolean } = {}) {
+    selectedPinId.value = id;
+    centrePending.value = !!options.centre;
+    draft.value = null;
+    pinMode.value = false;
+    openPanel('pins');
+  }
+
+  function closePin() {
+    selectedPinId.value = null;
+    centrePending.value = false;
+  }
+
+  function showCompare(a: SnapshotDetail, b: SnapshotDetail) {
+    compare.value = { a: a.document.section.points, b: b.document.section.points, labelA: 'A', labelB: 'B' };
+  }
+
+  // ---- server actions (each refreshes what it changed) ----
+  function requireSketch(): string {
+    if (!sketch.sketchId) throw new Error('No sketch is open.');
+    return sketch.sketchId;
+  }
+
+  async function createPin(target: PinTarget, body: string, mentions: string[]): Promise<PinDetail> {
+    const pin = await api.post(`/api/sketches/${requireSketch()}/pins`, { target, body, mentions }, pinDetailSchema);
+    draft.value = null;
+    selectedPinId.value = pin.id;
+    bump('pins');
+    return pin;
+  }
+
+  async function reply(pinId: string, body: string, mentions: string[]): Promise<PinDetail> {
+    const pin = await api.post(`/api/pins/${pinId}/replies`, { body, mentions }, pinDetailSchema);
+    bump('pins');
+    return pin;
+  }
+
+  async function setPinStatus(pinId: string, status: 'open' | 'resolved'): Promise<PinDetail> {
+    const pin = await api.post(`/api/pins/${pinId}/${status === 'resolved' ? 'resolve' : 'reopen'}`, {}, pinDetailSchema);
+    bump('pins');
+    return pin;
+  }
+
+  async function saveSnapshot(name: string, note: string): Promise<SnapshotDetail> {
+    const id = requireSketch();
+    // The server captures what it has stored: send our edits first.
+    await sketch.save();
+    const snap = await api.post(`/api/sketches/${id}/snapshots`, { name, note }, snapshotDetailSchema);
+    bump('snapshots');
+    return snap;
+  }
+
+  /** Takes in a new revision the server made (restore, import): the channel brings it when live. */
+  async function reloadAfterServerEdit(id: string) {
+    if (!sketch.live && sketch.sketchId === id) await sketch.open(id);
+  }
+
+  /**
+   * Restores a snapshot as a new revision; the server first keeps the current state as an
+   * automatic snapshot, so nothing is lost.
+   */
+  async function restoreSnapshot(snapshotId: string): Promise<void> {
+    const id = requireSketch();
+    await sketch.save();
+    await api.post(`/api/snapshots/${snapshotId}/restore`, {}, sketchSchema);
+    compare.value = null;
+    await reloadAfterServerEdit(id);
+    bump('snapshots', 'activity');
+  }
+
+  /** Replaces the section with imported coordinates; the server snapshots the sketch first. */
+  async function importSection(points: Point[], fileName: string): Promise<void> {
+    const id = requireSketch();
+    await sketch.save();
+    await api.post(`/api/sketches/${id}/import`, { points, fileName }, sketchSchema);
+    await reloadAfterServerEdit(id);
+    bump('snapshots', 'activity');
+  }
+
+  async function setReviewStatus(status: ReviewStatus): Promise<void> {
+    const id = requireSketch();
+    await sketch.save();
+    const s = await api.put(`/api/sketches/${id}/status`, { status }, sketchSchema);
+    reviewStatus.value = s.reviewStatus;
+    bump('status');
+  }
+
+  async function requestReview(reviewerIds: string[], message: string): Promise<void> {
+    const id = requireSketch();
+    await sketch.save();
+    const s = await api.post(`/api/sketches/${id}/review-requests`, { reviewerIds, message }, sketchSchema);
+    reviewStatus.value = s.reviewStatus;
+    bump('status');
+  }
+
+  return {
+    panelOpen,
+    tab,
+    pinMode,
+    draft,
+    selectedPinId,
+    centrePending,
+    compare,
+    canvasPins,
+    canvasPinTotal,
+    reviewStatus,
+    openPinCount,
+    markers,
+    refreshCanvasPins,
+    refreshStatus,
+    openPanel,
+    closePanel,
+    startPinning,
+    cancelPinning,
+    placeDraft,
+    openPin,
+    closePin,
+    showCompare,
+    createPin,
+    reply,
+    setPinStatus,
+    saveSnapshot,
+    restoreSnapshot,
+    importSection,
+    setReviewStatus,
+    requestReview,
+  };
+});
+
+/** Pages of the review lists, as the API answers them. */
+export const pinPageSchema = pinPage;
+export const snapshotPageSchema = pageOf(snapshotSummarySchema);
+export const activityPageSchema = pageOf(activityEntrySchema);

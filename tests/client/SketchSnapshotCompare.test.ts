@@ -1,0 +1,100 @@
+import { describe, expect, it } from 'vitest';
+import { mount } from '@vue/test-utils';
+import { analyseSketch } from '@shared/flight/analyseSketch';
+import { RESULTS_CAUTION } from '@shared/model/caution';
+import type { SnapshotDetail } from '@shared/model/review';
+import { defaultSketchDocument, type SketchDocument } from '@shared/model/sketch';
+import SketchSnapshotCompare from '@/components/SketchSnapshotCompare.vue';
+import { compareCoefficients, difference, formatDifference } from '@/components/snapshotCompare';
+import { formatNumber } from '@/canvas/legend';
+import { expectClose } from '../helpers/expectClose';
+
+/** Our own 5 % double wedge, ridge at mid-chord. */
+function doc(alphaDeg: number, mach = 2, halfThickness = 0.025): SketchDocument {
+  return { ...defaultSketchDocument(), section: { points: [[0, 0], [0.5, halfThickness], [1, 0], [0.5, -halfThickness]] }, condition: { mach, alphaDeg, gamma: 1.4, altitudeM: null } };
+}
+
+function snapshot(id: string, name: string, revision: number, document: SketchDocument, stored = true): SnapshotDetail {
+  return {
+    id,
+    sketchId: 'sketch_aaaaaaaaaaaaaaaaaaaa',
+    name,
+    note: '',
+    kind: 'manual',
+    revision,
+    createdByName: 'Ines Marlow',
+    createdAt: '2030-03-04T09:15:00.000Z',
+    title: 'Tern fin root',
+    document,
+    result: stored ? analyseSketch(document) : null,
+  };
+}
+
+const cell = (w: ReturnType<typeof mount>, id: string) => w.get(`[data-testid="${id}"]`).text();
+
+describe('SketchSnapshotCompare', () => {
+  it('tabulates A, B and B − A of cl, cd, cm, x_cp/c and L/D for all three theories, with the caution', () => {
+    const a = snapshot('snap_a', 'Cruise', 4, doc(2));
+    const b = snapshot('snap_b', 'Pull-up', 9, doc(4));
+    const w = mount(SketchSnapshotCompare, { props: { a, b } });
+    const ra = analyseSketch(a.document).result!;
+    const rb = analyseSketch(b.document).result!;
+
+    // Linear (Ackeret) cl ≈ 4α/√(M²−1) = 0.0806 at α 2°, M 2 and twice that at 4° (common
+    // practice); the solver projects the forces exactly, so thickness moves it by ~0.3 %.
+    expectClose(Number(cell(w, 'compare-linear-cl-a')), 0.0806, 0.0806 * 0.005);
+    expectClose(Number(cell(w, 'compare-linear-cl-b')), 0.1612, 0.1612 * 0.005);
+    expect(cell(w, 'compare-linear-cl-a')).toBe(formatNumber(ra.theories!.linear.cl, 4));
+    expect(cell(w, 'compare-exact-cl-a')).toBe(formatNumber(ra.coefficients!.cl, 4));
+    expect(cell(w, 'compare-exact-cl-diff')).toBe(`+${formatNumber(rb.coefficients!.cl - ra.coefficients!.cl, 3)}`);
+    expect(cell(w, 'compare-secondOrder-cd-diff')).toBe(formatDifference(rb.theories!.secondOrder.cd - ra.theories!.secondOrder.cd));
+    for (const t of ['exact', 'linear', 'secondOrder']) {
+      for (const q of ['cl', 'cd', 'cm', 'xcpOverC', 'liftToDrag']) {
+        expect(cell(w, `compare-${t}-${q}-a`)).not.toBe('');
+        expect(cell(w, `compare-${t}-${q}-diff`)).not.toBe('');
+      }
+    }
+    expect(cell(w, 'compare-a')).toContain('Cruise');
+    expect(cell(w, 'compare-a')).toContain('revision 4');
+    expect(cell(w, 'compare-b')).toContain('Pull-up');
+    expect(w.get('[data-testid="compare-condition"]').text()).toMatch(/α, °\s*2\s*4/);
+    expect(w.get('[data-testid="results-caution"]').text()).toBe(RESULTS_CAUTION);
+    w.unmount();
+  });
+
+  it('a detached snapshot has no exact coefficients: its cells and the differences read —, and the table says why', () => {
+    // A 12 % wedge at M 1.4, α 5°: the nose shock detaches (as the demo booster fin).
+    const a = snapshot('snap_a', 'Thin', 1, doc(5, 1.4, 0.01));
+    const b = snapshot('snap_b', 'Thick', 2, doc(5, 1.4, 0.06));
+    expect(analyseSketch(b.document).status).toBe('detached');
+    const w = mount(SketchSnapshotCompare, { props: { a, b } });
+    expect(cell(w, 'compare-exact-cl-b')).toBe('—');
+    expect(cell(w, 'compare-exact-cl-diff')).toBe('—');
+    // The thin-section theories ignore the limit and still give numbers.
+    expect(cell(w, 'compare-linear-cl-b')).not.toBe('—');
+    expect(cell(w, 'compare-linear-cl-diff')).toMatch(/^[+−]?\d/);
+    expect(w.find('[data-testid="compare-exact-note"]').exists()).toBe(true);
+    w.unmount();
+  });
+
+  it('a snapshot without a stored result shows — everywhere on its side', () => {
+    const w = mount(SketchSnapshotCompare, { props: { a: snapshot('snap_a', 'Old', 1, doc(2), false), b: snapshot('snap_b', 'New', 2, doc(3)) } });
+    expect(cell(w, 'compare-linear-cm-a')).toBe('—');
+    expect(w.get('[data-testid="compare-condition"]').text()).toContain('not stored');
+    w.unmount();
+  });
+});
+
+describe('coefficient differences', () => {
+  it('B − A is exact, identical results give 0 (not binary noise), and a missing side gives null', () => {
+    expect(difference(0.1, 0.3)).toBeCloseTo(0.2, 15);
+    expect(difference(0.1 + 0.2, 0.3)).toBe(0);
+    expect(difference(null, 0.3)).toBeNull();
+    const same = analyseSketch(doc(2));
+    const t = compareCoefficients(same, same);
+    expect(t.exact.cl.diff).toBe(0);
+    expect(t.secondOrder.liftToDrag.diff).toBe(0);
+    expect(formatDifference(-0.01234)).toBe('−0.0123');
+    expect(formatDifference(0)).toBe('0');
+  });
+});

@@ -116,6 +116,26 @@ describe('live collaboration in two browsers', () => {
     await expect.poll(async () => Math.abs((await scaleOf(b)) - (await scaleOf(a))) / (await scaleOf(a)), { timeout: 10_000 }).toBeLessThan(1e-6);
     await a.getByTestId('walkthrough-stop').click();
     await expect.poll(() => b.getByTestId('walkthrough-state').count()).toBe(0);
+  });
+
+  it('a pin placed by one person appears in the other’s open pin list without a reload (server notice)', async () => {
+    const b = tomasz.page;
+    await b.getByTestId('toggle-review').click();
+    await b.getByTestId('review-pins').waitFor();
+    const before = await b.locator('[data-testid^="pin-item-"]').count();
+    // Ines pins through the API from her own signed-in page.
+    const status = await ines.page.evaluate(async (id) => {
+      const res = await fetch(`/api/sketches/${id}/pins`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', 'x-shockwright-request': '1' },
+        body: JSON.stringify({ target: { kind: 'facet', facet: 0, at: [0.2, 0.02] }, body: 'Leading-edge facet: check the shock margin at Mach 1.6.' }),
+      });
+      return res.status;
+    }, sketchId);
+    expect(status).toBe(201);
+    await expect.poll(() => b.locator('[data-testid^="pin-item-"]').count(), { timeout: 10_000 }).toBe(before + 1);
+    expect(await b.getByTestId('pin-list').textContent()).toContain('check the shock margin');
+    await screenshot(b, 'collab-live-pin');
     expect(ines.foreignRequests).toEqual([]);
     expect(tomasz.foreignRequests).toEqual([]);
   });

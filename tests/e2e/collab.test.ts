@@ -2,31 +2,15 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { eq } from 'drizzle-orm';
 import { startServer, type RunningServer } from '../../server/index.ts';
-import { seedDemoOnce, DEMO_PASSWORD, DEMO_PEOPLE } from '../../server/db/seed.ts';
+import { seedDemoOnce, DEMO_PEOPLE } from '../../server/db/seed.ts';
 import { sketches } from '../../server/db/schema.ts';
 import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { testEnv } from '../helpers/app.ts';
-import { openBrowser, screenshot, type BrowserSession } from '../helpers/browser.ts';
+import { openBrowser, screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
 
-async function signIn(page: Page, email: string, baseUrl: string) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('sketch-table').waitFor();
-}
 
-/** Screen position of vertex `i` from the canvas's view attribute and the vertex table. */
-async function vertexOnScreen(page: Page, i: number) {
-  const canvas = page.getByTestId('sketch-canvas');
-  const box = (await canvas.boundingBox())!;
-  const [scale, originX, originY] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
-  const vx = Number(await page.getByTestId(`vertex-x-${i}`).inputValue());
-  const vy = Number(await page.getByTestId(`vertex-y-${i}`).inputValue());
-  return { x: box.x + vx * scale + originX, y: box.y - vy * scale + originY };
-}
 
-const text = (page: Page, id: string) => page.getByTestId(id).textContent();
+const text = textOf;
 
 describe('live collaboration in two browsers', () => {
   let database: TestDatabase;
@@ -52,8 +36,8 @@ describe('live collaboration in two browsers', () => {
   });
 
   it('both open the same sketch and see each other present', async () => {
-    await signIn(ines.page, DEMO_PEOPLE[0].email, server.url);
-    await signIn(tomasz.page, DEMO_PEOPLE[1].email, server.url);
+    await signInDemo(ines.page, DEMO_PEOPLE[0].email, server.url);
+    await signInDemo(tomasz.page, DEMO_PEOPLE[1].email, server.url);
     for (const { page } of [ines, tomasz]) {
       await page.goto(`${server.url}/sketches/${sketchId}`);
       await page.getByTestId('sketch-canvas').waitFor();

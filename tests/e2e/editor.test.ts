@@ -1,33 +1,16 @@
 import { copyFileSync, mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Page } from 'playwright-core';
 import { startServer, type RunningServer } from '../../server/index.ts';
-import { seedDemoOnce, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
+import { seedDemoOnce, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
 import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { testEnv } from '../helpers/app.ts';
-import { ARTIFACTS_DIR, openBrowser, screenshot, type BrowserSession } from '../helpers/browser.ts';
+import { ARTIFACTS_DIR, openBrowser, screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
 
-/** Screen position of vertex `i` (from the vertex table and the canvas's view attribute). */
-async function vertexOnScreen(page: Page, i: number): Promise<{ x: number; y: number }> {
-  const canvas = page.getByTestId('sketch-canvas');
-  const box = (await canvas.boundingBox())!;
-  const [scale, originX, originY] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
-  const vx = Number(await page.getByTestId(`vertex-x-${i}`).inputValue());
-  const vy = Number(await page.getByTestId(`vertex-y-${i}`).inputValue());
-  return { x: box.x + vx * scale + originX, y: box.y - vy * scale + originY };
-}
 
-async function signIn(page: Page, email: string, baseUrl: string) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('sketch-table').waitFor();
-}
 
-const text = (page: Page, id: string) => page.getByTestId(id).textContent();
+const text = textOf;
 
 describe('sketch editor in Chromium', () => {
   let database: TestDatabase;
@@ -48,7 +31,7 @@ describe('sketch editor in Chromium', () => {
 
   it('lists the team’s sketches on the home table and filters them by search', async () => {
     const { page } = browser;
-    await signIn(page, DEMO_PEOPLE[0].email, server.url);
+    await signInDemo(page, DEMO_PEOPLE[0].email, server.url);
     const rows = page.locator('[data-testid^="sketch-row-"]');
     await expect.poll(() => rows.count()).toBe(DEMO_SKETCHES.length);
     await page.getByTestId('home-search').fill('canard');
@@ -232,7 +215,7 @@ describe('sketch editor in Chromium', () => {
     const { page } = browser;
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.getByTestId('sign-in-email').waitFor();
-    await signIn(page, DEMO_PEOPLE[3].email, server.url);
+    await signInDemo(page, DEMO_PEOPLE[3].email, server.url);
     expect(await page.getByTestId('new-sketch').count()).toBe(0);
     expect(await page.locator('[data-testid^="rename-"]').count()).toBe(0);
     expect(await page.locator('[data-testid^="delete-"]').count()).toBe(0);

@@ -1,45 +1,23 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Page } from 'playwright-core';
 import { eq } from 'drizzle-orm';
 import { startServer, type RunningServer } from '../../server/index.ts';
 import { startMailSink, type MailSink } from '../../server/mail/sink.ts';
-import { seedDemoOnce, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
+import { seedDemoOnce, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { mailMessages, sketches } from '../../server/db/schema.ts';
 import { analyseSketch } from '../../shared/flight/analyseSketch.ts';
 import type { Point } from '../../shared/model/sketch.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
 import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { testEnv } from '../helpers/app.ts';
-import { mkdirSync } from 'node:fs';
-import path from 'node:path';
-import { ARTIFACTS_DIR, openBrowser, type BrowserSession } from '../helpers/browser.ts';
+import { ARTIFACTS_DIR, openBrowser, screenshot, signInDemo, textOf, worldOnScreen, type BrowserSession } from '../helpers/browser.ts';
 
 const [INES, TOMASZ, PRIYA] = DEMO_PEOPLE;
 const FIN = DEMO_SKETCHES[0];
 
-async function signIn(page: Page, email: string, baseUrl: string) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('sketch-table').waitFor();
-}
 
-/** Page position of a point in body axes, from the canvas's view attribute. */
-async function worldOnScreen(page: Page, p: Point): Promise<{ x: number; y: number }> {
-  const canvas = page.getByTestId('sketch-canvas');
-  const box = (await canvas.boundingBox())!;
-  const [scale, originX, originY] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
-  return { x: box.x + p[0] * scale + originX, y: box.y - p[1] * scale + originY };
-}
 
-const text = (page: Page, id: string) => page.getByTestId(id).textContent();
+const text = textOf;
 
-/** A full-page picture for a person to look at, with CSS transitions finished (open menus settled). */
-async function screenshot(page: Page, name: string) {
-  mkdirSync(ARTIFACTS_DIR, { recursive: true });
-  await page.screenshot({ path: path.join(ARTIFACTS_DIR, `${name}.png`), fullPage: true, animations: 'disabled' });
-}
 
 describe('review workflow in Chromium: pins, threads, mentions, snapshots, status', () => {
   let database: TestDatabase;
@@ -75,7 +53,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
 
   it('a reviewer pins a shock of the wave map and mentions the editor', async () => {
     const { page } = reviewer;
-    await signIn(page, PRIYA.email, server.url);
+    await signInDemo(page, PRIYA.email, server.url);
     await page.getByTestId(`open-${sketchId}`).click();
     await page.getByTestId('sketch-canvas').waitFor();
     await expect.poll(() => page.getByTestId('sketch-canvas').getAttribute('data-wave-count')).not.toBe('0');
@@ -128,7 +106,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
 
   it('the editor opens the link in a second browser, sees the thread and answers', async () => {
     const { page } = editor;
-    await signIn(page, TOMASZ.email, server.url);
+    await signInDemo(page, TOMASZ.email, server.url);
     await page.goto(pinLink);
     await page.getByTestId('pin-thread').waitFor();
     expect(await text(page, 'pin-thread-target')).toBe('Oblique shock · lower surface, vertex 0');
@@ -166,7 +144,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     const { page } = reviewer;
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.getByTestId('sign-in-email').waitFor();
-    await signIn(page, INES.email, server.url);
+    await signInDemo(page, INES.email, server.url);
     await page.getByTestId(`open-${sketchId}`).click();
     await page.getByTestId('sketch-canvas').waitFor();
     await page.getByTestId('toggle-review').click();
@@ -292,7 +270,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     const { page } = editor;
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.getByTestId('sign-in-email').waitFor();
-    await signIn(page, DEMO_PEOPLE[3].email, server.url);
+    await signInDemo(page, DEMO_PEOPLE[3].email, server.url);
     await page.getByTestId(`open-${sketchId}`).click();
     await page.getByTestId('sketch-canvas').waitFor();
     expect(await text(page, 'review-status')).toBe('Approved');

@@ -2,25 +2,17 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import type { Page } from 'playwright-core';
 import { startServer, type RunningServer } from '../../server/index.ts';
 import { sketches } from '../../server/db/schema.ts';
-import { seedDemoOnce, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
+import { seedDemoOnce, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
 import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { testEnv } from '../helpers/app.ts';
-import { ARTIFACTS_DIR, openBrowser, screenshot, type BrowserSession } from '../helpers/browser.ts';
+import { ARTIFACTS_DIR, openBrowser, screenshot, signInDemo, type BrowserSession } from '../helpers/browser.ts';
 import { pdfPageCount, pdfText, pdfToPng } from '../helpers/pdf.ts';
 
 const CANARD = DEMO_SKETCHES.find((s) => s.title.startsWith('Tern canard'))!;
 
-async function signIn(page: Page, email: string, baseUrl: string) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('header-user').waitFor();
-}
 
 describe('studies and the PDF report in Chromium', () => {
   let database: TestDatabase;
@@ -44,7 +36,7 @@ describe('studies and the PDF report in Chromium', () => {
 
   it('runs a study in the worker: the progress bar fills, the table and the per-Mach summary appear', async () => {
     const { page } = browser;
-    await signIn(page, DEMO_PEOPLE[0].email, server.url);
+    await signInDemo(page, DEMO_PEOPLE[0].email, server.url);
     browser.consoleErrors.length = 0; // the signed-out check before sign-in answers 401 by design
     await page.goto(`${server.url}/sketches/${sketchId}/studies`);
     await page.getByTestId('study-form').waitFor();

@@ -2,6 +2,7 @@ import { mkdtempSync, mkdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { DEMO_PASSWORD } from '../../server/db/seed.ts';
 
 export const ARTIFACTS_DIR = path.resolve(import.meta.dirname, '../e2e/artifacts');
 
@@ -62,10 +63,40 @@ export async function openBrowser(allowedOrigin: string): Promise<BrowserSession
   };
 }
 
-/** Saves a full-page screenshot under tests/e2e/artifacts (git-ignored) for a human to look at. */
+/**
+ * Saves a full-page screenshot under tests/e2e/artifacts (git-ignored) for a human to look at,
+ * with CSS transitions finished (menus settled).
+ */
 export async function screenshot(page: Page, name: string): Promise<string> {
   mkdirSync(ARTIFACTS_DIR, { recursive: true });
   const file = path.join(ARTIFACTS_DIR, `${name}.png`);
-  await page.screenshot({ path: file, fullPage: true });
+  await page.screenshot({ path: file, fullPage: true, animations: 'disabled' });
   return file;
 }
+
+/** Signs a demo person in through the sign-in page and waits for the sketches table. */
+export async function signInDemo(page: Page, email: string, baseUrl: string): Promise<void> {
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
+  await page.getByTestId('sign-in-submit').click();
+  await page.getByTestId('sketch-table').waitFor();
+}
+
+/** Page position of a point in body axes, from the canvas's `data-view` attribute. */
+export async function worldOnScreen(page: Page, p: readonly [number, number]): Promise<{ x: number; y: number }> {
+  const canvas = page.getByTestId('sketch-canvas');
+  const box = (await canvas.boundingBox())!;
+  const [scale, originX, originY] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
+  return { x: box.x + p[0] * scale + originX, y: box.y - p[1] * scale + originY };
+}
+
+/** Page position of vertex `i`, read from the vertex table. */
+export async function vertexOnScreen(page: Page, i: number): Promise<{ x: number; y: number }> {
+  const vx = Number(await page.getByTestId(`vertex-x-${i}`).inputValue());
+  const vy = Number(await page.getByTestId(`vertex-y-${i}`).inputValue());
+  return worldOnScreen(page, [vx, vy]);
+}
+
+/** Text content of the element with test id `id`. */
+export const textOf = (page: Page, id: string) => page.getByTestId(id).textContent();

@@ -96,7 +96,8 @@ export const useReviewStore = defineStore('review', () => {
     compare.value = null;
     canvasPins.value = [];
     canvasPinTotal.value = 0;
-    reviewStatus.value = 'draft';
+    // What the sketch was opened with, until the refresh answers (no flash of a wrong status).
+    reviewStatus.value = sketch.reviewStatus;
   }
 
   watch(

@@ -58,6 +58,8 @@ export const useSketchStore = defineStore('sketch', () => {
   /** What the server analysed and stored on its last save (the authoritative result). */
   const serverAnalysis = shallowRef<SketchAnalysis | null>(null);
   const serverStatus = ref<string | null>(null);
+  /** Review status as loaded with the sketch (the review store keeps it current). */
+  const reviewStatus = ref<Sketch['reviewStatus']>('draft');
   const isLoading = ref(false);
   const loadError = ref<string | null>(null);
   const saveState = ref<SaveState>('saved');
@@ -95,6 +97,7 @@ export const useSketchStore = defineStore('sketch', () => {
     updatedByName.value = sketch.updatedByName;
     serverAnalysis.value = asAnalysis(sketch.lastResult);
     serverStatus.value = sketch.lastSolveStatus;
+    reviewStatus.value = sketch.reviewStatus;
   }
 
   /** Opens a sketch, dropping whatever was open (and its history). */
@@ -448,6 +451,7 @@ export const useSketchStore = defineStore('sketch', () => {
     updatedByName,
     serverAnalysis,
     serverStatus,
+    reviewStatus,
     isLoading,
     loadError,
     saveState,

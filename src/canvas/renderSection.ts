@@ -33,7 +33,12 @@ export interface SectionRenderOptions {
    * dashed, and the facets are shaded along it.
    */
   solvedPoints?: readonly Point[] | null;
+  /** The flap's hinge (drawn as a ring with a cross) when the sketch has a flap. */
+  hinge?: Point | null;
 }
+
+const HINGE_RADIUS_PX = 6;
+const HINGE_COLOUR = '#f1e6d2';
 
 function sameOutline(a: readonly Point[], b: readonly Point[]): boolean {
   return a.length === b.length && a.every((p, i) => p[0] === b[i][0] && p[1] === b[i][1]);
@@ -86,6 +91,12 @@ export function renderSection(points: readonly Point[], result: SolveResult | nu
     const a = screen[options.hoverFacet];
     const b = screen[(options.hoverFacet + 1) % n];
     paths.push({ points: [a[0], a[1], b[0], b[1]], colour: HOVER, width: 1.5, alpha: 0.9 });
+  }
+  if (options.hinge) {
+    const [hx, hy] = toScreen(view, options.hinge);
+    dots.push({ x: hx, y: hy, radius: HINGE_RADIUS_PX, fill: 'rgba(0,0,0,0)', stroke: HINGE_COLOUR, strokeWidth: 1.5 });
+    paths.push({ points: [hx - HINGE_RADIUS_PX, hy, hx + HINGE_RADIUS_PX, hy], colour: HINGE_COLOUR, width: 1 });
+    paths.push({ points: [hx, hy - HINGE_RADIUS_PX, hx, hy + HINGE_RADIUS_PX], colour: HINGE_COLOUR, width: 1 });
   }
   if (options.showVertices) {
     const selected = new Set(options.selection);

@@ -1,31 +1,21 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type RunningServer } from '../../server/index.ts';
-import { startMailSink, type MailSink } from '../../server/mail/sink.ts';
-import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
-import { testEnv } from '../helpers/app.ts';
-import { openBrowser, screenshot, type BrowserSession } from '../helpers/browser.ts';
+import type { RunningServer } from '../../server/index.ts';
+import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
+import { screenshot, type BrowserSession } from '../helpers/browser.ts';
 
 describe('accounts in Chromium: sign up, invite, read the mail, accept in a second browser', () => {
-  let database: TestDatabase;
-  let sink: MailSink;
   let server: RunningServer;
   let founder: BrowserSession;
   let colleague: BrowserSession;
 
+  let world: BrowserWorld;
+
   beforeAll(async () => {
-    database = await createTestDatabase();
-    sink = await startMailSink(database.db);
-    server = await startServer(testEnv(database.url, { SMTP_URL: sink.url }), { log: () => {} });
-    founder = await openBrowser(server.url);
-    colleague = await openBrowser(server.url);
+    world = await startBrowserWorld({ seed: false, mail: true, browsers: 2 });
+    ({ server } = world);
+    [founder, colleague] = world.browsers;
   });
-  afterAll(async () => {
-    await founder?.close();
-    await colleague?.close();
-    await server?.close();
-    await sink?.close();
-    await database?.drop();
-  });
+  afterAll(async () => world?.close());
 
   it('signs up and lands on the new team as its owner', async () => {
     const { page } = founder;

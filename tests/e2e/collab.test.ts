@@ -1,12 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { eq } from 'drizzle-orm';
-import { startServer, type RunningServer } from '../../server/index.ts';
-import { seedDemoOnce, DEMO_PEOPLE } from '../../server/db/seed.ts';
+import type { RunningServer } from '../../server/index.ts';
+import { DEMO_PEOPLE } from '../../server/db/seed.ts';
 import { sketches } from '../../server/db/schema.ts';
-import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
-import { testEnv } from '../helpers/app.ts';
-import { openBrowser, screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
+import type { TestDatabase } from '../helpers/database.ts';
+import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
+import { screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
 
 
 
@@ -19,21 +19,16 @@ describe('live collaboration in two browsers', () => {
   let tomasz: BrowserSession;
   let sketchId: string;
 
+  let world: BrowserWorld;
+
   beforeAll(async () => {
-    database = await createTestDatabase();
-    await seedDemoOnce(database.db);
+    world = await startBrowserWorld({ browsers: 2 });
+    ({ database, server } = world);
+    [ines, tomasz] = world.browsers;
     const fin = await database.db.query.sketches.findFirst({ where: eq(sketches.title, 'Tern fin root — double wedge, 5% thick, ridge at 40%') });
     sketchId = fin!.id;
-    server = await startServer(testEnv(database.url), { log: () => {} });
-    ines = await openBrowser(server.url);
-    tomasz = await openBrowser(server.url);
   });
-  afterAll(async () => {
-    await ines?.close();
-    await tomasz?.close();
-    await server?.close();
-    await database?.drop();
-  });
+  afterAll(async () => world?.close());
 
   it('both open the same sketch and see each other present', async () => {
     await signInDemo(ines.page, DEMO_PEOPLE[0].email, server.url);

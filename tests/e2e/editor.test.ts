@@ -1,12 +1,12 @@
 import { copyFileSync, mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type RunningServer } from '../../server/index.ts';
-import { seedDemoOnce, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
+import type { RunningServer } from '../../server/index.ts';
+import { DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
-import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
-import { testEnv } from '../helpers/app.ts';
-import { ARTIFACTS_DIR, openBrowser, screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
+import type { TestDatabase } from '../helpers/database.ts';
+import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
+import { ARTIFACTS_DIR, screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
 
 
 
@@ -17,17 +17,14 @@ describe('sketch editor in Chromium', () => {
   let server: RunningServer;
   let browser: BrowserSession;
 
+  let world: BrowserWorld;
+
   beforeAll(async () => {
-    database = await createTestDatabase();
-    await seedDemoOnce(database.db);
-    server = await startServer(testEnv(database.url), { log: () => {} });
-    browser = await openBrowser(server.url);
+    world = await startBrowserWorld();
+    ({ database, server } = world);
+    [browser] = world.browsers;
   });
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-    await database?.drop();
-  });
+  afterAll(async () => world?.close());
 
   it('lists the team’s sketches on the home table and filters them by search', async () => {
     const { page } = browser;

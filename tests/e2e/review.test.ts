@@ -1,15 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { startServer, type RunningServer } from '../../server/index.ts';
-import { startMailSink, type MailSink } from '../../server/mail/sink.ts';
-import { seedDemoOnce, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
+import type { RunningServer } from '../../server/index.ts';
+import { DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { mailMessages, sketches } from '../../server/db/schema.ts';
 import { analyseSketch } from '../../shared/flight/analyseSketch.ts';
 import type { Point } from '../../shared/model/sketch.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
-import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
-import { testEnv } from '../helpers/app.ts';
-import { ARTIFACTS_DIR, openBrowser, screenshot, signInDemo, textOf, worldOnScreen, type BrowserSession } from '../helpers/browser.ts';
+import type { TestDatabase } from '../helpers/database.ts';
+import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
+import { ARTIFACTS_DIR, screenshot, signInDemo, textOf, worldOnScreen, type BrowserSession } from '../helpers/browser.ts';
 
 const [INES, TOMASZ, PRIYA] = DEMO_PEOPLE;
 const FIN = DEMO_SKETCHES[0];
@@ -21,30 +20,22 @@ const text = textOf;
 
 describe('review workflow in Chromium: pins, threads, mentions, snapshots, status', () => {
   let database: TestDatabase;
-  let sink: MailSink;
   let server: RunningServer;
   let reviewer: BrowserSession;
   let editor: BrowserSession;
   let sketchId: string;
   let pinLink: string;
 
+  let world: BrowserWorld;
+
   beforeAll(async () => {
-    database = await createTestDatabase();
-    await seedDemoOnce(database.db);
+    world = await startBrowserWorld({ mail: true, browsers: 2 });
+    ({ database, server } = world);
+    [reviewer, editor] = world.browsers;
     const fin = await database.db.query.sketches.findFirst({ where: eq(sketches.title, FIN.title) });
     sketchId = fin!.id;
-    sink = await startMailSink(database.db);
-    server = await startServer(testEnv(database.url, { SMTP_URL: sink.url }), { log: () => {} });
-    reviewer = await openBrowser(server.url);
-    editor = await openBrowser(server.url);
   });
-  afterAll(async () => {
-    await reviewer?.close();
-    await editor?.close();
-    await server?.close();
-    await sink?.close();
-    await database?.drop();
-  });
+  afterAll(async () => world?.close());
 
   async function mailsTo(email: string) {
     const rows = await database.db.select().from(mailMessages);

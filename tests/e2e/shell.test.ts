@@ -1,26 +1,23 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type RunningServer } from '../../server/index.ts';
-import { seedDemoOnce, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_TEAM } from '../../server/db/seed.ts';
-import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
-import { testEnv } from '../helpers/app.ts';
-import { openBrowser, screenshot, type BrowserSession } from '../helpers/browser.ts';
+import type { RunningServer } from '../../server/index.ts';
+import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_TEAM } from '../../server/db/seed.ts';
+import type { TestDatabase } from '../helpers/database.ts';
+import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
+import { screenshot, type BrowserSession } from '../helpers/browser.ts';
 
 describe('app shell in Chromium', () => {
   let database: TestDatabase;
   let server: RunningServer;
   let browser: BrowserSession;
 
+  let world: BrowserWorld;
+
   beforeAll(async () => {
-    database = await createTestDatabase();
-    await seedDemoOnce(database.db);
-    server = await startServer(testEnv(database.url), { log: () => {} });
-    browser = await openBrowser(server.url);
+    world = await startBrowserWorld();
+    ({ database, server } = world);
+    [browser] = world.browsers;
   });
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-    await database?.drop();
-  });
+  afterAll(async () => world?.close());
 
   it('sends a signed-out visitor to sign-in, renders in Work Sans, and fetches nothing from outside', async () => {
     const { page } = browser;

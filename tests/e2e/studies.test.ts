@@ -2,13 +2,13 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { startServer, type RunningServer } from '../../server/index.ts';
+import type { RunningServer } from '../../server/index.ts';
 import { sketches } from '../../server/db/schema.ts';
-import { seedDemoOnce, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
+import { DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
-import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
-import { testEnv } from '../helpers/app.ts';
-import { ARTIFACTS_DIR, openBrowser, screenshot, signInDemo, type BrowserSession } from '../helpers/browser.ts';
+import type { TestDatabase } from '../helpers/database.ts';
+import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
+import { ARTIFACTS_DIR, screenshot, signInDemo, type BrowserSession } from '../helpers/browser.ts';
 import { pdfPageCount, pdfText, pdfToPng } from '../helpers/pdf.ts';
 
 const CANARD = DEMO_SKETCHES.find((s) => s.title.startsWith('Tern canard'))!;
@@ -20,19 +20,16 @@ describe('studies and the PDF report in Chromium', () => {
   let browser: BrowserSession;
   let sketchId: string;
 
+  let world: BrowserWorld;
+
   beforeAll(async () => {
-    database = await createTestDatabase();
-    await seedDemoOnce(database.db);
+    world = await startBrowserWorld();
+    ({ database, server } = world);
+    [browser] = world.browsers;
     const [row] = await database.db.select({ id: sketches.id }).from(sketches).where(eq(sketches.title, CANARD.title));
     sketchId = row.id;
-    server = await startServer(testEnv(database.url), { log: () => {} });
-    browser = await openBrowser(server.url);
   });
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-    await database?.drop();
-  });
+  afterAll(async () => world?.close());
 
   it('runs a study in the worker: the progress bar fills, the table and the per-Mach summary appear', async () => {
     const { page } = browser;

@@ -1,6 +1,6 @@
-import { and, asc, eq, gt, inArray, sql } from 'drizzle-orm';
+import { and, asc, eq, gt, sql } from 'drizzle-orm';
 import type { Db } from '../db/client.ts';
-import { memberships, sketchEdits, sketches } from '../db/schema.ts';
+import { sketchEdits } from '../db/schema.ts';
 import { newId } from '../../shared/model/ids.ts';
 import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
 import { normalizeDocument, type SketchDocument } from '../../shared/model/sketch.ts';
@@ -32,29 +32,40 @@ export interface EditInput {
  */
 export async function applyEditBatch(db: Db, sketchId: string, items: EditInput[]): Promise<EditOutcome[]> {
   return db.transaction(async (tx) => {
-    const locked = await tx.execute<{ team_id: string; title: string; document: SketchDocument; revision: number }>(
-      sql`select team_id, title, document, revision from sketches where id = ${sketchId} for update`,
-    );
+    const opIds = [...new Set(items.map((i) => i.op.opId))];
+    const userIds = [...new Set(items.map((i) => i.userId))];
+    const list = (values: string[]) => sql.join(values.map((v) => sql`${v}`), sql`, `);
+    // One round trip: lock the sketch row, read the callers' roles and any earlier outcomes of
+    // these op ids (a batch costs statements, and under load statements cost time).
+    const locked = await tx.execute<{
+      team_id: string;
+      title: string;
+      document: SketchDocument;
+      revision: number;
+      roles: Record<string, Role> | null;
+      seen: { op_id: string; status: string; revision: number | null; op: EditOp; reason: string | null }[] | null;
+    }>(sql`
+      select s.team_id, s.title, s.document, s.revision,
+             (select json_object_agg(m.user_id, m.role) from memberships m
+               where m.team_id = s.team_id and m.user_id in (${list(userIds)})) as roles,
+             (select json_agg(json_build_object('op_id', e.op_id, 'status', e.status, 'revision', e.revision, 'op', e.op, 'reason', e.reason))
+                from sketch_edits e where e.sketch_id = s.id and e.op_id in (${list(opIds)})) as seen
+        from sketches s
+       where s.id = ${sketchId}
+         for update of s`);
     const row = locked.rows[0];
     if (!row) return items.map(() => ({ status: 'rejected' as const, reason: 'This sketch no longer exists.', duplicate: false }));
 
-    const opIds = [...new Set(items.map((i) => i.op.opId))];
     const seen = new Map<string, EditOutcome>();
-    for (const s of await tx
-      .select({ opId: sketchEdits.opId, status: sketchEdits.status, revision: sketchEdits.revision, op: sketchEdits.op, reason: sketchEdits.reason })
-      .from(sketchEdits)
-      .where(and(eq(sketchEdits.sketchId, sketchId), inArray(sketchEdits.opId, opIds)))) {
+    for (const e of row.seen ?? []) {
       seen.set(
-        s.opId,
-        s.status === 'rejected'
-          ? { status: 'rejected', reason: s.reason ?? 'Rejected earlier.', duplicate: true }
-          : { status: s.status as 'applied' | 'rebased', revision: s.revision!, op: s.op as EditOp, duplicate: true },
+        e.op_id,
+        e.status === 'rejected'
+          ? { status: 'rejected', reason: e.reason ?? 'Rejected earlier.', duplicate: true }
+          : { status: e.status as 'applied' | 'rebased', revision: e.revision!, op: e.op, duplicate: true },
       );
     }
-    const userIds = [...new Set(items.map((i) => i.userId))];
-    const roles = new Map<string, Role>(
-      (await tx.select({ userId: memberships.userId, role: memberships.role }).from(memberships).where(and(eq(memberships.teamId, row.team_id), inArray(memberships.userId, userIds)))).map((m) => [m.userId, m.role]),
-    );
+    const roles = new Map<string, Role>(Object.entries(row.roles ?? {}));
     const staleBases = items.filter((i) => i.baseRevision < row.revision).map((i) => i.baseRevision);
     const logged = new Map<number, EditOp>();
     if (staleBases.length) {
@@ -134,22 +145,26 @@ export async function applyEditBatch(db: Db, sketchId: string, items: EditInput[
       outcomes.push(outcome);
     }
 
+    // One statement writes the document (when edits applied) and every log row.
+    const logRows = sql`select r.id, ${sketchId}::text, r.op_id, r.revision, r.user_id, r.op, r.status, r.reason
+        from jsonb_to_recordset(${JSON.stringify(rows.map((r) => ({ id: r.id, op_id: r.opId, revision: r.revision, user_id: r.userId, op: r.op, status: r.status, reason: r.reason ?? null })))}::jsonb)
+          as r(id text, op_id text, revision int, user_id text, op jsonb, status text, reason text)`;
     if (revision !== row.revision) {
-      const documentChanged = state.document !== stored;
-      const solved = documentChanged ? solveDocument(state.document) : null;
-      await tx
-        .update(sketches)
-        .set({
-          title: state.title,
-          document: state.document,
-          revision,
-          updatedBy: lastEditor,
-          updatedAt: sql`now()`,
-          ...(solved ? { lastSolveStatus: solved.status, lastResult: solved.result } : {}),
-        })
-        .where(eq(sketches.id, sketchId));
+      const solved = state.document !== stored ? solveDocument(state.document) : null;
+      const solveSet = solved ? sql`, last_solve_status = ${solved.status}, last_result = ${JSON.stringify(solved.result)}::jsonb` : sql``;
+      await tx.execute(sql`
+        with updated as (
+          update sketches
+             set title = ${state.title}, document = ${JSON.stringify(state.document)}::jsonb, revision = ${revision},
+                 updated_by = ${lastEditor}, updated_at = now()${solveSet}
+           where id = ${sketchId}
+          returning 1
+        )
+        insert into sketch_edits (id, sketch_id, op_id, revision, user_id, op, status, reason)
+        ${logRows}, updated`);
+    } else if (rows.length) {
+      await tx.execute(sql`insert into sketch_edits (id, sketch_id, op_id, revision, user_id, op, status, reason) ${logRows}`);
     }
-    if (rows.length) await tx.insert(sketchEdits).values(rows);
     return outcomes;
   });
 }

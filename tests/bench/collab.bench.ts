@@ -61,6 +61,7 @@ async function main() {
   await until(() => clients.every((c) => c.engine.state !== null), 20_000, 'join');
 
   const cpu0 = cpuSeconds(pid);
+  const clientCpu0 = process.cpuUsage();
   const t0 = performance.now();
   const stopAt = Date.now() + DURATION_S * 1000;
   await Promise.all(
@@ -79,6 +80,8 @@ async function main() {
   await until(() => clients.every((c) => c.engine.pendingCount === 0), 60_000, 'drain');
   const wall = (performance.now() - t0) / 1000;
   const cpu = cpuSeconds(pid) - cpu0;
+  const clientCpu = process.cpuUsage(clientCpu0);
+  const clientCpuS = (clientCpu.user + clientCpu.system) / 1e6;
   await new Promise((r) => setTimeout(r, 500));
 
   const applied = clients.flatMap((c) => c.received.filter((m) => m.type === 'ack' && m.status !== 'rejected').map((m) => (m as { opId: string }).opId));
@@ -93,6 +96,7 @@ async function main() {
   row('send → receipt, p50 / p95 / p99', `${pct(latencies, 50).toFixed(1)} / ${pct(latencies, 95).toFixed(1)} / ${pct(latencies, 99).toFixed(1)} ms  (${latencies.length} receipts; target p95 ≤ 30 ms)`);
   row('edits lost', `${lost}  (must be 0)`);
   row('server CPU', `${((cpu / wall) * 100).toFixed(0)} % of one core (${cpu.toFixed(1)} s over ${wall.toFixed(1)} s)`);
+  row('clients\' process CPU', `${((clientCpuS / wall) * 100).toFixed(0)} % of one core (all ${CLIENTS} clients and the measurement share it)`);
   row('server memory RSS / peak', `${memoryMb(pid, 'VmRSS').toFixed(0)} / ${memoryMb(pid, 'VmHWM').toFixed(0)} MB`);
 
   for (const c of clients) c.close();

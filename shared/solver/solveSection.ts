@@ -264,6 +264,8 @@ function buildFacets(
           : k === 0
             ? 'mach'
             : 'none';
+    // Two full object literals on purpose: building facets from shared parts with object spread
+    // measured ~100× slower in this hot loop (V8 loses the fixed object shape).
     let facet: Facet;
     if (march && k < solvedCount) {
       const mk = march.mach[k];

@@ -8,10 +8,8 @@ import type { PinTarget } from '../../../shared/model/review.ts';
 const author = alias(users, 'author');
 const resolver = alias(users, 'resolver');
 
-export async function listPins(db: Db, sketchId: string, status: 'open' | 'resolved' | 'all', limit: number, offset: number) {
-  const where = status === 'all' ? eq(pins.sketchId, sketchId) : and(eq(pins.sketchId, sketchId), eq(pins.status, status));
-  const rows = await db
-    .select({
+/** A pin with its author's and resolver's names (list and detail share it). */
+const pinColumns = {
       id: pins.id,
       sketchId: pins.sketchId,
       target: pins.target,
@@ -20,6 +18,13 @@ export async function listPins(db: Db, sketchId: string, status: 'open' | 'resol
       resolvedByName: resolver.name,
       createdAt: pins.createdAt,
       updatedAt: pins.updatedAt,
+};
+
+export async function listPins(db: Db, sketchId: string, status: 'open' | 'resolved' | 'all', limit: number, offset: number) {
+  const where = status === 'all' ? eq(pins.sketchId, sketchId) : and(eq(pins.sketchId, sketchId), eq(pins.status, status));
+  const rows = await db
+    .select({
+      ...pinColumns,
       firstBody: sql<string>`(select body from pin_replies r where r.pin_id = ${pins.id} order by r.created_at asc, r.id asc limit 1)`,
       replyCount: sql<number>`(select count(*)::int - 1 from pin_replies r where r.pin_id = ${pins.id})`,
     })
@@ -36,16 +41,7 @@ export async function listPins(db: Db, sketchId: string, status: 'open' | 'resol
 
 export async function findPin(db: Db, pinId: string) {
   const rows = await db
-    .select({
-      id: pins.id,
-      sketchId: pins.sketchId,
-      target: pins.target,
-      status: pins.status,
-      authorName: author.name,
-      resolvedByName: resolver.name,
-      createdAt: pins.createdAt,
-      updatedAt: pins.updatedAt,
-    })
+    .select(pinColumns)
     .from(pins)
     .leftJoin(author, eq(author.id, pins.authorId))
     .leftJoin(resolver, eq(resolver.id, pins.resolvedBy))

@@ -3,6 +3,7 @@ import type { EventEmitter } from 'node:events';
 import type { Mailer } from './mail/mailer.ts';
 import type { EditQueue } from './realtime/editLog.ts';
 import type { AppliedEdit } from '../shared/protocol/messages.ts';
+import type { AccessFilter } from './realtime/access.ts';
 
 /** Events services raise for the realtime layer (which relays them to every instance). */
 export interface AppEvents {
@@ -10,6 +11,11 @@ export interface AppEvents {
   sketchEdited: [sketchId: string, edit: AppliedEdit];
   /** Something besides the document changed (pins, snapshots, status): clients refetch it. */
   sketchNotice: [sketchId: string, topic: NoticeTopic];
+  /**
+   * Someone's access may have changed (sign-out, password reset, membership or role change, team
+   * or sketch deleted): open sockets matching the filter re-check session and role at once.
+   */
+  accessChanged: [filter: AccessFilter];
 }
 
 export type NoticeTopic = 'pins' | 'snapshots' | 'status' | 'activity' | 'studies';

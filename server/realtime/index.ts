@@ -6,8 +6,7 @@ import type pg from 'pg';
 import { eq } from 'drizzle-orm';
 import type { SessionUser } from '../auth/passport.ts';
 import type { AppContext } from '../context.ts';
-import { sketches, walkthroughs, users } from '../db/schema.ts';
-import { findRole } from '../api/auth/repository.ts';
+import { walkthroughs, users } from '../db/schema.ts';
 import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
 import { normalizeDocument } from '../../shared/model/sketch.ts';
 import {
@@ -25,16 +24,35 @@ import {
   type WalkthroughState,
 } from '../../shared/protocol/messages.ts';
 import { editsSince } from './editLog.ts';
+import { ACCESS_RECHECK_MS, ACCESS_SWEEP_MS, checkSockets, judge, matches, type AccessFilter, type GuardedSocket, type RoomAccess, type Verdict } from './access.ts';
+import { checkAccess, findSketchState, roleInSketchTeam } from './repository.ts';
 
 interface SocketData {
   user: SessionUser;
-  /** Sketches this connection has joined, with the role it had when joining. */
-  rooms: Map<string, Role>;
+  /** Sketches this connection has joined: team, role and when the role was last checked. */
+  rooms: Map<string, RoomAccess>;
   /** Presence card per joined sketch (role may differ per team). */
   people: Record<string, Person>;
 }
-type IoServer = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
-type IoSocket = Socket<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
+/** Between server instances (through the adapter): re-check the sockets an access change concerns. */
+interface InterServerEvents {
+  accessChanged: (filter: AccessFilter) => void;
+}
+type IoServer = Server<ClientToServerEvents, ServerToClientEvents, InterServerEvents, SocketData>;
+type IoSocket = Socket<ClientToServerEvents, ServerToClientEvents, InterServerEvents, SocketData>;
+
+/**
+ * Per-socket state that must never leave this process (socket.data travels to other instances
+ * in fetchSockets answers): the session id it was opened with and its message lane.
+ */
+interface Private {
+  sessionId: string;
+  /** Messages and access re-checks of one socket run one at a time, in order. */
+  lane: Promise<void>;
+}
+
+/** Messages that get a fresh database check; the frequent others reuse one younger than ACCESS_RECHECK_MS. */
+const CHECKED_NOW = new Set<ClientMessage['type']>(['resync', 'walkthroughStart', 'walkthroughStop', 'walkthroughHandOver']);
 type EngineMiddleware = (req: IncomingMessage & { _query?: Record<string, string> }, res: ServerResponse, next: (err?: unknown) => void) => void;
 
 const room = (sketchId: string) => `sketch:${sketchId}`;
@@ -159,19 +177,115 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
   // Pins, snapshots, status: clients refetch what the notice names.
   ctx.events.on('sketchNotice', (sketchId, topic) => send(io.to(room(sketchId)), { type: 'notice', sketchId, topic }));
 
+  // ── Access: a session owns its channel; membership and role are checked when things happen ──
+  const privates = new WeakMap<IoSocket, Private>();
+  const guarded = (socket: IoSocket): GuardedSocket => ({ userId: socket.data.user.id, sessionId: privates.get(socket)!.sessionId, rooms: socket.data.rooms });
+
+  /** Runs `task` in the socket's lane (after the messages before it); errors are logged. */
+  function inLane(socket: IoSocket, what: string, task: () => Promise<void>): Promise<void> {
+    const p = privates.get(socket)!;
+    const next = p.lane.then(task).catch((err) => ctx.log(`[realtime] ${what} failed: ${(err as Error).message}`));
+    p.lane = next;
+    return next;
+  }
+
+  /** The session ended (signed out, password reset, expired): tell the client, then hang up. */
+  function endSession(socket: IoSocket): void {
+    send(socket, { type: 'error', code: 'signed_out', reason: 'Your session has ended (signed out, or the password was changed). Sign in again to continue.' });
+    socket.disconnect(true);
+  }
+
+  /** The socket may no longer see `sketchId`: out of the room at once, then tell it why. */
+  async function evict(socket: IoSocket, sketchId: string, reason: string): Promise<void> {
+    if (!socket.data.rooms.has(sketchId)) return;
+    socket.data.rooms.delete(sketchId);
+    delete socket.data.people[sketchId];
+    await socket.leave(room(sketchId));
+    send(socket, { type: 'access', sketchId, role: null, reason });
+    await broadcastPeople(sketchId);
+    await endWalkthroughIfLeadGone(sketchId, socket.data.user.id);
+  }
+
+  /** Applies a verdict for one joined sketch; returns the role the socket may use, or null. */
+  async function apply(socket: IoSocket, sketchId: string, verdict: Verdict): Promise<Role | null> {
+    if (verdict.kind === 'signedOut') {
+      endSession(socket);
+      return null;
+    }
+    if (verdict.kind === 'removed') {
+      await evict(socket, sketchId, verdict.reason);
+      return null;
+    }
+    const access = socket.data.rooms.get(sketchId);
+    if (!access) return null;
+    access.checkedAt = performance.now();
+    if (verdict.changed) {
+      access.role = verdict.role;
+      const person = socket.data.people[sketchId];
+      if (person) socket.data.people[sketchId] = { ...person, role: verdict.role };
+      send(socket, { type: 'access', sketchId, role: verdict.role, reason: `Your role in this team is now ${verdict.role}.` });
+      await broadcastPeople(sketchId);
+    }
+    return verdict.role;
+  }
+
+  /** The role this socket holds in `sketchId` now (null: it was evicted or signed out). */
+  async function roleNow(socket: IoSocket, sketchId: string, fresh: boolean): Promise<Role | null> {
+    const access = socket.data.rooms.get(sketchId);
+    if (!access) return null;
+    if (!fresh && performance.now() - access.checkedAt < ACCESS_RECHECK_MS) return access.role;
+    const [result] = await checkAccess(ctx.db, [{ sessionId: privates.get(socket)!.sessionId, userId: socket.data.user.id, sketchId }]);
+    return apply(socket, sketchId, judge(result, access));
+  }
+
+  /** Re-checks this instance's sockets that match `filter` (all of them for the sweep). */
+  async function recheckLocal(filter: AccessFilter): Promise<void> {
+    const sockets = [...io.of('/').sockets.values()].filter((s) => privates.has(s) && matches(guarded(s), filter));
+    if (sockets.length === 0) return;
+    const bySocket = new Map(sockets.map((s) => [guarded(s), s] as const));
+    const verdicts = await checkSockets(ctx.db, [...bySocket.keys()], filter.sketchId ? (id) => id === filter.sketchId : undefined);
+    await Promise.all(
+      [...verdicts].map(([g, verdict]) => {
+        const socket = bySocket.get(g)!;
+        return inLane(socket, 'access re-check', async () => {
+          if (!verdict.sessionLive) return endSession(socket);
+          for (const [sketchId, v] of verdict.rooms) await apply(socket, sketchId, v);
+        });
+      }),
+    );
+  }
+
+  // Services announce access changes; every instance re-checks its own sockets.
+  ctx.events.on('accessChanged', (filter) => {
+    io.serverSideEmit('accessChanged', filter);
+    void recheckLocal(filter).catch((err) => ctx.log(`[realtime] access re-check failed: ${(err as Error).message}`));
+  });
+  io.on('accessChanged', (filter) => {
+    void recheckLocal(filter).catch((err) => ctx.log(`[realtime] access re-check failed: ${(err as Error).message}`));
+  });
+  // The sweep heals an announcement missed while the adapter was away, and expired sessions.
+  const sweep = setInterval(() => {
+    void recheckLocal({}).catch((err) => ctx.log(`[realtime] access sweep failed: ${(err as Error).message}`));
+  }, ACCESS_SWEEP_MS);
+  sweep.unref();
+
   async function handle(socket: IoSocket, msg: ClientMessage): Promise<void> {
     const user = socket.data.user;
     const fail = (code: string, reason: string): void => send(socket, { type: 'error', code, reason, about: msg.type });
     if (msg.type !== 'join' && !socket.data.rooms.has(msg.sketchId)) return fail('not_joined', 'Join the sketch before sending to it.');
+    // Membership and role at the time of the message, not of the join [A2].
+    if (msg.type !== 'join' && msg.type !== 'leave' && !(await roleNow(socket, msg.sketchId, CHECKED_NOW.has(msg.type)))) return;
 
     switch (msg.type) {
       case 'join': {
         if (msg.protocol !== PROTOCOL_VERSION) return fail('protocol_mismatch', `This page speaks protocol ${msg.protocol}, the server ${PROTOCOL_VERSION}: reload the page.`);
-        const row = await ctx.db.query.sketches.findFirst({ where: eq(sketches.id, msg.sketchId), columns: { teamId: true, title: true, document: true, revision: true } });
-        const role = row ? await findRole(ctx.db, user.id, row.teamId) : null;
+        const [access] = await checkAccess(ctx.db, [{ sessionId: privates.get(socket)!.sessionId, userId: user.id, sketchId: msg.sketchId }]);
+        if (!access.sessionLive) return endSession(socket);
+        const row = access.role ? await findSketchState(ctx.db, msg.sketchId) : null;
+        const role = access.role;
         if (!row || !role) return fail('not_found', 'No such sketch, or you are not a member of its team.');
         const you: Person = { connectionId: socket.id, userId: user.id, name: user.name, role, colour: personColour(user.id) };
-        socket.data.rooms.set(msg.sketchId, role);
+        socket.data.rooms.set(msg.sketchId, { teamId: row.teamId, role, checkedAt: performance.now() });
         socket.data.people[msg.sketchId] = you;
         await socket.join(room(msg.sketchId));
         const people = await peopleIn(msg.sketchId);
@@ -208,7 +322,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
         return;
       }
       case 'resync': {
-        const row = await ctx.db.query.sketches.findFirst({ where: eq(sketches.id, msg.sketchId), columns: { title: true, document: true, revision: true } });
+        const row = await findSketchState(ctx.db, msg.sketchId);
         if (!row) return fail('not_found', 'This sketch no longer exists.');
         const replay = msg.lastRevision === undefined ? null : await editsSince(ctx.db, msg.sketchId, msg.lastRevision, row.revision, MAX_REPLAY_EDITS);
         if (replay) send(socket, { type: 'replay', sketchId: msg.sketchId, edits: replay, revision: row.revision });
@@ -264,10 +378,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     }
   }
 
-  async function currentRole(sketchId: string, userId: string): Promise<Role | null> {
-    const row = await ctx.db.query.sketches.findFirst({ where: eq(sketches.id, sketchId), columns: { teamId: true } });
-    return row ? findRole(ctx.db, userId, row.teamId) : null;
-  }
+  const currentRole = (sketchId: string, userId: string): Promise<Role | null> => roleInSketchTeam(ctx.db, userId, sketchId);
 
   // Heal people lists: a join seen before two instances discovered each other, or a broadcast
   // lost with a crashed instance, is corrected within PEOPLE_REFRESH_MS.
@@ -280,6 +391,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
   const closeIo = io.close.bind(io);
   io.close = (fn) => {
     clearInterval(refresh);
+    clearInterval(sweep);
     return closeIo(fn);
   };
 
@@ -287,7 +399,8 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     socket.data.user = (socket.request as IncomingMessage & { user?: SessionUser }).user!;
     socket.data.rooms = new Map();
     socket.data.people = {};
-    let queue: Promise<void> = Promise.resolve();
+    const own: Private = { sessionId: (socket.request as IncomingMessage & { sessionID?: string }).sessionID ?? '', lane: Promise.resolve() };
+    privates.set(socket, own);
 
     socket.on('message', (raw: unknown) => {
       const parsed = clientMessageSchema.safeParse(raw);
@@ -296,7 +409,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
         send(socket, { type: 'error', code: 'invalid_message', reason: `The message was refused: ${issue.path.join('.') || 'message'} ${issue.message}.`, about: (raw as { type?: string })?.type });
         return;
       }
-      queue = queue
+      own.lane = own.lane
         .then(() => handle(socket, parsed.data))
         .catch((err) => {
           ctx.log(`[realtime] ${parsed.data.type} failed: ${(err as Error).stack ?? err}`);
@@ -311,7 +424,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
 
     socket.on('disconnect', () => {
       const left = [...socket.data.rooms.keys()];
-      void queue.then(async () => {
+      void own.lane.then(async () => {
         for (const sketchId of left) {
           await broadcastPeople(sketchId);
           await endWalkthroughIfLeadGone(sketchId, socket.data.user.id).catch(() => {});

@@ -120,6 +120,11 @@ export type ServerMessage =
   | { type: 'walkthroughView'; sketchId: string; view: View; highlight: Highlight; leadUserId: string }
   /** Pins, snapshots, status, activity or studies of the sketch changed: refetch that list. */
   | { type: 'notice'; sketchId: string; topic: 'pins' | 'snapshots' | 'status' | 'activity' | 'studies' }
+  /**
+   * My access to the sketch changed while I was in it: a new role, or none (removed from the team,
+   * sketch deleted) — then the server has already taken me out of the room and sends nothing more.
+   */
+  | { type: 'access'; sketchId: string; role: z.infer<typeof roleSchema> | null; reason: string }
   | { type: 'error'; code: string; reason: string; about?: string };
 
 /** socket.io typed event maps: one event each way. */

@@ -40,7 +40,16 @@ function throttle<T>(intervalMs: number, send: (value: T) => void) {
  * walkthrough state and notices. The socket lives here, never in a store. `onNotice` is called
  * for the server's refresh notices (pins, snapshots, status, activity, studies).
  */
-export function useSketchChannel(sketchId: Ref<string | null>, options: { onNotice?: (topic: string) => void } = {}) {
+export function useSketchChannel(
+  sketchId: Ref<string | null>,
+  options: {
+    onNotice?: (topic: string) => void;
+    /** My role in the sketch changed while it was open (null: I no longer have access). */
+    onAccess?: (msg: Extract<ServerMessage, { type: 'access' }>) => void;
+    /** The server ended this session (signed out elsewhere, password changed). */
+    onSignedOut?: (reason: string) => void;
+  } = {},
+) {
   const store = useSketchStore();
   const collab = useCollabStore();
   collab.reset();
@@ -73,7 +82,9 @@ export function useSketchChannel(sketchId: Ref<string | null>, options: { onNoti
     channel.receive(msg);
     collab.receive(msg);
     if (msg.type === 'notice') options.onNotice?.(msg.topic);
-    if (msg.type === 'error' && msg.about !== 'edit' && msg.code !== 'internal') {
+    if (msg.type === 'access' && msg.sketchId === sketchId.value) options.onAccess?.(msg);
+    if (msg.type === 'error' && msg.code === 'signed_out') options.onSignedOut?.(msg.reason);
+    else if (msg.type === 'error' && msg.about !== 'edit' && msg.code !== 'internal') {
       store.notice = { kind: 'error', message: msg.reason };
     }
   });

@@ -81,6 +81,15 @@ export const useCollabStore = defineStore('collab', () => {
       case 'walkthroughView':
         leadView.value = { view: msg.view, highlight: msg.highlight };
         return;
+      case 'access':
+        // A new role shows on my own card; without one the server has taken me out of the room.
+        if (msg.role && you.value) you.value = { ...you.value, role: msg.role };
+        if (!msg.role) {
+          people.value = [];
+          cursors.value = new Map();
+          walkthrough.value = null;
+        }
+        return;
       default:
         return;
     }

@@ -71,9 +71,12 @@ export function authRouter(ctx: AppContext, passport: PassportInstance, limits: 
   });
 
   router.post('/sign-out', (req, res, next) => {
+    const userId = req.user?.id;
     req.logout((err) => {
       if (err) return next(err);
       req.session.destroy(() => {
+        // Open sockets of this session are hung up (they re-check and find it gone).
+        if (userId) ctx.events.emit('accessChanged', { userId });
         res.clearCookie(SESSION_COOKIE);
         res.status(204).end();
       });
@@ -110,6 +113,7 @@ export function authRouter(ctx: AppContext, passport: PassportInstance, limits: 
     await repo.updatePassword(ctx.db, user.id, await hashPassword(password));
     await repo.consumePasswordResets(ctx.db, user.id);
     await repo.deleteSessionsOf(ctx.db, user.id);
+    ctx.events.emit('accessChanged', { userId: user.id });
     await logIn(req, { id: user.id, email: user.email, name: user.name });
     res.json(await describeMe(ctx, { id: user.id, email: user.email, name: user.name }));
   });

@@ -49,7 +49,7 @@ export function sketchesRouter(ctx: AppContext): Router {
   });
   router.delete('/:sketchId', async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');
-    await service.deleteSketch(db, currentUser(req).id, sketchId);
+    await service.deleteSketch(ctx, currentUser(req).id, sketchId);
     res.status(204).end();
   });
   return router;

@@ -120,7 +120,8 @@ export async function saveDocument(ctx: AppContext, userId: string, sketchId: st
   return getSketch(ctx.db, userId, sketchId);
 }
 
-export async function deleteSketch(db: Db, userId: string, sketchId: string): Promise<void> {
-  await authorizeSketch(db, userId, sketchId, 'owner', 'delete sketches');
-  await repo.deleteSketch(db, sketchId);
+export async function deleteSketch(ctx: AppContext, userId: string, sketchId: string): Promise<void> {
+  await authorizeSketch(ctx.db, userId, sketchId, 'owner', 'delete sketches');
+  await repo.deleteSketch(ctx.db, sketchId);
+  ctx.events.emit('accessChanged', { sketchId });
 }

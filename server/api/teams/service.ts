@@ -16,6 +16,7 @@ export async function createTeam(ctx: AppContext, userId: string, name: string):
 export async function deleteTeam(ctx: AppContext, userId: string, teamId: string): Promise<void> {
   await assertTeamRole(ctx.db, userId, teamId, 'owner', 'delete the team');
   await repo.deleteTeam(ctx.db, teamId);
+  ctx.events.emit('accessChanged', { teamId });
 }
 
 export async function listMembers(ctx: AppContext, userId: string, teamId: string): Promise<Member[]> {
@@ -49,6 +50,7 @@ export async function changeRole(ctx: AppContext, actorId: string, teamId: strin
       detail: { name: user?.name ?? null, from: target.role, to: role },
     });
   });
+  ctx.events.emit('accessChanged', { userId: targetId, teamId });
   return listMembers(ctx, actorId, teamId);
 }
 
@@ -74,6 +76,7 @@ export async function removeMember(ctx: AppContext, actorId: string, teamId: str
       detail: { name: user?.name ?? null, role: target.role },
     });
   });
+  ctx.events.emit('accessChanged', { userId: targetId, teamId });
 }
 
 export async function invite(ctx: AppContext, actorId: string, teamId: string, input: { email: string; role: Role }): Promise<PendingInvitation> {

@@ -23,6 +23,7 @@ import { clientKey, createLimiter } from './http/rateLimit.ts';
 import { requireUser } from './auth/guards.ts';
 import { createMailer, type Mailer } from './mail/mailer.ts';
 import type { AppContext } from './context.ts';
+import { redactingLog, urlForLog } from './log.ts';
 import { createEditQueue } from './realtime/editLog.ts';
 import { createSession } from './auth/session.ts';
 import { createPassport } from './auth/passport.ts';
@@ -68,7 +69,9 @@ export interface BuiltApp {
  * parsing → CSRF guard → session → passport → public API routers → signed-in API routers → API
  * 404 → static client with SPA fallback → the one error middleware.
  */
-export function createApp({ env, database, log = (l) => console.log(l), mailer, publicUrl, limits }: AppDeps): BuiltApp {
+export function createApp({ env, database, log: rawLog = (l) => console.log(l), mailer, publicUrl, limits }: AppDeps): BuiltApp {
+  // Every line the app logs passes through redaction (no credentials or personal data).
+  const log = redactingLog(rawLog);
   const app = express();
   app.disable('x-powered-by');
   if (env.TRUST_PROXY) app.set('trust proxy', 1);
@@ -93,7 +96,10 @@ export function createApp({ env, database, log = (l) => console.log(l), mailer, 
 
   const logRequests = env.LOG_REQUESTS ?? env.NODE_ENV !== 'test';
   if (logRequests) {
-    app.use(morgan(':date[iso] :method :url :status :res[content-length] - :response-time ms', { stream: { write: (l) => log(l.trimEnd()) } }));
+    // Links in e-mails carry tokens in their query (…/reset-password?token=…): the logged URL
+    // withholds such values.
+    morgan.token('safe-url', (req) => urlForLog((req as express.Request).originalUrl ?? req.url ?? ''));
+    app.use(morgan(':date[iso] :method :safe-url :status :res[content-length] - :response-time ms', { stream: { write: (l) => log(l.trimEnd()) } }));
   }
 
   app.use(express.json({ limit: '1mb' }));
@@ -127,7 +133,7 @@ export function createApp({ env, database, log = (l) => console.log(l), mailer, 
   const inviteLimit = createLimiter(database.db, { name: 'invite', windowMs: HOUR, limit: sizes.invites, what: 'invitations sent', key: (req) => req.user?.id ?? clientKey(req) });
 
   // Public routes.
-  app.use('/api/health', healthRouter(database.pool));
+  app.use('/api/health', healthRouter(database.db, log));
   app.use('/api/auth', authRouter(context, passport, { signIn: signInLimit, reset: resetLimit }));
   // Everything below needs a signed-in user; each service then checks the team role.
   app.use('/api/teams/:teamId/sketches', requireUser, teamSketchesRouter(context));

@@ -5,6 +5,7 @@ import { EnvError, parseEnv, type Env } from './env.ts';
 import { openDatabase } from './db/client.ts';
 import { createApp, type AppDeps } from './app.ts';
 import { attachRealtime } from './realtime/index.ts';
+import { errorForLog, redactingLog } from './log.ts';
 
 export interface RunningServer {
   server: Server;
@@ -19,12 +20,12 @@ export async function startServer(
   env: Env,
   options: { log?: (line: string) => void } & Pick<AppDeps, 'limits' | 'mailer'> = {},
 ): Promise<RunningServer> {
-  const log = options.log ?? ((l: string) => console.log(l));
-  const database = openDatabase(env.DATABASE_URL);
+  const log = redactingLog(options.log ?? ((l: string) => console.log(l)));
+  const database = openDatabase(env.DATABASE_URL, { log });
   let listeningUrl = '';
   const built = createApp({ env, database, log, limits: options.limits, mailer: options.mailer, publicUrl: () => listeningUrl });
   const server = createServer(built.app);
-  const io = attachRealtime(server, built.session, built.passportMiddleware, built.context, { adapterPool: database.pool });
+  const io = attachRealtime(server, built.session, built.passportMiddleware, built.context, { adapterPool: database.listenerPool });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(env.PORT, env.HOST, () => resolve());
@@ -89,6 +90,15 @@ export function exitOnSignals(cleanup: () => Promise<void>, options: { log?: (l:
   process.on('SIGTERM', onSignal);
 }
 
+/**
+ * A promise rejected with nobody listening (a library's background task, say, while the
+ * database is away) is logged, not a reason to stop serving everyone else. An uncaught
+ * exception still ends the process: its state can no longer be trusted.
+ */
+export function keepRunningOnStrayRejections(log: (line: string) => void = (l) => console.error(l)): void {
+  process.on('unhandledRejection', (reason) => log(`[server] unhandled rejection (server keeps running): ${errorForLog(reason)}`));
+}
+
 async function main(): Promise<void> {
   let env: Env;
   try {
@@ -100,6 +110,7 @@ async function main(): Promise<void> {
     }
     throw err;
   }
+  keepRunningOnStrayRejections();
   const running = await startServer(env);
   console.log(`Shockwright listening on ${running.url}`);
   exitOnSignals(() => running.close());

@@ -1,24 +1,83 @@
 import pg from 'pg';
 import { drizzle, type NodePgDatabase } from 'drizzle-orm/node-postgres';
 import * as schema from './schema.ts';
+import { errorForLog } from '../log.ts';
 
 export type Db = NodePgDatabase<typeof schema>;
 
 export interface Database {
   pool: pg.Pool;
   db: Db;
+  /**
+   * The pool for long-lived clients (the realtime adapter's LISTEN connection): a client that
+   * loses its connection is handed back as broken, so the pool replaces it instead of keeping a
+   * dead slot, and its error never reaches the process.
+   */
+  listenerPool: pg.Pool;
   close(): Promise<void>;
 }
 
-/** Opens a connection pool and the Drizzle handle over it. Repositories receive `db`. */
-export function openDatabase(url: string, options: { max?: number } = {}): Database {
-  const pool = new pg.Pool({ connectionString: url, max: options.max ?? 10 });
-  // An idle client losing its connection must not crash the process; the pool replaces it.
-  pool.on('error', (err) => console.error(`[db] idle client error: ${err.message}`));
+/** Connections per server process unless told otherwise. */
+export const DEFAULT_POOL_MAX = 10;
+
+/** Waiting longer than this for a connection answers 503 instead of hanging the request. */
+export const CONNECT_TIMEOUT_MS = 5_000;
+
+/**
+ * Opens a connection pool and the Drizzle handle over it. Repositories receive `db`.
+ *
+ * The database may go away at any time (restart, failover, pg_terminate_backend): that is an
+ * expected state, never a process exit. Every client gets an error handler the moment it
+ * connects — a checked-out client (in a transaction, or the adapter's LISTEN client) has no
+ * other listener, and an unheard 'error' event would kill the process. Queries on a lost
+ * connection fail and their requests answer 503; the pool connects afresh for the next one.
+ */
+export function openDatabase(url: string, options: { max?: number; log?: (line: string) => void } = {}): Database {
+  const log = options.log ?? ((l: string) => console.error(l));
+  const pool = new pg.Pool({ connectionString: url, max: options.max ?? DEFAULT_POOL_MAX, connectionTimeoutMillis: CONNECT_TIMEOUT_MS });
+  pool.on('connect', (client) => {
+    client.on('error', (err) => log(`[db] connection lost: ${errorForLog(err, false)}`));
+  });
+  // An idle client losing its connection: the pool drops it and connects again when needed.
+  pool.on('error', (err) => log(`[db] idle connection lost: ${errorForLog(err, false)}`));
   const db = drizzle(pool, { schema, casing: 'snake_case' });
   return {
     pool,
     db,
+    listenerPool: releasingBrokenClients(pool),
     close: () => pool.end(),
   };
+}
+
+/**
+ * `pool`, except that a client taken with `connect()` is released as broken as soon as its
+ * connection errors or ends. A holder that keeps its client for the life of the process (the
+ * socket.io adapter's LISTEN client) never calls release itself, so without this every lost
+ * connection would keep one of the pool's slots until the pool was exhausted.
+ */
+function releasingBrokenClients(pool: pg.Pool): pg.Pool {
+  const connect = async (): Promise<pg.PoolClient> => {
+    const client = await pool.connect();
+    const release = client.release.bind(client);
+    let released = false;
+    const onError = (err: Error) => client.release(err);
+    const onEnd = () => client.release(new Error('connection ended'));
+    client.release = (err?: Error | boolean) => {
+      if (released) return;
+      released = true;
+      client.removeListener('error', onError);
+      client.removeListener('end', onEnd);
+      release(err);
+    };
+    client.on('error', onError);
+    client.on('end', onEnd);
+    return client;
+  };
+  return new Proxy(pool, {
+    get(target, prop, receiver) {
+      if (prop === 'connect') return connect;
+      const value = Reflect.get(target, prop, receiver);
+      return typeof value === 'function' ? value.bind(target) : value;
+    },
+  });
 }

@@ -1,5 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
+import { isDatabaseUnavailable, sqlState, violatedConstraint } from '../db/errors.ts';
+import { errorForLog } from '../log.ts';
 
 /** An error meant for the client: status, a stable machine code and a human sentence. */
 export class HttpError extends Error {
@@ -66,7 +68,43 @@ export function errorMiddleware(log: (msg: string) => void): ErrorRequestHandler
       res.status(e.status).json({ error: { code: 'bad_request', message: e.message ?? 'Bad request.' } });
       return;
     }
-    log(`[error] ${req.method} ${req.originalUrl}: ${(err as Error)?.stack ?? String(err)}`);
+    // The database went away (restart, failover, dropped connection): an expected state with a
+    // clear answer; the pool reconnects by itself.
+    if (isDatabaseUnavailable(err)) {
+      res.setHeader('Retry-After', '5');
+      res.status(503).json({ error: { code: 'database_unavailable', message: 'The database (PostgreSQL) is not reachable right now. Try again in a few seconds.' } });
+      return;
+    }
+    const refusal = databaseRefusal(err);
+    if (refusal) {
+      res.status(refusal.status).json({ error: { code: refusal.code, message: refusal.message } });
+      return;
+    }
+    log(`[error] ${req.method} ${req.path}: ${errorForLog(err)}`);
     res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on the server; it has been logged.' } });
   };
+}
+
+/** Unique constraints a person can run into, and the field each one is about. */
+const CONSTRAINT_FIELDS: Record<string, { field: string; message: string }> = {
+  users_email_unique: { field: 'email', message: 'an account with this address already exists' },
+};
+
+/**
+ * The database refused a value the edge should already have refused (the net under the
+ * validation): a clear 4xx naming what is wrong instead of a 500. Null for anything else.
+ */
+export function databaseRefusal(err: unknown): { status: number; code: string; message: string } | null {
+  const state = sqlState(err);
+  if (!state) return null;
+  if (state === '23505') {
+    const known = CONSTRAINT_FIELDS[violatedConstraint(err) ?? ''];
+    return known
+      ? { status: 409, code: `${known.field}_taken`, message: `${known.field}: ${known.message}.` }
+      : { status: 409, code: 'conflict', message: 'This conflicts with something saved at the same moment; reload and try again.' };
+  }
+  if (state === '23503') return { status: 409, code: 'conflict', message: 'This refers to something that was removed at the same moment; reload and try again.' };
+  if (state === '40001' || state === '40P01') return { status: 409, code: 'retry', message: 'Another change to the same data happened at the same moment; try again.' };
+  if (state.startsWith('22') || state === '54001') return { status: 400, code: 'invalid_input', message: 'The request contains a value that cannot be stored (for example a NUL character or an unpaired surrogate).' };
+  return null;
 }

@@ -9,10 +9,12 @@ import { openDatabase } from '../db/client.ts';
 import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemoOnce } from '../db/seed.ts';
 import { bringUpDatabase, precheckEnv } from './localStack.ts';
 import { startMailSink } from '../mail/sink.ts';
+import { stopOnAnyExit } from './crashGuard.ts';
 
 async function main(): Promise<void> {
   precheckEnv();
   const stack = await bringUpDatabase();
+  stopOnAnyExit(() => stack.stop());
   const seedDb = openDatabase(stack.env.DATABASE_URL, { max: 2 });
   await seedDemoOnce(seedDb.db);
   const sink = stack.env.SMTP_URL ? null : await startMailSink(seedDb.db);

@@ -7,7 +7,8 @@ import path from 'node:path';
 import { REPO_ROOT } from '../app.ts';
 import { openDatabase } from '../db/client.ts';
 import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemoOnce } from '../db/seed.ts';
-import { exitOnSignals, startServer } from '../index.ts';
+import { exitOnSignals, keepRunningOnStrayRejections, startServer } from '../index.ts';
+import { stopOnAnyExit } from './crashGuard.ts';
 import { bringUpDatabase, precheckEnv } from './localStack.ts';
 import { startMailSink, type MailSink } from '../mail/sink.ts';
 import { parseEnv } from '../env.ts';
@@ -16,6 +17,8 @@ async function main(): Promise<void> {
   const started = Date.now();
   precheckEnv();
   const stack = await bringUpDatabase();
+  stopOnAnyExit(() => stack.stop());
+  keepRunningOnStrayRejections();
   let stopped = false;
   let sink: MailSink | null = null;
   const sinkDb = openDatabase(stack.env.DATABASE_URL, { max: 2 });

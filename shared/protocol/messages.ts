@@ -142,6 +142,8 @@ export const WALKTHROUGH_VIEW_INTERVAL_MS = 50;
 export const CURSOR_STALE_AFTER_MS = 5_000;
 /** A revision gap not filled within this time makes the client ask for a resync. */
 export const GAP_RESYNC_AFTER_MS = 1_000;
+/** A join or resync left unanswered this long (the server could not reach its database) is sent again. */
+export const REJOIN_RETRY_MS = 3_000;
 /** Server heartbeat: a dropped connection is noticed within about PING_INTERVAL + PING_TIMEOUT. */
 export const PING_INTERVAL_MS = 3_000;
 export const PING_TIMEOUT_MS = 3_000;

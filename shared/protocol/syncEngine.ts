@@ -1,6 +1,6 @@
 import type { SketchDocument } from '../model/sketch.ts';
 import { applyEdit, transformOp, type SketchState } from './transform.ts';
-import { GAP_RESYNC_AFTER_MS, PROTOCOL_VERSION, type ClientMessage, type EditOp, type ServerMessage } from './messages.ts';
+import { GAP_RESYNC_AFTER_MS, REJOIN_RETRY_MS, PROTOCOL_VERSION, type ClientMessage, type EditOp, type ServerMessage } from './messages.ts';
 
 /**
  * The client half of the edit protocol, as a pure state machine with no socket in it: the
@@ -66,6 +66,12 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
   let connected = false;
   /** True between a reconnect's join and the replay/snapshot that brings us up to date. */
   let rejoining = false;
+  /**
+   * When the join or resync we are waiting on was sent (null: not waiting). Its answer can be
+   * lost — the server could not read the database just then — so tick() asks again after
+   * REJOIN_RETRY_MS rather than waiting forever.
+   */
+  let askedAt: number | null = null;
   const future = new Map<number, { op: EditOp; own: boolean }>();
   let gapSince: number | null = null;
 
@@ -197,6 +203,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       }
       if (connected) {
         rejoining = server !== null;
+        askedAt = now();
         options.send({ type: 'join', protocol: PROTOCOL_VERSION, sketchId: id, ...(server ? { lastRevision: server.revision } : {}) });
       }
     },
@@ -217,8 +224,11 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         if (msg.about === 'edit' && msg.code === 'internal' && pending[0]?.sent && sketchId) {
           // Not processed: ask for what we missed; the edit is re-sent after the replay.
           rejoining = true;
+          askedAt = now();
           options.send({ type: 'resync', sketchId, lastRevision: server?.revision });
         }
+        // Refused for good (not a member, no such sketch, wrong protocol): stop asking.
+        if (msg.about === 'join' && msg.code !== 'internal') askedAt = null;
         return;
       }
       if (msg.sketchId !== sketchId) return;
@@ -227,6 +237,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
           if (!server) {
             adopt(msg.title, msg.document, msg.revision);
             rejoining = false;
+            askedAt = null;
             recompute();
             flush();
             options.onChange?.();
@@ -235,6 +246,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         case 'replay':
           for (const e of msg.edits) if (!server || e.revision > server.revision) future.set(e.revision, { op: e.op, own: false });
           rejoining = false;
+          askedAt = null;
           drainFuture();
           // Still unconfirmed after the replay: the server never applied it; send it again.
           if (pending[0]?.sent) sendInFlight(pending[0], false);
@@ -243,6 +255,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         case 'snapshot': {
           adopt(msg.title, msg.document, msg.revision);
           rejoining = false;
+          askedAt = null;
           // We cannot tell which of our edits the snapshot holds: re-send the in-flight one as
           // first sent (same id, same base); the server answers a duplicate with its outcome.
           if (pending[0]?.sent) sendInFlight(pending[0], true);
@@ -294,6 +307,11 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
     },
 
     tick() {
+      if (connected && sketchId && askedAt !== null && (rejoining || !server) && now() - askedAt > REJOIN_RETRY_MS) {
+        askedAt = now();
+        if (server) options.send({ type: 'resync', sketchId, lastRevision: server.revision });
+        else options.send({ type: 'join', protocol: PROTOCOL_VERSION, sketchId });
+      }
       if (gapSince !== null && server && sketchId && connected && now() - gapSince > GAP_RESYNC_AFTER_MS) {
         gapSince = now();
         options.send({ type: 'resync', sketchId, lastRevision: server.revision });

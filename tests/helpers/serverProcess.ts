@@ -6,13 +6,17 @@ const ROOT = path.resolve(import.meta.dirname, '../..');
 export interface ServerProcess {
   url: string;
   child: ChildProcess;
+  /** Everything the process wrote to stdout and stderr so far. */
+  output(): string;
+  /** True while the process runs. */
+  alive(): boolean;
   /** SIGKILL: no drain, no goodbye to sockets — a crash. */
   kill(): Promise<void>;
   stop(): Promise<void>;
 }
 
 /** Starts `server/index.ts` in its own process (for crash and multi-instance tests). */
-export async function startServerProcess(databaseUrl: string, port: number): Promise<ServerProcess> {
+export async function startServerProcess(databaseUrl: string, port: number, extraEnv: Record<string, string> = {}): Promise<ServerProcess> {
   // One process (node with tsx's loader), so a kill really kills the server.
   const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
     cwd: ROOT,
@@ -23,6 +27,7 @@ export async function startServerProcess(databaseUrl: string, port: number): Pro
       DATABASE_URL: databaseUrl,
       SESSION_SECRET: 'test-secret-test-secret-test-secret-0123',
       LOG_REQUESTS: 'false',
+      ...extraEnv,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
@@ -45,6 +50,8 @@ export async function startServerProcess(databaseUrl: string, port: number): Pro
   return {
     url,
     child,
+    output: () => output,
+    alive: () => child.exitCode === null && child.signalCode === null,
     async kill() {
       child.kill('SIGKILL');
       await exited();

@@ -1,21 +1,21 @@
 import { Router } from 'express';
-import type pg from 'pg';
+import type { Db } from '../../db/client.ts';
 import { readJournal } from '../../db/migrate.ts';
+import { isDatabaseUnavailable } from '../../db/errors.ts';
+import { latestAppliedMigration } from './repository.ts';
 
 /**
  * GET /api/health: whether the database answers and which migration it is at. Public (no
- * sign-in) so that a load balancer or `npm start` can probe it; it reveals no data.
+ * sign-in) so that a load balancer or `npm start` can probe it; it reveals no data — not even the
+ * database's error text (which can name hosts, users and files), only what kind of failure it is.
  */
-export function healthRouter(pool: pg.Pool): Router {
+export function healthRouter(db: Db, log: (line: string) => void): Router {
   const router = Router();
   router.get('/', async (_req, res) => {
     const journal = readJournal();
     const expected = journal.at(-1)?.tag ?? null;
     try {
-      const { rows } = await pool.query<{ created_at: string }>(
-        'select created_at from drizzle.__drizzle_migrations order by created_at desc limit 1',
-      );
-      const appliedWhen = rows[0] ? Number(rows[0].created_at) : null;
+      const appliedWhen = await latestAppliedMigration(db);
       const applied = journal.find((e) => e.when === appliedWhen)?.tag ?? null;
       const upToDate = applied !== null && applied === expected;
       res.status(upToDate ? 200 : 503).json({
@@ -23,9 +23,17 @@ export function healthRouter(pool: pg.Pool): Router {
         database: { reachable: true, migration: applied, expectedMigration: expected, upToDate },
       });
     } catch (err) {
+      const unreachable = isDatabaseUnavailable(err);
+      if (!unreachable) log(`[health] database check failed: ${(err as Error).name}`);
       res.status(503).json({
         status: 'degraded',
-        database: { reachable: false, migration: null, expectedMigration: expected, upToDate: false, reason: (err as Error).message },
+        database: {
+          reachable: false,
+          migration: null,
+          expectedMigration: expected,
+          upToDate: false,
+          reason: unreachable ? 'The database is not reachable.' : 'The database answered the health check with an error.',
+        },
       });
     }
   });

@@ -6,8 +6,13 @@
 /** Ratio of specific heats of air, used when the input leaves γ out (common practice). */
 export const GAMMA_AIR = 1.4;
 
-/** Two vertices whose x differ by less than this many chords tie for nose or tail → `blunt`. */
-export const BLUNT_TIE_CHORDS = 1e-9;
+/**
+ * A facet at the nose or the tail is a vertical face (→ `blunt`) when its direction is within this
+ * angle of the y axis: |dx| ≤ tan(1e-9)·|dy|. An angular test, so a tiny facet sloped at any real
+ * angle is never taken for a vertical face, whatever its length (common practice: a scale-free
+ * tolerance on a direction).
+ */
+export const BLUNT_FACE_ANGLE_RAD = 1e-9;
 
 /** A turn (or a first-facet deflection) smaller than this is no wave at all / a Mach line. */
 export const ZERO_TURN_RAD = 1e-12;

@@ -1,26 +1,39 @@
 import type { SurfaceChain } from './splitSurfaces';
 
 /**
- * Largest vertical distance between the upper and the lower surface, over the chord.
+ * Thickness ratio t/c: the largest distance between the upper and the lower surface measured
+ * normal to the chord line (the line from the nose to the tail, the chains' first and last
+ * vertices), over that line's length. A section drawn at an angle (e.g. a 4 % double wedge
+ * rotated nose-down 5.7°) has the thickness it was drawn with, not its vertical extent.
  *
- * Sampled at every vertex x (the distance is piecewise linear in x between vertices, so its
- * maximum sits at a vertex). O(facets) when both chains run monotonically in x (the usual
- * section); otherwise the polygon's vertical extent at each vertex x, O(facets²).
- * Edge case: chord 0 gives 0.
+ * Both chains are taken into chord-line axes (s along, n normal); the distance is piecewise
+ * linear in s between vertices, so its maximum sits at a vertex: O(facets) when both chains run
+ * monotonically in s (the usual section), otherwise the polygon's extent normal to the chord line
+ * at each vertex's s, O(facets²). Edge case: nose and tail coincident gives 0.
  *
- * Source: common practice (thickness ratio t/c).
+ * Source: common practice (thickness ratio t/c, measured normal to the chord line).
  */
-export function maxThicknessRatio(
-  upper: Pick<SurfaceChain, 'xs' | 'ys'>,
-  lower: Pick<SurfaceChain, 'xs' | 'ys'>,
-  chord: number,
-): number {
+export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower: Pick<SurfaceChain, 'xs' | 'ys'>): number {
+  const x0 = upper.xs[0];
+  const y0 = upper.ys[0];
+  const ex = upper.xs[upper.xs.length - 1] - x0;
+  const ey = upper.ys[upper.ys.length - 1] - y0;
+  const chord = Math.hypot(ex, ey);
   if (!(chord > 0)) return 0;
-  if (monotone(upper.xs) && monotone(lower.xs)) {
-    const t = Math.max(sweep(upper, lower, 1), sweep(lower, upper, -1));
+  const cx = ex / chord;
+  const cy = ey / chord;
+  const toChordAxes = (c: Pick<SurfaceChain, 'xs' | 'ys'>) => {
+    const xs = c.xs.map((x, i) => (x - x0) * cx + (c.ys[i] - y0) * cy);
+    const ys = c.xs.map((x, i) => -(x - x0) * cy + (c.ys[i] - y0) * cx);
+    return { xs, ys };
+  };
+  const u = toChordAxes(upper);
+  const l = toChordAxes(lower);
+  if (monotone(u.xs) && monotone(l.xs)) {
+    const t = Math.max(sweep(u, l, 1), sweep(l, u, -1));
     return Math.max(0, t) / chord;
   }
-  return extentAtVertices(upper, lower) / chord;
+  return extentAtVertices(u, l) / chord;
 }
 
 function monotone(xs: readonly number[]): boolean {

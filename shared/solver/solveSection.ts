@@ -42,7 +42,8 @@ import type {
  *
  * Conventions (see shared/solver/README.md):
  * - Body axes, x toward the tail, y up; chord c = max x − min x; nose = min-x vertex, tail =
- *   max-x vertex; a tie within 1e-9·c at either end is `blunt` (no coefficients, no theories).
+ *   max-x vertex; an edge within 1e-9 rad of vertical at either end is `blunt` (no
+ *   coefficients, no theories, no thin-section Cp).
  * - α > 0 is nose up: the free stream flows along (cos α, sin α), so the LOWER surface is
  *   compressed at positive α. Input vertex order (cw or ccw) changes no result.
  * - Facet angle φ = atan2(dy, dx) nose → tail; deflection θ = φ − α (upper), α − φ (lower);
@@ -51,9 +52,11 @@ import type {
  * - Limits are results: `detached`, `subsonic`, `vacuum` stop that surface's march at the
  *   vertex (listed in `limits` with numbers and a sentence); with both surfaces stopped the
  *   status is the worse one in the order detached > subsonic > vacuum. Coefficients are
- *   null unless the status is `ok`; the thin-airfoil theories are always given (except blunt).
+ *   given for `ok` and for `vacuum` (p = 0, Cp = −2/(γM∞²) on the facets past the limit,
+ *   flagged `vacuum`); the thin-airfoil theories are always given (except blunt).
  * - Loads: each facet's force is −Cp·n_out·length at its midpoint; cl, cd (wind axes) over
- *   q∞·c; cm over q∞·c² about the moment point (default [x_nose + c/4, y_nose]), nose up +.
+ *   q∞·c; cm over q∞·c² about the moment point (default [x_le + c/4, y_le]), nose up +, with
+ *   c and the leading edge from `input.reference` (default: the outline's chord and nose).
  * - Trailing edge: common flow direction and pressure of the two streams (slip line), each
  *   stream turned by a shock or a fan; no attached matching leaves the status `ok` (the loads
  *   do not depend on it) and says so in `trailingEdge.message` and `warnings`.
@@ -75,8 +78,12 @@ export function solveSection(input: SolveInput): SolveResult {
   const tailPt = points[split.tailIndex];
   const nose: Point = [nosePt[0], nosePt[1]];
   const tail: Point = [tailPt[0], tailPt[1]];
+  const refChord = input.reference?.chord ?? chord;
+  const le = input.reference?.leadingEdge;
+  const leadingEdge: Point = le ? [le[0], le[1]] : [nose[0], nose[1]];
+  const referenceSource = input.reference?.chord !== undefined || le ? 'input' : 'outline';
   const mp = input.reference?.momentPoint;
-  const momentPoint: Point = mp ? [mp[0], mp[1]] : [nose[0] + 0.25 * chord, nose[1]];
+  const momentPoint: Point = mp ? [mp[0], mp[1]] : [leadingEdge[0] + 0.25 * refChord, leadingEdge[1]];
   const upperChain = split.upper;
   const lowerChain = split.lower;
 
@@ -89,7 +96,8 @@ export function solveSection(input: SolveInput): SolveResult {
     upper: upperChain.vertices.slice(),
     lower: lowerChain.vertices.slice(),
     momentPoint,
-    maxThicknessRatio: maxThicknessRatio(upperChain, lowerChain, chord),
+    maxThicknessRatio: maxThicknessRatio(upperChain, lowerChain),
+    reference: { chord: refChord, leadingEdge, source: referenceSource } as SolveResult['geometry']['reference'],
   };
   const condition = { mach, alphaDeg, gamma };
 
@@ -103,7 +111,7 @@ export function solveSection(input: SolveInput): SolveResult {
   const cp2U = theoryCp(thetaU, c1, c2);
   const cp2L = theoryCp(thetaL, c1, c2);
 
-  const ctx: FacetContext = { mach, gamma, chord, noseX: nose[0] };
+  const ctx: FacetContext = { mach, gamma, chord: refChord, noseX: leadingEdge[0], cpVacuum: -2 / (gamma * mach * mach) };
 
   if (split.bluntNose || split.bluntTail) {
     const limits: SolveLimit[] = [];
@@ -115,8 +123,9 @@ export function solveSection(input: SolveInput): SolveResult {
       condition,
       geometry,
       surfaces: {
-        upper: buildFacets(upperChain, thetaU, null, cpLinU, cp2U, ctx),
-        lower: buildFacets(lowerChain, thetaL, null, cpLinL, cp2L, ctx),
+        // No theory applies to a vertical face: the thin-section Cp is not given either.
+        upper: buildFacets(upperChain, thetaU, null, null, null, ctx),
+        lower: buildFacets(lowerChain, thetaL, null, null, null, ctx),
       },
       coefficients: null,
       bySurface: null,
@@ -141,15 +150,17 @@ export function solveSection(input: SolveInput): SolveResult {
   const status: SolveStatus = limits.length === 0 ? 'ok' : worstStatus(limits);
   const ok = status === 'ok';
 
+  // A `vacuum` limit still has well-defined loads: the facets past the Prandtl-Meyer limit carry
+  // p = 0 (buildFacets wrote Cp = −2/(γM∞²) there), so the coefficients are given, flagged.
   let coefficients: Coefficients | null = null;
   let bySurface: SolveResult['bySurface'] = null;
-  if (ok) {
-    const exact = integrateLoads(upperChain, cpU, lowerChain, cpL, alpha, momentPoint, nose, chord);
+  if (ok || status === 'vacuum') {
+    const exact = integrateLoads(upperChain, cpU, lowerChain, cpL, alpha, momentPoint, leadingEdge, refChord);
     coefficients = exact.total;
     bySurface = { upper: exact.upper, lower: exact.lower };
   }
-  const linear = integrateLoads(upperChain, cpLinU, lowerChain, cpLinL, alpha, momentPoint, nose, chord);
-  const second = integrateLoads(upperChain, cp2U, lowerChain, cp2L, alpha, momentPoint, nose, chord);
+  const linear = integrateLoads(upperChain, cpLinU, lowerChain, cpLinL, alpha, momentPoint, leadingEdge, refChord);
+  const second = integrateLoads(upperChain, cp2U, lowerChain, cp2L, alpha, momentPoint, leadingEdge, refChord);
   const theories = {
     linear: theoryResult(linear, coefficients),
     secondOrder: theoryResult(second, coefficients),
@@ -168,8 +179,24 @@ export function solveSection(input: SolveInput): SolveResult {
     );
     trailingEdge = trailingEdgeResult(match);
     if (trailingEdge.message) warnings.push(trailingEdge.message);
+  } else if (status === 'vacuum') {
+    trailingEdge = noTrailingEdge('A stream reaches the trailing edge at zero pressure (the vacuum limit), so the trailing edge was not solved.');
   } else {
     trailingEdge = noTrailingEdge('The march did not reach the trailing edge, so it was not solved.');
+  }
+  if (status === 'vacuum') {
+    for (const [name, facets, march] of [
+      ['upper', facetsU, marchU],
+      ['lower', facetsL, marchL],
+    ] as const) {
+      if (march.limit?.status !== 'vacuum') continue;
+      const count = facets.length - march.solved;
+      warnings.push(
+        `The exact coefficients include zero pressure (p = 0, Cp = ${ctx.cpVacuum.toPrecision(4)}) on ` +
+          `${count === 1 ? 'the last facet' : `the last ${count} facets`} of the ${name} surface, from vertex ` +
+          `${upperOrLower(name, upperChain, lowerChain).vertices[march.solved]}, where the expansion reaches the Prandtl-Meyer limit: the theory's limiting value, not a measured one.`,
+      );
+    }
   }
 
   collectWarnings(warnings, mach, upperChain, lowerChain, thetaU, thetaL, marchU, marchL, match);
@@ -214,8 +241,15 @@ export function solveSection(input: SolveInput): SolveResult {
 interface FacetContext {
   mach: number;
   gamma: number;
+  /** Reference chord and leading-edge x for x/c. */
   chord: number;
   noseX: number;
+  /** Cp at p = 0: −2/(γM∞²). */
+  cpVacuum: number;
+}
+
+function upperOrLower(name: SurfaceName, upper: SurfaceChain, lower: SurfaceChain): SurfaceChain {
+  return name === 'upper' ? upper : lower;
 }
 
 /** Pressure coefficients c1·θ + c2·θ² per facet (c2 = 0: linear theory). */
@@ -230,19 +264,20 @@ function theoryCp(theta: readonly number[], c1: number, c2: number): number[] {
 
 /**
  * Facet records of one surface. Consecutive facets share their common vertex's point array
- * (one facet's `to` is the next one's `from`). Writes the exact Cp of solved facets into
- * `cpOut` (for the load integration).
+ * (one facet's `to` is the next one's `from`). Writes the exact Cp of solved facets — and the
+ * p = 0 value of the facets past a vacuum limit — into `cpOut` (for the load integration).
+ * `cpLin`/`cp2` null (a blunt section) gives null theory Cp.
  */
 function buildFacets(
   chain: SurfaceChain,
   theta: readonly number[],
   march: SurfaceMarch | null,
-  cpLin: readonly number[],
-  cp2: readonly number[],
+  cpLin: readonly number[] | null,
+  cp2: readonly number[] | null,
   ctx: FacetContext,
   cpOut?: number[],
 ): Facet[] {
-  const { mach, gamma, chord, noseX } = ctx;
+  const { mach, gamma, chord, noseX, cpVacuum } = ctx;
   const h = 0.5 * (gamma - 1);
   const t0 = 1 + h * mach * mach; // T0/T∞
   const qScale = 2 / (gamma * mach * mach); // p∞/q∞
@@ -251,6 +286,7 @@ function buildFacets(
   const xs = chain.xs;
   const ys = chain.ys;
   const solvedCount = march ? march.solved : 0;
+  const vacuumFrom = march && march.limit?.status === 'vacuum' ? march.solved : m;
   let from: Point = [xs[0], ys[0]];
   for (let k = 0; k < m; k++) {
     const turn = k === 0 ? theta[0] : theta[k] - theta[k - 1];
@@ -264,8 +300,8 @@ function buildFacets(
           : k === 0
             ? 'mach'
             : 'none';
-    // Two full object literals on purpose: building facets from shared parts with object spread
-    // measured ~100× slower in this hot loop (V8 loses the fixed object shape).
+    // Full object literals of one shape on purpose: building facets from shared parts with
+    // object spread measured ~100× slower in this hot loop (V8 loses the fixed object shape).
     let facet: Facet;
     if (march && k < solvedCount) {
       const mk = march.mach[k];
@@ -289,8 +325,32 @@ function buildFacets(
         rhoRatio: p / t,
         p0Ratio: march.p0Ratio[k],
         cp,
-        cpLinear: cpLin[k],
-        cpSecondOrder: cp2[k],
+        cpLinear: cpLin ? cpLin[k] : null,
+        cpSecondOrder: cp2 ? cp2[k] : null,
+        vacuum: false,
+        xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
+      };
+    } else if (k >= vacuumFrom) {
+      if (cpOut) cpOut[k] = cpVacuum;
+      facet = {
+        index: chain.edges[k],
+        from,
+        to,
+        length: chain.length[k],
+        phiDeg: chain.phi[k] * DEG_PER_RAD,
+        thetaDeg: theta[k] * DEG_PER_RAD,
+        turnDeg: turn * DEG_PER_RAD,
+        wave,
+        solved: false,
+        mach: null,
+        pRatio: 0,
+        tRatio: null,
+        rhoRatio: null,
+        p0Ratio: null,
+        cp: cpVacuum,
+        cpLinear: cpLin ? cpLin[k] : null,
+        cpSecondOrder: cp2 ? cp2[k] : null,
+        vacuum: true,
         xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
       };
     } else {
@@ -310,8 +370,9 @@ function buildFacets(
         rhoRatio: null,
         p0Ratio: null,
         cp: null,
-        cpLinear: cpLin[k],
-        cpSecondOrder: cp2[k],
+        cpLinear: cpLin ? cpLin[k] : null,
+        cpSecondOrder: cp2 ? cp2[k] : null,
+        vacuum: false,
         xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
       };
     }
@@ -353,6 +414,31 @@ function worstStatus(limits: readonly SolveLimit[]): SolveStatus {
 const deg = (rad: number) => (rad * DEG_PER_RAD).toFixed(1);
 const m2 = (mach: number) => mach.toFixed(2);
 
+/**
+ * The fewest decimals, from `min` up to 9, at which every pair [a, b] prints differently, so a
+ * sentence comparing them never reads "23.0° exceeds the maximum 23.0°" (rounding is monotone,
+ * so differing texts keep the order of the numbers).
+ */
+function decimalsFor(pairs: readonly (readonly [number, number])[], min: number): number {
+  let d = min;
+  for (; d < 9; d++) if (pairs.every(([a, b]) => a === b || a.toFixed(d) !== b.toFixed(d))) break;
+  return d;
+}
+
+/** Angles (radians) in degrees, with enough decimals that each pair reads as different. */
+function degreesApart(pairs: readonly (readonly [number, number])[]): (rad: number) => string {
+  const d = decimalsFor(
+    pairs.map(([a, b]) => [a * DEG_PER_RAD, b * DEG_PER_RAD] as const),
+    1,
+  );
+  return (rad) => (rad * DEG_PER_RAD).toFixed(d);
+}
+
+/** A Mach number near 1 printed so that it reads on the right side of 1 ("0.9996", not "1.00"). */
+function machNearOne(mach: number): string {
+  return mach.toFixed(decimalsFor([[mach, 1]], 2));
+}
+
 function surfaceLimit(
   limit: SurfaceLimit,
   surface: SurfaceName,
@@ -369,18 +455,24 @@ function surfaceLimit(
   const base = { surface, vertex, at, thetaDeg: limit.turn * DEG_PER_RAD };
   if (limit.status === 'detached') {
     const thetaMax = limit.thetaMax ?? 0;
+    const f = degreesApart([[limit.turn, thetaMax]]);
     return {
       status: 'detached',
       ...base,
       thetaMaxDeg: thetaMax * DEG_PER_RAD,
       message:
         `${atNose ? 'Nose shock' : `Shock at vertex ${vertex}`} detaches on the ${surface} surface: ` +
-        `${what} ${deg(limit.turn)}° exceeds the maximum ${deg(thetaMax)}° at ${machWords}.`,
+        `${what} ${f(limit.turn)}° exceeds the maximum ${f(thetaMax)}° at ${machWords}.`,
     };
   }
   if (limit.status === 'subsonic') {
     const thetaMax = limit.thetaMax ?? 0;
+    const thetaSonic = limit.thetaSonic ?? 0;
     const machBehind = limit.machBehind ?? 0;
+    const f = degreesApart([
+      [limit.turn, thetaSonic],
+      [limit.turn, thetaMax],
+    ]);
     return {
       status: 'subsonic',
       ...base,
@@ -388,21 +480,23 @@ function surfaceLimit(
       machBehind,
       message:
         `Flow behind the ${atNose ? 'nose shock' : `shock at vertex ${vertex}`} on the ${surface} surface ` +
-        `is subsonic (M ${m2(machBehind)}): ${what} ${deg(limit.turn)}° lies between the sonic ` +
-        `${deg(limit.thetaSonic ?? 0)}° and the maximum ${deg(thetaMax)}° at ${machWords}.`,
+        `is subsonic (M ${machNearOne(machBehind)}): ${what} ${f(limit.turn)}° lies between the sonic ` +
+        `${f(thetaSonic)}° and the maximum ${f(thetaMax)}° at ${machWords}.`,
     };
   }
   const nu = limit.nu ?? 0;
   const nuMax = limit.nuMax ?? 0;
+  const f = degreesApart([[nu, nuMax]]);
   return {
     status: 'vacuum',
     ...base,
     nuDeg: nu * DEG_PER_RAD,
     nuMaxDeg: nuMax * DEG_PER_RAD,
     message:
-      `Expansion ${where} on the ${surface} surface exceeds the Prandtl-Meyer limit: ` +
-      `${what} ${deg(-limit.turn)}° would need ν ${deg(nu)}°, beyond the maximum ` +
-      `${deg(nuMax)}° for γ ${gamma.toFixed(2)}.`,
+      `Expansion ${where} on the ${surface} surface reaches the Prandtl-Meyer limit: ` +
+      `${what} ${deg(-limit.turn)}° would need ν ${f(nu)}°, ` +
+      `${nu > nuMax ? 'beyond' : 'at (within one part in 10⁹ of)'} the maximum ${f(nuMax)}° for γ ${gamma.toFixed(2)}; ` +
+      'the pressure is zero from there to the trailing edge.',
   };
 }
 
@@ -411,18 +505,18 @@ function bluntLimit(
   tied: readonly number[],
   end: 'nose' | 'tail',
 ): SolveLimit {
-  // The tied vertex of least y is the one the geometry reports as nose/tail.
+  // The face's vertex of least y is the one the geometry reports as nose/tail.
   let vertex = tied[0];
   for (const i of tied) if (points[i][1] < points[vertex][1]) vertex = i;
   const list =
-    tied.length === 2 ? `vertices ${tied[0]} and ${tied[1]} both lie` : `vertices ${tied.slice(0, -1).join(', ')} and ${tied[tied.length - 1]} all lie`;
+    tied.length === 2 ? `vertices ${tied[0]} and ${tied[1]}` : `vertices ${tied.slice(0, -1).join(', ')} and ${tied[tied.length - 1]}`;
   return {
     status: 'blunt',
     surface: end === 'nose' ? 'leadingEdge' : 'trailingEdge',
     vertex,
     at: [points[vertex][0], points[vertex][1]],
     message:
-      `Blunt ${end}: ${list} at the ${end === 'nose' ? 'minimum' : 'maximum'} x (a vertical face); ` +
+      `Blunt ${end}: ${list} form a vertical face at the ${end === 'nose' ? 'minimum' : 'maximum'} x; ` +
       `the shock-expansion method needs a single sharp ${end}.`,
   };
 }
@@ -485,7 +579,7 @@ function collectWarnings(
     ] as const) {
       if (turn.kind === 'shock' && turn.machAfter < 1) {
         warnings.push(
-          `Flow behind the trailing-edge shock in the ${side} stream is subsonic (M ${m2(turn.machAfter)}); ` +
+          `Flow behind the trailing-edge shock in the ${side} stream is subsonic (M ${machNearOne(turn.machAfter)}); ` +
             'the wake pattern there is approximate.',
         );
       }
@@ -511,16 +605,17 @@ function shockWarnings(
     const turn = march.turn[k];
     const mAhead = k === 0 ? machInf : march.mach[k - 1];
     if ((march.thetaMax[k] - turn) * DEG_PER_RAD < NEAR_DETACHMENT_WARNING_DEG) {
+      const f = degreesApart([[turn, march.thetaMax[k]]]);
       warnings.push(
         `The ${name} on the ${surface} surface is within 1° of detachment: ` +
-          `${k === 0 ? 'deflection' : 'turn'} ${deg(turn)}° against a maximum of ` +
-          `${deg(march.thetaMax[k])}° at ${k === 0 ? 'M' : 'local M'} ${m2(mAhead)}.`,
+          `${k === 0 ? 'deflection' : 'turn'} ${f(turn)}° against a maximum of ` +
+          `${f(march.thetaMax[k])}° at ${k === 0 ? 'M' : 'local M'} ${m2(mAhead)}.`,
       );
     }
     if (march.mach[k] < NEAR_SONIC_WARNING_MACH) {
       warnings.push(
         `Flow behind the ${name} on the ${surface} surface is barely supersonic ` +
-          `(M ${m2(march.mach[k])}); a slightly larger deflection would make it subsonic.`,
+          `(M ${machNearOne(march.mach[k])}); a slightly larger deflection would make it subsonic.`,
       );
     }
   }

@@ -1,6 +1,6 @@
 import { signedArea, type XY } from '../model/polygon';
 import { atanNearZero } from './atanNearZero';
-import { BLUNT_TIE_CHORDS } from './constants';
+import { BLUNT_FACE_ANGLE_RAD } from './constants';
 
 /** One surface as a vertex chain from the nose to the tail. Angles in radians. */
 export interface SurfaceChain {
@@ -28,9 +28,10 @@ export interface SplitSection {
   maxY: number;
   noseIndex: number;
   tailIndex: number;
-  /** Vertices tied for the minimum x (a vertical nose face), or null for a sharp nose. */
+  /** Vertices of a vertical face at the nose (consecutive edges within BLUNT_FACE_ANGLE_RAD of
+   *  vertical, in index order), or null for a sharp nose. */
   bluntNose: number[] | null;
-  /** Vertices tied for the maximum x (a vertical tail face), or null for a sharp tail. */
+  /** The same at the tail. */
   bluntTail: number[] | null;
   upper: SurfaceChain;
   lower: SurfaceChain;
@@ -40,8 +41,10 @@ export interface SplitSection {
  * Splits a closed polygon into its upper and lower surfaces.
  *
  * Conventions: body axes; chord = max x − min x; nose = the vertex of min x, tail = the vertex of
- * max x. Vertices within 1e-9·chord of the min (max) x tie: the nose (tail) is then blunt and
- * `bluntNose` (`bluntTail`) lists them, the chosen nose/tail being the tied vertex of least y.
+ * max x (exact ties: the one of least y). When an edge at the nose (tail) is vertical — within
+ * BLUNT_FACE_ANGLE_RAD of the y axis, an angular test independent of the edge's length — the
+ * nose (tail) is blunt: `bluntNose` (`bluntTail`) lists the vertices of that vertical face and
+ * the nose (tail) is its vertex of least y.
  * The upper surface is the chain from nose to tail that runs over the top: for a
  * counter-clockwise polygon that is the backward chain, for a clockwise one the forward chain
  * (the orientation is read from the turn at the nose, an extreme vertex),
@@ -69,30 +72,32 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
     if (y > maxY) maxY = y;
   }
   const chord = maxX - minX;
-  const tol = BLUNT_TIE_CHORDS * chord;
 
-  let noseIndex = -1;
+  // Nose: the least (x, y) vertex; tail: the greatest x, least y among exact ties. Both are
+  // extreme vertices of the polygon (the orientation test at the nose relies on it).
+  let noseIndex = 0;
+  for (let i = 1; i < n; i++) {
+    const p = points[i];
+    const q = points[noseIndex];
+    if (p[0] < q[0] || (p[0] === q[0] && p[1] < q[1])) noseIndex = i;
+  }
   let tailIndex = -1;
-  let noseTies = 0;
-  let tailTies = 0;
   for (let i = 0; i < n; i++) {
-    const x = points[i][0];
-    if (x <= minX + tol) {
-      noseTies++;
-      if (noseIndex < 0 || points[i][1] < points[noseIndex][1]) noseIndex = i;
+    if (i === noseIndex) continue;
+    const p = points[i];
+    if (tailIndex < 0) {
+      tailIndex = i;
+      continue;
     }
+    const q = points[tailIndex];
+    if (p[0] > q[0] || (p[0] === q[0] && p[1] < q[1])) tailIndex = i;
   }
-  for (let i = 0; i < n; i++) {
-    const x = points[i][0];
-    if (x >= maxX - tol && i !== noseIndex) {
-      tailTies++;
-      if (tailIndex < 0 || points[i][1] < points[tailIndex][1]) tailIndex = i;
-    }
-  }
-  if (tailIndex < 0) tailIndex = (noseIndex + 1) % n; // all vertices at the nose: chord 0
-  const bluntNose = noseTies > 1 ? tiedIndices(points, (x) => x <= minX + tol) : null;
-  const bluntTail =
-    tailTies > 1 || noseTies === n ? tiedIndices(points, (x) => x >= maxX - tol) : null;
+  if (tailIndex < 0) tailIndex = (noseIndex + 1) % n;
+  const bluntNose = verticalFace(points, noseIndex);
+  const bluntTail = verticalFace(points, tailIndex);
+  // A vertical face's nose (tail) is its vertex of least y, as for an exact tie.
+  if (bluntNose) noseIndex = lowest(points, bluntNose);
+  if (bluntTail) tailIndex = lowest(points, bluntTail);
 
   const forward = chain(points, noseIndex, tailIndex, 1);
   const backward = chain(points, noseIndex, tailIndex, -1);
@@ -127,10 +132,40 @@ function counterClockwise(points: readonly XY[], v: number): boolean {
   return cross !== 0 ? cross > 0 : signedArea(points) > 0;
 }
 
-function tiedIndices(points: readonly XY[], tied: (x: number) => boolean): number[] {
-  const out: number[] = [];
-  for (let i = 0; i < points.length; i++) if (tied(points[i][0])) out.push(i);
-  return out;
+const VERTICAL_SLOPE = Math.tan(BLUNT_FACE_ANGLE_RAD);
+
+/** Whether the edge a → b is within BLUNT_FACE_ANGLE_RAD of vertical (and not a point). */
+function vertical(a: XY, b: XY): boolean {
+  const dx = Math.abs(b[0] - a[0]);
+  const dy = Math.abs(b[1] - a[1]);
+  return dy > 0 && dx <= VERTICAL_SLOPE * dy;
+}
+
+/**
+ * The vertices of the run of consecutive vertical edges through vertex `v` (in index order), or
+ * null when neither edge at `v` is vertical (a sharp end).
+ */
+function verticalFace(points: readonly XY[], v: number): number[] | null {
+  const n = points.length;
+  let first = v;
+  let steps = 0;
+  while (steps < n - 1 && vertical(points[(first + n - 1) % n], points[first])) {
+    first = (first + n - 1) % n;
+    steps++;
+  }
+  const out = [first];
+  let i = first;
+  while (out.length < n && vertical(points[i], points[(i + 1) % n])) {
+    i = (i + 1) % n;
+    out.push(i);
+  }
+  return out.length > 1 ? out.sort((a, b) => a - b) : null;
+}
+
+function lowest(points: readonly XY[], indices: readonly number[]): number {
+  let best = indices[0];
+  for (const i of indices) if (points[i][1] < points[best][1]) best = i;
+  return best;
 }
 
 /** Walks from the nose to the tail in the given index direction. */

@@ -68,17 +68,23 @@ export interface Facet {
   tRatio: number | null;
   rhoRatio: number | null;
   p0Ratio: number | null;
-  /** Exact (shock-expansion) pressure coefficient (p − p∞)/q∞. */
+  /** Exact (shock-expansion) pressure coefficient (p − p∞)/q∞. On a `vacuum` facet it is the
+   *  limiting value −2/(γM∞²) (p = 0). */
   cp: number | null;
-  /** Ackeret (linear) pressure coefficient 2θ/√(M∞²−1). */
-  cpLinear: number;
-  /** Busemann (second-order) pressure coefficient C1θ + C2θ². */
-  cpSecondOrder: number;
-  /** Facet midpoint x from the nose, over the chord. */
+  /** Ackeret (linear) pressure coefficient 2θ/√(M∞²−1); null on a blunt section (no theory
+   *  applies to a vertical face). */
+  cpLinear: number | null;
+  /** Busemann (second-order) pressure coefficient C1θ + C2θ²; null on a blunt section. */
+  cpSecondOrder: number | null;
+  /** True on the facets at and after a surface's `vacuum` vertex: the expansion reached the
+   *  Prandtl-Meyer limit there, so the pressure is zero (p = 0, Cp = −2/(γM∞²)); `solved` is
+   *  false and the other state fields are null, except pRatio = 0. */
+  vacuum: boolean;
+  /** Facet midpoint x from the reference leading edge, over the reference chord. */
   xMidOverC: number;
 }
 
-/** Section force and moment coefficients. */
+/** Section force and moment coefficients, over the reference chord c (`geometry.reference`). */
 export interface Coefficients {
   /** Lift over q∞·c, along (−sin α, cos α). */
   cl: number;
@@ -90,8 +96,8 @@ export interface Coefficients {
   cn: number;
   /** Axial force over q∞·c, along body +x (aft). */
   ca: number;
-  /** Where the resultant's line of action crosses the line y = y_nose, from the nose, over c;
-   *  null when the normal force is ~0. */
+  /** Where the resultant's line of action crosses the line y = y_le (the reference leading
+   *  edge's y), from the reference leading edge, over c; null when the normal force is ~0. */
   xcpOverC: number | null;
   /** cl / cd; null when cd is ~0. */
   liftToDrag: number | null;
@@ -204,8 +210,13 @@ export interface SectionGeometry {
   upper: number[];
   lower: number[];
   momentPoint: Point;
-  /** Largest vertical distance between the surfaces, over the chord. */
+  /** Largest thickness normal to the chord line (nose → tail), over the chord line's length. */
   maxThicknessRatio: number;
+  /** What every coefficient is referred to: cl, cd, cn, ca over q∞·chord, cm over q∞·chord²
+   *  about `momentPoint`, x/c from `leadingEdge`. `source` is `outline` when these are the
+   *  solved outline's own chord and nose, `input` when the caller gave them (e.g. the drawn
+   *  section of a deflected flap, so that coefficients do not move with the flap's chord). */
+  reference: { chord: number; leadingEdge: Point; source: 'outline' | 'input' };
 }
 
 /** The flight condition as solved. */

@@ -16,7 +16,7 @@ export function resultPressures(result: SolveResult): number[] {
     out.push(w.pRatioBehind, w.upstream.pRatio, w.downstream.pRatio);
     for (const r of w.rays ?? []) out.push(r.pRatio);
   }
-  for (const f of [...result.surfaces.upper, ...result.surfaces.lower]) if (f.pRatio !== null) out.push(f.pRatio);
+  for (const f of [...result.surfaces.upper, ...result.surfaces.lower]) if (f.pRatio !== null && f.pRatio > 0) out.push(f.pRatio); // a vacuum facet (p = 0) has no place on a log scale
   return out;
 }
 

@@ -62,16 +62,22 @@ export function facetTooltip(index: number, result: SolveResult): Tooltip | null
   if (!found) return null;
   const { facet, surface } = found;
   const title = `Facet ${index} · ${surface} surface`;
-  const theories = `linear ${formatNumber(facet.cpLinear, 4)}, second-order ${formatNumber(facet.cpSecondOrder, 4)}`;
+  const theories =
+    facet.cpLinear === null || facet.cpSecondOrder === null
+      ? null
+      : `linear ${formatNumber(facet.cpLinear, 4)}, second-order ${formatNumber(facet.cpSecondOrder, 4)}`;
+  if (facet.vacuum && facet.cp !== null) {
+    return { title, lines: [`vacuum limit: p = 0, Cp ${formatNumber(facet.cp, 4)}`, ...(theories ? [`Cp ${theories}`] : [])] };
+  }
   if (!facet.solved || facet.mach === null || facet.cp === null || facet.pRatio === null) {
-    return { title, lines: ['not solved: the march stopped before this facet', `Cp ${theories}`] };
+    return { title, lines: ['not solved: the march stopped before this facet', ...(theories ? [`Cp ${theories}`] : [])] };
   }
   return {
     title,
     lines: [
       `M ${formatNumber(facet.mach, 4)}, Cp ${formatNumber(facet.cp, 4)}`,
       `p/p∞ ${formatNumber(facet.pRatio, 4)}, θ ${formatNumber(facet.thetaDeg, 3)}°`,
-      `Cp ${theories}`,
+      ...(theories ? [`Cp ${theories}`] : []),
     ],
   };
 }

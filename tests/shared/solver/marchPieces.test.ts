@@ -41,7 +41,7 @@ describe('splitSurfaces', () => {
     }
   });
 
-  it('splitSurfaces reports a vertical nose face as bluntNose (tie within 1e-9 chords)', () => {
+  it('splitSurfaces reports a vertical nose face as bluntNose (an edge within 1e-9 rad of vertical)', () => {
     const s = splitSurfaces([[0, -0.1], [1, 0], [0, 0.1]]);
     expect(s.bluntNose).toEqual([0, 2]);
     expect(s.noseIndex).toBe(0); // the tied vertex of least y
@@ -245,19 +245,28 @@ describe('thin-airfoil theories', () => {
 describe('maxThicknessRatio', () => {
   it('maxThicknessRatio of a diamond t/c = 0.1 is 0.1; of a lens it is the thickness at the widest point', () => {
     const s = splitSurfaces(diamond(0.1, 0.3));
-    expectClose(maxThicknessRatio(s.upper, s.lower, s.chord), 0.1, 1e-15);
+    expectClose(maxThicknessRatio(s.upper, s.lower), 0.1, 1e-15);
     const l = splitSurfaces(lens(20, 0.06, 0.02));
-    expectClose(maxThicknessRatio(l.upper, l.lower, l.chord), 0.06, 1e-12);
+    expectClose(maxThicknessRatio(l.upper, l.lower), 0.06, 1e-12);
   });
 
   it('maxThicknessRatio interpolates the other surface between its vertices', () => {
     // Upper vertex at x 0.25, lower at 0.75: at x 0.25 the lower surface is at −0.05·0.25/0.75.
     const s = splitSurfaces([[0, 0], [0.25, 0.1], [1, 0], [0.75, -0.05]]);
-    expectClose(maxThicknessRatio(s.upper, s.lower, 1), 0.1 + 0.05 / 3, 1e-15);
+    expectClose(maxThicknessRatio(s.upper, s.lower), 0.1 + 0.05 / 3, 1e-15);
   });
 
-  it('maxThicknessRatio of a section whose surface doubles back uses the vertical extent at each vertex', () => {
+  it('maxThicknessRatio is measured normal to the chord line: a 4 % double wedge drawn nose-down 5.7° is 4 % thick', () => {
+    // Rotating the section about its nose rotates the chord line with it; vertical extent over
+    // max x − min x would read (0.04·cos r + sin r)/cos r ≈ 14 % here.
+    const r = (5.7 * Math.PI) / 180;
+    const rot = (p: [number, number]): [number, number] => [p[0] * Math.cos(r) + p[1] * Math.sin(r), -p[0] * Math.sin(r) + p[1] * Math.cos(r)];
+    const s = splitSurfaces(diamond(0.04).map(rot));
+    expectClose(maxThicknessRatio(s.upper, s.lower), 0.04, 1e-15);
+  });
+
+  it('maxThicknessRatio of a section whose surface doubles back uses the extent at each vertex', () => {
     const s = splitSurfaces([[0, 0], [0.6, 0.1], [0.4, 0.2], [1, 0], [0.5, -0.1]]);
-    expectClose(maxThicknessRatio(s.upper, s.lower, 1), 0.2 + 0.1 * (0.4 / 0.5), 1e-12);
+    expectClose(maxThicknessRatio(s.upper, s.lower), 0.2 + 0.1 * (0.4 / 0.5), 1e-12);
   });
 });

@@ -75,7 +75,7 @@ export const reviewRequestSchema = z.object({
   message: z.string().trim().max(2000, 'must be at most 2000 characters').default(''),
 });
 
-export const importSectionSchema = z.object({
+export const importSectionSchema = z.strictObject({
   points: z.array(pointSchema).min(3, 'a section needs at least 3 vertices').max(2000, 'at most 2000 vertices'),
   /** The file's name, kept in the activity feed and the automatic snapshot's name. */
   fileName: z.string().trim().max(200).default('coordinates file'),

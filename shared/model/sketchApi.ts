@@ -34,15 +34,15 @@ export const sketchSchema = z.object({
 });
 export type Sketch = z.infer<typeof sketchSchema>;
 
-export const createSketchSchema = z.object({
+export const createSketchSchema = z.strictObject({
   title: sketchTitleSchema,
   document: sketchDocumentSchema.optional(),
 });
 export type CreateSketch = z.infer<typeof createSketchSchema>;
 
-export const renameSketchSchema = z.object({ title: sketchTitleSchema });
+export const renameSketchSchema = z.strictObject({ title: sketchTitleSchema });
 
-export const saveDocumentSchema = z.object({
+export const saveDocumentSchema = z.strictObject({
   document: sketchDocumentSchema,
   /** The revision the client edited; a mismatch is a 409 so no one overwrites unseen edits. */
   baseRevision: z.number().int().min(0),

@@ -5,13 +5,22 @@ import { allCollinear, findRepeatedPoint, findSelfIntersection, signedArea } fro
 /**
  * The solve input, shared by the API route, the CLI and the browser worker.
  *
- * `{ section: { points: [[x,y],...] }, flow: { mach, alphaDeg, gamma? = 1.4 },
- *    reference?: { momentPoint?: [x,y] }, options?: { fieldExtentChords? = 1.5, waves? = true } }`
+ * `{ name?: text, section: { points: [[x,y],...] }, flow: { mach, alphaDeg, gamma? = 1.4 },
+ *    reference?: { momentPoint?: [x,y], chord?: c, leadingEdge?: [x,y] },
+ *    options?: { fieldExtentChords? = 1.5, waves? = true } }`
  *
  * Rules: 3 to 2000 finite points forming a simple polygon (no repeated point — closer than a
  * billionth of the section's size counts as repeated —, no self-intersection, non-zero area);
- * 1 < mach ≤ 50; |alphaDeg| < 90; 1 < gamma ≤ 5/3; 0 < fieldExtentChords ≤ 100. Every message
- * names the field and says what is wrong.
+ * 1 < mach ≤ 50; |alphaDeg| < 90; 1 < gamma ≤ 5/3; 0 < fieldExtentChords ≤ 100; chord > 0.
+ * Every object refuses keys it does not know, by name (`flow has an unknown key "gama"`), so a
+ * misspelt field is never silently replaced by its default. Every message names the field and
+ * says what is wrong.
+ *
+ * `reference` sets what the coefficients are referred to: the chord (default: the outline's
+ * max x − min x), the leading edge x/c is measured from (default: the outline's nose) and the
+ * moment point (default: a quarter of the reference chord aft of the leading edge, on its y).
+ * A section with a deflected flap is solved on its deflected outline but referred to the section
+ * as drawn, so its coefficients do not change with the flap's projected chord.
  */
 
 /**
@@ -29,6 +38,26 @@ export const GAMMA_MAX = 5 / 3;
 export const FIELD_EXTENT_CHORDS_MAX = 100;
 
 const fmt = (v: unknown): string => (typeof v === 'number' ? String(v) : JSON.stringify(v) ?? String(v));
+
+/**
+ * A zod object that refuses unknown keys with a sentence naming them and the keys it knows;
+ * `shapeMessage` answers a value that is not an object at all.
+ */
+function strictObject<T extends z.ZodRawShape>(field: string, shape: T, shapeMessage: (input: unknown) => string) {
+  const known = Object.keys(shape);
+  return z.strictObject(shape, {
+    error: (iss) =>
+      iss.code === 'unrecognized_keys'
+        ? unknownKeysMessage(field, iss.keys, known)
+        : shapeMessage(iss.input),
+  });
+}
+
+/** `flow has an unknown key "gama" (it takes mach, alphaDeg, gamma).` */
+export function unknownKeysMessage(field: string, keys: readonly string[], known: readonly string[]): string {
+  const list = keys.map((k) => JSON.stringify(k)).join(', ');
+  return `${field} has ${keys.length === 1 ? 'an unknown key' : 'unknown keys'} ${list} (it takes ${known.join(', ')}).`;
+}
 
 const finite = (field: string) =>
   z.number({
@@ -130,18 +159,21 @@ const pointsSchema = z
     return out;
   });
 
-export const solveInputSchema = z.object(
+export const solveInputSchema = strictObject(
+  'The solve input',
   {
-    section: z.object(
-      { points: pointsSchema },
-      {
-        error: (iss) =>
-          iss.input === undefined
-            ? 'section is missing: give { "points": [[x, y], ...] }.'
-            : 'section must be an object { "points": [[x, y], ...] }.',
-      },
+    /** A label for the case (batch files carry one); the solver ignores it. */
+    name: z
+      .string({ error: (iss) => `name must be text; got ${fmt(iss.input)}.` })
+      .max(500, { error: 'name must be at most 500 characters.' })
+      .optional(),
+    section: strictObject('section', { points: pointsSchema }, (input) =>
+      input === undefined
+        ? 'section is missing: give { "points": [[x, y], ...] }.'
+        : 'section must be an object { "points": [[x, y], ...] }.',
     ),
-    flow: z.object(
+    flow: strictObject(
+      'flow',
       {
         mach: finite('flow.mach')
           .gt(1, { error: (iss) => `flow.mach must be above 1 (supersonic); got ${fmt(iss.input)}.` })
@@ -160,21 +192,24 @@ export const solveInputSchema = z.object(
           })
           .default(GAMMA_AIR),
       },
-      {
-        error: (iss) =>
-          iss.input === undefined
-            ? 'flow is missing: give { "mach": M, "alphaDeg": a }.'
-            : 'flow must be an object { "mach": M, "alphaDeg": a, "gamma": g }.',
-      },
+      (input) =>
+        input === undefined
+          ? 'flow is missing: give { "mach": M, "alphaDeg": a }.'
+          : 'flow must be an object { "mach": M, "alphaDeg": a, "gamma": g }.',
     ),
-    reference: z
-      .object(
-        { momentPoint: pointSchema('reference.momentPoint').optional() },
-        { error: () => 'reference must be an object { "momentPoint": [x, y] }.' },
-      )
-      .optional(),
-    options: z
-      .object(
+    reference: strictObject(
+      'reference',
+      {
+        momentPoint: pointSchema('reference.momentPoint').optional(),
+        chord: finite('reference.chord')
+          .gt(0, { error: (iss) => `reference.chord must be a positive length; got ${fmt(iss.input)}.` })
+          .optional(),
+        leadingEdge: pointSchema('reference.leadingEdge').optional(),
+      },
+      () => 'reference must be an object { "momentPoint": [x, y], "chord": c, "leadingEdge": [x, y] }.',
+    ).optional(),
+    options: strictObject(
+        'options',
         {
           fieldExtentChords: finite('options.fieldExtentChords')
             .gt(0, {
@@ -189,13 +224,11 @@ export const solveInputSchema = z.object(
             .boolean({ error: (iss) => `options.waves must be true or false; got ${fmt(iss.input)}.` })
             .default(true),
         },
-        { error: () => 'options must be an object { "fieldExtentChords": n, "waves": true|false }.' },
+        () => 'options must be an object { "fieldExtentChords": n, "waves": true|false }.',
       )
       .prefault({}),
   },
-  {
-    error: () => 'The solve input must be a JSON object with "section" and "flow".',
-  },
+  () => 'The solve input must be a JSON object with "section" and "flow".',
 );
 
 /** What the caller sends (defaults optional). */

@@ -51,6 +51,7 @@ describe('solve CLI', () => {
     [['-'], '{not json', /^solve: stdin is not valid JSON \(.*\)\n$/],
     [['-'], '{"section":{"points":[[0,0],[1,0],[0.5,0.1]]},"flow":{"mach":0.8,"alphaDeg":0}}', /^solve: invalid case: flow\.mach must be above 1 \(supersonic\); got 0\.8\.\n$/],
     [[], undefined, /^solve: usage: /],
+    [['-'], '{"section":{"points":[[0,0],[1,0],[0.5,0.1]]},"flow":{"mach":2,"alphaDeg":0,"gama":1.3}}', /^solve: invalid case: flow has an unknown key "gama" \(it takes mach, alphaDeg, gamma\)\.\n$/],
   ])('exits 2 with a one-line message on stderr for %j', (args, stdin, message) => {
     const r = run(args, stdin);
     expect(r.code).toBe(2);

@@ -74,7 +74,7 @@ describe('parseCoordinates', () => {
 
 describe('exports', () => {
   const doc = defaultSketchDocument();
-  const parsed = parseSolveInput({ section: doc.section, flow: doc.condition });
+  const parsed = parseSolveInput({ section: doc.section, flow: { mach: doc.condition.mach, alphaDeg: doc.condition.alphaDeg, gamma: doc.condition.gamma } });
   if (!parsed.ok) throw new Error('demo does not parse');
   const result = solveSection(parsed.value);
 

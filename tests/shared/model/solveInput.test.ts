@@ -135,6 +135,26 @@ describe('parseSolveInput', () => {
     expect(ref[0].path).toMatch(/^reference\.momentPoint/);
   });
 
+  it('parseSolveInput refuses an unknown key at every level by name, so a misspelt field never falls back to its default', () => {
+    const base = { section: { points: diamond }, flow: { mach: 2, alphaDeg: 1 } };
+    const flow = issuesOf({ ...base, flow: { mach: 2, alphaDeg: 1, gama: 1.3 } });
+    expect(flow).toEqual([{ path: 'flow', message: 'flow has an unknown key "gama" (it takes mach, alphaDeg, gamma).' }]);
+    expect(issuesOf({ ...base, flows: {} })[0].message).toBe('The solve input has an unknown key "flows" (it takes name, section, flow, reference, options).');
+    expect(issuesOf({ ...base, section: { points: diamond, closed: true } })[0].message).toMatch(/^section has an unknown key "closed"/);
+    expect(issuesOf({ ...base, reference: { chrod: 2 } })[0].message).toMatch(/^reference has an unknown key "chrod" \(it takes momentPoint, chord, leadingEdge\)/);
+    expect(issuesOf({ ...base, options: { wave: false } })[0].message).toMatch(/^options has an unknown key "wave"/);
+    expect(issuesOf({ ...base, flow: { mach: 2, alphaDeg: 1, gama: 1.3, machNumber: 2 } })[0].message).toMatch(/unknown keys "gama", "machNumber"/);
+  });
+
+  it('parseSolveInput takes a reference chord and leading edge, and refuses a non-positive chord', () => {
+    const r = parseSolveInput({ section: { points: diamond }, flow: { mach: 2, alphaDeg: 1 }, reference: { chord: 1.2, leadingEdge: [0, 0] } });
+    expect(r.ok && r.value.reference).toEqual({ chord: 1.2, leadingEdge: [0, 0] });
+    expect(issuesOf({ section: { points: diamond }, flow: { mach: 2, alphaDeg: 1 }, reference: { chord: 0 } })[0]).toEqual({
+      path: 'reference.chord',
+      message: 'reference.chord must be a positive length; got 0.',
+    });
+  });
+
   it('formatPath writes array indices in brackets', () => {
     expect(formatPath(['section', 'points', 3])).toBe('section.points[3]');
     expect(formatPath(['flow', 'mach'])).toBe('flow.mach');

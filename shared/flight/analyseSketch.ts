@@ -20,6 +20,10 @@ export interface SketchAnalysis {
   result: SolveResult | null;
   /** The section the solver saw (the drawn one, or with the flap deflected). */
   solvedPoints: Point[];
+  /**
+   * Flap: hinge, deflection, flap chord over the drawn chord (c_f/c, independent of δ) and hinge
+   * moments ch = H/(q∞·c_f²) about the hinge, positive trailing edge down.
+   */
   flap: { hinge: Point; hingeXOverC: number; deflectionDeg: number; flapChordOverC: number; hingeMoment: HingeMoments } | null;
   loads: LoadsResult | null;
   /** Why there are no loads (no altitude given, or the exact result is not valid). */
@@ -34,6 +38,7 @@ export interface AnalyseOptions {
   flapDeg?: number | null;
   altitudeM?: number | null;
   friction?: FrictionRegime | 'none';
+  transitionReynolds?: number;
 }
 
 export function analyseSketch(doc: SketchDocument, options: AnalyseOptions = {}): SketchAnalysis {
@@ -74,10 +79,16 @@ export function prepareSketch(doc: SketchDocument, options: AnalyseOptions = {})
     if (!deflected.ok) return fail(deflected.reason);
     points = deflected.points;
   }
+  // Coefficients are referred to the section as drawn (its chord, nose and moment point), never
+  // to the deflected outline, whose chord shrinks with the flap's deflection.
+  const reference = {
+    ...(doc.momentPoint ? { momentPoint: doc.momentPoint } : {}),
+    ...(deflected?.ok ? { chord: deflected.drawn.chord, leadingEdge: deflected.drawn.leadingEdge } : {}),
+  };
   const parsed = parseSolveInput({
     section: { points },
     flow: { mach, alphaDeg, gamma: doc.condition.gamma },
-    ...(doc.momentPoint ? { reference: { momentPoint: doc.momentPoint } } : {}),
+    ...(Object.keys(reference).length ? { reference } : {}),
     options: { waves: options.waves ?? true },
   });
   if (!parsed.ok) return fail(parsed.issues.map((i) => `${i.path}: ${i.message}`).join('; '));
@@ -113,7 +124,7 @@ export function analysePrepared(prepared: PreparedSketch, options: AnalyseOption
       hinge: deflected.hinge,
       hingeXOverC: flapDef.hingeXOverC,
       deflectionDeg: flapDef.deflectionDeg,
-      flapChordOverC: deflected.flapChord / (result.geometry.chord || 1),
+      flapChordOverC: deflected.flapChord / deflected.drawn.chord,
       hingeMoment: hingeMoments(deflected, [...result.surfaces.upper, ...result.surfaces.lower]),
     };
   }
@@ -125,7 +136,7 @@ export function analysePrepared(prepared: PreparedSketch, options: AnalyseOption
   } else if (!result.coefficients) {
     loadsNote = `No loads: the exact result is not valid (${result.status}).`;
   } else {
-    const chord = result.geometry.chord;
+    const chord = result.geometry.reference.chord;
     const wetted = (facets: SolveResult['surfaces']['upper']) => facets.reduce((s, f) => s + f.length, 0) / chord;
     const answer = computeLoads({
       mach,
@@ -136,6 +147,7 @@ export function analysePrepared(prepared: PreparedSketch, options: AnalyseOption
       wettedUpperOverC: wetted(result.surfaces.upper),
       wettedLowerOverC: wetted(result.surfaces.lower),
       frictionRegime: options.friction ?? doc.loads.friction,
+      transitionReynolds: options.transitionReynolds ?? doc.loads.transitionReynolds,
       coefficients: result.coefficients,
       hinge: flap && flap.hingeMoment.exact !== null ? { ch: flap.hingeMoment.exact, flapChordOverC: flap.flapChordOverC } : null,
     });

@@ -26,6 +26,8 @@ export type DeflectedSection =
       hingeVertices: number[];
       /** Flap chord: tail x − hinge x of the undeflected section. */
       flapChord: number;
+      /** The section as drawn (undeflected): the reference of every coefficient and load. */
+      drawn: { chord: number; leadingEdge: Point };
     }
   | { ok: false; reason: string };
 
@@ -74,15 +76,29 @@ export function deflectFlap(section: readonly Point[], flap: FlapInput): Deflect
   if (problem) {
     return { ok: false, reason: `A flap deflection of ${flap.deflectionDeg}° folds the section: ${problem}. Use a smaller deflection or move the hinge.` };
   }
-  return { ok: true, points: moved, hinge, flapVertices, hingeVertices: onHinge, flapChord: maxX - xh };
+  // The drawn nose: least x, least y among exact ties (the solver's own choice of nose).
+  let nose = 0;
+  for (let i = 1; i < section.length; i++) {
+    const p = section[i];
+    if (p[0] < section[nose][0] || (p[0] === section[nose][0] && p[1] < section[nose][1])) nose = i;
+  }
+  return {
+    ok: true,
+    points: moved,
+    hinge,
+    flapVertices,
+    hingeVertices: onHinge,
+    flapChord: maxX - xh,
+    drawn: { chord, leadingEdge: [section[nose][0], section[nose][1]] },
+  };
 }
 
 export interface FacetPressures {
   /** Input edge index (edge i runs points[i] → points[i+1]). */
   index: number;
   cp: number | null;
-  cpLinear: number;
-  cpSecondOrder: number;
+  cpLinear: number | null;
+  cpSecondOrder: number | null;
 }
 
 /** Per deflected section, computed once: studies call hingeMoments thousands of times with it. */
@@ -99,12 +115,14 @@ function flapGeometry(deflected: Extract<DeflectedSection, { ok: true }>) {
 export interface HingeMoments {
   /** Exact (shock-expansion); null when some flap facet was not solved. */
   exact: number | null;
-  linear: number;
-  secondOrder: number;
+  /** Null when the theory gives no Cp (a blunt section). */
+  linear: number | null;
+  secondOrder: number | null;
 }
 
 /**
- * Hinge-moment coefficient ch = H / (q∞·c_f²) about the hinge, per unit span, from the facet
+ * Hinge-moment coefficient ch = H / (q∞·c_f²) about the hinge, per unit span, with c_f the flap
+ * chord of the section as drawn (tail x − hinge x, undeflected), from the facet
  * pressures of the deflected section: each flap facet's force −Cp·n_out·length acts at its
  * midpoint. Sign: positive when the moment tends to deflect the trailing edge further down
  * (increase δ) — so a flap deflected into the stream usually shows a negative, restoring ch
@@ -116,6 +134,7 @@ export function hingeMoments(deflected: Extract<DeflectedSection, { ok: true }>,
   const { onFlap, ccw } = flapGeometry(deflected);
   const sums = { exact: 0, linear: 0, secondOrder: 0 };
   let exactValid = true;
+  let theoriesValid = true;
   for (const f of facets) {
     const a = pts[f.index];
     const b = pts[(f.index + 1) % n];
@@ -132,9 +151,16 @@ export function hingeMoments(deflected: Extract<DeflectedSection, { ok: true }>,
     const arm = rx * ny - ry * nx;
     if (f.cp === null) exactValid = false;
     else sums.exact += f.cp * arm;
-    sums.linear += f.cpLinear * arm;
-    sums.secondOrder += f.cpSecondOrder * arm;
+    if (f.cpLinear === null || f.cpSecondOrder === null) theoriesValid = false;
+    else {
+      sums.linear += f.cpLinear * arm;
+      sums.secondOrder += f.cpSecondOrder * arm;
+    }
   }
   const cf2 = deflected.flapChord * deflected.flapChord;
-  return { exact: exactValid ? sums.exact / cf2 : null, linear: sums.linear / cf2, secondOrder: sums.secondOrder / cf2 };
+  return {
+    exact: exactValid ? sums.exact / cf2 : null,
+    linear: theoriesValid ? sums.linear / cf2 : null,
+    secondOrder: theoriesValid ? sums.secondOrder / cf2 : null,
+  };
 }

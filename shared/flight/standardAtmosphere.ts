@@ -18,6 +18,8 @@ const R_STAR = 8314.32; // J/(kmol·K), the standard's gas constant
 const M0 = 28.9644; // kg/kmol, sea-level mean molecular weight
 const R0 = 6_356_766; // m, effective earth radius for geopotential
 const GAMMA = 1.4;
+/** Gas constant of air, R* over M0 = 287.0531 J/(kg·K) (the standard's R* and M0). */
+export const GAS_CONSTANT_AIR_J_KG_K = R_STAR / M0;
 const SUTHERLAND_BETA = 1.458e-6; // kg/(s·m·K^½)
 const SUTHERLAND_S = 110.4; // K
 
@@ -71,6 +73,9 @@ export interface AtmosphereState {
   geopotentialM: number;
   /** Kinetic temperature, K. */
   temperatureK: number;
+  /** Molecular-scale temperature T_M = T·M0/M, K: equal to T below 80 km; the standard's ρ and a
+   *  use it (eq. 42, eq. 50). */
+  molecularTemperatureK: number;
   pressurePa: number;
   densityKgM3: number;
   speedOfSoundMS: number;
@@ -104,6 +109,7 @@ export function standardAtmosphere(altitudeM: number): AtmosphereState | null {
     altitudeM,
     geopotentialM: h,
     temperatureK: t,
+    molecularTemperatureK: tM,
     pressurePa: p,
     densityKgM3: rho,
     speedOfSoundMS: Math.sqrt((GAMMA * R_STAR * tM) / M0),

@@ -13,6 +13,7 @@ import {
   type StudyStatus,
 } from '../model/study.ts';
 import { maxDeflection } from '../solver/maxDeflection.ts';
+import { TRANSITION_REYNOLDS_DEFAULT } from './skinFriction.ts';
 import { analysePrepared, prepareSketch, type PreparedSketch, type SketchAnalysis } from './analyseSketch.ts';
 
 /**
@@ -30,6 +31,7 @@ export interface StudyPlan {
   flapsDeg: (number | null)[];
   altitudeM: number | null;
   friction: StudyDefinition['friction'];
+  transitionReynolds: number;
   total: number;
 }
 
@@ -42,7 +44,7 @@ export function planStudy(doc: SketchDocument, def: StudyDefinition): PlanAnswer
   const total = machs.length * alphasDeg.length * flapsDeg.length;
   if (total === 0) return { ok: false, reason: 'The study has no points: check the Mach and α ranges.' };
   if (total > STUDY_MAX_POINTS) return { ok: false, reason: `The study has ${total} points; at most ${STUDY_MAX_POINTS} are allowed.` };
-  return { ok: true, plan: { machs, alphasDeg, flapsDeg, altitudeM: def.altitudeM, friction: def.friction, total } };
+  return { ok: true, plan: { machs, alphasDeg, flapsDeg, altitudeM: def.altitudeM, friction: def.friction, transitionReynolds: def.transitionReynolds ?? TRANSITION_REYNOLDS_DEFAULT, total } };
 }
 
 /** The row a single analysis gives for one point (also what tests compare against). */
@@ -113,7 +115,7 @@ export function startStudy(doc: SketchDocument, plan: StudyPlan): StudyRun {
         const m = Math.floor((i % perFlap) / alphasDeg.length);
         const a = i % alphasDeg.length;
         const flapDeg = flapsDeg[f];
-        const options = { waves: false, mach: machs[m], alphaDeg: alphasDeg[a], flapDeg, altitudeM: plan.altitudeM, friction: plan.friction };
+        const options = { waves: false, mach: machs[m], alphaDeg: alphasDeg[a], flapDeg, altitudeM: plan.altitudeM, friction: plan.friction, transitionReynolds: plan.transitionReynolds };
         if (preparedFor !== f) {
           prepared = prepareSketch(doc, options);
           preparedFor = f;
@@ -136,6 +138,7 @@ export function startStudy(doc: SketchDocument, plan: StudyPlan): StudyRun {
         flapsDeg,
         altitudeM: plan.altitudeM,
         friction: plan.friction,
+        transitionReynolds: plan.transitionReynolds,
         columns: STUDY_COLUMNS,
         rows: packStudyRows(rows),
         summaries: summarise(rows, plan, noseFacets, doc.condition.gamma),

@@ -8,7 +8,7 @@ import { z } from 'zod';
 export const pointSchema = z.tuple([z.number().finite(), z.number().finite()]);
 export type Point = z.infer<typeof pointSchema>;
 
-export const conditionSchema = z.object({
+export const conditionSchema = z.strictObject({
   mach: z.number({ error: 'must be a number' }).gt(1, 'must be above 1 (supersonic)').lte(50, 'must be at most 50'),
   alphaDeg: z.number({ error: 'must be a number' }).gt(-90, 'must be above −90°').lt(90, 'must be below 90°'),
   gamma: z.number({ error: 'must be a number' }).gt(1, 'must be above 1').lte(5 / 3, 'must be at most 5/3').default(1.4),
@@ -17,7 +17,7 @@ export const conditionSchema = z.object({
 });
 export type Condition = z.infer<typeof conditionSchema>;
 
-export const flapSchema = z.object({
+export const flapSchema = z.strictObject({
   /** Hinge position as a fraction of chord from the nose. */
   hingeXOverC: z.number().gt(0, 'must be inside the chord').lt(1, 'must be inside the chord'),
   /** Positive = trailing edge down. */
@@ -25,20 +25,39 @@ export const flapSchema = z.object({
 });
 export type Flap = z.infer<typeof flapSchema>;
 
-/** The physical section for dimensional loads and friction (issue-free defaults: 1 m by 1 m, turbulent). */
-export const loadsSettingsSchema = z.object({
-  /** Physical chord, m. */
+/** Friction regimes of the loads settings and studies ('none': wave drag only). */
+export const FRICTION_SETTINGS = ['mixed', 'turbulent', 'laminar', 'none'] as const;
+
+/** Transition Reynolds number accepted for mixed flow. */
+export const TRANSITION_REYNOLDS_MIN = 1e3;
+export const TRANSITION_REYNOLDS_MAX = 1e8;
+export const transitionReynoldsSchema = z
+  .number({ error: 'must be a number' })
+  .min(TRANSITION_REYNOLDS_MIN, 'must be at least 1000')
+  .max(TRANSITION_REYNOLDS_MAX, 'must be at most 1e8');
+
+/** The physical section for dimensional loads and friction (defaults: 1 m by 1 m, turbulent). */
+export const loadsSettingsSchema = z.strictObject({
+  /** Physical chord of the section as drawn, m: the length of the reference chord. */
   chordM: z.number().gt(0, 'must be a positive length').max(1000, 'must be at most 1000 m').default(1),
   /** Span the section load acts over, m. */
   spanM: z.number().gt(0, 'must be a positive length').max(1000, 'must be at most 1000 m').default(1),
   /** Boundary-layer state for the friction estimate. */
-  friction: z.enum(['turbulent', 'laminar', 'none']).default('turbulent'),
+  friction: z.enum(FRICTION_SETTINGS).default('turbulent'),
+  /** Where a mixed boundary layer turns turbulent (Reynolds number on the length, free stream);
+   *  absent = 5×10⁵. */
+  transitionReynolds: transitionReynoldsSchema.optional(),
 });
 export type LoadsSettings = z.infer<typeof loadsSettingsSchema>;
 
-export const sketchDocumentSchema = z.object({
+/**
+ * Every object of the document refuses keys it does not know (zod strict objects): an imported
+ * or saved document with a misspelt field ("gama") is refused with the key's name instead of
+ * being solved with the default.
+ */
+export const sketchDocumentSchema = z.strictObject({
   version: z.literal(1),
-  section: z.object({ points: z.array(pointSchema).min(3, 'a section needs at least 3 vertices').max(2000, 'at most 2000 vertices') }),
+  section: z.strictObject({ points: z.array(pointSchema).min(3, 'a section needs at least 3 vertices').max(2000, 'at most 2000 vertices') }),
   condition: conditionSchema,
   flap: flapSchema.nullable().default(null),
   /** Moment reference point in body axes; null = quarter chord on the nose's y. */

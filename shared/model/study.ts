@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { isIdOf } from './ids.ts';
+import { FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
 
 /**
  * A study: a sweep of one sketch over Mach × α × flap deflection at one altitude and friction
@@ -26,24 +27,24 @@ const mach = z.number({ error: 'must be a number' }).gt(1, 'must be above 1 (sup
 const alpha = z.number({ error: 'must be a number' }).gt(-90, 'must be above −90°').lt(90, 'must be below 90°');
 
 export const machSpecSchema = z.discriminatedUnion('kind', [
-  z.object({
+  z.strictObject({
     kind: z.literal('list'),
     values: z.array(mach).min(1, 'give at least one Mach number').max(STUDY_MAX_MACH_VALUES, `at most ${STUDY_MAX_MACH_VALUES} Mach numbers`),
   }),
-  z.object({ kind: z.literal('range'), start: mach, end: mach, step: z.number({ error: 'must be a number' }).gt(0, 'must be above 0') }),
+  z.strictObject({ kind: z.literal('range'), start: mach, end: mach, step: z.number({ error: 'must be a number' }).gt(0, 'must be above 0') }),
 ]);
 export type MachSpec = z.infer<typeof machSpecSchema>;
 
-export const alphaRangeSchema = z.object({
+export const alphaRangeSchema = z.strictObject({
   startDeg: alpha,
   endDeg: alpha,
   stepDeg: z.number({ error: 'must be a number' }).gt(0, 'must be above 0'),
 });
 export type AlphaRange = z.infer<typeof alphaRangeSchema>;
 
-export const studyFrictionSchema = z.enum(['turbulent', 'laminar', 'none']);
+export const studyFrictionSchema = z.enum(FRICTION_SETTINGS);
 
-const definitionObject = z.object({
+const definitionObject = z.strictObject({
   mach: machSpecSchema,
   alpha: alphaRangeSchema,
   /** Flap deflections, degrees, trailing edge down positive; ignored when the sketch has no flap,
@@ -55,6 +56,8 @@ const definitionObject = z.object({
   /** Geometric altitude for friction drag (1976 standard atmosphere); null = wave drag only. */
   altitudeM: z.number({ error: 'must be a number' }).min(0, 'must be at least 0 m').max(86_000, 'must be at most 86 km').nullable().default(null),
   friction: studyFrictionSchema.default('turbulent'),
+  /** Transition Reynolds number for mixed friction; absent = 5×10⁵. */
+  transitionReynolds: transitionReynoldsSchema.optional(),
 });
 
 export const studyDefinitionSchema = definitionObject.superRefine((def, ctx) => {
@@ -165,7 +168,9 @@ export interface StudyResults {
   alphasDeg: number[];
   flapsDeg: (number | null)[];
   altitudeM: number | null;
-  friction: 'turbulent' | 'laminar' | 'none';
+  friction: (typeof FRICTION_SETTINGS)[number];
+  /** Transition Reynolds number of mixed friction (absent in results stored before it existed). */
+  transitionReynolds?: number;
   columns: typeof STUDY_COLUMNS;
   /** [ST3] packed rows, flap outermost, then Mach, then α (ascending). */
   rows: PackedRow[];
@@ -181,6 +186,7 @@ export const studyResultsSchema = z.object({
   flapsDeg: z.array(z.number().nullable()),
   altitudeM: z.number().nullable(),
   friction: studyFrictionSchema,
+  transitionReynolds: z.number().optional(),
   columns: z.array(z.string()),
   rows: z.array(z.array(cell)),
   summaries: z.array(
@@ -232,7 +238,7 @@ export function unpackStudyRows(results: Pick<StudyResults, 'columns' | 'rows'>)
 
 export const studyIdSchema = z.string().refine((s) => isIdOf('study', s), 'must be a study id');
 
-export const createStudySchema = z.object({
+export const createStudySchema = z.strictObject({
   name: z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
   definition: studyDefinitionSchema,
 });

@@ -50,10 +50,10 @@ describe('hingeMoments', () => {
     const result = solve(r.points, 2, 0);
     const ch = hingeMoments(r, [...result.surfaces.upper, ...result.surfaces.lower]);
     const delta = (5 * Math.PI) / 180;
-    expectCloseRel(ch.linear, (-2 * delta) / Math.sqrt(3), 0.02);
+    expectCloseRel(ch.linear!, (-2 * delta) / Math.sqrt(3), 0.02);
     // Restoring, and the exact theory gives a larger magnitude (shock side dominates).
     expect(ch.exact!).toBeLessThan(0);
-    expect(Math.abs(ch.exact!)).toBeGreaterThan(Math.abs(ch.linear) * 0.98);
+    expect(Math.abs(ch.exact!)).toBeGreaterThan(Math.abs(ch.linear!) * 0.98);
   });
 
   it('a symmetric section with its flap undeflected at α = 0 has no hinge moment', () => {
@@ -62,7 +62,7 @@ describe('hingeMoments', () => {
     const result = solve(r.points, 2.5, 0);
     const ch = hingeMoments(r, [...result.surfaces.upper, ...result.surfaces.lower]);
     expectClose(ch.exact!, 0, 1e-12);
-    expectClose(ch.linear, 0, 1e-12);
+    expectClose(ch.linear!, 0, 1e-12);
   });
 
   it('deflecting the flap down raises the lift (more cl than the clean section)', () => {

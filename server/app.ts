@@ -2,7 +2,7 @@ import { existsSync } from 'node:fs';
 import { EventEmitter } from 'node:events';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import express, { type Express, type RequestHandler } from 'express';
+import express, { type Express, type Request, type RequestHandler } from 'express';
 import helmet from 'helmet';
 import morgan from 'morgan';
 import type { Env } from './env.ts';
@@ -19,7 +19,7 @@ import { studiesRouter } from './api/studies/router.ts';
 import { reportsRouter } from './api/reports/router.ts';
 import { preferencesRouter } from './api/preferences/router.ts';
 import { csrfGuard } from './http/csrf.ts';
-import { clientKey, createLimiter } from './http/rateLimit.ts';
+import { clientKey, createDeviceKeys, createLimiter } from './http/rateLimit.ts';
 import { requireUser } from './auth/guards.ts';
 import { createMailer, type Mailer } from './mail/mailer.ts';
 import type { AppContext } from './context.ts';
@@ -43,15 +43,19 @@ export interface AppDeps {
 }
 
 export interface RateLimits {
-  /** Failed sign-ins per address and e-mail per 15 minutes. */
+  /** Failed sign-ins per account and device (or, without a device cookie, address) per 15 minutes. */
   signInFailures: number;
-  /** Reset requests/confirmations per address per hour. */
+  /** Failed sign-ins per address over all accounts per 15 minutes (devices known to an account are exempt). */
+  signInFailuresPerAddress: number;
+  /** Sign-ups per address per hour. */
+  signUps: number;
+  /** Reset requests per address per hour (confirming a valid link is never limited). */
   resets: number;
   /** Invitations per inviting user per hour. */
   invites: number;
 }
 
-export const DEFAULT_LIMITS: RateLimits = { signInFailures: 10, resets: 10, invites: 50 };
+export const DEFAULT_LIMITS: RateLimits = { signInFailures: 10, signInFailuresPerAddress: 100, signUps: 10, resets: 10, invites: 50 };
 
 export interface BuiltApp {
   app: Express;
@@ -74,7 +78,9 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
   const log = redactingLog(rawLog);
   const app = express();
   app.disable('x-powered-by');
-  if (env.TRUST_PROXY) app.set('trust proxy', 1);
+  // X-Forwarded-* is believed only from the proxies TRUST_PROXY names; req.ip, req.host and
+  // req.secure follow from it, and the socket handshake uses the same rule (http/forwarded.ts).
+  app.set('trust proxy', env.TRUST_PROXY);
 
   app.use(
     helmet({
@@ -91,8 +97,14 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
           'upgrade-insecure-requests': null,
         },
       },
+      // HSTS only means something over TLS; sent below for secure requests only.
+      strictTransportSecurity: false,
     }),
   );
+  app.use((req, res, next) => {
+    if (req.secure) res.setHeader('Strict-Transport-Security', 'max-age=31536000; includeSubDomains');
+    next();
+  });
 
   const logRequests = env.LOG_REQUESTS ?? env.NODE_ENV !== 'test';
   if (logRequests) {
@@ -107,6 +119,11 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
   const session = createSession(database.pool, env.SESSION_SECRET);
   const passport = createPassport(database.db);
   const passportMiddleware = [passport.initialize(), passport.session()];
+  // API answers are about one person and must not be kept by browsers or shared caches.
+  app.use('/api', (_req, res, next) => {
+    res.setHeader('Cache-Control', 'private, no-store');
+    next();
+  });
   app.use('/api', csrfGuard, session.middleware, ...passportMiddleware);
 
   const ownMailer = mailer ?? createMailer(env.SMTP_URL, env.MAIL_FROM, log);
@@ -116,25 +133,44 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
     publicUrl: () => (env.PUBLIC_URL ?? publicUrl?.() ?? `http://${env.HOST}:${env.PORT}`).replace(/\/$/, ''),
     log,
     devPages: env.NODE_ENV !== 'production',
+    mailboxOperators: new Set(env.NODE_ENV === 'production' ? [] : env.MAILBOX_OPERATOR),
     events: new EventEmitter(),
     edits: createEditQueue(database.db),
   };
   const sizes = { ...DEFAULT_LIMITS, ...limits };
   const HOUR = 60 * 60 * 1000;
-  const signInLimit = createLimiter(database.db, {
-    name: 'sign-in',
-    windowMs: HOUR / 4,
-    limit: sizes.signInFailures,
-    what: 'failed sign-in attempts for this account from your address',
-    onlyFailures: true,
-    key: (req) => `${clientKey(req)}|${String(req.body?.email ?? '').trim().toLowerCase()}`,
-  });
+  const devices = createDeviceKeys(env.SESSION_SECRET);
+  const signInEmail = (req: Request) => String(req.body?.email ?? '').trim().toLowerCase();
+  const signInLimits = [
+    createLimiter(database.db, {
+      name: 'sign-in',
+      windowMs: HOUR / 4,
+      limit: sizes.signInFailures,
+      what: 'failed sign-in attempts for this account from here',
+      onlyFailures: true,
+      key: (req) => {
+        const email = signInEmail(req);
+        const device = devices.deviceOf(req, email);
+        return device ? `device:${device}|${email}` : `address:${clientKey(req)}|${email}`;
+      },
+    }),
+    createLimiter(database.db, {
+      name: 'sign-in-address',
+      windowMs: HOUR / 4,
+      limit: sizes.signInFailuresPerAddress,
+      what: 'failed sign-in attempts from your address',
+      onlyFailures: true,
+      key: clientKey,
+      skip: (req) => devices.deviceOf(req, signInEmail(req)) !== null,
+    }),
+  ];
+  const signUpLimit = createLimiter(database.db, { name: 'sign-up', windowMs: HOUR, limit: sizes.signUps, what: 'sign-ups from your address', key: clientKey });
   const resetLimit = createLimiter(database.db, { name: 'reset', windowMs: HOUR, limit: sizes.resets, what: 'password-reset requests from your address', key: clientKey });
   const inviteLimit = createLimiter(database.db, { name: 'invite', windowMs: HOUR, limit: sizes.invites, what: 'invitations sent', key: (req) => req.user?.id ?? clientKey(req) });
 
   // Public routes.
   app.use('/api/health', healthRouter(database.db, log));
-  app.use('/api/auth', authRouter(context, passport, { signIn: signInLimit, reset: resetLimit }));
+  app.use('/api/auth', authRouter(context, passport, { signIn: signInLimits, signUp: signUpLimit, reset: resetLimit, rememberDevice: devices.remember }));
   // Everything below needs a signed-in user; each service then checks the team role.
   app.use('/api/teams/:teamId/sketches', requireUser, teamSketchesRouter(context));
   app.use('/api/teams', requireUser, teamsRouter(context, { invite: inviteLimit }));

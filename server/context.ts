@@ -32,6 +32,8 @@ export interface AppContext {
   log(line: string): void;
   /** Whether developer-only pages (the mailbox) exist. */
   devPages: boolean;
+  /** Development only: accounts (lower-case e-mail) that may read every message in the mail sink. */
+  mailboxOperators: ReadonlySet<string>;
   events: EventEmitter<AppEvents>;
   /** Every edit to a sketch document goes through here (ordered, batched, logged). */
   edits: EditQueue;

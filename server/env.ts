@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import express from 'express';
 
 /**
  * The server's whole configuration, parsed once at boot. A bad value stops the process with a
@@ -27,11 +28,38 @@ const envSchema = z.object({
   PUBLIC_URL: z.url('must be an absolute URL such as http://127.0.0.1:3000').optional(),
   /** Serve the built client from this folder (relative to the repo root). */
   CLIENT_DIST: z.string().default('dist/client'),
-  /** Behind a TLS-terminating proxy: trust X-Forwarded-* so secure cookies work. */
+  /**
+   * Which proxy's X-Forwarded-* headers to believe (client address, host, https): `false` (none,
+   * the default), `true` (the one proxy in front), a number of proxies, or a comma-separated
+   * list of proxy addresses / subnets (`127.0.0.1`, `10.0.0.0/8`, `loopback`). Trusting a header
+   * nobody strips lets any client pick its address (and escape rate limits).
+   */
   TRUST_PROXY: z
-    .enum(['true', 'false', '0', '1'])
+    .string()
     .default('false')
-    .transform((v) => v === 'true' || v === '1'),
+    .transform((v, ctx): boolean | number | string[] => {
+      const t = v.trim();
+      if (t === 'false' || t === '0') return false;
+      if (t === 'true') return 1;
+      if (/^\d+$/.test(t)) return Number(t);
+      const list = t.split(',').map((s) => s.trim()).filter(Boolean);
+      try {
+        express().set('trust proxy', list);
+      } catch {
+        ctx.addIssue({ code: 'custom', message: 'must be true, false, a number of proxies, or a comma-separated list of proxy addresses or subnets' });
+        return z.NEVER;
+      }
+      return list;
+    }),
+  /**
+   * Development only: accounts (comma-separated e-mail addresses) that may read every message
+   * of the local mail sink. Everyone else reads only mail addressed to them. Refused in
+   * production, where the mailbox does not exist.
+   */
+  MAILBOX_OPERATOR: z
+    .string()
+    .optional()
+    .transform((v) => (v ?? '').split(',').map((s) => s.trim().toLowerCase()).filter(Boolean)),
   LOG_REQUESTS: z
     .enum(['true', 'false', '0', '1'])
     .optional()
@@ -40,11 +68,17 @@ const envSchema = z.object({
 
 export type Env = z.infer<typeof envSchema>;
 
+const checkedEnvSchema = envSchema.superRefine((env, ctx) => {
+  if (env.NODE_ENV === 'production' && env.MAILBOX_OPERATOR.length > 0) {
+    ctx.addIssue({ code: 'custom', path: ['MAILBOX_OPERATOR'], message: 'is for development only; production has no mailbox to read' });
+  }
+});
+
 export class EnvError extends Error {}
 
 /** Parses `source` (normally process.env); throws EnvError whose message is one line. */
 export function parseEnv(source: Record<string, string | undefined>): Env {
-  const result = envSchema.safeParse(source);
+  const result = checkedEnvSchema.safeParse(source);
   if (result.success) return result.data;
   const first = result.error.issues[0];
   const name = String(first.path[0] ?? 'environment');

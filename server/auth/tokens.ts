@@ -12,3 +12,4 @@ export function hashToken(token: string): string {
 
 export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
 export const PASSWORD_RESET_TTL_MS = 60 * 60 * 1000;
+export const SIGN_UP_TTL_MS = 24 * 60 * 60 * 1000;

@@ -4,6 +4,10 @@ import * as schema from './schema.ts';
 import { errorForLog } from '../log.ts';
 
 export type Db = NodePgDatabase<typeof schema>;
+/** A transaction handle (what `db.transaction` passes its callback). */
+export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
+/** Repositories that can join a caller's transaction take either. */
+export type DbOrTx = Db | Tx;
 
 export interface Database {
   pool: pg.Pool;

@@ -123,6 +123,29 @@ export const passwordResets = pgTable('password_resets', {
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
 });
 
+/**
+ * Sign-ups waiting for their address to be confirmed. Signing up answers the same whether or not
+ * the address has an account (no account discovery), so the account is created only when the
+ * link mailed to the address is followed. Only a SHA-256 of the token is stored; single use,
+ * valid SIGN_UP_TTL_MS.
+ */
+export const signUps = pgTable(
+  'sign_ups',
+  {
+    id: text('id').primaryKey(),
+    email: text('email').notNull(),
+    name: text('name').notNull(),
+    teamName: text('team_name').notNull(),
+    /** argon2id PHC string of the chosen password. */
+    passwordHash: text('password_hash').notNull(),
+    tokenHash: text('token_hash').notNull().unique(),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    usedAt: timestamp('used_at', { withTimezone: true }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('sign_ups_email_idx').on(t.email)],
+);
+
 /** Messages received by the development SMTP sink (server/mail/sink.ts). */
 export const mailMessages = pgTable(
   'mail_messages',

@@ -1,5 +1,6 @@
 import type { RequestHandler } from 'express';
 import { HttpError } from './errors.ts';
+import { requestHost, type TrustFn } from './forwarded.ts';
 
 export const CSRF_HEADER = 'x-shockwright-request';
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
@@ -24,7 +25,8 @@ export const csrfGuard: RequestHandler = (req, _res, next) => {
     } catch {
       return next(new HttpError(403, 'csrf', 'Request refused: malformed Origin header.'));
     }
-    const expected = req.get('x-forwarded-host') && req.app.get('trust proxy') ? req.get('x-forwarded-host') : req.get('host');
+    // X-Forwarded-Host counts only when it comes from a proxy TRUST_PROXY names.
+    const expected = requestHost(req, req.app.get('trust proxy fn') as TrustFn);
     if (host !== expected) {
       return next(new HttpError(403, 'csrf', `Request refused: it came from ${origin}, not from this site.`));
     }

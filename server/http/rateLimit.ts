@@ -1,7 +1,8 @@
+import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 import { rateLimit, ipKeyGenerator, type Options, type Store, type IncrementResponse } from 'express-rate-limit';
-import type { Request, RequestHandler } from 'express';
-import { sql } from 'drizzle-orm';
+import type { Request, RequestHandler, Response } from 'express';
 import type { Db } from '../db/client.ts';
+import { clearRateLimit, hitRateLimit, unhitRateLimit } from './repository.ts';
 
 /**
  * express-rate-limit store over the `rate_limits` table, so every server instance on the same
@@ -25,24 +26,16 @@ class PostgresRateLimitStore implements Store {
   }
 
   async increment(key: string): Promise<IncrementResponse> {
-    const k = this.prefix + key;
-    const windowMs = this.windowMs;
-    const { rows } = await this.db.execute<{ hits: number; reset_at: Date }>(sql`
-      insert into rate_limits (key, hits, reset_at)
-      values (${k}, 1, now() + make_interval(secs => ${windowMs / 1000}))
-      on conflict (key) do update set
-        hits = case when rate_limits.reset_at <= now() then 1 else rate_limits.hits + 1 end,
-        reset_at = case when rate_limits.reset_at <= now() then excluded.reset_at else rate_limits.reset_at end
-      returning hits, reset_at`);
-    return { totalHits: Number(rows[0].hits), resetTime: new Date(rows[0].reset_at) };
+    const { hits, resetAt } = await hitRateLimit(this.db, this.prefix + key, this.windowMs);
+    return { totalHits: hits, resetTime: resetAt };
   }
 
   async decrement(key: string): Promise<void> {
-    await this.db.execute(sql`update rate_limits set hits = greatest(hits - 1, 0) where key = ${this.prefix + key}`);
+    await unhitRateLimit(this.db, this.prefix + key);
   }
 
   async resetKey(key: string): Promise<void> {
-    await this.db.execute(sql`delete from rate_limits where key = ${this.prefix + key}`);
+    await clearRateLimit(this.db, this.prefix + key);
   }
 }
 
@@ -56,6 +49,8 @@ export interface LimitOptions {
   key: (req: Request) => string;
   /** Count only failed requests (status ≥ 400): right for sign-in. */
   onlyFailures?: boolean;
+  /** Requests this limiter leaves alone. */
+  skip?: (req: Request) => boolean;
 }
 
 function minutes(ms: number): string {
@@ -77,6 +72,7 @@ export function createLimiter(db: Db, options: LimitOptions): RequestHandler {
     skipSuccessfulRequests: options.onlyFailures ?? false,
     store: new PostgresRateLimitStore(db, `${options.name}:`),
     keyGenerator: (req) => options.key(req),
+    ...(options.skip ? { skip: options.skip } : {}),
     handler: (req, res) => {
       const info = (req as Request & { rateLimit?: { resetTime?: Date } }).rateLimit;
       const waitMs = info?.resetTime ? info.resetTime.getTime() - Date.now() : options.windowMs;
@@ -96,4 +92,51 @@ export function createLimiter(db: Db, options: LimitOptions): RequestHandler {
 /** Client address for limiter keys (IPv6 collapsed to its /56, as express-rate-limit advises). */
 export function clientKey(req: Request): string {
   return ipKeyGenerator(req.ip ?? 'unknown');
+}
+
+// ── Known devices: the right password keeps working through someone else's failures ─────────
+
+export const DEVICE_COOKIE = 'sw.device';
+const DEVICE_MAX_AGE_MS = 365 * 24 * 60 * 60 * 1000;
+
+/**
+ * Sign-in failures are counted per account *and* per device or address. A browser that has
+ * signed in to an account before carries a device cookie for it (a random nonce and an HMAC of
+ * nonce + account under the session secret, so it cannot be made up or moved to another
+ * account); its failures are counted on their own. Someone else failing on the account — even
+ * from the same address (an office behind one NAT) — cannot lock that browser out, while an
+ * attacker without the cookie is limited per address and account.
+ */
+export function createDeviceKeys(secret: string) {
+  const sign = (nonce: string, email: string) => createHmac('sha256', secret).update(`device|${nonce}|${email}`).digest('base64url');
+  return {
+    /** The nonce of a valid device cookie for `email`, or null. */
+    deviceOf(req: Request, email: string): string | null {
+      const raw = parseCookies(req.headers.cookie)[DEVICE_COOKIE];
+      const [nonce, mac] = (raw ?? '').split('.');
+      if (!nonce || !mac || !/^[A-Za-z0-9_-]{22}$/.test(nonce)) return null;
+      const expected = Buffer.from(sign(nonce, email));
+      const given = Buffer.from(mac);
+      return expected.length === given.length && timingSafeEqual(expected, given) ? nonce : null;
+    },
+    /** After a successful sign-in: this browser becomes a known device of `email`. */
+    remember(req: Request, res: Response, email: string): void {
+      const nonce = randomBytes(16).toString('base64url');
+      res.cookie(DEVICE_COOKIE, `${nonce}.${sign(nonce, email)}`, { httpOnly: true, sameSite: 'lax', secure: req.secure, maxAge: DEVICE_MAX_AGE_MS, path: '/api/auth' });
+    },
+  };
+}
+
+function parseCookies(header: string | undefined): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const part of (header ?? '').split(';')) {
+    const i = part.indexOf('=');
+    if (i <= 0) continue;
+    try {
+      out[part.slice(0, i).trim()] = decodeURIComponent(part.slice(i + 1).trim());
+    } catch {
+      // A malformed value is no device cookie.
+    }
+  }
+  return out;
 }

@@ -39,7 +39,10 @@ async function main(): Promise<void> {
       // on the development mailbox page.
       sink = await startMailSink(sinkDb.db, { port: Number(process.env.SMTP_SINK_PORT ?? 0) });
       env = parseEnv({ ...process.env, DATABASE_URL: env.DATABASE_URL, SESSION_SECRET: env.SESSION_SECRET, SMTP_URL: sink.url });
-      console.log(`Mail sink listening on ${sink.url}; messages appear on the developer mailbox page (/dev/mailbox).`);
+      console.log(`Mail sink listening on ${sink.url}; each person reads the mail sent to them on the Mailbox page (/dev/mailbox).`);
+      if (env.MAILBOX_OPERATOR.length === 0) {
+        console.log('  To read every message there (sign-up links of addresses without an account, say), set MAILBOX_OPERATOR=<your e-mail>.');
+      }
     }
 
     console.log('Building the client…');

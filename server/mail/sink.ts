@@ -2,8 +2,7 @@ import { SMTPServer } from 'smtp-server';
 import { simpleParser, type AddressObject } from 'mailparser';
 import type { AddressInfo } from 'node:net';
 import type { Db } from '../db/client.ts';
-import { mailMessages } from '../db/schema.ts';
-import { newId } from '../../shared/model/ids.ts';
+import { insertMessage } from '../api/mailbox/repository.ts';
 
 export interface MailSink {
   port: number;
@@ -20,8 +19,8 @@ function addresses(value: AddressObject | AddressObject[] | undefined): string[]
 
 /**
  * A local SMTP server (development and tests only) on 127.0.0.1 that accepts every message and
- * stores it in the mail_messages table, where the dev mailbox page reads it. No authentication,
- * no relaying: nothing it receives leaves the machine.
+ * stores it in the mail_messages table, where the dev mailbox page shows each person the mail
+ * addressed to them. No authentication, no relaying: nothing it receives leaves the machine.
  */
 export async function startMailSink(db: Db, options: { port?: number; log?: (l: string) => void } = {}): Promise<MailSink> {
   const log = options.log ?? (() => {});
@@ -39,8 +38,7 @@ export async function startMailSink(db: Db, options: { port?: number; log?: (l: 
           const raw = Buffer.concat(chunks);
           const parsed = await simpleParser(raw);
           const envelopeTo = session.envelope.rcptTo.map((r) => r.address);
-          await db.insert(mailMessages).values({
-            id: newId('mail'),
+          await insertMessage(db, {
             fromAddress: addresses(parsed.from)[0] ?? (session.envelope.mailFrom ? session.envelope.mailFrom.address : ''),
             toAddresses: envelopeTo.length ? envelopeTo : addresses(parsed.to),
             subject: parsed.subject ?? '',
@@ -48,7 +46,7 @@ export async function startMailSink(db: Db, options: { port?: number; log?: (l: 
             htmlBody: typeof parsed.html === 'string' ? parsed.html : null,
             raw: raw.toString('utf8'),
           });
-          log(`[mail sink] stored "${parsed.subject ?? ''}" for ${envelopeTo.join(', ')}`);
+          log(`[mail sink] stored a message for ${envelopeTo.length} recipient(s)`);
           callback();
         } catch (err) {
           callback(err as Error);

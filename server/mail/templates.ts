@@ -70,3 +70,29 @@ export function passwordResetMail(input: { name: string; url: string }): MailCon
 export function noticeMail(input: { subject: string; heading: string; paragraphs: string[]; action?: { label: string; url: string } }): MailContent {
   return render({ ...input, footnote: 'You receive this because you are a member of a Shockwright team.' });
 }
+
+export function confirmSignUpMail(input: { name: string; teamName: string; url: string }): MailContent {
+  return render({
+    subject: 'Confirm your address to finish signing up to Shockwright',
+    heading: 'One step left',
+    paragraphs: [
+      `Hello ${input.name}, someone (hopefully you) asked to create a Shockwright account with this address and a new team, ${input.teamName}.`,
+      'Follow the link to confirm the address; the account is created and you are signed in.',
+    ],
+    action: { label: 'Confirm and create the account', url: input.url },
+    footnote: 'The link works once and expires in 24 hours. If you did not ask for this, ignore this message; no account is created.',
+  });
+}
+
+/** Sent instead of a confirmation when the address already has an account (the sign-up form answers the same either way). */
+export function accountExistsMail(input: { name: string; signInUrl: string; resetUrl: string }): MailContent {
+  return render({
+    subject: 'Someone tried to sign up to Shockwright with your address',
+    heading: 'You already have an account',
+    paragraphs: [
+      `Hello ${input.name}, someone (perhaps you) tried to create a new Shockwright account with this address, which already has one. No new account was created and nothing about yours changed.`,
+      `To use your account, sign in at ${input.signInUrl}. If you forgot the password, choose a new one at ${input.resetUrl}.`,
+    ],
+    footnote: 'If this was not you, you can ignore this message.',
+  });
+}

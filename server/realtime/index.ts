@@ -26,6 +26,7 @@ import {
 import { editsSince } from './editLog.ts';
 import { ACCESS_RECHECK_MS, ACCESS_SWEEP_MS, checkSockets, judge, matches, type AccessFilter, type GuardedSocket, type RoomAccess, type Verdict } from './access.ts';
 import { checkAccess, findSketchState, roleInSketchTeam } from './repository.ts';
+import { originMatches, requestHost, type TrustFn } from '../http/forwarded.ts';
 
 interface SocketData {
   user: SessionUser;
@@ -81,6 +82,8 @@ function refuse(res: ServerResponse, status: number, code: string, message: stri
 export interface RealtimeOptions {
   /** Pool for the cross-instance adapter; without it rooms live in this process only. */
   adapterPool?: pg.Pool;
+  /** The app's compiled TRUST_PROXY rule (`app.get('trust proxy fn')`); default: trust no proxy. */
+  trustProxy?: TrustFn;
 }
 
 /**
@@ -104,16 +107,12 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     io.adapter(createAdapter(options.adapterPool, { errorHandler: (err) => ctx.log(`[realtime] adapter: ${err.message}`), heartbeatInterval: 1000, heartbeatTimeout: 4000 }));
   }
 
+  // WebSockets are not covered by CORS: a handshake from another site's page is refused. Behind a
+  // proxy the expected host is the one REST uses (X-Forwarded-Host from a trusted proxy only).
+  const trust: TrustFn = options.trustProxy ?? (() => false);
   io.engine.use(((req, res, next) => {
-    const origin = req.headers.origin;
-    if (origin && req._query?.sid === undefined) {
-      let host = '';
-      try {
-        host = new URL(origin).host;
-      } catch {
-        host = '';
-      }
-      if (host !== req.headers.host) return refuse(res, 403, 'csrf', 'Connection refused: it came from another site.');
+    if (req._query?.sid === undefined && !originMatches(req.headers.origin, requestHost(req, trust))) {
+      return refuse(res, 403, 'csrf', 'Connection refused: it came from another site.');
     }
     next();
   }) as EngineMiddleware);

@@ -33,5 +33,7 @@ export const meSchema = z.object({
   teams: z.array(z.object({ teamId: z.string(), teamName: z.string(), role: z.enum(['owner', 'editor', 'reviewer', 'viewer']) })),
   /** Whether the development mailbox exists on this server (not in production). */
   devMailbox: z.boolean().default(false),
+  /** Whether this person may read every message of the development mailbox (else only their own). */
+  mailboxOperator: z.boolean().default(false),
 });
 export type Me = z.infer<typeof meSchema>;

@@ -1,5 +1,6 @@
 import { defineStore } from 'pinia';
 import { computed, ref } from 'vue';
+import { z } from 'zod';
 import { api, ApiError } from '@/api/client';
 import { meSchema, type Me, type SignIn, type SignUp } from '@shared/model/auth';
 import type { Role } from '@shared/model/roles';
@@ -35,8 +36,17 @@ export const useSessionStore = defineStore('session', () => {
     accept(await api.post('/api/auth/sign-in', body, meSchema));
   }
 
-  async function signUp(body: SignUp): Promise<void> {
-    const value = await api.post('/api/auth/sign-up', body, meSchema);
+  /**
+   * Sign-up, step one: answers with what to do next (check the inbox). The account exists once
+   * the link in the e-mail is followed (`confirmSignUp`).
+   */
+  async function signUp(body: SignUp): Promise<string> {
+    return (await api.post('/api/auth/sign-up', body, z.object({ message: z.string() }))).message;
+  }
+
+  /** Sign-up, step two: the link's token; creates the account and signs it in. */
+  async function confirmSignUp(token: string): Promise<void> {
+    const value = await api.post('/api/auth/sign-up/confirm', { token }, meSchema);
     accept(value);
     selectTeam(value.teams[0]?.teamId ?? null);
   }
@@ -65,5 +75,5 @@ export const useSessionStore = defineStore('session', () => {
     else localStorage.removeItem(TEAM_KEY);
   }
 
-  return { me, loaded, user, teams, currentTeam, role, load, signIn, signUp, signOut, selectTeam, createTeam, adopt };
+  return { me, loaded, user, teams, currentTeam, role, load, signIn, signUp, confirmSignUp, signOut, selectTeam, createTeam, adopt };
 });

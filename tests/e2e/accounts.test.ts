@@ -2,8 +2,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { RunningServer } from '../../server/index.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, type BrowserSession } from '../helpers/browser.ts';
+import { mailMessages } from '../../server/db/schema.ts';
 
-describe('accounts in Chromium: sign up, invite, read the mail, accept in a second browser', () => {
+describe('accounts in Chromium: sign up, confirm, invite, read the mail, accept in a second browser', () => {
   let server: RunningServer;
   let founder: BrowserSession;
   let colleague: BrowserSession;
@@ -11,13 +12,14 @@ describe('accounts in Chromium: sign up, invite, read the mail, accept in a seco
   let world: BrowserWorld;
 
   beforeAll(async () => {
-    world = await startBrowserWorld({ seed: false, mail: true, browsers: 2 });
+    // Mara runs this development server: she is its mailbox operator (everyone else reads only their own mail).
+    world = await startBrowserWorld({ seed: false, mail: true, browsers: 2, env: { MAILBOX_OPERATOR: 'mara@keelworks.example' } });
     ({ server } = world);
     [founder, colleague] = world.browsers;
   });
   afterAll(async () => world?.close());
 
-  it('signs up and lands on the new team as its owner', async () => {
+  it('signs up, is asked to check the inbox, follows the mailed link and lands on the new team as its owner', async () => {
     const { page } = founder;
     await page.goto(`${server.url}/sign-in`);
     await page.getByTestId('to-sign-up').click();
@@ -31,6 +33,19 @@ describe('accounts in Chromium: sign up, invite, read the mail, accept in a seco
     await page.getByTestId('sign-up-confirm').fill('keelworks-2026');
     await page.getByTestId('sign-up-team').fill('Keelworks fin group');
     await page.getByTestId('sign-up-submit').click();
+    await page.getByTestId('sign-up-sent').waitFor();
+    expect(await page.getByTestId('sign-up-sent').textContent()).toContain('mara@keelworks.example');
+    await screenshot(page, 'accounts-sign-up-sent');
+    // She reads the confirmation in her own mail client (here: straight from the sink's table).
+    let link: string | undefined;
+    await expect
+      .poll(async () => {
+        const rows = await world.database.db.select().from(mailMessages);
+        link = rows.find((m) => m.toAddresses.includes('mara@keelworks.example'))?.textBody.match(/https?:\/\/\S+\/confirm-sign-up\?token=\S+/)?.[0];
+        return link;
+      }, { timeout: 15_000 })
+      .toBeDefined();
+    await page.goto(link!);
     await page.getByTestId('header-user').waitFor();
     expect(await page.getByTestId('header-user').textContent()).toBe('Mara Keel');
     expect(await page.getByTestId('team-switcher').textContent()).toContain('Keelworks fin group');
@@ -48,9 +63,13 @@ describe('accounts in Chromium: sign up, invite, read the mail, accept in a seco
     await screenshot(page, 'accounts-members');
   });
 
-  it('reads the invitation in the dev mailbox and accepts it in a second browser', async () => {
+  it('reads the invitation in the dev mailbox (as its operator) and accepts it in a second browser', async () => {
     const { page } = founder;
     await page.getByTestId('nav-mailbox').click();
+    // Her own inbox first: her confirmation, not other people's mail.
+    await page.getByTestId('mailbox-table').getByText('Confirm your address to finish signing up to Shockwright').waitFor();
+    expect(await page.getByTestId('mailbox-table').getByText('invited you to').count()).toBe(0);
+    await page.getByTestId('mailbox-scope').getByText('Every message').click();
     await page.getByTestId('mailbox-table').getByText('Mara Keel invited you to Keelworks fin group on Shockwright').click();
     const link = page.getByTestId('mail-link').first();
     await link.waitFor();
@@ -70,6 +89,13 @@ describe('accounts in Chromium: sign up, invite, read the mail, accept in a seco
     await other.getByTestId('header-user').waitFor();
     expect(await other.getByTestId('header-user').textContent()).toBe('Ravi Osei');
     expect(await other.getByTestId('team-switcher').textContent()).toContain('Keelworks fin group');
+
+    // Ravi is no operator: his inbox holds his invitation and nothing of Mara's.
+    await other.getByTestId('nav-mailbox').click();
+    await other.getByTestId('mailbox-table').getByText('Mara Keel invited you to Keelworks fin group on Shockwright').waitFor();
+    expect(await other.getByTestId('mailbox-table').getByText('Confirm your address').count()).toBe(0);
+    expect(await other.getByTestId('mailbox-scope').count()).toBe(0);
+    await screenshot(other, 'accounts-personal-inbox');
 
     // The editor is not an owner: the members page explains which role it needs.
     await other.goto(`${server.url}/team/members`);

@@ -20,12 +20,14 @@ export interface BrowserWorld {
  * the app served on a free port, optionally a mail sink wired as SMTP_URL, and `browsers`
  * Chromium instances. `beforeServer` runs after seeding (e.g. to read seeded ids).
  */
-export async function startBrowserWorld(options: { seed?: boolean; mail?: boolean; browsers?: number; beforeServer?: (db: TestDatabase) => Promise<void> } = {}): Promise<BrowserWorld> {
+export async function startBrowserWorld(
+  options: { seed?: boolean; mail?: boolean; browsers?: number; beforeServer?: (db: TestDatabase) => Promise<void>; env?: Record<string, string> } = {},
+): Promise<BrowserWorld> {
   const database = await createTestDatabase();
   if (options.seed ?? true) await seedDemoOnce(database.db);
   await options.beforeServer?.(database);
   const sink = options.mail ? await startMailSink(database.db) : null;
-  const server = await startServer(testEnv(database.url, sink ? { SMTP_URL: sink.url } : {}), { log: () => {} });
+  const server = await startServer(testEnv(database.url, { ...(sink ? { SMTP_URL: sink.url } : {}), ...options.env }), { log: () => {} });
   const browsers: BrowserSession[] = [];
   for (let i = 0; i < (options.browsers ?? 1); i++) browsers.push(await openBrowser(server.url));
   return {

@@ -51,7 +51,7 @@ export async function createWorld(options: { limits?: Partial<RateLimits>; env?:
     mailer,
     log: () => {},
     publicUrl: () => 'http://shockwright.test',
-    limits: { signInFailures: 1000, resets: 1000, invites: 1000, ...options.limits },
+    limits: { signInFailures: 1000, signInFailuresPerAddress: 1000, signUps: 1000, resets: 1000, invites: 1000, ...options.limits },
   });
   const passwordHash = await hashPassword(PASSWORD);
   const people = {} as Record<Member, TestUser>;

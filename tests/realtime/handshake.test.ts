@@ -59,3 +59,49 @@ describe('socket.io handshake reuses the Express session', () => {
     if (result.ok) result.socket.close();
   });
 });
+
+describe('behind a proxy the handshake honours the same forwarded-host rule as REST', () => {
+  let database: TestDatabase;
+  const servers: RunningServer[] = [];
+
+  beforeAll(async () => {
+    database = await createTestDatabase();
+    await seedDemoOnce(database.db);
+  });
+  afterAll(async () => {
+    for (const s of servers) await s.close();
+    await database?.drop();
+  });
+
+  async function serverWith(trustProxy: string): Promise<{ server: RunningServer; cookie: string }> {
+    const server = await startServer(testEnv(database.url, { TRUST_PROXY: trustProxy }), { log: () => {} });
+    servers.push(server);
+    const res = await fetch(`${server.url}/api/auth/sign-in`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', 'x-shockwright-request': '1' },
+      body: JSON.stringify({ email: DEMO_PEOPLE[1].email, password: DEMO_PASSWORD }),
+    });
+    return { server, cookie: sessionCookie(res.headers.getSetCookie()) };
+  }
+
+  const viaProxy = (cookie: string) => ({ cookie, origin: 'https://shockwright.example', 'x-forwarded-host': 'shockwright.example' });
+
+  it('a trusted proxy’s X-Forwarded-Host is the host the page must come from — for REST and for the socket alike', async () => {
+    const { server, cookie } = await serverWith('true');
+    const rest = await fetch(`${server.url}/api/teams`, { method: 'POST', headers: { ...viaProxy(cookie), 'content-type': 'application/json', 'x-shockwright-request': '1' }, body: JSON.stringify({ name: 'Via proxy' }) });
+    expect(rest.status).toBe(201);
+    const socket = await attempt(server.url, viaProxy(cookie), 'polling');
+    expect(socket.ok).toBe(true);
+    if (socket.ok) socket.socket.close();
+    const foreign = await attempt(server.url, { ...viaProxy(cookie), origin: 'https://evil.example' }, 'polling');
+    expect(foreign).toEqual({ ok: false, message: expect.stringContaining('another site') });
+  });
+
+  it('from a peer TRUST_PROXY does not name, X-Forwarded-Host is ignored — REST and socket both refuse', async () => {
+    const { server, cookie } = await serverWith('10.1.2.3');
+    const rest = await fetch(`${server.url}/api/teams`, { method: 'POST', headers: { ...viaProxy(cookie), 'content-type': 'application/json', 'x-shockwright-request': '1' }, body: JSON.stringify({ name: 'Via proxy' }) });
+    expect(rest.status).toBe(403);
+    const socket = await attempt(server.url, viaProxy(cookie), 'polling');
+    expect(socket).toEqual({ ok: false, message: expect.stringContaining('another site') });
+  });
+});

@@ -1,8 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { eq } from 'drizzle-orm';
-import { invitations, mailMessages, passwordResets } from '../../server/db/schema.ts';
+import { auditEvents, invitations, mailMessages, passwordResets, signUps, users } from '../../server/db/schema.ts';
 import { RESET_REQUEST_ANSWER } from '../../server/api/auth/router.ts';
+import { signUpAnswer } from '../../server/api/auth/service.ts';
 import { CSRF, PASSWORD, createWorld, freshTeam, linkIn, sessionCookie, signIn, waitForMail, type World } from '../helpers/world.ts';
 
 describe('sign-up, sign-in, sessions', () => {
@@ -12,19 +13,39 @@ describe('sign-up, sign-in, sessions', () => {
   });
   afterAll(async () => world?.close());
 
-  it('sign-up makes the first user the owner of a new team and signs them in', async () => {
+  it('sign-up mails a link; following it makes the person the owner of a new team and signs them in (once)', async () => {
     const res = await request(world.app).post('/api/auth/sign-up').set(CSRF).send({ name: 'Ada Quill', email: 'Ada@Example.test', password: 'a long password', teamName: 'Quill Aero' });
-    expect(res.status).toBe(201);
-    expect(res.body.user.email).toBe('ada@example.test');
-    expect(res.body.teams).toEqual([{ teamId: expect.stringMatching(/^team_/), teamName: 'Quill Aero', role: 'owner' }]);
-    const me = await request(world.app).get('/api/auth/me').set('Cookie', sessionCookie(res.headers['set-cookie']));
+    expect(res.status).toBe(202);
+    expect(res.body).toEqual({ message: signUpAnswer('ada@example.test') });
+    expect(res.headers['set-cookie']).toBeUndefined();
+    const mail = await waitForMail(world, 'ada@example.test', /Confirm your address/);
+    const token = linkIn(mail.textBody, '/confirm-sign-up?token=').searchParams.get('token')!;
+    const done = await request(world.app).post('/api/auth/sign-up/confirm').set(CSRF).send({ token });
+    expect(done.status).toBe(201);
+    expect(done.body.user.email).toBe('ada@example.test');
+    expect(done.body.teams).toEqual([{ teamId: expect.stringMatching(/^team_/), teamName: 'Quill Aero', role: 'owner' }]);
+    const me = await request(world.app).get('/api/auth/me').set('Cookie', sessionCookie(done.headers['set-cookie']));
     expect(me.body.user.name).toBe('Ada Quill');
+    const again = await request(world.app).post('/api/auth/sign-up/confirm').set(CSRF).send({ token });
+    expect(again.status).toBe(410);
+    expect(again.body.error.code).toBe('signup_used');
   });
 
-  it('refuses a duplicate e-mail (409) and names bad fields (400)', async () => {
-    const dup = await request(world.app).post('/api/auth/sign-up').set(CSRF).send({ name: 'X', email: 'ada@example.test', password: 'a long password', teamName: 'T' });
-    expect(dup.status).toBe(409);
-    expect(dup.body.error.code).toBe('email_taken');
+  it('an address that has an account gets the same answer (no account discovery); its owner gets a notice instead, and nothing is created', async () => {
+    const before = await world.database.db.select().from(signUps);
+    const dup = await request(world.app).post('/api/auth/sign-up').set(CSRF).send({ name: 'X', email: world.users.reviewer.email, password: 'a long password', teamName: 'T' });
+    const fresh = await request(world.app).post('/api/auth/sign-up').set(CSRF).send({ name: 'X', email: 'unused@example.test', password: 'a long password', teamName: 'T' });
+    expect(dup.status).toBe(202);
+    expect(fresh.status).toBe(202);
+    expect(dup.body.message.replace(world.users.reviewer.email, 'ADDR')).toBe(fresh.body.message.replace('unused@example.test', 'ADDR'));
+    const notice = await waitForMail(world, world.users.reviewer.email, /tried to sign up/);
+    expect(notice.textBody).toContain('already has one');
+    expect(notice.textBody).not.toMatch(/confirm-sign-up/);
+    const after = await world.database.db.select().from(signUps);
+    expect(after.map((r) => r.email).filter((e) => !before.some((b) => b.email === e))).toEqual(['unused@example.test']);
+  });
+
+  it('names bad fields (400)', async () => {
     const bad = await request(world.app).post('/api/auth/sign-up').set(CSRF).send({ name: '', email: 'not-an-address', password: 'short', teamName: 'T' });
     expect(bad.status).toBe(400);
     expect(bad.body.error.message).toContain('name: is required');

@@ -7,6 +7,7 @@ import { findUserByEmail, findUserById } from '../auth/repository.ts';
 import type { Role } from '../../../shared/model/roles.ts';
 import type { AuditEntry, InvitationPreview, Member, PendingInvitation } from '../../../shared/model/teams.ts';
 import * as repo from './repository.ts';
+import { errorForLog } from '../../log.ts';
 
 export async function createTeam(ctx: AppContext, userId: string, name: string): Promise<{ teamId: string; teamName: string; role: Role }> {
   const teamId = await repo.createTeam(ctx.db, name, userId);
@@ -26,56 +27,29 @@ export async function listMembers(ctx: AppContext, userId: string, teamId: strin
 }
 
 /**
- * Changes a member's role. The team must keep at least one owner: the owner rows are locked in
- * the same transaction, so two owners demoting each other at once cannot both succeed.
+ * Changes a member's role. The team keeps at least one owner (the repository locks the owner
+ * rows, so two owners demoting each other at once cannot both succeed); an owner who is demoted
+ * has their pending invitations withdrawn. Open sockets of that person re-check their role.
  */
 export async function changeRole(ctx: AppContext, actorId: string, teamId: string, targetId: string, role: Role): Promise<Member[]> {
   await assertTeamRole(ctx.db, actorId, teamId, 'owner', 'change roles');
-  await ctx.db.transaction(async (tx) => {
-    const target = await repo.findMembership(tx, teamId, targetId);
-    if (!target) throw new HttpError(404, 'not_found', 'That person is not a member of this team.');
-    if (target.role === role) return;
-    if (target.role === 'owner') {
-      const owners = await repo.countOwnersForUpdate(tx, teamId);
-      if (owners <= 1) throw new HttpError(409, 'last_owner', 'The team needs at least one owner: make someone else an owner first.');
-    }
-    await repo.setRole(tx, teamId, targetId, role);
-    const user = await findUserById(ctx.db, targetId);
-    await repo.recordAudit(tx, {
-      teamId,
-      actorId,
-      action: 'member.role_changed',
-      targetUserId: targetId,
-      targetEmail: user?.email ?? null,
-      detail: { name: user?.name ?? null, from: target.role, to: role },
-    });
-  });
+  const change = await repo.changeRoleAtomically(ctx.db, { teamId, actorId, targetId, role });
+  if (!change.ok && change.reason === 'not_member') throw new HttpError(404, 'not_found', 'That person is not a member of this team.');
+  if (!change.ok) throw new HttpError(409, 'last_owner', 'The team needs at least one owner: make someone else an owner first.');
   ctx.events.emit('accessChanged', { userId: targetId, teamId });
   return listMembers(ctx, actorId, teamId);
 }
 
-/** Removes a member (owners), or lets any member leave. The last owner can do neither. */
+/**
+ * Removes a member (owners), or lets any member leave. The last owner can do neither. Their
+ * pending invitations are withdrawn with them, and their open sockets leave the team's sketches.
+ */
 export async function removeMember(ctx: AppContext, actorId: string, teamId: string, targetId: string): Promise<void> {
   if (actorId !== targetId) await assertTeamRole(ctx.db, actorId, teamId, 'owner', 'remove members');
   else await assertTeamRole(ctx.db, actorId, teamId, 'viewer', 'leave the team');
-  await ctx.db.transaction(async (tx) => {
-    const target = await repo.findMembership(tx, teamId, targetId);
-    if (!target) throw new HttpError(404, 'not_found', 'That person is not a member of this team.');
-    if (target.role === 'owner') {
-      const owners = await repo.countOwnersForUpdate(tx, teamId);
-      if (owners <= 1) throw new HttpError(409, 'last_owner', 'The last owner cannot be removed: make someone else an owner first.');
-    }
-    await repo.removeMember(tx, teamId, targetId);
-    const user = await findUserById(ctx.db, targetId);
-    await repo.recordAudit(tx, {
-      teamId,
-      actorId,
-      action: actorId === targetId ? 'member.left' : 'member.removed',
-      targetUserId: targetId,
-      targetEmail: user?.email ?? null,
-      detail: { name: user?.name ?? null, role: target.role },
-    });
-  });
+  const change = await repo.removeMemberAtomically(ctx.db, { teamId, actorId, targetId });
+  if (!change.ok && change.reason === 'not_member') throw new HttpError(404, 'not_found', 'That person is not a member of this team.');
+  if (!change.ok) throw new HttpError(409, 'last_owner', 'The last owner cannot be removed: make someone else an owner first.');
   ctx.events.emit('accessChanged', { userId: targetId, teamId });
 }
 
@@ -90,16 +64,12 @@ export async function invite(ctx: AppContext, actorId: string, teamId: string, i
   }
   const { token, hash } = newToken();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
-  const id = await ctx.db.transaction(async (tx) => {
-    const id = await repo.insertInvitation(tx, { teamId, email: input.email, role: input.role, tokenHash: hash, invitedBy: actorId, expiresAt });
-    await repo.recordAudit(tx, { teamId, actorId, action: 'member.invited', targetEmail: input.email, detail: { role: input.role } });
-    return id;
-  });
+  const id = await repo.createInvitationAtomically(ctx.db, { teamId, email: input.email, role: input.role, tokenHash: hash, invitedBy: actorId, expiresAt });
   const url = `${ctx.publicUrl()}/invitations/accept?team=${encodeURIComponent(teamId)}&token=${encodeURIComponent(token)}`;
   try {
     await ctx.mailer.send(input.email, invitationMail({ teamName: team.name, inviterName: actor.name, role: input.role, url, expiresAt }));
   } catch (err) {
-    ctx.log(`[mail] invitation to ${input.email} failed: ${(err as Error).message}`);
+    ctx.log(`[mail] invitation ${id} could not be sent: ${errorForLog(err, false)}`);
     throw new HttpError(502, 'mail_failed', `The invitation is saved but the e-mail to ${input.email} could not be sent; withdraw it and try again later.`);
   }
   return { id, email: input.email, role: input.role, createdAt: new Date().toISOString(), expiresAt: expiresAt.toISOString(), invitedByName: actor.name };
@@ -116,8 +86,7 @@ export async function revokeInvitation(ctx: AppContext, actorId: string, teamId:
   const inv = await repo.findInvitationById(ctx.db, invitationId);
   if (!inv || inv.teamId !== teamId) throw new HttpError(404, 'not_found', 'No such invitation in this team.');
   if (inv.acceptedAt) throw new HttpError(409, 'invitation_used', 'That invitation has already been accepted.');
-  await repo.revokeInvitation(ctx.db, invitationId);
-  await repo.recordAudit(ctx.db, { teamId, actorId, action: 'invitation.revoked', targetEmail: inv.email, detail: { role: inv.role } });
+  await repo.revokeInvitationAtomically(ctx.db, { id: invitationId, teamId, actorId, email: inv.email, role: inv.role });
 }
 
 /**
@@ -149,30 +118,38 @@ export async function previewInvitation(ctx: AppContext, teamId: string, token: 
 }
 
 /**
- * Accepts an invitation for `userId` (already signed in, or just created). The invitation is
- * bound to the e-mail it was sent to; it is consumed in the same transaction that adds the
- * membership, so it can be used only once even when two tabs race.
+ * Accepts an invitation as `user` (signed in), or — `newcomer` — as a new account for the
+ * invited address, created in the same transaction (a refused acceptance leaves no account).
+ * The invitation is bound to the e-mail it was sent to and consumed with the membership, so it
+ * works once even when two tabs race. Returns the id of the member.
  */
-export async function acceptInvitation(ctx: AppContext, teamId: string, token: string, user: { id: string; email: string }): Promise<void> {
+export async function acceptInvitation(
+  ctx: AppContext,
+  teamId: string,
+  token: string,
+  who: { user: { id: string; email: string } } | { newcomer: { name: string; passwordHash: string } },
+): Promise<{ userId: string; email: string }> {
   const inv = await usableInvitation(ctx, teamId, token);
-  if (inv.email !== user.email) {
+  if ('user' in who && inv.email !== who.user.email) {
     throw new HttpError(403, 'invitation_other_email', `This invitation was sent to ${inv.email}; sign in with that address to accept it.`);
   }
-  await ctx.db.transaction(async (tx) => {
-    if (!(await repo.consumeInvitation(tx, inv.id, user.id))) {
-      throw new HttpError(410, 'invitation_used', 'This invitation has already been used.');
-    }
-    const existing = await repo.findMembership(tx, teamId, user.id);
-    if (existing) throw new HttpError(409, 'already_member', 'You are already a member of this team.');
-    await repo.addMember(tx, teamId, user.id, inv.role);
-    await repo.recordAudit(tx, { teamId, actorId: user.id, action: 'invitation.accepted', targetUserId: user.id, targetEmail: user.email, detail: { role: inv.role } });
+  const result = await repo.acceptInvitationAtomically(ctx.db, {
+    invitationId: inv.id,
+    teamId,
+    role: inv.role,
+    email: inv.email,
+    ...('user' in who ? { userId: who.user.id } : { newUser: who.newcomer }),
   });
+  if (!result.ok && result.reason === 'used') throw new HttpError(410, 'invitation_used', 'This invitation has already been used.');
+  if (!result.ok) throw new HttpError(409, 'already_member', 'You are already a member of this team.');
+  return { userId: result.userId, email: inv.email };
 }
 
 const ACTION_WORDS: Record<string, (e: { actorName: string | null; targetEmail: string | null; detail: Record<string, unknown> }) => string> = {
   'team.created': (e) => `${e.actorName ?? 'Someone'} created the team.`,
   'member.invited': (e) => `${e.actorName ?? 'Someone'} invited ${e.targetEmail} as ${String(e.detail.role)}.`,
-  'invitation.revoked': (e) => `${e.actorName ?? 'Someone'} withdrew the invitation to ${e.targetEmail}.`,
+  'invitation.revoked': (e) =>
+    e.detail.reason ? `The invitation to ${e.targetEmail} was withdrawn: ${String(e.detail.reason)}.` : `${e.actorName ?? 'Someone'} withdrew the invitation to ${e.targetEmail}.`,
   'invitation.accepted': (e) => `${e.targetEmail} joined as ${String(e.detail.role)}.`,
   'member.role_changed': (e) => `${e.actorName ?? 'Someone'} changed ${String(e.detail.name ?? e.targetEmail)} from ${String(e.detail.from)} to ${String(e.detail.to)}.`,
   'member.removed': (e) => `${e.actorName ?? 'Someone'} removed ${String(e.detail.name ?? e.targetEmail)} (${String(e.detail.role)}).`,

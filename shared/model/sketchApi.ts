@@ -8,7 +8,7 @@ export const sketchSummarySchema = z.object({
   title: z.string(),
   revision: z.number().int(),
   vertexCount: z.number().int(),
-  /** Thickness over chord of the section as drawn. */
+  /** Thickness over chord of the section as drawn: the solver's t/c, normal to the chord line. */
   thicknessRatio: z.number().nullable(),
   mach: z.number(),
   alphaDeg: z.number(),

@@ -95,4 +95,30 @@ describe('SketchLoadsPanel', () => {
     expect(text(w, 'loads-note')).toBe('Give an altitude to see loads, friction drag and the free-stream state.');
     w.unmount();
   });
+
+  it('says which gas model the loads use and shows a∞ at the condition\'s γ (γ 1.3: a = √(1.3·287.05·216.77) = 284.4 m/s)', async () => {
+    const w = mountPanel({ document: { ...FIN, condition: { ...FIN.condition, gamma: 1.3 } } });
+    await flushPromises();
+    // R = 8314.32/28.9644 J/(kg·K); T at 11 km geometric = 288.15 − 0.0065·H with the
+    // geopotential H = r0·Z/(r0 + Z) (1976 standard, eqs. 18 and 23): √(1.3·R·T), 4 figures.
+    const h = (6_356_766 * 11_000) / (6_356_766 + 11_000);
+    const a = Math.sqrt(1.3 * (8314.32 / 28.9644) * (288.15 - 0.0065 * h));
+    expect(text(w, 'fs-a')).toBe(`${Number(a.toPrecision(4))} m/s`);
+    expect(text(w, 'gas-model')).toMatch(/perfect gas with R = 287\.05 J\/\(kg·K\) and the condition’s γ.*Here γ = 1\.3,/);
+    w.unmount();
+  });
+
+  it('mixed friction: offers the transition Reynolds number, emits it, and shows the laws\' range flags (86 km: Re ≈ 230 on a 0.5 m chord)', async () => {
+    const doc: SketchDocument = { ...FIN, condition: { ...FIN.condition, mach: 3, altitudeM: 86_000 }, loads: { ...FIN.loads, friction: 'mixed' } };
+    const w = mountPanel({ document: doc });
+    await flushPromises();
+    expect(text(w, 'friction-flags')).toMatch(/Upper surface: Re \d\.\d\d×10\^2 is below 1\.00×10\^3/);
+    expect(text(w, 'friction-model')).toMatch(/mixed laminar\/turbulent flow with transition at Re 5\.00×10\^5/);
+    expect(text(w, 'cd-cdFriction')).not.toBe('0');
+    const t = w.get('[data-testid="loads-transition"]');
+    await t.setValue('1000000');
+    await t.trigger('blur');
+    expect(w.emitted('update:loads')).toEqual([[{ chordM: 0.5, spanM: 0.4, friction: 'mixed', transitionReynolds: 1e6 }]]);
+    w.unmount();
+  });
 });

@@ -142,6 +142,11 @@ describe('studies, unit preferences and reports API', () => {
     expect(text).toMatch(/q∞ \(dynamic pressure\) [\d,.]+ lbf\/ft²/);
     expect(text).toContain('second-order');
     expect(text).toContain('ch (hinge moment');
+    // What the numbers are referred to, and how the loads were made, are stated.
+    expect(text).toContain('Reference: the section as drawn (the flap deflection does not change it), chord c = 1 drawing units');
+    expect(text).toContain('ch over q∞·c_f² about the hinge, c_f = 0.25 c (drawn)');
+    expect(text).toContain('perfect gas with R = 287.05 J/(kg·K) and the condition’s γ');
+    expect(text).toMatch(/Friction: flat-plate estimate on each surface's wetted length, turbulent flow over the whole length/);
     // The same report in SI when asked explicitly.
     const si = pdfText((await as('viewer').pdf(`/api/sketches/${sketchId}/report.pdf?units=si`)).body as Buffer).replace(/\s+/g, ' ');
     expect(si).toMatch(/q∞ \(dynamic pressure\) [\d,.]+ Pa/);

@@ -1,4 +1,6 @@
 import PDFDocument from 'pdfkit';
+import { frictionSentence, gasModelSentence, referenceSentence } from '../../../shared/flight/referenceText.ts';
+import { thicknessRatio } from '../../../shared/solver/thicknessRatio.ts';
 import { interpolateViridis } from 'd3-scale-chromatic';
 import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
 import { formatQuantity, toDisplay, unitLabel, type Quantity, type UnitSystem } from '../../../shared/flight/units.ts';
@@ -293,12 +295,24 @@ function conditionAndStatus(ctx: Ctx): void {
     ['Ratio of specific heats γ', num(d.condition.gamma, 5)],
     ['Altitude (1976 standard atmosphere)', d.condition.altitudeM === null ? 'not given (no loads or friction)' : qty(d.condition.altitudeM, 'altitude', u)],
     ['Flap', d.flap ? `hinge at x/c = ${num(d.flap.hingeXOverC, 4)}, deflection δ = ${deg(d.flap.deflectionDeg)} (trailing edge down +)` : 'none'],
-    ['Moment point', d.momentPoint ? `(${num(d.momentPoint[0])}, ${num(d.momentPoint[1])}) in drawing units` : 'quarter chord on the nose line'],
+    ['Moment point', d.momentPoint ? `(${num(d.momentPoint[0])}, ${num(d.momentPoint[1])}) in drawing units` : 'quarter of the drawn chord aft of the leading edge, on its line'],
     ['Physical chord and span', `${qty(d.loads.chordM, 'length', u)} chord, ${qty(d.loads.spanM, 'length', u)} span`],
-    ['Friction', d.loads.friction === 'none' ? 'none (wave drag only)' : `${d.loads.friction} flat plate, reference-temperature method`],
-    ['Section', `${d.section.points.length} vertices${data.analysis.result ? `, max thickness ${num(100 * data.analysis.result.geometry.maxThicknessRatio, 3)} % of chord` : ''}`],
+    [
+      'Friction',
+      d.loads.friction === 'none'
+        ? 'none (wave drag only)'
+        : d.loads.friction === 'mixed'
+          ? `mixed, transition at Re ${sci(d.loads.transitionReynolds ?? 5e5)}; flat plate, reference-temperature method`
+          : `${d.loads.friction} flat plate, reference-temperature method`,
+    ],
+    ['Section (as drawn)', `${d.section.points.length} vertices${(() => { const t = thicknessRatio(d.section.points); return t === null ? '' : `, max thickness ${num(100 * t, 3)} % of chord (normal to the chord line)`; })()}`],
   ];
   table(ctx, [{ label: 'Quantity', width: 190 }, { label: 'Value', width: CONTENT_W - 190 }], rows);
+  const refText = referenceSentence(data.analysis, qty(d.loads.chordM, 'length', u));
+  if (refText) {
+    ensure(ctx, 24);
+    ctx.y += paragraph(ctx.doc, refText, M.left, ctx.y, CONTENT_W, { size: 8, color: INK }) + 6;
+  }
 
   const a = data.analysis;
   ensure(ctx, 60);
@@ -309,7 +323,8 @@ function conditionAndStatus(ctx: Ctx): void {
   if (ok) notes.push('Attached flow over the whole section; all three theories apply.');
   if (a.problem) notes.push(a.problem);
   for (const l of a.result?.limits ?? []) notes.push(l.message);
-  if (!ok && a.result?.theories) notes.push('Exact coefficients are not given. The linear and second-order columns assume small deflections everywhere and ignore this limit; do not size anything with them here.');
+  if (!ok && a.result?.coefficients) notes.push('The exact coefficients carry p = 0 (Cp = −2/(γM∞²)) on the facets past the vacuum limit, the theory\'s limiting value.');
+  else if (!ok && a.result?.theories) notes.push('Exact coefficients are not given. The linear and second-order columns assume small deflections everywhere and ignore this limit; do not size anything with them here.');
   for (const w of a.result?.warnings ?? []) notes.push(w);
   for (const n of notes) {
     ensure(ctx, 24);
@@ -339,7 +354,7 @@ function coefficientsTable(ctx: Ctx): void {
     ['cl (lift over q∞·c)', 'cl'],
     ['cd (wave drag over q∞·c)', 'cd'],
     ['cm (about the moment point, nose up +)', 'cm'],
-    ['x_cp/c (from the nose)', 'xcpOverC'],
+    ['x_cp/c (from the leading edge)', 'xcpOverC'],
     ['L/D (wave drag only)', 'liftToDrag'],
   ];
   const body = rows.map(([label, k]) => [label, num(c?.[k] ?? null), num(lin?.[k] ?? null), diff(lin, k), num(sec?.[k] ?? null), diff(sec, k)]);
@@ -379,7 +394,7 @@ function loadsTables(ctx: Ctx): void {
     ['T∞', qty(atm.temperatureK, 'temperature', u)],
     ['ρ∞', qty(atm.densityKgM3, 'density', u)],
     ['μ∞', `${sci(toDisplay(atm.viscosityPaS, 'viscosity', u))} ${unitLabel('viscosity', u)}`],
-    ['a∞ (speed of sound)', qty(atm.speedOfSoundMS, 'speed', u)],
+    ['a∞ (speed of sound, at the condition’s γ)', qty(loads.gas.speedOfSoundMS, 'speed', u)],
   ];
   const f = loads.friction;
   const right: string[][] = [
@@ -422,7 +437,17 @@ function loadsTables(ctx: Ctx): void {
     { label: `over the span (${qty(span, 'length', u)})`, width: CONTENT_W - 347, align: 'right' },
   ], rows);
   ensure(ctx, 20);
-  ctx.y += paragraph(ctx.doc, 'Loads act on the physical chord and span given in the sketch; friction is a flat-plate estimate on each surface’s wetted length, with the whole surface in one boundary-layer regime.', M.left, ctx.y, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;
+  const foot = [
+    'Loads act on the physical chord (of the section as drawn) and span given in the sketch.',
+    frictionSentence(data.analysis),
+    ...loads.friction.flags.map((flag) => `Friction outside a law's range — ${flag}`),
+    gasModelSentence(data.analysis),
+  ].filter((t): t is string => !!t);
+  for (const t of foot) {
+    ensure(ctx, 20);
+    ctx.y += paragraph(ctx.doc, t, M.left, ctx.y, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 3;
+  }
+  ctx.y += 3;
 }
 
 // ---- study ----

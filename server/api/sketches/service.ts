@@ -5,6 +5,7 @@ import { newId } from '../../../shared/model/ids.ts';
 import { defaultSketchDocument, normalizeDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
 import type { Role } from '../../../shared/model/roles.ts';
 import type { Sketch, SketchSummary } from '../../../shared/model/sketchApi.ts';
+import { thicknessRatio } from '../../../shared/solver/thicknessRatio.ts';
 import { solveDocument } from './solveDocument.ts';
 import * as repo from './repository.ts';
 import type { AppContext } from '../../context.ts';
@@ -17,12 +18,6 @@ export async function authorizeSketch(db: Db, userId: string, sketchId: string, 
   return { teamId, role };
 }
 
-function thicknessRatio(points: [number, number][]): number | null {
-  const xs = points.map((p) => p[0]);
-  const ys = points.map((p) => p[1]);
-  const chord = Math.max(...xs) - Math.min(...xs);
-  return chord > 0 ? (Math.max(...ys) - Math.min(...ys)) / chord : null;
-}
 
 type SketchRow = NonNullable<Awaited<ReturnType<typeof repo.findSketch>>>;
 

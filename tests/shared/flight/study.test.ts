@@ -1,3 +1,4 @@
+import { reached } from '../../helpers/reached.ts';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { analyseSketch } from '../../../shared/flight/analyseSketch.ts';
@@ -63,13 +64,17 @@ describe('study definitions [ST2] [ST4]', () => {
 
 describe('roundSignificant [ST3]', () => {
   it('keeps 7 significant figures: within one unit of the 7th figure of toPrecision(7), and exactly 7 figures long', () => {
+    const checked = reached('[ST3] rounded values');
     fc.assert(
       fc.property(fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e12, max: 1e12 }), (v) => {
         const r = roundSignificant(v);
+        checked.hit();
         expect(Number(r.toPrecision(7))).toBe(r);
         expect(Math.abs(r - Number(v.toPrecision(7)))).toBeLessThanOrEqual(Math.abs(v) * 1.01e-6);
       }),
+      { numRuns: 300 },
     );
+    checked.expectAtLeast(300);
     expect([0.1234567891, -3.14159265, 12345678.9, 2.5e-9, 0, 1].map(roundSignificant)).toEqual([0.1234568, -3.141593, 12345680, 2.5e-9, 0, 1]);
   });
 });

@@ -1,3 +1,4 @@
+import { reached } from '../../helpers/reached.ts';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { formatQuantity, fromDisplay, QUANTITIES, toDisplay, unitLabel, type Quantity } from '../../../shared/flight/units.ts';
@@ -5,12 +6,16 @@ import { expectCloseRel } from '../../helpers/expectClose.ts';
 
 describe('units', () => {
   it('round-trips every quantity between SI and US customary', () => {
+    const checked = reached('unit round trips');
     fc.assert(
       fc.property(fc.constantFrom(...(Object.keys(QUANTITIES) as Quantity[])), fc.double({ min: -1e9, max: 1e9, noNaN: true }), (q, v) => {
         const back = fromDisplay(toDisplay(v, q, 'us'), q, 'us');
+        checked.hit();
         expect(Math.abs(back - v)).toBeLessThanOrEqual(Math.abs(v) * 1e-12 + 1e-300);
       }),
+      { numRuns: 300 },
     );
+    checked.expectAtLeast(300);
   });
 
   it.each([

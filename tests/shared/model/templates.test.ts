@@ -1,3 +1,4 @@
+import { reached } from '../../helpers/reached.ts';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { isSimplePolygon } from '../../../shared/model/polygon.ts';
@@ -55,13 +56,16 @@ describe('section templates', () => {
     const arbs = t.params.map((p) =>
       p.integer ? fc.integer({ min: p.min, max: Math.min(p.max, 60) }) : fc.double({ min: p.min, max: p.max, noNaN: true }),
     );
+    const checked = reached(`[T1] ${id} parameter sets`);
     fc.assert(
       fc.property(fc.tuple(...arbs), (values) => {
         const params = Object.fromEntries(t.params.map((p, i) => [p.key, values[i]]));
+        checked.hit();
         expect(isSimplePolygon(points(id, params))).toBe(true);
       }),
       { numRuns: 100 },
     );
+    checked.expectAtLeast(100);
   });
 
   it('double wedge: thickness ratio and ridge position as asked', () => {

@@ -1,13 +1,14 @@
 import fc from 'fast-check';
+import { reached } from '../../helpers/reached';
 import { describe, expect, it } from 'vitest';
-import { expectClose } from '../../helpers/expectClose';
+import { expectClose, expectPrinted } from '../../helpers/expectClose';
 import { machAngle } from '../../../shared/solver/machAngle';
 import { cotBetaAtMaxDeflection, maxDeflection } from '../../../shared/solver/maxDeflection';
 import { normalShock } from '../../../shared/solver/normalShock';
 import { obliqueShock, type AttachedShock } from '../../../shared/solver/obliqueShock';
 import { shockDeflection } from '../../../shared/solver/shockDeflection';
 import { sonicDeflection } from '../../../shared/solver/sonicDeflection';
-import { thetaMaxSearch, weakBeta } from './independentRelations';
+import { shockState, thetaMaxSearch, weakBeta } from './independentRelations';
 
 const deg = (r: number) => (r * 180) / Math.PI;
 const rad = (d: number) => (d * Math.PI) / 180;
@@ -21,26 +22,27 @@ function attached(m: number, thetaDeg: number, g = 1.4, branch: 'weak' | 'strong
 describe('obliqueShock', () => {
   it('obliqueShock(M=2, θ=10°) gives β=39.31°, M2=1.64, p2/p1=1.707 (NACA Report 1135 chart values, from memory)', () => {
     const r = attached(2, 10);
-    expectClose(deg(r.beta), 39.31, 0.01);
-    expectClose(r.mach2, 1.641, 2e-3);
-    expectClose(r.pRatio, 1.707, 2e-3);
+    expectPrinted(deg(r.beta), '39.31');
+    expectPrinted(r.mach2, '1.641');
+    expectPrinted(r.pRatio, '1.707');
   });
 
-  it('obliqueShock(M=2, θ=0.1745329 rad) gives β=0.6861576 rad (comp-flow crate docs, oblique_beta example, f32)', () => {
-    expectClose(attached(2, deg(0.1745329)).beta, 0.6861576, 2e-7);
-  });
-
-  it('obliqueShock(M=5, θ=0.3490659 rad) gives β=0.5201241529003784 rad (comp-flow crate docs, oblique_beta example)', () => {
-    // The crate solves by finite-difference Newton; agreement to 1e-9 rad is what its own
-    // convergence supports.
-    expectClose(attached(5, deg(0.3490659)).beta, 0.5201241529003784, 1e-9);
+  it.each([
+    [2, 39.3139],
+    [5, 29.8009],
+    [3.5, 50],
+  ])('obliqueShock inverts the θ-β-M relation of NACA Report 1135 written out here: M %d, β %d° → θ → the same β to 1e-12 rad', (m, betaDeg) => {
+    // tan θ = 2 cot β (M² sin²β − 1) / (M² (γ + cos 2β) + 2), evaluated directly.
+    const beta = rad(betaDeg);
+    const theta = Math.atan((2 / Math.tan(beta)) * ((m * m * Math.sin(beta) ** 2 - 1) / (m * m * (1.4 + Math.cos(2 * beta)) + 2)));
+    expectClose(attached(m, deg(theta)).beta, beta, 1e-12);
   });
 
   it('obliqueShock(M=3, θ=20°) gives β≈37.8°, p2/p1≈3.77, M2≈1.99 (Anderson, Modern Compressible Flow, worked example, from memory)', () => {
     const r = attached(3, 20);
-    expectClose(deg(r.beta), 37.8, 0.05);
-    expectClose(r.pRatio, 3.77, 0.01);
-    expectClose(r.mach2, 1.99, 0.01);
+    expectPrinted(deg(r.beta), '37.8');
+    expectPrinted(r.pRatio, '3.77');
+    expectPrinted(r.mach2, '1.99');
   });
 
   it('obliqueShock matches plain bisection on the textbook θ-β-M relation over a grid (independent check)', () => {
@@ -77,6 +79,7 @@ describe('obliqueShock', () => {
   });
 
   it('[S9] strong β > weak β, strong M2 < 1, and both reproduce θ (fast-check)', () => {
+    const checked = reached('weak and strong shocks');
     fc.assert(
       fc.property(
         fc.double({ min: 1.05, max: 50, noNaN: true }),
@@ -87,6 +90,7 @@ describe('obliqueShock', () => {
           const weak = obliqueShock(m, theta, g, 'weak');
           const strong = obliqueShock(m, theta, g, 'strong');
           if (weak.status !== 'attached' || strong.status !== 'attached') throw new Error('detached');
+          checked.hit();
           expect(strong.beta).toBeGreaterThan(weak.beta);
           expect(strong.mach2).toBeLessThan(1);
           expectClose(shockDeflection(m, weak.beta, g), theta, 1e-12);
@@ -95,9 +99,11 @@ describe('obliqueShock', () => {
       ),
       { numRuns: 500 },
     );
+    checked.expectAtLeast(500);
   });
 
   it('[S9] round trip β → θ → β within 1e-12 rad on the weak branch away from θmax (fast-check)', () => {
+    const checked = reached('β round trips');
     fc.assert(
       fc.property(
         fc.double({ min: 1.2, max: 20, noNaN: true }),
@@ -109,11 +115,13 @@ describe('obliqueShock', () => {
           const theta = shockDeflection(m, beta, 1.4);
           const r = obliqueShock(m, theta, 1.4);
           if (r.status !== 'attached') throw new Error('detached');
+          checked.hit();
           expectClose(r.beta, beta, 1e-12);
         },
       ),
       { numRuns: 500 },
     );
+    checked.expectAtLeast(500);
   });
 
   it('obliqueShock above θmax returns status detached with θ and θmax (a result, not an exception)', () => {
@@ -181,9 +189,18 @@ describe('maxDeflection', () => {
 });
 
 describe('sonicDeflection', () => {
-  it('sonicDeflection(M=2) ≈ 22.7°, just below θmax = 22.97° (NACA Report 1135 chart, from memory)', () => {
+  it('sonicDeflection(M=2) = 22.706°, just below θmax = 22.974° (the sonic-point relation of NACA Report 1135, written out here; from memory)', () => {
+    // sin²β* = [(γ+1)M² − (3−γ) + √((γ+1)((γ+1)M⁴ − 2(3−γ)M² + γ + 9))] / (4γM²), then θ from
+    // the θ-β-M relation; M2 = 1 behind it by the independent normal-shock relations.
+    const g = 1.4;
+    const m = 2;
+    const s2 = ((g + 1) * m * m - (3 - g) + Math.sqrt((g + 1) * ((g + 1) * m ** 4 - 2 * (3 - g) * m * m + g + 9))) / (4 * g * m * m);
+    const betaStar = Math.asin(Math.sqrt(s2));
+    const thetaStar = Math.atan((2 / Math.tan(betaStar)) * ((m * m * s2 - 1) / (m * m * (g + Math.cos(2 * betaStar)) + 2)));
+    expectClose(shockState(m, thetaStar, g).m2, 1, 1e-9);
     const s = sonicDeflection(2, 1.4);
-    expectClose(deg(s.thetaSonic), 22.73, 0.03);
+    expectClose(s.thetaSonic, thetaStar, 1e-10);
+    expectClose(deg(s.thetaSonic), 22.706, 0.0005); // three decimals, as quoted
     expect(s.thetaSonic).toBeLessThan(maxDeflection(2, 1.4).thetaMax);
   });
 

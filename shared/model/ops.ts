@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { newId } from './ids.ts';
-import { findRepeatedPoint, findSelfIntersection, signedArea } from './polygon.ts';
+import { findRepeatedPoint, findSelfIntersection, findSelfIntersectionNear, signedArea } from './polygon.ts';
 import {
   conditionSchema,
   flapSchema,
@@ -20,6 +20,9 @@ import {
  *   3…2000 vertices and its condition, flap and moment point pass their zod schemas.
  * - [O3] `applyOp(applyOp(doc, op), invertOp(doc, op))` gives back `doc` (same values).
  * - [O4] Every op carries an `opId` so a server can ignore a duplicate.
+ * - [O5] A form field's op names only the field its user changed (`setVertexCoordinate`,
+ *   `setCondition`, `setField`), so two people editing neighbouring fields never overwrite
+ *   each other's values with stale copies.
  *
  * Renaming a sketch is not an op: the title is not part of the document.
  */
@@ -51,6 +54,19 @@ export const deleteVertexOpSchema = z.object({
   type: z.literal('deleteVertex'),
   opId: opIdSchema,
   index: indexSchema,
+});
+
+/** The two coordinates of a vertex, as the vertex table names them. */
+export const VERTEX_AXES = ['x', 'y'] as const;
+export type VertexAxis = (typeof VERTEX_AXES)[number];
+
+/** One coordinate of one vertex (the vertex table): the other coordinate is left as it is. */
+export const setVertexCoordinateOpSchema = z.object({
+  type: z.literal('setVertexCoordinate'),
+  opId: opIdSchema,
+  index: indexSchema,
+  axis: z.enum(VERTEX_AXES),
+  value: z.number().finite('must be a finite number'),
 });
 
 export const replaceSectionOpSchema = z.object({
@@ -90,8 +106,36 @@ export const setLoadsOpSchema = z.object({
   loads: loadsSettingsSchema,
 });
 
+/**
+ * Single fields of the document's small records, as the editor's forms edit them one at a time
+ * [O5]. (The condition's fields have their own op, `setCondition`; switching the flap or the
+ * own moment point on and off replaces the record with `setFlap` / `setMomentPoint`.)
+ */
+export const DOCUMENT_FIELDS = ['flap.hingeXOverC', 'flap.deflectionDeg', 'momentPoint.x', 'momentPoint.y', 'loads.chordM', 'loads.spanM', 'loads.friction'] as const;
+export type DocumentField = (typeof DOCUMENT_FIELDS)[number];
+
+export const setFieldOpSchema = z.object({
+  type: z.literal('setField'),
+  opId: opIdSchema,
+  field: z.enum(DOCUMENT_FIELDS),
+  /** A number, or the friction regime's name for `loads.friction`; checked by the record's schema. */
+  value: z.union([z.number(), z.string().max(32)]),
+});
+
+/** Human names of the document fields, for messages. */
+export const DOCUMENT_FIELD_LABEL: Record<DocumentField, string> = {
+  'flap.hingeXOverC': 'Hinge position',
+  'flap.deflectionDeg': 'Flap deflection',
+  'momentPoint.x': 'Moment point x',
+  'momentPoint.y': 'Moment point y',
+  'loads.chordM': 'Chord',
+  'loads.spanM': 'Span',
+  'loads.friction': 'Friction',
+};
+
 export const sketchOpSchema = z.discriminatedUnion('type', [
   moveVerticesOpSchema,
+  setVertexCoordinateOpSchema,
   insertVertexOpSchema,
   deleteVertexOpSchema,
   replaceSectionOpSchema,
@@ -99,6 +143,7 @@ export const sketchOpSchema = z.discriminatedUnion('type', [
   setFlapOpSchema,
   setMomentPointOpSchema,
   setLoadsOpSchema,
+  setFieldOpSchema,
 ]);
 export type SketchOp = z.infer<typeof sketchOpSchema>;
 export type SketchOpType = SketchOp['type'];
@@ -143,20 +188,26 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
         next[i] = [op.to[k][0], op.to[k][1]];
       });
       const verb = op.indices.length === 1 ? `Moving vertex ${op.indices[0]} there` : `Moving those ${op.indices.length} vertices there`;
-      return withSection(doc, next, verb, check);
+      return withSection(doc, next, verb, check, op.indices.flatMap((i) => [i - 1, i]));
+    }
+    case 'setVertexCoordinate': {
+      if (op.index >= n) return { ok: false, reason: `There is no vertex ${op.index}; the section has ${n}.` };
+      const next = points.map((p) => [p[0], p[1]] as Point);
+      next[op.index] = op.axis === 'x' ? [op.value, points[op.index][1]] : [points[op.index][0], op.value];
+      return withSection(doc, next, `Setting vertex ${op.index}’s ${op.axis} to ${op.value}`, check, [op.index - 1, op.index]);
     }
     case 'insertVertex': {
       if (op.index > n) return { ok: false, reason: `A vertex can go at positions 0 to ${n}; got ${op.index}.` };
       if (n + 1 > MAX_SECTION_VERTICES) return { ok: false, reason: `A section has at most ${MAX_SECTION_VERTICES} vertices.` };
       const next = points.map((p) => [p[0], p[1]] as Point);
       next.splice(op.index, 0, [op.at[0], op.at[1]]);
-      return withSection(doc, next, 'A vertex there', check);
+      return withSection(doc, next, 'A vertex there', check, [op.index - 1, op.index]);
     }
     case 'deleteVertex': {
       if (op.index >= n) return { ok: false, reason: `There is no vertex ${op.index}; the section has ${n}.` };
       if (n <= 3) return { ok: false, reason: 'A section needs at least 3 vertices; this one has 3.' };
       const next = points.filter((_, i) => i !== op.index).map((p) => [p[0], p[1]] as Point);
-      return withSection(doc, next, `Deleting vertex ${op.index}`, check);
+      return withSection(doc, next, `Deleting vertex ${op.index}`, check, [op.index - 1]);
     }
     case 'replaceSection': {
       if (op.points.length < 3) return { ok: false, reason: `A section needs at least 3 vertices; got ${op.points.length}.` };
@@ -189,6 +240,49 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
       }
       return { ok: true, doc: { ...doc, loads: checked.data } };
     }
+    case 'setField':
+      return applySetField(doc, op);
+  }
+}
+
+function applySetField(doc: SketchDocument, op: z.infer<typeof setFieldOpSchema>): ApplyOpResult {
+  const label = DOCUMENT_FIELD_LABEL[op.field];
+  const [record, key] = op.field.split('.') as ['flap' | 'momentPoint' | 'loads', string];
+  const refuse = (message: string): ApplyOpResult => ({ ok: false, reason: `${label} ${message}.` });
+  if (record === 'flap') {
+    if (!doc.flap) return { ok: false, reason: `The flap is switched off (perhaps by someone else meanwhile); switch it on to set its ${key === 'hingeXOverC' ? 'hinge' : 'deflection'}.` };
+    const checked = flapSchema.safeParse({ ...doc.flap, [key]: op.value });
+    if (!checked.success) return refuse(checked.error.issues[0].message);
+    return { ok: true, doc: { ...doc, flap: checked.data } };
+  }
+  if (record === 'momentPoint') {
+    if (!doc.momentPoint) return { ok: false, reason: 'The sketch uses the quarter-chord moment point (perhaps switched back by someone else meanwhile); choose an own moment point to set it.' };
+    if (typeof op.value !== 'number' || !Number.isFinite(op.value)) return refuse('must be a number');
+    const point: Point = key === 'x' ? [op.value, doc.momentPoint[1]] : [doc.momentPoint[0], op.value];
+    return { ok: true, doc: { ...doc, momentPoint: point } };
+  }
+  const checked = loadsSettingsSchema.safeParse({ ...doc.loads, [key]: op.value });
+  if (!checked.success) return refuse(checked.error.issues[0].message);
+  return { ok: true, doc: { ...doc, loads: checked.data } };
+}
+
+/** The current value of a document field (null when its record is switched off). */
+export function documentFieldValue(doc: SketchDocument, field: DocumentField): number | string | null {
+  switch (field) {
+    case 'flap.hingeXOverC':
+      return doc.flap?.hingeXOverC ?? null;
+    case 'flap.deflectionDeg':
+      return doc.flap?.deflectionDeg ?? null;
+    case 'momentPoint.x':
+      return doc.momentPoint?.[0] ?? null;
+    case 'momentPoint.y':
+      return doc.momentPoint?.[1] ?? null;
+    case 'loads.chordM':
+      return doc.loads.chordM;
+    case 'loads.spanM':
+      return doc.loads.spanM;
+    case 'loads.friction':
+      return doc.loads.friction;
   }
 }
 
@@ -215,6 +309,13 @@ export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string =
       return { type: 'setMomentPoint', opId, point: docBefore.momentPoint ? [docBefore.momentPoint[0], docBefore.momentPoint[1]] : null };
     case 'setLoads':
       return { type: 'setLoads', opId, loads: { ...docBefore.loads } };
+    case 'setVertexCoordinate':
+      return { type: 'setVertexCoordinate', opId, index: op.index, axis: op.axis, value: points[op.index][op.axis === 'x' ? 0 : 1] };
+    case 'setField': {
+      const before = documentFieldValue(docBefore, op.field);
+      if (before === null) return op.field.startsWith('flap.') ? { type: 'setFlap', opId, flap: null } : { type: 'setMomentPoint', opId, point: null };
+      return { type: 'setField', opId, field: op.field, value: before };
+    }
   }
 }
 
@@ -247,19 +348,26 @@ export const FIELD_LABEL: Record<ConditionField, string> = {
  * Checks that `points` form a valid section and explains the first problem in terms of the
  * facets a user sees (facet i runs from vertex i to vertex i + 1). Null when valid.
  */
-export function explainSectionProblem(points: readonly Point[]): string | null {
+export function explainSectionProblem(points: readonly Point[], changedEdges?: readonly number[]): string | null {
   const n = points.length;
   if (n < 3) return `a section needs at least 3 vertices; it would have ${n}`;
   const repeated = findRepeatedPoint(points);
   if (repeated) return `vertex ${repeated[1]} would sit exactly on vertex ${repeated[0]}`;
-  const crossing = findSelfIntersection(points);
+  // Only the changed edges can cross anything when the section was simple before (O(k·n)
+  // instead of O(n²): ~0.1 ms instead of ~25 ms at 2000 vertices). Many changed edges: the
+  // full scan costs the same.
+  const crossing = changedEdges && changedEdges.length * 4 < n ? findSelfIntersectionNear(points, changedEdges) : findSelfIntersection(points);
   if (crossing) return `facet ${crossing.edgeB} (vertex ${crossing.edgeB} → ${(crossing.edgeB + 1) % n}) would cross or touch facet ${crossing.edgeA} (vertex ${crossing.edgeA} → ${(crossing.edgeA + 1) % n})`;
   if (signedArea(points) === 0) return 'the vertices would all lie on one line';
   return null;
 }
 
-function withSection(doc: SketchDocument, points: Point[], what: string, check = true): ApplyOpResult {
-  const problem = check ? explainSectionProblem(points) : null;
+/**
+ * `changedEdges`: the edges of `points` the op changed; given, only they are tested for
+ * crossings, which is exact because the document an op applies to is valid [O2].
+ */
+function withSection(doc: SketchDocument, points: Point[], what: string, check = true, changedEdges?: readonly number[]): ApplyOpResult {
+  const problem = check ? explainSectionProblem(points, changedEdges) : null;
   if (problem) return { ok: false, reason: `${what} is not allowed: ${problem}. The section must stay a simple polygon.` };
   return { ok: true, doc: { ...doc, section: { ...doc.section, points } } };
 }

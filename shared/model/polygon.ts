@@ -49,30 +49,59 @@ export function findSelfIntersection(points: readonly XY[]): EdgeCrossing | null
   const n = points.length;
   if (n < 3) return null;
   for (let i = 0; i < n; i++) {
-    const a = points[i];
-    const b = points[(i + 1) % n];
     for (let j = i + 1; j < n; j++) {
-      const c = points[j];
-      const d = points[(j + 1) % n];
-      const adjacentAfter = j === i + 1; // b === c
-      const adjacentBefore = i === 0 && j === n - 1; // d === a
-      if (adjacentAfter || adjacentBefore) {
-        // Shared vertex v, other ends p (of one edge) and q (of the other): they overlap only
-        // when collinear and pointing the same way from v.
-        const v = adjacentAfter ? b : a;
-        const p = adjacentAfter ? a : b;
-        const q = adjacentAfter ? d : c;
-        const ux = p[0] - v[0];
-        const uy = p[1] - v[1];
-        const wx = q[0] - v[0];
-        const wy = q[1] - v[1];
-        if (ux * wy - uy * wx === 0 && ux * wx + uy * wy > 0) return { edgeA: i, edgeB: j };
-        continue;
-      }
-      if (segmentsTouch(a, b, c, d)) return { edgeA: i, edgeB: j };
+      if (edgesCross(points, i, j)) return { edgeA: i, edgeB: j };
     }
   }
   return null;
+}
+
+/**
+ * The same answer as `findSelfIntersection(points)`, in O(k·n) instead of O(n²), for a polygon
+ * that was simple before only the edges in `changedEdges` changed (moved, inserted or deleted
+ * vertices change the edges that touch them). Every crossing then involves a changed edge, so
+ * testing those against all edges and keeping the pair the full scan meets first (smallest
+ * edgeA, then edgeB) reproduces the full result and its message exactly.
+ */
+export function findSelfIntersectionNear(points: readonly XY[], changedEdges: Iterable<number>): EdgeCrossing | null {
+  const n = points.length;
+  if (n < 3) return null;
+  let best: EdgeCrossing | null = null;
+  for (const raw of new Set(changedEdges)) {
+    const e = ((raw % n) + n) % n;
+    for (let j = 0; j < n; j++) {
+      if (j === e) continue;
+      const a = Math.min(e, j);
+      const b = Math.max(e, j);
+      if (best && (a > best.edgeA || (a === best.edgeA && b >= best.edgeB))) continue;
+      if (edgesCross(points, a, b)) best = { edgeA: a, edgeB: b };
+    }
+  }
+  return best;
+}
+
+/** Edges i < j of the closed polygon intersect improperly (see findSelfIntersection). */
+function edgesCross(points: readonly XY[], i: number, j: number): boolean {
+  const n = points.length;
+  const a = points[i];
+  const b = points[(i + 1) % n];
+  const c = points[j];
+  const d = points[(j + 1) % n];
+  const adjacentAfter = j === i + 1; // b === c
+  const adjacentBefore = i === 0 && j === n - 1; // d === a
+  if (adjacentAfter || adjacentBefore) {
+    // Shared vertex v, other ends p (of one edge) and q (of the other): they overlap only
+    // when collinear and pointing the same way from v.
+    const v = adjacentAfter ? b : a;
+    const p = adjacentAfter ? a : b;
+    const q = adjacentAfter ? d : c;
+    const ux = p[0] - v[0];
+    const uy = p[1] - v[1];
+    const wx = q[0] - v[0];
+    const wy = q[1] - v[1];
+    return ux * wy - uy * wx === 0 && ux * wx + uy * wy > 0;
+  }
+  return segmentsTouch(a, b, c, d);
 }
 
 /** Vertices closer than this fraction of the section's size count as one repeated point. */

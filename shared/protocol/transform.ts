@@ -19,7 +19,7 @@ function shiftForInsert(index: number, at: number): number {
 
 export function transformOp(op: EditOp, applied: EditOp, opFirst = false): TransformResult {
   if (op.type === 'rename' || applied.type === 'rename') return { ok: true, op };
-  const indexBased = op.type === 'moveVertices' || op.type === 'insertVertex' || op.type === 'deleteVertex';
+  const indexBased = op.type === 'moveVertices' || op.type === 'setVertexCoordinate' || op.type === 'insertVertex' || op.type === 'deleteVertex';
   if (!indexBased) return { ok: true, op };
   if (applied.type === 'replaceSection' || applied.type === 'replaceDocument') {
     return { ok: false, reason: 'Someone replaced the whole section meanwhile; your vertex edit no longer applies to it.' };
@@ -29,6 +29,8 @@ export function transformOp(op: EditOp, applied: EditOp, opFirst = false): Trans
     switch (op.type) {
       case 'moveVertices':
         return { ok: true, op: { ...op, indices: op.indices.map((i) => shiftForInsert(i, at)) } };
+      case 'setVertexCoordinate':
+        return { ok: true, op: { ...op, index: shiftForInsert(op.index, at) } };
       case 'insertVertex':
         // Same slot: whichever the server applied first keeps it; the other goes after it.
         // `opFirst` says `op` is the one the server ordered first (a client rebasing its
@@ -46,6 +48,9 @@ export function transformOp(op: EditOp, applied: EditOp, opFirst = false): Trans
         if (keep.length === 0) return { ok: false, reason: `Someone deleted vertex ${gone} meanwhile; there is nothing left to move.` };
         return { ok: true, op: { ...op, indices: keep.map((e) => (e.i > gone ? e.i - 1 : e.i)), to: keep.map((e) => e.to) } };
       }
+      case 'setVertexCoordinate':
+        if (op.index === gone) return { ok: false, reason: `Someone deleted vertex ${gone} meanwhile; your ${op.axis} for it no longer applies.` };
+        return { ok: true, op: { ...op, index: op.index > gone ? op.index - 1 : op.index } };
       case 'insertVertex':
         return { ok: true, op: { ...op, index: op.index > gone ? op.index - 1 : op.index } };
       case 'deleteVertex':

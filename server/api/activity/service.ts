@@ -5,6 +5,7 @@ import { activityPage, type ActivityRow } from './repository.ts';
 
 const OP_WORDS: Record<string, string> = {
   moveVertices: 'moved vertices',
+  setVertexCoordinate: 'moved vertices',
   insertVertex: 'added vertices',
   deleteVertex: 'deleted vertices',
   replaceSection: 'replaced the section',
@@ -12,6 +13,8 @@ const OP_WORDS: Record<string, string> = {
   setCondition: 'changed the condition',
   setFlap: 'changed the flap',
   setMomentPoint: 'moved the moment point',
+  setLoads: 'changed the loads settings',
+  setField: 'changed the flap, moment point or loads settings',
   rename: 'renamed the sketch',
 };
 

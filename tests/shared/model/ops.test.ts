@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { defaultSketchDocument, type Point, type SketchDocument } from '../../../shared/model/sketch.ts';
-import { applyOp, invertOp, remapVertexIndex, sketchOpSchema, withOpId, type SketchOp } from '../../../shared/model/ops.ts';
+import { applyOp, explainSectionProblem, invertOp, remapVertexIndex, sketchOpSchema, withOpId, type SketchOp } from '../../../shared/model/ops.ts';
 
 /** The demo double wedge: nose 0, upper ridge 1, tail 2, lower ridge 3. */
 function doc(): SketchDocument {
@@ -178,5 +178,99 @@ describe('setLoads', () => {
     const back = applyOp(r.doc, invertOp(doc, op));
     expect(back.ok && back.doc).toEqual(doc);
     expect(applyOp(doc, { ...op, loads: { chordM: 0, spanM: 1, friction: 'none' } })).toEqual({ ok: false, reason: expect.stringMatching(/chordM must be a positive length/) });
+  });
+});
+
+describe('single-field ops [O5]', () => {
+  it('setVertexCoordinate sets one coordinate and keeps the other as the document has it', () => {
+    const r = applied(doc(), withOpId({ type: 'setVertexCoordinate', index: 1, axis: 'y', value: 0.04 }));
+    expect(r.section.points[1]).toEqual([0.5, 0.04]);
+    const x = applied(doc(), withOpId({ type: 'setVertexCoordinate', index: 3, axis: 'x', value: 0.45 }));
+    expect(x.section.points[3]).toEqual([0.45, -0.025]);
+    expect(applyOp(doc(), withOpId({ type: 'setVertexCoordinate', index: 7, axis: 'x', value: 0 }))).toEqual({ ok: false, reason: 'There is no vertex 7; the section has 4.' });
+    const onTop = applyOp(doc(), withOpId({ type: 'setVertexCoordinate', index: 1, axis: 'y', value: -0.025 }));
+    expect(onTop).toEqual({ ok: false, reason: 'Setting vertex 1’s y to -0.025 is not allowed: vertex 3 would sit exactly on vertex 1. The section must stay a simple polygon.' });
+  });
+
+  it('setField changes one field of the flap, the moment point or the loads and validates the record', () => {
+    const flapped = applied(doc(), withOpId({ type: 'setFlap', flap: { hingeXOverC: 0.7, deflectionDeg: 5 } }));
+    expect(applied(flapped, withOpId({ type: 'setField', field: 'flap.deflectionDeg', value: -3 })).flap).toEqual({ hingeXOverC: 0.7, deflectionDeg: -3 });
+    expect(applyOp(flapped, withOpId({ type: 'setField', field: 'flap.hingeXOverC', value: 1.5 }))).toEqual({ ok: false, reason: 'Hinge position must be inside the chord.' });
+    expect(applyOp(doc(), withOpId({ type: 'setField', field: 'flap.hingeXOverC', value: 0.6 }))).toEqual({ ok: false, reason: expect.stringMatching(/^The flap is switched off/) });
+    const moment = applied(doc(), withOpId({ type: 'setMomentPoint', point: [0.25, 0] }));
+    expect(applied(moment, withOpId({ type: 'setField', field: 'momentPoint.y', value: 0.01 })).momentPoint).toEqual([0.25, 0.01]);
+    expect(applyOp(doc(), withOpId({ type: 'setField', field: 'momentPoint.x', value: 0.3 })).ok).toBe(false);
+    expect(applied(doc(), withOpId({ type: 'setField', field: 'loads.spanM', value: 2.5 })).loads).toEqual({ chordM: 1, spanM: 2.5, friction: 'turbulent' });
+    expect(applied(doc(), withOpId({ type: 'setField', field: 'loads.friction', value: 'laminar' })).loads.friction).toBe('laminar');
+    expect(applyOp(doc(), withOpId({ type: 'setField', field: 'loads.friction', value: 'sticky' })).ok).toBe(false);
+    expect(applyOp(doc(), withOpId({ type: 'setField', field: 'loads.chordM', value: -1 }))).toEqual({ ok: false, reason: 'Chord must be a positive length.' });
+  });
+
+  it.each<[string, SketchOp, SketchDocument]>([
+    ['setVertexCoordinate', withOpId({ type: 'setVertexCoordinate', index: 2, axis: 'x', value: 1.1 }), doc()],
+    ['setField on the flap', withOpId({ type: 'setField', field: 'flap.hingeXOverC', value: 0.6 }), { ...doc(), flap: { hingeXOverC: 0.75, deflectionDeg: 2 } }],
+    ['setField on the moment point', withOpId({ type: 'setField', field: 'momentPoint.x', value: 0.3 }), { ...doc(), momentPoint: [0.25, 0] }],
+    ['setField on the loads', withOpId({ type: 'setField', field: 'loads.friction', value: 'none' }), doc()],
+  ])('[O3] %s followed by its inverse gives the document back', (_name, op, start) => {
+    const before = deepFreeze(start);
+    const after = applied(before, op);
+    expect(applied(after, invertOp(before, op))).toEqual(before);
+  });
+});
+
+describe('incremental section check', () => {
+  /** A wavy closed section of n vertices (simple): an ellipse with a ripple. */
+  function wavy(n: number): Point[] {
+    return Array.from({ length: n }, (_, i) => {
+      const t = (2 * Math.PI * i) / n;
+      return [0.5 - 0.5 * Math.cos(t), (0.08 + 0.01 * Math.sin(7 * t)) * Math.sin(t)] as Point;
+    });
+  }
+
+  it('[O2] a vertex edit on a valid section is refused or accepted exactly as the full O(n²) check decides, with the same message', () => {
+    let reached = 0;
+    let refused = 0;
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 12, max: 60 }),
+        fc.nat(),
+        fc.constantFrom('move', 'insert', 'delete', 'coordinate'),
+        fc.double({ min: -0.6, max: 1.6, noNaN: true }),
+        fc.double({ min: -0.3, max: 0.3, noNaN: true }),
+        (n, k, kind, x, y) => {
+          const start: SketchDocument = { ...doc(), section: { points: wavy(n) } };
+          const i = k % n;
+          const op: SketchOp =
+            kind === 'move'
+              ? withOpId({ type: 'moveVertices', indices: [i], to: [[x, y]] })
+              : kind === 'insert'
+                ? withOpId({ type: 'insertVertex', index: i, at: [x, y] })
+                : kind === 'delete'
+                  ? withOpId({ type: 'deleteVertex', index: i })
+                  : withOpId({ type: 'setVertexCoordinate', index: i, axis: 'y', value: y });
+          const fast = applyOp(start, op);
+          // The same op with the whole-section check: replaceSection of the resulting points.
+          const points = (() => {
+            const p = start.section.points.map((q) => [q[0], q[1]] as Point);
+            if (op.type === 'moveVertices') p[i] = [x, y];
+            else if (op.type === 'insertVertex') p.splice(i, 0, [x, y]);
+            else if (op.type === 'deleteVertex') p.splice(i, 1);
+            else p[i] = [p[i][0], y];
+            return p;
+          })();
+          const full = explainSectionProblem(points);
+          reached += 1;
+          if (full) refused += 1;
+          expect(fast.ok).toBe(full === null);
+          if (!fast.ok && full) expect(fast.reason).toContain(full);
+          return true;
+        },
+      ),
+      { numRuns: 400 },
+    );
+    // Both outcomes are exercised (a generator that mostly refuses would test little).
+    expect(reached).toBeGreaterThanOrEqual(400);
+    expect(refused).toBeGreaterThan(40);
+    expect(reached - refused).toBeGreaterThan(40);
   });
 });

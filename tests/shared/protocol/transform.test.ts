@@ -36,6 +36,24 @@ describe('transformOp [R5]', () => {
     });
   });
 
+  it('[O5] a one-coordinate edit follows its vertex past inserts and deletes, and keeps the other coordinate someone else moved', () => {
+    const set: EditOp = { type: 'setVertexCoordinate', opId: 's', index: 5, axis: 'y', value: -0.1 };
+    expect(transformOp(set, { type: 'insertVertex', opId: 'i', index: 2, at: [0, 0] })).toEqual({ ok: true, op: { ...set, index: 6 } });
+    expect(transformOp(set, { type: 'deleteVertex', opId: 'd', index: 1 })).toEqual({ ok: true, op: { ...set, index: 4 } });
+    expect(transformOp(set, { type: 'deleteVertex', opId: 'd', index: 5 })).toEqual({ ok: false, reason: 'Someone deleted vertex 5 meanwhile; your y for it no longer applies.' });
+    // Two people on one vertex, one on x and one on y: both values survive in either order.
+    const state = octagon();
+    const x: EditOp = { type: 'setVertexCoordinate', opId: 'x', index: 2, axis: 'x', value: 0.2 };
+    const y: EditOp = { type: 'setVertexCoordinate', opId: 'y', index: 2, axis: 'y', value: 0.25 };
+    const xy = applyEdit(state, x);
+    const yx = applyEdit(state, y);
+    if (!xy.ok || !yx.ok) throw new Error('setup');
+    const a = applyEdit(xy.state, y);
+    const b = applyEdit(yx.state, x);
+    expect(a.ok && b.ok && a.state.document.section.points[2]).toEqual([0.2, 0.25]);
+    expect(b.ok && b.state.document.section.points[2]).toEqual([0.2, 0.25]);
+  });
+
   it('refuses a second delete of the same vertex and any vertex edit after a replacement', () => {
     expect(transformOp({ type: 'deleteVertex', opId: 'a', index: 2 }, { type: 'deleteVertex', opId: 'b', index: 2 }).ok).toBe(false);
     expect(transformOp({ type: 'insertVertex', opId: 'a', index: 2, at: [0, 0] }, { type: 'replaceSection', opId: 'b', points: [[0, 0], [1, 0], [0, 1]] }).ok).toBe(false);

@@ -65,6 +65,18 @@ export const snapshotDetailSchema = snapshotSummarySchema.extend({
 });
 export type SnapshotDetail = z.infer<typeof snapshotDetailSchema>;
 
+/**
+ * An approval names the revision it was given to [A1]: who approved, which revision, when. A
+ * sketch whose revision moved past its approved one is "changed since approval" until someone
+ * approves again (`reviewState`).
+ */
+export const approvalSchema = z.object({
+  revision: z.number().int(),
+  byName: z.string().nullable(),
+  at: z.string(),
+});
+export type Approval = z.infer<typeof approvalSchema>;
+
 export const REVIEW_STATUSES = ['draft', 'in_review', 'approved'] as const;
 export const reviewStatusSchema = z.enum(REVIEW_STATUSES);
 export type ReviewStatus = z.infer<typeof reviewStatusSchema>;

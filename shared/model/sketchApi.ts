@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { sketchDocumentSchema, sketchTitleSchema } from './sketch.ts';
+import { approvalSchema } from './review.ts';
 
 /** Shape of one row of the team's sketches table. */
 export const sketchSummarySchema = z.object({
@@ -16,6 +17,8 @@ export const sketchSummarySchema = z.object({
   updatedAt: z.string(),
   updatedByName: z.string().nullable(),
   reviewStatus: z.enum(['draft', 'in_review', 'approved']).default('draft'),
+  /** The approval in force (status approved), with the revision it was given to. */
+  approval: approvalSchema.nullable().default(null),
 });
 export type SketchSummary = z.infer<typeof sketchSummarySchema>;
 
@@ -31,6 +34,7 @@ export const sketchSchema = z.object({
   updatedAt: z.string(),
   updatedByName: z.string().nullable(),
   reviewStatus: z.enum(['draft', 'in_review', 'approved']).default('draft'),
+  approval: approvalSchema.nullable().default(null),
 });
 export type Sketch = z.infer<typeof sketchSchema>;
 

@@ -15,7 +15,7 @@ import { roleSchema } from '../model/roles.ts';
  *   never applied twice.
  * - [R4] Presence (cursor, selection, viewport) is volatile: relayed, throttled, never stored.
  */
-export const PROTOCOL_VERSION = 1;
+export const PROTOCOL_VERSION = 2;
 
 const sketchIdSchema = z.string().regex(/^sketch_[a-z0-9]{20}$/, 'must be a sketch id');
 const revisionSchema = z.number().int().min(0);
@@ -116,6 +116,8 @@ export type ServerMessage =
   | ({ type: 'edit'; sketchId: string } & AppliedEdit)
   | { type: 'presence'; sketchId: string; connectionId: string; userId: string; cursor: [number, number] | null; selection: number[] }
   | { type: 'people'; sketchId: string; people: Person[] }
+  /** Heartbeat: the sketch's latest revision; a client behind it resyncs [R7]. */
+  | { type: 'revision'; sketchId: string; revision: number }
   | { type: 'walkthrough'; sketchId: string; state: WalkthroughState }
   | { type: 'walkthroughView'; sketchId: string; view: View; highlight: Highlight; leadUserId: string }
   /** Pins, snapshots, status, activity or studies of the sketch changed: refetch that list. */
@@ -144,6 +146,12 @@ export const CURSOR_STALE_AFTER_MS = 5_000;
 export const GAP_RESYNC_AFTER_MS = 1_000;
 /** A join or resync left unanswered this long (the server could not reach its database) is sent again. */
 export const REJOIN_RETRY_MS = 3_000;
+/**
+ * Each server instance tells its clients every open sketch's latest revision this often, so a
+ * client that missed a broadcast (its instance died between commit and broadcast) heals
+ * within about REVISION_HEARTBEAT_MS + GAP_RESYNC_AFTER_MS without anyone editing [R7].
+ */
+export const REVISION_HEARTBEAT_MS = 2_000;
 /** Server heartbeat: a dropped connection is noticed within about PING_INTERVAL + PING_TIMEOUT. */
 export const PING_INTERVAL_MS = 3_000;
 export const PING_TIMEOUT_MS = 3_000;

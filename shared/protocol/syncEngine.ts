@@ -18,14 +18,25 @@ import { GAP_RESYNC_AFTER_MS, REJOIN_RETRY_MS, PROTOCOL_VERSION, type ClientMess
  * - After a reconnect the engine rejoins with its revision; the server replays what it missed
  *   (or sends a snapshot) and the in-flight edit is re-sent with its original id [R3].
  * - Remote edits are reported through `onRemoteEdit` so an undo stack can rebase past them
- *   (remote edits never enter local undo).
+ *   (remote edits never enter local undo), with who made them and the edit as it changed the
+ *   local view (rebased past our pending edits), so open form fields can tell what moved.
+ * - The server repeats each sketch's latest revision now and then (`revision` messages): a
+ *   client that is behind (an edit whose broadcast died with a server instance) treats it like
+ *   a gap and resyncs [R7].
  */
+export interface RemoteEditInfo {
+  /** Who made the edit (null: unknown, e.g. a deleted account). */
+  userId: string | null;
+  /** The edit as it applied to the local view (confirmed + pending); null when it could not be expressed there. */
+  local: EditOp | null;
+}
+
 export interface SyncEngineOptions {
   send(msg: ClientMessage): void;
   /** The local view changed (re-render). */
   onChange?(): void;
   /** A remote edit was applied to the server state (rebase undo entries past it). */
-  onRemoteEdit?(op: EditOp): void;
+  onRemoteEdit?(op: EditOp, info: RemoteEditInfo): void;
   /** The server refused one of our edits, or it could no longer apply after a rebase. */
   onRejected?(op: EditOp, reason: string): void;
   /** One of our edits was confirmed at `revision`. */
@@ -72,8 +83,10 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
    * REJOIN_RETRY_MS rather than waiting forever.
    */
   let askedAt: number | null = null;
-  const future = new Map<number, { op: EditOp; own: boolean }>();
+  const future = new Map<number, { op: EditOp; own: boolean; userId: string | null }>();
   let gapSince: number | null = null;
+  /** The newest revision the server said exists (heartbeat); above ours means we missed edits. */
+  let knownRevision = 0;
 
   function recompute(): void {
     if (!server) {
@@ -114,8 +127,11 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
     if (!first.sent) sendInFlight(first, false);
   }
 
-  /** Rebases the pending edits past a remote edit the server ordered before them. */
-  function rebasePending(remote: EditOp): void {
+  /**
+   * Rebases the pending edits past a remote edit the server ordered before them; returns the
+   * remote edit as it applies on top of them (the change the local view sees), or null.
+   */
+  function rebasePending(remote: EditOp): EditOp | null {
     let r: EditOp | null = remote;
     const out: Pending[] = [];
     for (const p of pending) {
@@ -136,6 +152,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       }
     }
     pending = out;
+    return r;
   }
 
   function applyConfirmed(op: EditOp): void {
@@ -159,16 +176,22 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         pending.shift();
         options.onAcked?.(entry.op, server.revision);
       } else {
-        rebasePending(entry.op);
-        options.onRemoteEdit?.(entry.op);
+        const local = rebasePending(entry.op);
+        options.onRemoteEdit?.(entry.op, { userId: entry.userId, local });
       }
     }
-    gapSince = future.size > 0 ? (gapSince ?? now()) : null;
+    updateGap();
     if (changed) {
       recompute();
       flush();
       options.onChange?.();
     }
+  }
+
+  /** A gap is open while edits wait for an earlier one, or the server said it is further on. */
+  function updateGap(): void {
+    const behind = future.size > 0 || (server !== null && knownRevision > server.revision);
+    gapSince = behind ? (gapSince ?? now()) : null;
   }
 
   function adopt(title: string, document: SketchDocument, revision: number): void {
@@ -200,6 +223,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         pending = [];
         local = null;
         future.clear();
+        knownRevision = 0;
       }
       if (connected) {
         rejoining = server !== null;
@@ -244,7 +268,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
           }
           return;
         case 'replay':
-          for (const e of msg.edits) if (!server || e.revision > server.revision) future.set(e.revision, { op: e.op, own: false });
+          for (const e of msg.edits) if (!server || e.revision > server.revision) future.set(e.revision, { op: e.op, own: false, userId: e.userId });
           rejoining = false;
           askedAt = null;
           drainFuture();
@@ -256,6 +280,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
           adopt(msg.title, msg.document, msg.revision);
           rejoining = false;
           askedAt = null;
+          updateGap();
           // We cannot tell which of our edits the snapshot holds: re-send the in-flight one as
           // first sent (same id, same base); the server answers a duplicate with its outcome.
           if (pending[0]?.sent) sendInFlight(pending[0], true);
@@ -265,8 +290,13 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
           return;
         }
         case 'edit':
-          if (server && msg.revision > server.revision) future.set(msg.revision, { op: msg.op, own: false });
+          if (server && msg.revision > server.revision) future.set(msg.revision, { op: msg.op, own: false, userId: msg.userId });
           drainFuture();
+          return;
+        case 'revision':
+          // Heartbeat [R7]: behind it, wait GAP_RESYNC_AFTER_MS for broadcasts in flight, then resync.
+          knownRevision = Math.max(knownRevision, msg.revision);
+          updateGap();
           return;
         case 'ack': {
           const first = pending[0];
@@ -288,7 +318,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
             options.onChange?.();
             return;
           }
-          future.set(msg.revision, { op: msg.op, own: true });
+          future.set(msg.revision, { op: msg.op, own: true, userId: null });
           drainFuture();
           return;
         }

@@ -28,6 +28,7 @@ function sketch(document: SketchDocument, revision: number, extra: Partial<Sketc
     updatedAt: '2030-01-01T00:00:00.000Z',
     updatedByName: 'Ines Marlow',
     reviewStatus: 'draft',
+    approval: null,
     ...extra,
   };
 }

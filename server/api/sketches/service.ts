@@ -34,6 +34,7 @@ function toSketch(row: SketchRow): Sketch {
     updatedAt: row.updatedAt.toISOString(),
     updatedByName: row.updatedByName,
     reviewStatus: row.reviewStatus,
+    approval: null,
   };
 }
 
@@ -55,6 +56,7 @@ export async function listTeamSketches(db: Db, userId: string, teamId: string): 
       updatedAt: r.updatedAt.toISOString(),
       updatedByName: r.updatedByName,
       reviewStatus: r.reviewStatus,
+      approval: null,
     };
   });
 }

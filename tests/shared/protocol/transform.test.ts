@@ -180,4 +180,48 @@ describe('createSyncEngine [R6]', () => {
     expect(engine.state!.document.condition.mach).toBe(2);
     expect(rejected).toEqual(['Your role in this team is viewer; editing needs the editor role.']);
   });
+
+  it('[R7] a revision heartbeat ahead of the client opens a gap that is resynced; one it already has changes nothing', () => {
+    let t = 0;
+    const sent: ClientMessage[] = [];
+    const engine = createSyncEngine({ send: (m) => sent.push(m), now: () => t });
+    engine.connectionOpened();
+    const id = 'sketch_aaaaaaaaaaaaaaaaaaaa';
+    engine.join(id);
+    engine.receive({ type: 'joined', sketchId: id, title: 'T', document: octagon().document, revision: 3, people: [], walkthrough: null, you: { connectionId: 'c', userId: 'u', name: 'N', role: 'editor', colour: '#fff' } });
+    engine.receive({ type: 'revision', sketchId: id, revision: 3 });
+    t = 5000;
+    engine.tick();
+    expect(sent.filter((m) => m.type === 'resync')).toEqual([]);
+    // Revision 4 was committed but its broadcast never came: the heartbeat says so.
+    engine.receive({ type: 'revision', sketchId: id, revision: 4 });
+    t = 5500;
+    engine.tick();
+    expect(sent.filter((m) => m.type === 'resync')).toEqual([]); // a broadcast may still be on its way
+    t = 6100;
+    engine.tick();
+    expect(sent.filter((m) => m.type === 'resync')).toEqual([{ type: 'resync', sketchId: id, lastRevision: 3 }]);
+    engine.receive({ type: 'replay', sketchId: id, revision: 4, edits: [{ revision: 4, userId: 'x', op: { type: 'setCondition', opId: 'lost', field: 'mach', value: 3.4 } }] });
+    expect(engine.revision).toBe(4);
+    expect(engine.state!.document.condition.mach).toBe(3.4);
+    t = 9000;
+    engine.tick();
+    expect(sent.filter((m) => m.type === 'resync')).toHaveLength(1);
+  });
+
+  it('reports a remote edit with its author and as it applies on top of the pending edits', () => {
+    const seen: { op: EditOp; userId: string | null; local: EditOp | null }[] = [];
+    const sent: ClientMessage[] = [];
+    const engine = createSyncEngine({ send: (m) => sent.push(m), onRemoteEdit: (op, info) => seen.push({ op, ...info }) });
+    engine.connectionOpened();
+    const id = 'sketch_aaaaaaaaaaaaaaaaaaaa';
+    engine.join(id);
+    engine.receive({ type: 'joined', sketchId: id, title: 'T', document: octagon().document, revision: 0, people: [], walkthrough: null, you: { connectionId: 'c', userId: 'u', name: 'N', role: 'editor', colour: '#fff' } });
+    // Our pending insert at 2 shifts a remote move of vertex 5 to 6 in the local view.
+    expect(engine.submit({ type: 'insertVertex', opId: 'mine', index: 2, at: [0.32, 0.18] })).toEqual({ ok: true });
+    const remote: EditOp = { type: 'setVertexCoordinate', opId: 'theirs', index: 5, axis: 'y', value: -0.15 };
+    engine.receive({ type: 'edit', sketchId: id, revision: 1, userId: 'user_tomasz', op: remote });
+    expect(seen).toEqual([{ op: remote, userId: 'user_tomasz', local: { ...remote, index: 6 } }]);
+    expect(engine.state!.document.section.points[6][1]).toBe(-0.15);
+  });
 });

@@ -111,7 +111,7 @@ export const setLoadsOpSchema = z.object({
  * [O5]. (The condition's fields have their own op, `setCondition`; switching the flap or the
  * own moment point on and off replaces the record with `setFlap` / `setMomentPoint`.)
  */
-export const DOCUMENT_FIELDS = ['flap.hingeXOverC', 'flap.deflectionDeg', 'momentPoint.x', 'momentPoint.y', 'loads.chordM', 'loads.spanM', 'loads.friction'] as const;
+export const DOCUMENT_FIELDS = ['flap.hingeXOverC', 'flap.deflectionDeg', 'momentPoint.x', 'momentPoint.y', 'loads.chordM', 'loads.spanM', 'loads.friction', 'loads.transitionReynolds'] as const;
 export type DocumentField = (typeof DOCUMENT_FIELDS)[number];
 
 export const setFieldOpSchema = z.object({
@@ -131,6 +131,7 @@ export const DOCUMENT_FIELD_LABEL: Record<DocumentField, string> = {
   'loads.chordM': 'Chord',
   'loads.spanM': 'Span',
   'loads.friction': 'Friction',
+  'loads.transitionReynolds': 'Transition Reynolds number',
 };
 
 export const sketchOpSchema = z.discriminatedUnion('type', [
@@ -283,6 +284,8 @@ export function documentFieldValue(doc: SketchDocument, field: DocumentField): n
       return doc.loads.spanM;
     case 'loads.friction':
       return doc.loads.friction;
+    case 'loads.transitionReynolds':
+      return doc.loads.transitionReynolds ?? null;
   }
 }
 
@@ -313,7 +316,11 @@ export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string =
       return { type: 'setVertexCoordinate', opId, index: op.index, axis: op.axis, value: points[op.index][op.axis === 'x' ? 0 : 1] };
     case 'setField': {
       const before = documentFieldValue(docBefore, op.field);
-      if (before === null) return op.field.startsWith('flap.') ? { type: 'setFlap', opId, flap: null } : { type: 'setMomentPoint', opId, point: null };
+      if (before === null) {
+        if (op.field.startsWith('flap.')) return { type: 'setFlap', opId, flap: null };
+        if (op.field.startsWith('momentPoint.')) return { type: 'setMomentPoint', opId, point: null };
+        return { type: 'setLoads', opId, loads: { ...docBefore.loads } };
+      }
       return { type: 'setField', opId, field: op.field, value: before };
     }
   }

@@ -1,4 +1,4 @@
-import { inject, onBeforeUnmount, shallowRef, triggerRef, watch, type InjectionKey } from 'vue';
+import { inject, onBeforeUnmount, reactive, shallowRef, triggerRef, watch, type InjectionKey } from 'vue';
 import type { EditOp } from '@shared/protocol/messages';
 
 /**
@@ -98,7 +98,8 @@ export function useFieldEdits<T>(spec: FieldEditSpec<T>) {
       return;
     }
     const base = spec.read(key);
-    sessions.value.set(key, { key, base, draft: base, touched: false, focused: true, conflict: null, changedBy: null, error: null, gone: false, lastBy: undefined });
+    // Reactive, so components given a session re-render when it changes.
+    sessions.value.set(key, reactive({ key, base, draft: base, touched: false, focused: true, conflict: null, changedBy: null, error: null, gone: false, lastBy: undefined }) as FieldSession<T>);
     touch();
   }
 
@@ -109,6 +110,8 @@ export function useFieldEdits<T>(spec: FieldEditSpec<T>) {
       focus(key);
       s = get(key)!;
     }
+    // Inputs re-emit their value on blur or re-render: that is not typing.
+    if (same(value, s.touched ? s.draft : s.base)) return;
     s.draft = value;
     s.touched = true;
     s.changedBy = null;
@@ -207,7 +210,7 @@ export function useFieldEdits<T>(spec: FieldEditSpec<T>) {
         changed = true;
         if (s.touched) {
           const key = `${s.key}#gone`;
-          moved.set(key, { ...s, key, gone: true, focused: false, error: null, conflict: { theirs: undefined, by: by ?? 'You' } });
+          moved.set(key, reactive({ ...s, key, gone: true, focused: false, error: null, conflict: { theirs: undefined, by: by ?? 'You' } }) as FieldSession<T>);
         }
         continue;
       }

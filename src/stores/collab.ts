@@ -34,6 +34,8 @@ export const useCollabStore = defineStore('collab', () => {
   const following = ref(true);
   /** Ticks every second so stale cursors disappear. */
   const clock = ref(performance.now());
+  /** Names of everyone seen in this sketch, kept after they leave (a change they made is still theirs). */
+  const names = new Map<string, string>();
 
   const leading = computed(() => !!walkthrough.value && walkthrough.value.leadUserId === you.value?.userId);
   const followingNow = computed(() => !!walkthrough.value && !leading.value && following.value);
@@ -48,11 +50,13 @@ export const useCollabStore = defineStore('collab', () => {
       case 'joined':
         you.value = msg.you;
         people.value = msg.people;
+        for (const p of msg.people) names.set(p.userId, p.name);
         walkthrough.value = msg.walkthrough;
         following.value = true;
         return;
       case 'people': {
         people.value = msg.people;
+        for (const p of msg.people) names.set(p.userId, p.name);
         const present = new Set(msg.people.map((p) => p.connectionId));
         const next = new Map([...cursors.value].filter(([id]) => present.has(id)));
         if (next.size !== cursors.value.size) cursors.value = next;
@@ -95,6 +99,13 @@ export const useCollabStore = defineStore('collab', () => {
     }
   }
 
+  /** Who a user id is, for "changed by …" (the person's own id in another window says so). */
+  function nameOf(userId: string | null): string {
+    if (!userId) return 'Someone';
+    if (userId === you.value?.userId) return 'You (in another window)';
+    return names.get(userId) ?? 'A colleague';
+  }
+
   function tick() {
     clock.value = performance.now();
   }
@@ -108,7 +119,8 @@ export const useCollabStore = defineStore('collab', () => {
     walkthrough.value = null;
     leadView.value = null;
     following.value = true;
+    names.clear();
   }
 
-  return { connection, connectionError, you, people, others, cursors, visibleCursors, walkthrough, leadView, following, leading, followingNow, receive, tick, reset };
+  return { connection, connectionError, you, people, others, cursors, visibleCursors, walkthrough, leadView, following, leading, followingNow, receive, nameOf, tick, reset };
 });

@@ -1,5 +1,6 @@
 import { describe, expect, it, vi } from 'vitest';
-import { mount, flushPromises } from '@vue/test-utils';
+import { mount, flushPromises, type VueWrapper } from '@vue/test-utils';
+import { FIELD_CHANGES, type FieldChangeEvent, type FieldChangeFeed } from '@/composables/useFieldEdits';
 import { createPinia, setActivePinia } from 'pinia';
 import { defaultSketchDocument, type SketchDocument } from '@shared/model/sketch';
 import type { SketchOpDraft } from '@shared/model/ops';
@@ -22,6 +23,83 @@ describe('SketchConditionPanel altitude units', () => {
     await input.setValue('20000');
     await input.trigger('blur');
     expect(apply).toHaveBeenCalledWith({ type: 'setCondition', field: 'altitudeM', value: 6096 });
+    w.unmount();
+  });
+});
+
+describe('SketchConditionPanel: fields are edit sessions', () => {
+  function setup(doc: SketchDocument = DOC) {
+    setActivePinia(createPinia());
+    const listeners = new Set<(e: FieldChangeEvent) => void>();
+    const feed: FieldChangeFeed = (l) => {
+      listeners.add(l);
+      return () => listeners.delete(l);
+    };
+    const apply = vi.fn((_op: SketchOpDraft) => ({ ok: true as const, doc }));
+    const w = mount(SketchConditionPanel, { props: { document: doc, readOnly: false, apply }, attachTo: document.body, global: { provide: { [FIELD_CHANGES as symbol]: feed } } });
+    return { w, apply, announce: (e: FieldChangeEvent) => listeners.forEach((l) => l(e)) };
+  }
+  const inputOf = (w: VueWrapper, key: string) => w.get(`input#condition-${key}`);
+
+  it('[F3] typing Mach without Enter survives a colleague moving a vertex, and only Mach is sent', async () => {
+    const { w, apply, announce } = setup();
+    const mach = inputOf(w, 'mach');
+    await mach.trigger('focus');
+    await mach.setValue('3.4');
+    // Ines moves a vertex: the document changes under the typing.
+    const moved: SketchDocument = { ...DOC, section: { points: [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.025]] } };
+    announce({ op: { type: 'setVertexCoordinate', opId: 'o', index: 1, axis: 'y', value: 0.03 }, by: 'Ines Marlow' });
+    await w.setProps({ document: moved });
+    await flushPromises();
+    expect((mach.element as HTMLInputElement).value).toBe('3.4');
+    expect(w.find('[data-testid="field-conflict"]').exists()).toBe(false);
+    await mach.trigger('blur');
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', field: 'mach', value: 3.4 });
+    w.unmount();
+  });
+
+  it('[F3] a colleague setting Mach under the typing opens a conflict with their name; nothing is sent until a choice', async () => {
+    const { w, apply, announce } = setup();
+    const mach = inputOf(w, 'mach');
+    await mach.trigger('focus');
+    await mach.setValue('3.4');
+    announce({ op: { type: 'setCondition', opId: 'o', field: 'mach', value: 2.6 }, by: 'Ines Marlow' });
+    await w.setProps({ document: { ...DOC, condition: { ...DOC.condition, mach: 2.6 } } });
+    await flushPromises();
+    expect((mach.element as HTMLInputElement).value).toBe('3.4');
+    expect(w.get('[data-testid="field-conflict"]').text()).toContain('Ines Marlow changed Mach to 2.6 while you were typing 3.4');
+    await mach.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    await w.get('[data-testid="conflict-keep-mine"]').trigger('click');
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', field: 'mach', value: 3.4 });
+    w.unmount();
+  });
+
+  it('[F1][O5] the flap hinge sends only the hinge; a field opened and left sends nothing', async () => {
+    const flapped: SketchDocument = { ...DOC, flap: { hingeXOverC: 0.75, deflectionDeg: 4 } };
+    const { w, apply } = setup(flapped);
+    const deflection = inputOf(w, 'deflection');
+    await deflection.trigger('focus');
+    await deflection.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    const hinge = inputOf(w, 'hinge');
+    await hinge.trigger('focus');
+    await hinge.setValue('0.7');
+    await hinge.trigger('blur');
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setField', field: 'flap.hingeXOverC', value: 0.7 });
+    w.unmount();
+  });
+
+  it('[F4] a refused value stays with the store’s reason', async () => {
+    const { w } = setup();
+    const reason = 'Mach number must be above 1 (supersonic).';
+    await w.setProps({ apply: vi.fn(() => ({ ok: false as const, reason })) });
+    const mach = inputOf(w, 'mach');
+    await mach.trigger('focus');
+    await mach.setValue('0.8');
+    await mach.trigger('blur');
+    expect(w.get('[data-testid="condition-error-mach"]').text()).toBe(reason);
+    expect((mach.element as HTMLInputElement).value).toBe('0.8');
     w.unmount();
   });
 });

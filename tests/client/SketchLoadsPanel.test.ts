@@ -4,6 +4,8 @@ import { createPinia, setActivePinia } from 'pinia';
 import { analyseSketch } from '@shared/flight/analyseSketch';
 import { RESULTS_CAUTION } from '@shared/model/caution';
 import { defaultSketchDocument, type SketchDocument } from '@shared/model/sketch';
+import type { ApplyOpResult, SketchOpDraft } from '@shared/model/ops';
+import { FIELD_CHANGES, type FieldChangeEvent, type FieldChangeFeed } from '@/composables/useFieldEdits';
 
 const apiMock = vi.hoisted(() => ({ get: vi.fn(), patch: vi.fn(), post: vi.fn(), put: vi.fn(), delete: vi.fn() }));
 vi.mock('@/api/client', async (importOriginal) => {
@@ -23,9 +25,9 @@ const FIN: SketchDocument = {
   loads: { chordM: 0.5, spanM: 0.4, friction: 'turbulent' },
 };
 
-function mountPanel(props: Partial<{ readOnly: boolean; document: SketchDocument }> = {}) {
+function mountPanel(props: Partial<{ readOnly: boolean; document: SketchDocument; apply: (op: SketchOpDraft) => ApplyOpResult }> = {}) {
   const doc = props.document ?? FIN;
-  return mount(SketchLoadsPanel, { props: { analysis: analyseSketch(doc), settings: doc.loads, readOnly: props.readOnly ?? false }, attachTo: document.body });
+  return mount(SketchLoadsPanel, { props: { analysis: analyseSketch(doc), settings: doc.loads, readOnly: props.readOnly ?? false, apply: props.apply }, attachTo: document.body });
 }
 
 const text = (w: ReturnType<typeof mountPanel>, id: string) => w.get(`[data-testid="${id}"]`).text();
@@ -66,22 +68,50 @@ describe('SketchLoadsPanel', () => {
     w.unmount();
   });
 
-  it('emits update:loads in SI once a field is committed, with the chord typed in feet', async () => {
+  it('[F1] a committed chord typed in feet is sent in SI as one setField op; the untouched span sends nothing', async () => {
     setActivePinia(createPinia());
     apiMock.get.mockResolvedValue({ unitSystem: 'us' });
-    const w = mountPanel();
+    const apply = vi.fn((_op: SketchOpDraft): ApplyOpResult => ({ ok: true, doc: FIN }));
+    const w = mountPanel({ apply });
     await flushPromises();
     const chord = w.get('[data-testid="loads-chord"]');
     expect((chord.element as HTMLInputElement).value).toBe('1.64042'); // 0.5 m in feet
+    await chord.trigger('focus');
     await chord.setValue('2');
     await chord.trigger('blur');
-    // The span was not touched: it keeps its stored value exactly (no round trip through feet).
-    expect(w.emitted('update:loads')).toEqual([[{ chordM: 0.6096, spanM: 0.4, friction: 'turbulent' }]]);
+    expect(apply.mock.calls).toEqual([[{ type: 'setField', field: 'loads.chordM', value: 0.6096 }]]);
+    // The span was opened and left as shown: its stored value is not touched (no round trip through feet).
+    const span = w.get('[data-testid="loads-span"]');
+    await span.trigger('focus');
+    await span.trigger('blur');
     // Once the parent has applied it, committing the same value again is not an edit.
     await w.setProps({ settings: { chordM: 0.6096, spanM: 0.4, friction: 'turbulent' } });
     expect(Number((chord.element as HTMLInputElement).value)).toBe(2);
+    await chord.trigger('focus');
     await chord.trigger('blur');
-    expect(w.emitted('update:loads')).toHaveLength(1);
+    expect(apply).toHaveBeenCalledTimes(1);
+    w.unmount();
+  });
+
+  it('[F3] a colleague’s span under the typing is a conflict, not overwritten; Keep mine sends exactly the span', async () => {
+    const listeners = new Set<(e: FieldChangeEvent) => void>();
+    const feed: FieldChangeFeed = (l) => {
+      listeners.add(l);
+      return () => listeners.delete(l);
+    };
+    const apply = vi.fn((_op: SketchOpDraft): ApplyOpResult => ({ ok: true, doc: FIN }));
+    const w = mount(SketchLoadsPanel, { props: { analysis: analyseSketch(FIN), settings: FIN.loads, apply }, attachTo: document.body, global: { provide: { [FIELD_CHANGES as symbol]: feed } } });
+    await flushPromises();
+    const span = w.get('[data-testid="loads-span"]');
+    await span.trigger('focus');
+    await span.setValue('0.5');
+    listeners.forEach((l) => l({ op: { type: 'setField', opId: 'o', field: 'loads.spanM', value: 0.45 }, by: 'Priya Anand' }));
+    await w.setProps({ settings: { ...FIN.loads, spanM: 0.45 } });
+    await span.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    expect(w.get('[data-testid="field-conflict"]').text()).toContain('Priya Anand changed the span to 0.45 m while you were typing 0.5 m');
+    await w.get('[data-testid="conflict-keep-mine"]').trigger('click');
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setField', field: 'loads.spanM', value: 0.5 });
     w.unmount();
   });
 
@@ -91,7 +121,7 @@ describe('SketchLoadsPanel', () => {
     const chord = w.get('[data-testid="loads-chord"]');
     expect((chord.element as HTMLInputElement).disabled).toBe(true);
     await chord.trigger('blur');
-    expect(w.emitted('update:loads')).toBeUndefined();
+    expect(w.emitted()).not.toHaveProperty('update:loads');
     expect(text(w, 'loads-note')).toBe('Give an altitude to see loads, friction drag and the free-stream state.');
     w.unmount();
   });
@@ -108,17 +138,19 @@ describe('SketchLoadsPanel', () => {
     w.unmount();
   });
 
-  it('mixed friction: offers the transition Reynolds number, emits it, and shows the laws\' range flags (86 km: Re ≈ 230 on a 0.5 m chord)', async () => {
+  it('mixed friction: offers the transition Reynolds number, sends it as one setField op, and shows the laws\' range flags (86 km: Re ≈ 230 on a 0.5 m chord)', async () => {
     const doc: SketchDocument = { ...FIN, condition: { ...FIN.condition, mach: 3, altitudeM: 86_000 }, loads: { ...FIN.loads, friction: 'mixed' } };
-    const w = mountPanel({ document: doc });
+    const apply = vi.fn((_op: SketchOpDraft): ApplyOpResult => ({ ok: true, doc }));
+    const w = mountPanel({ document: doc, apply });
     await flushPromises();
     expect(text(w, 'friction-flags')).toMatch(/Upper surface: Re \d\.\d\d×10\^2 is below 1\.00×10\^3/);
     expect(text(w, 'friction-model')).toMatch(/mixed laminar\/turbulent flow with transition at Re 5\.00×10\^5/);
     expect(text(w, 'cd-cdFriction')).not.toBe('0');
     const t = w.get('[data-testid="loads-transition"]');
+    await t.trigger('focus');
     await t.setValue('1000000');
     await t.trigger('blur');
-    expect(w.emitted('update:loads')).toEqual([[{ chordM: 0.5, spanM: 0.4, friction: 'mixed', transitionReynolds: 1e6 }]]);
+    expect(apply.mock.calls).toEqual([[{ type: 'setField', field: 'loads.transitionReynolds', value: 1e6 }]]);
     w.unmount();
   });
 });

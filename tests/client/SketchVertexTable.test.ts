@@ -1,5 +1,7 @@
 import { describe, expect, it, vi } from 'vitest';
-import { mount } from '@vue/test-utils';
+import { flushPromises, mount, type VueWrapper } from '@vue/test-utils';
+import { FIELD_CHANGES, type FieldChangeEvent, type FieldChangeFeed } from '@/composables/useFieldEdits';
+import type { EditOp } from '@shared/protocol/messages';
 import SketchVertexTable from '@/components/SketchVertexTable.vue';
 import type { Point } from '@shared/model/sketch';
 import type { ApplyOpResult, SketchOpDraft } from '@shared/model/ops';
@@ -34,11 +36,11 @@ describe('SketchVertexTable', () => {
     wrapper.unmount();
   });
 
-  it('an edited cell becomes one moveVertices op for that vertex', async () => {
+  it('[O5] an edited cell becomes one setVertexCoordinate op for that coordinate only', async () => {
     const { wrapper, apply } = mountTable();
     await edit(wrapper, 'vertex-y-1', '0.04');
     expect(apply).toHaveBeenCalledTimes(1);
-    expect(apply).toHaveBeenCalledWith({ type: 'moveVertices', indices: [1], to: [[0.5, 0.04]] });
+    expect(apply).toHaveBeenCalledWith({ type: 'setVertexCoordinate', index: 1, axis: 'y', value: 0.04 });
     expect(wrapper.find('[data-testid="vertex-table-error"]').exists()).toBe(false);
     wrapper.unmount();
   });
@@ -56,7 +58,7 @@ describe('SketchVertexTable', () => {
     const reason = 'Moving vertex 0 there is not allowed: facet 3 (vertex 3 → 0) would cross or touch facet 1 (vertex 1 → 2). The section must stay a simple polygon.';
     const { wrapper, apply } = mountTable({ apply: vi.fn(() => ({ ok: false as const, reason })) });
     await edit(wrapper, 'vertex-x-0', '0.9');
-    expect(apply).toHaveBeenCalledWith({ type: 'moveVertices', indices: [0], to: [[0.9, 0]] });
+    expect(apply).toHaveBeenCalledWith({ type: 'setVertexCoordinate', index: 0, axis: 'x', value: 0.9 });
     expect(wrapper.get('[data-testid="vertex-table-error"]').text()).toBe(reason);
     expect((wrapper.get('[data-testid="vertex-x-0"]').element as HTMLInputElement).value).toBe('0.9');
     // Escape gives the model value back.
@@ -98,6 +100,127 @@ describe('SketchVertexTable', () => {
     expect(apply).toHaveBeenCalledWith({ type: 'deleteVertex', index: 1 });
     await wrapper.setProps({ points: wedge.slice(0, 3) });
     expect(wrapper.findAll('.vertex-table__delete').every((b) => (b.element as HTMLButtonElement).disabled)).toBe(true);
+    wrapper.unmount();
+  });
+});
+
+describe('SketchVertexTable: each cell is a field edit session', () => {
+  /** A feed like SketchView's: tests announce colleagues' edits through it. */
+  function feed() {
+    const listeners = new Set<(e: FieldChangeEvent) => void>();
+    const subscribe: FieldChangeFeed = (l) => {
+      listeners.add(l);
+      return () => listeners.delete(l);
+    };
+    return { subscribe, announce: (e: FieldChangeEvent) => listeners.forEach((l) => l(e)) };
+  }
+  function mountLive(points: Point[] = wedge) {
+    const f = feed();
+    const apply = vi.fn((_op: SketchOpDraft): ApplyOpResult => ({ ok: true, doc: { ...defaultSketchDocument(), section: { points } } }));
+    const wrapper = mount(SketchVertexTable, { props: { points, selection: [], readOnly: false, apply }, attachTo: document.body, global: { provide: { [FIELD_CHANGES as symbol]: f.subscribe } } });
+    return { wrapper, apply, ...f };
+  }
+  const cell = (w: VueWrapper, id: string) => w.get(`[data-testid="${id}"]`);
+  const value = (w: VueWrapper, id: string) => (cell(w, id).element as HTMLInputElement).value;
+  const colleague = (op: EditOp): FieldChangeEvent => ({ op, by: 'Tomasz Reyes' });
+
+  it('[F1][F2] a cell opened and left without typing sends nothing, though a colleague changed it meanwhile; it showed their value and name', async () => {
+    const { wrapper, apply, announce } = mountLive();
+    await cell(wrapper, 'vertex-y-3').trigger('focus');
+    expect(value(wrapper, 'vertex-y-3')).toBe('-0.025');
+    // Tomasz sets vertex 3's y while the cell is open.
+    announce(colleague({ type: 'setVertexCoordinate', opId: 'o1', index: 3, axis: 'y', value: -0.031 }));
+    await wrapper.setProps({ points: [wedge[0], wedge[1], wedge[2], [0.5, -0.031]] });
+    expect(value(wrapper, 'vertex-y-3')).toBe('-0.031');
+    expect(wrapper.get('[data-testid="field-changed-note"]').text()).toBe('Tomasz Reyes changed vertex 3 y to -0.031 just now.');
+    await cell(wrapper, 'vertex-y-3').trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    expect(wrapper.find('[data-testid="field-changed-note"]').exists()).toBe(false);
+    wrapper.unmount();
+  });
+
+  it('[F3] a colleague’s change under the typing keeps the typing, sends nothing on Enter or blur, and waits for a choice', async () => {
+    const { wrapper, apply, announce } = mountLive();
+    const input = cell(wrapper, 'vertex-y-1');
+    await input.trigger('focus');
+    (input.element as HTMLInputElement).value = '0.03';
+    await input.trigger('input');
+    announce(colleague({ type: 'setVertexCoordinate', opId: 'o1', index: 1, axis: 'y', value: 0.028 }));
+    await wrapper.setProps({ points: [wedge[0], [0.5, 0.028], wedge[2], wedge[3]] });
+    expect(value(wrapper, 'vertex-y-1')).toBe('0.03');
+    expect(wrapper.get('[data-testid="field-conflict"]').text()).toContain('Tomasz Reyes changed vertex 1 y to 0.028 while you were typing 0.03');
+    await input.trigger('keydown', { key: 'Enter' });
+    await input.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    expect(value(wrapper, 'vertex-y-1')).toBe('0.03');
+    // Keeping mine sends exactly my coordinate.
+    await wrapper.get('[data-testid="conflict-keep-mine"]').trigger('click');
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setVertexCoordinate', index: 1, axis: 'y', value: 0.03 });
+    expect(wrapper.find('[data-testid="field-conflict"]').exists()).toBe(false);
+    wrapper.unmount();
+  });
+
+  it('[F3] taking the colleague’s value drops the typing and sends nothing', async () => {
+    const { wrapper, apply, announce } = mountLive();
+    const input = cell(wrapper, 'vertex-x-2');
+    await input.trigger('focus');
+    (input.element as HTMLInputElement).value = '1.2';
+    await input.trigger('input');
+    announce(colleague({ type: 'moveVertices', opId: 'o1', indices: [2], to: [[1.1, 0]] }));
+    await wrapper.setProps({ points: [wedge[0], wedge[1], [1.1, 0], wedge[3]] });
+    await wrapper.get('[data-testid="conflict-take-theirs"]').trigger('click');
+    await input.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    expect(value(wrapper, 'vertex-x-2')).toBe('1.1');
+    wrapper.unmount();
+  });
+
+  it('[F3] a colleague setting exactly the typed value ends the edit without a conflict or an op', async () => {
+    const { wrapper, apply, announce } = mountLive();
+    const input = cell(wrapper, 'vertex-y-1');
+    await input.trigger('focus');
+    (input.element as HTMLInputElement).value = '0.03';
+    await input.trigger('input');
+    announce(colleague({ type: 'setVertexCoordinate', opId: 'o1', index: 1, axis: 'y', value: 0.03 }));
+    await wrapper.setProps({ points: [wedge[0], [0.5, 0.03], wedge[2], wedge[3]] });
+    expect(wrapper.find('[data-testid="field-conflict"]').exists()).toBe(false);
+    await input.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    wrapper.unmount();
+  });
+
+  it('[F5] the typing follows its vertex when a colleague inserts a vertex above, and is sent for that vertex', async () => {
+    const { wrapper, apply, announce } = mountLive();
+    const input = cell(wrapper, 'vertex-y-3');
+    await input.trigger('focus');
+    (input.element as HTMLInputElement).value = '-0.03';
+    await input.trigger('input');
+    announce(colleague({ type: 'insertVertex', opId: 'o1', index: 1, at: [0.25, 0.02] }));
+    await wrapper.setProps({ points: [wedge[0], [0.25, 0.02], wedge[1], wedge[2], wedge[3]] });
+    await flushPromises();
+    // The typing moved with vertex 3 (now row 4) and the focus followed it.
+    expect(value(wrapper, 'vertex-y-4')).toBe('-0.03');
+    expect(value(wrapper, 'vertex-y-3')).toBe('0');
+    expect(document.activeElement).toBe(cell(wrapper, 'vertex-y-4').element);
+    await cell(wrapper, 'vertex-y-4').trigger('blur');
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setVertexCoordinate', index: 4, axis: 'y', value: -0.03 });
+    wrapper.unmount();
+  });
+
+  it('[F5] a vertex deleted under the typing leaves a conflict that can only be discarded', async () => {
+    const { wrapper, apply, announce } = mountLive();
+    const input = cell(wrapper, 'vertex-x-1');
+    await input.trigger('focus');
+    (input.element as HTMLInputElement).value = '0.45';
+    await input.trigger('input');
+    announce(colleague({ type: 'deleteVertex', opId: 'o1', index: 1 }));
+    await wrapper.setProps({ points: [wedge[0], wedge[2], wedge[3]] });
+    await input.trigger('blur');
+    expect(wrapper.get('[data-testid="field-conflict"]').text()).toContain('Tomasz Reyes deleted vertex 1 x while you were typing 0.45');
+    expect(wrapper.find('[data-testid="conflict-keep-mine"]').exists()).toBe(false);
+    await wrapper.get('[data-testid="conflict-take-theirs"]').trigger('click');
+    expect(wrapper.find('[data-testid="field-conflict"]').exists()).toBe(false);
+    expect(apply).not.toHaveBeenCalled();
     wrapper.unmount();
   });
 });

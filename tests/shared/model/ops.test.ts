@@ -211,6 +211,7 @@ describe('single-field ops [O5]', () => {
     ['setField on the flap', withOpId({ type: 'setField', field: 'flap.hingeXOverC', value: 0.6 }), { ...doc(), flap: { hingeXOverC: 0.75, deflectionDeg: 2 } }],
     ['setField on the moment point', withOpId({ type: 'setField', field: 'momentPoint.x', value: 0.3 }), { ...doc(), momentPoint: [0.25, 0] }],
     ['setField on the loads', withOpId({ type: 'setField', field: 'loads.friction', value: 'none' }), doc()],
+    ['setField on a loads field that was absent', withOpId({ type: 'setField', field: 'loads.transitionReynolds', value: 2e6 }), doc()],
   ])('[O3] %s followed by its inverse gives the document back', (_name, op, start) => {
     const before = deepFreeze(start);
     const after = applied(before, op);

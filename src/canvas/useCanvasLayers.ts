@@ -23,7 +23,7 @@ import type { CanvasView } from './useCanvasView';
 import { toScreen } from './view';
 
 /**
- * One Konva layer drawn from draw lists [R1]: a Shape whose config never changes and whose
+ * One Konva layer drawn from draw lists [D1]: a Shape whose config never changes and whose
  * sceneFunc strokes the current lists, so vue-konva never schedules a draw of its own. The layer
  * is drawn when its lists (or `alsoOn`) change — at once, or through `schedule` (the scene
  * waits for its solve). In the template: `<VLayer ref="<refName>"><VShape :config="shape" /></VLayer>`.

@@ -34,7 +34,7 @@ export function sectionCsv(title: string, points: readonly Point[]): string {
 export const FACET_CSV_COLUMNS = [
   'surface', 'facet', 'x_from', 'y_from', 'x_to', 'y_to', 'x_mid_over_c', 'length', 'phi_deg', 'theta_deg',
   'turn_deg', 'wave', 'solved', 'mach', 'p_over_pinf', 'T_over_Tinf', 'rho_over_rhoinf', 'p0_over_p0inf',
-  'cp', 'cp_linear', 'cp_second_order',
+  'cp', 'cp_linear', 'cp_second_order', 'vacuum',
 ] as const;
 
 const num = (v: number | null): string => (v === null ? '' : String(v));
@@ -43,7 +43,7 @@ function facetRow(surface: string, f: Facet): string {
   return [
     surface, f.index, f.from[0], f.from[1], f.to[0], f.to[1], f.xMidOverC, f.length, f.phiDeg, f.thetaDeg, f.turnDeg,
     f.wave, f.solved, num(f.mach), num(f.pRatio), num(f.tRatio), num(f.rhoRatio), num(f.p0Ratio), num(f.cp),
-    f.cpLinear, f.cpSecondOrder,
+    num(f.cpLinear), num(f.cpSecondOrder), f.vacuum,
   ].join(',');
 }
 
@@ -54,6 +54,7 @@ export function facetCsv(title: string, result: SolveResult): string {
     `# Shockwright result per facet: ${oneLine(title)}`,
     `# M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}; status ${result.status}`,
     `# ${RESULTS_CAUTION}`,
+    `# x_mid_over_c from the leading edge (${result.geometry.reference.leadingEdge.join(', ')}) over the reference chord ${result.geometry.reference.chord} (${result.geometry.reference.source === 'input' ? 'the section as drawn' : 'the solved outline'}); vacuum: p = 0 past a Prandtl-Meyer limit`,
     FACET_CSV_COLUMNS.join(','),
     ...result.surfaces.upper.map((f) => facetRow('upper', f)),
     ...result.surfaces.lower.map((f) => facetRow('lower', f)),

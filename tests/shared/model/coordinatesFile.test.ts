@@ -88,9 +88,10 @@ describe('exports', () => {
   it('the facet CSV has one row per facet, the columns named and the caution', () => {
     const csv = facetCsv('Demo', result).trimEnd().split('\n');
     expect(csv[2]).toBe(`# ${RESULTS_CAUTION}`);
-    expect(csv[3]).toBe(FACET_CSV_COLUMNS.join(','));
-    expect(csv.slice(4)).toHaveLength(4);
-    const first = csv[4].split(',');
+    expect(csv[3]).toMatch(/^# x_mid_over_c from the leading edge \(0, 0\) over the reference chord 1 \(the solved outline\)/);
+    expect(csv[4]).toBe(FACET_CSV_COLUMNS.join(','));
+    expect(csv.slice(5)).toHaveLength(4);
+    const first = csv[5].split(',');
     expect(first).toHaveLength(FACET_CSV_COLUMNS.length);
     expect(first[0]).toBe('upper');
     expect(Number(first[FACET_CSV_COLUMNS.indexOf('cp')])).toBe(result.surfaces.upper[0].cp);

@@ -17,6 +17,17 @@ export default mergeConfig(
         {
           extends: true,
           test: {
+            // The house itself: lint rules, the npm start/test lifecycle.
+            name: 'tooling',
+            include: ['tests/tooling/**/*.test.ts'],
+            environment: 'node',
+            testTimeout: 120_000,
+            hookTimeout: 120_000,
+          },
+        },
+        {
+          extends: true,
+          test: {
             name: 'client',
             include: ['tests/client/**/*.test.ts'],
             environment: 'happy-dom',

@@ -1,6 +1,6 @@
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
-import type pg from 'pg';
+import type { Database } from '../db/client.ts';
 import type { RequestHandler } from 'express';
 
 export const SESSION_COOKIE = 'sw.sid';
@@ -18,7 +18,7 @@ export interface SessionSetup {
  * arrived over TLS (directly or via a trusted proxy). The same middleware authenticates the
  * socket.io handshake.
  */
-export function createSession(pool: pg.Pool, secret: string): SessionSetup {
+export function createSession(pool: Database['pool'], secret: string): SessionSetup {
   const PgStore = connectPgSimple(session);
   const store = new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 });
   const middleware = session({

@@ -4,8 +4,9 @@ import { chmodSync, chownSync, existsSync, mkdirSync, mkdtempSync, readFileSync,
 import { tmpdir } from 'node:os';
 import { createServer } from 'node:net';
 import path from 'node:path';
-import pg from 'pg';
 import { capture, isRoot } from './system.ts';
+
+export { ensureDatabase } from '../db/admin.ts';
 
 /**
  * A local PostgreSQL cluster in a folder of ours, run by an unprivileged user (PostgreSQL refuses
@@ -170,21 +171,6 @@ export function startCluster(options: ClusterOptions): Cluster {
       }
     },
   };
-}
-
-/** Creates database `name` if it does not exist (optionally as a copy of `template`). */
-export async function ensureDatabase(adminUrl: string, name: string, template?: string): Promise<void> {
-  const client = new pg.Client({ connectionString: adminUrl });
-  await client.connect();
-  try {
-    const { rowCount } = await client.query('select 1 from pg_database where datname = $1', [name]);
-    if (!rowCount) {
-      const ident = (s: string) => `"${s.replace(/"/g, '""')}"`;
-      await client.query(`create database ${ident(name)}${template ? ` template ${ident(template)}` : ''}`);
-    }
-  } finally {
-    await client.end();
-  }
 }
 
 export function makeOwnedTempDir(base: string): void {

@@ -59,6 +59,13 @@ async function main(): Promise<number> {
       passed += 1;
     } else failed += 1;
 
+    step('Lint (ESLint, with the layer rules)');
+    const lint = spawnSync(bin('eslint'), ['--max-warnings=0', '--cache', '--cache-location', 'node_modules/.cache/eslint/', '.'], { cwd: REPO_ROOT, stdio: 'inherit' });
+    if (lint.status === 0) {
+      console.log('Lint clean.');
+      passed += 1;
+    } else failed += 1;
+
     step('Test suites (vitest)');
     const jsonFile = path.join(work, 'vitest.json');
     spawnSync(bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${jsonFile}`, ...extraArgs], {

@@ -1,4 +1,4 @@
-import { applyOp, explainSectionProblem, type SketchOp } from '../model/ops.ts';
+import { applyOp, explainSectionProblem } from '../model/ops.ts';
 import { sketchDocumentSchema, type SketchDocument } from '../model/sketch.ts';
 import type { EditOp } from './messages.ts';
 

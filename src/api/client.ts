@@ -38,7 +38,7 @@ async function request<T>(method: Method, url: string, body?: unknown, schema?: 
   }
   if (res.status === 204) return undefined as T;
   const text = await res.text();
-  let data: unknown = undefined;
+  let data: unknown;
   try {
     data = text ? JSON.parse(text) : undefined;
   } catch {

@@ -4,7 +4,6 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { RunningServer } from '../../server/index.ts';
 import { DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
-import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { ARTIFACTS_DIR, screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
 
@@ -13,7 +12,6 @@ import { ARTIFACTS_DIR, screenshot, signInDemo, textOf, vertexOnScreen, type Bro
 const text = textOf;
 
 describe('sketch editor in Chromium', () => {
-  let database: TestDatabase;
   let server: RunningServer;
   let browser: BrowserSession;
 
@@ -21,7 +19,7 @@ describe('sketch editor in Chromium', () => {
 
   beforeAll(async () => {
     world = await startBrowserWorld();
-    ({ database, server } = world);
+    ({ server } = world);
     [browser] = world.browsers;
   });
   afterAll(async () => world?.close());

@@ -8,7 +8,7 @@ import type { Point } from '../../shared/model/sketch.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
-import { ARTIFACTS_DIR, screenshot, signInDemo, textOf, worldOnScreen, type BrowserSession } from '../helpers/browser.ts';
+import { screenshot, signInDemo, textOf, worldOnScreen, type BrowserSession } from '../helpers/browser.ts';
 
 const [INES, TOMASZ, PRIYA] = DEMO_PEOPLE;
 const FIN = DEMO_SKETCHES[0];

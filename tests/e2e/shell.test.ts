@@ -1,12 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { RunningServer } from '../../server/index.ts';
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_TEAM } from '../../server/db/seed.ts';
-import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, type BrowserSession } from '../helpers/browser.ts';
 
 describe('app shell in Chromium', () => {
-  let database: TestDatabase;
   let server: RunningServer;
   let browser: BrowserSession;
 
@@ -14,7 +12,7 @@ describe('app shell in Chromium', () => {
 
   beforeAll(async () => {
     world = await startBrowserWorld();
-    ({ database, server } = world);
+    ({ server } = world);
     [browser] = world.browsers;
   });
   afterAll(async () => world?.close());

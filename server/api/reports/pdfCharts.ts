@@ -69,8 +69,18 @@ export function drawLineChart(doc: PDFKit.PDFDocument, x: number, y: number, w: 
 
   const xs: number[] = [];
   const ys: number[] = [];
-  for (const s of chart.series) for (const p of s.points) if (p && Number.isFinite(p[0]) && Number.isFinite(p[1])) (xs.push(p[0]), ys.push(p[1]));
-  for (const m of chart.markers ?? []) (xs.push(m.x), ys.push(m.y));
+  for (const s of chart.series) {
+    for (const p of s.points) {
+      if (p && Number.isFinite(p[0]) && Number.isFinite(p[1])) {
+        xs.push(p[0]);
+        ys.push(p[1]);
+      }
+    }
+  }
+  for (const m of chart.markers ?? []) {
+    xs.push(m.x);
+    ys.push(m.y);
+  }
   if (xs.length === 0) {
     doc.rect(px, py, pw, ph).lineWidth(0.5).strokeColor(RULE).stroke();
     line(doc, 'No valid points to plot.', px, py + ph / 2 - 5, { size: 8, color: INK_SOFT, width: pw, align: 'center' });

@@ -9,6 +9,12 @@ export default mergeConfig(
   viteConfig,
   defineConfig({
     test: {
+      // Generous on purpose: the suite must pass on a loaded 2-core machine, so nothing waits on
+      // a short clock. A test that hangs still fails, just later. expect.poll waits on state for
+      // up to 20 s unless a call says otherwise (vitest's default is 1 s).
+      testTimeout: 60_000,
+      hookTimeout: 60_000,
+      expect: { poll: { timeout: 20_000, interval: 50 } },
       projects: [
         {
           extends: true,
@@ -21,8 +27,8 @@ export default mergeConfig(
             name: 'tooling',
             include: ['tests/tooling/**/*.test.ts'],
             environment: 'node',
-            testTimeout: 120_000,
-            hookTimeout: 120_000,
+            testTimeout: 180_000,
+            hookTimeout: 180_000,
           },
         },
         {
@@ -42,8 +48,6 @@ export default mergeConfig(
             globalSetup: ['tests/setup/globalSetup.ts'],
             include: ['tests/server/**/*.test.ts'],
             environment: 'node',
-            testTimeout: 20_000,
-            hookTimeout: 30_000,
           },
         },
         {
@@ -53,8 +57,8 @@ export default mergeConfig(
             globalSetup: ['tests/setup/globalSetup.ts'],
             include: ['tests/realtime/**/*.test.ts'],
             environment: 'node',
-            testTimeout: 60_000,
-            hookTimeout: 60_000,
+            testTimeout: 120_000,
+            hookTimeout: 120_000,
           },
         },
         {
@@ -64,8 +68,8 @@ export default mergeConfig(
             globalSetup: ['tests/setup/globalSetup.ts'],
             include: ['tests/e2e/**/*.test.ts'],
             environment: 'node',
-            testTimeout: 90_000,
-            hookTimeout: 90_000,
+            testTimeout: 180_000,
+            hookTimeout: 180_000,
             fileParallelism: false,
           },
         },

@@ -14,7 +14,7 @@ import { startOwnCluster, type OwnCluster } from '../helpers/ownCluster.ts';
 async function get(url: string, cookie?: string): Promise<{ status: number; body: { error?: { code: string; message: string } } & Record<string, unknown> }> {
   const res = await fetch(url, { headers: cookie ? { cookie } : {} });
   const text = await res.text();
-  let body = null;
+  let body;
   try {
     body = JSON.parse(text);
   } catch {

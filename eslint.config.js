@@ -97,16 +97,6 @@ const TEMPORARY_EXCEPTIONS = [
   { files: ['server/realtime/editLog.ts'], rules: { ...restrict(SERVER), 'no-restricted-syntax': 'off' } },
   // Being moved to a repository, issue #16 (review status queries).
   { files: ['server/api/review/service.ts'], rules: restrict(SERVER, SERVICES) },
-  // Being moved to a repository, issue #16 (mailbox queries in the router).
-  { files: ['server/api/mailbox/router.ts'], rules: restrict(SERVER, ROUTERS) },
-  // Being moved to a repository, issue #16 (rate-limit counters).
-  { files: ['server/http/rateLimit.ts'], rules: restrict(SERVER) },
-  // Being moved to a repository, issue #16 (stored mail messages).
-  { files: ['server/mail/sink.ts'], rules: restrict(SERVER) },
-  // Being moved to a repository, issue #16 (the team service opens its own transactions).
-  { files: ['server/api/teams/service.ts'], rules: { 'no-restricted-syntax': 'off' } },
-  // Being given a service, issue #16 (the auth router calls its repository directly).
-  { files: ['server/api/auth/router.ts'], rules: restrict(SERVER, DATA_ACCESS) },
 ];
 
 // ── The config ───────────────────────────────────────────────────────────────────────────────

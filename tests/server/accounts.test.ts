@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { eq } from 'drizzle-orm';
-import { auditEvents, invitations, mailMessages, passwordResets, signUps, users } from '../../server/db/schema.ts';
+import { invitations, mailMessages, passwordResets, signUps } from '../../server/db/schema.ts';
 import { RESET_REQUEST_ANSWER } from '../../server/api/auth/router.ts';
 import { signUpAnswer } from '../../server/api/auth/service.ts';
 import { CSRF, PASSWORD, createWorld, freshTeam, linkIn, sessionCookie, signIn, waitForMail, type World } from '../helpers/world.ts';
@@ -120,7 +120,7 @@ describe('password reset through the SMTP sink', () => {
     expect(unknown.body).toEqual(known.body);
     expect(known.body.message).toBe(RESET_REQUEST_ANSWER);
     await waitForMail(world, world.users.editor.email, /Reset your Shockwright password/);
-    await new Promise((r) => setTimeout(r, 200));
+    await world.mailer.idle(); // anything else the two requests sent is stored by now
     const toNobody = await world.database.db.select().from(mailMessages).where(eq(mailMessages.subject, 'Reset your Shockwright password'));
     expect(toNobody.flatMap((m) => m.toAddresses)).toEqual([world.users.editor.email]);
   });

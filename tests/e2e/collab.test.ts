@@ -88,9 +88,11 @@ describe('live collaboration in two browsers', () => {
     await screenshot(b, 'collab-follower');
     await b.getByTestId('walkthrough-step-out').click();
     await b.getByTestId('walkthrough-rejoin').waitFor();
+    const leadZoom = () => b.getByTestId('walkthrough-state').getAttribute('data-lead-zoom');
+    const zoomBefore = await leadZoom();
     await a.keyboard.press('-');
-    await new Promise((r) => setTimeout(r, 600));
-    expect(await scaleOf(b)).not.toBeCloseTo(await scaleOf(a), 6);
+    await expect.poll(leadZoom).not.toBe(zoomBefore); // Tomasz has received Ines's new view…
+    expect(await scaleOf(b)).not.toBeCloseTo(await scaleOf(a), 6); // …and kept his own
     await b.getByTestId('walkthrough-rejoin').click();
     await expect.poll(async () => Math.abs((await scaleOf(b)) - (await scaleOf(a))) / (await scaleOf(a)), { timeout: 10_000 }).toBeLessThan(1e-6);
     await a.getByTestId('walkthrough-stop').click();

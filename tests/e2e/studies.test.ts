@@ -96,13 +96,11 @@ describe('studies and the PDF report in Chromium', () => {
     await chart.waitFor();
     await chart.locator('canvas').first().waitFor();
     expect(await chart.textContent()).toContain('Drag polar: cl against cd (wave + friction)');
-    await page.waitForTimeout(300); // let ECharts paint before the picture
     await screenshot(page, 'studies-polar');
     await page.getByRole('tab', { name: 'L/D–α' }).click();
     await page.getByTestId('study-chart-ld').locator('canvas').first().waitFor();
     await page.getByRole('tab', { name: 'Hinge moment' }).click();
     await page.getByTestId('study-chart-hinge').locator('canvas').first().waitFor();
-    await page.waitForTimeout(300);
     await screenshot(page, 'studies-hinge');
     expect(browser.consoleErrors).toEqual([]);
   });

@@ -65,10 +65,12 @@ export async function openBrowser(allowedOrigin: string): Promise<BrowserSession
 
 /**
  * Saves a full-page screenshot under tests/e2e/artifacts (git-ignored) for a human to look at,
- * with CSS transitions finished (menus settled).
+ * with CSS transitions finished (menus settled) and the last change painted.
  */
 export async function screenshot(page: Page, name: string): Promise<string> {
   mkdirSync(ARTIFACTS_DIR, { recursive: true });
+  // Two animation frames: whatever was drawn on the last state change (an ECharts canvas, say) is on screen.
+  await page.evaluate(() => new Promise<void>((resolve) => requestAnimationFrame(() => requestAnimationFrame(() => resolve()))));
   const file = path.join(ARTIFACTS_DIR, `${name}.png`);
   await page.screenshot({ path: file, fullPage: true, animations: 'disabled' });
   return file;

@@ -93,7 +93,7 @@ export function simClient(baseUrl: string, cookie: string, options: { reconnect?
       clearInterval(timer);
       socket.close();
     },
-    waitFor(predicate, timeoutMs = 5000, from = 0) {
+    waitFor(predicate, timeoutMs = 30_000, from = 0) {
       const hit = received.slice(from).find(predicate);
       if (hit) return Promise.resolve(hit);
       return new Promise((resolve, reject) => {
@@ -105,7 +105,7 @@ export function simClient(baseUrl: string, cookie: string, options: { reconnect?
 }
 
 /** Waits until `check` returns true, polling every 25 ms, failing after `timeoutMs`. */
-export async function until(check: () => boolean | Promise<boolean>, timeoutMs = 10_000, what = 'condition'): Promise<void> {
+export async function until(check: () => boolean | Promise<boolean>, timeoutMs = 30_000, what = 'condition'): Promise<void> {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
     if (await check()) return;

@@ -34,7 +34,8 @@ export interface World {
   built: BuiltApp;
   app: BuiltApp['app'];
   sink: MailSink;
-  mailer: Mailer;
+  /** The app's mailer; `idle()` resolves once every send so far has reached the sink (stored). */
+  mailer: Mailer & { idle(): Promise<void> };
   users: Record<Member, TestUser>;
   teamId: string;
   outsiderTeamId: string;
@@ -44,7 +45,23 @@ export interface World {
 export async function createWorld(options: { limits?: Partial<RateLimits>; env?: Record<string, string> } = {}): Promise<World> {
   const database = await createTestDatabase();
   const sink = await startMailSink(database.db);
-  const mailer = createMailer(sink.url, 'Shockwright <no-reply@shockwright.test>');
+  const smtp = createMailer(sink.url, 'Shockwright <no-reply@shockwright.test>');
+  const inFlight = new Set<Promise<void>>();
+  const mailer: World['mailer'] = {
+    send(to, content) {
+      const sending = smtp.send(to, content);
+      inFlight.add(sending);
+      sending.then(
+        () => inFlight.delete(sending),
+        () => inFlight.delete(sending),
+      );
+      return sending;
+    },
+    close: () => smtp.close(),
+    async idle() {
+      while (inFlight.size) await Promise.allSettled([...inFlight]);
+    },
+  };
   const built = createApp({
     env: testEnv(database.url, options.env),
     database,
@@ -114,9 +131,9 @@ export function sessionCookie(setCookie: string | string[] | undefined): string 
   return c.split(';')[0];
 }
 
-/** Waits (up to 5 s) for a message to `to` whose subject matches, and returns it. */
+/** Waits (up to 30 s: a loaded machine) for a message to `to` whose subject matches, and returns it. */
 export async function waitForMail(world: World, to: string, subject: RegExp) {
-  const deadline = Date.now() + 5000;
+  const deadline = Date.now() + 30_000;
   while (Date.now() < deadline) {
     const rows = await world.database.db
       .select()

@@ -5,19 +5,21 @@ import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { testEnv } from '../helpers/app.ts';
 import { RT_PASSWORD, seedTeam, storedAndReplayed } from '../helpers/realtimeWorld.ts';
 import { prng, randomEdit, signInCookie, simClient, until, type SimClient } from '../helpers/simClient.ts';
+import type { ServerMessage } from '../../shared/protocol/messages.ts';
 import { startServerProcess, type ServerProcess } from '../helpers/serverProcess.ts';
 
 /**
- * Runs `clients` simulated editors that each submit a random edit every `everyMs` for
- * `durationMs`, then waits until every engine has drained. Returns the op ids each submitted.
+ * Runs `clients` simulated editors that each submit a random edit every `everyMs` (on average)
+ * for `durationMs`, or until `stop()` says so. Resolves when they have stopped submitting.
  */
-async function storm(clients: SimClient[], durationMs: number, everyMs: number, seed: number): Promise<void> {
-  const stopAt = Date.now() + durationMs;
+async function storm(clients: SimClient[], duration: number | (() => boolean), everyMs: number, seed: number): Promise<void> {
+  const stopAt = Date.now() + (typeof duration === 'number' ? duration : Infinity);
+  const stop = typeof duration === 'function' ? duration : () => false;
   await Promise.all(
     clients.map(async (c, i) => {
       const rand = prng(seed * 100 + i);
       let n = 0;
-      while (Date.now() < stopAt) {
+      while (Date.now() < stopAt && !stop()) {
         const state = c.engine.state;
         if (state) {
           const opId = `c${i}-${n++}`;
@@ -117,11 +119,16 @@ describe('a server crash in the middle of editing', () => {
     await until(() => clients.every((c) => c.engine.state !== null), 10_000, 'all joined');
 
     const port = Number(new URL(proc.url).port);
-    const editing = storm(clients, 3000, 40, 11);
-    await new Promise((r) => setTimeout(r, 1200));
+    let stopEditing = false;
+    const editing = storm(clients, () => stopEditing, 40, 11);
+    // Crash once every client's edits are flowing; restart once every client has seen it go.
+    await until(() => clients.every((c) => c.acks.size >= 3), 60_000, 'edits acked before the crash');
     await proc.kill();
-    await new Promise((r) => setTimeout(r, 400));
+    await until(() => clients.every((c) => !c.socket.connected), 30_000, 'every client saw the crash');
     proc = await startServerProcess(database.url, port);
+    const ackedBefore = clients.map((c) => c.acks.size);
+    await until(() => clients.every((c, i) => c.acks.size >= ackedBefore[i] + 3), 60_000, 'edits acked after the restart');
+    stopEditing = true;
     await editing;
 
     const { log } = await expectConverged(database, world, clients);
@@ -143,8 +150,25 @@ describe('two server instances on one database', () => {
     database = await createTestDatabase();
     world = await seedTeam(database.db, ['Gil', 'Hal'].map((name) => ({ name, role: 'editor' as const })));
     procs = [await startServerProcess(database.url, await freePort()), await startServerProcess(database.url, await freePort())];
-    // Let the two instances discover each other (adapter heartbeat) before anyone joins.
-    await new Promise((r) => setTimeout(r, 2500));
+    // The two instances must know each other (adapter heartbeat) before anyone joins: wait
+    // until someone joining on the second shows in the people list of a member on the first.
+    const cookies = [await signInCookie(procs[0].url, world.users[0].email, RT_PASSWORD), await signInCookie(procs[1].url, world.users[1].email, RT_PASSWORD)];
+    const watcher = simClient(procs[0].url, cookies[0]);
+    watcher.engine.join(world.sketchId);
+    await until(() => watcher.engine.state !== null, 30_000, 'watcher joined');
+    await until(async () => {
+      const from = watcher.received.length;
+      const visitor = simClient(procs[1].url, cookies[1]);
+      try {
+        await until(() => visitor.socket.connected, 30_000, 'visitor connected');
+        visitor.engine.join(world.sketchId);
+        const seen = (m: ServerMessage) => (m.type === 'people' || m.type === 'joined') && m.people.length >= 2;
+        return await watcher.waitFor(seen, 2000, from).then(() => true, () => false);
+      } finally {
+        visitor.close();
+      }
+    }, 60_000, 'the two instances see each other');
+    watcher.close();
   });
   afterAll(async () => {
     for (const c of clients) c.close();

@@ -43,7 +43,7 @@ export interface LocalStack {
  * The database part of `npm start` / `npm run dev`: use DATABASE_URL when set, else install (if
  * needed) and start the local cluster in .data/postgres, create the database and migrate.
  */
-export async function bringUpDatabase(): Promise<LocalStack> {
+export async function bringUpDatabase(options: { onClusterStarted?: (cluster: Cluster) => void } = {}): Promise<LocalStack> {
   let cluster: Cluster | null = null;
   let databaseUrl = process.env.DATABASE_URL;
   if (!databaseUrl) {
@@ -55,6 +55,7 @@ export async function bringUpDatabase(): Promise<LocalStack> {
       port: Number(process.env.PG_PORT ?? 54329),
       secretFile: path.join(DATA_DIR, 'postgres.secret'),
     });
+    options.onClusterStarted?.(cluster);
     try {
       await ensureDatabase(cluster.url('postgres'), 'shockwright');
     } catch (err) {

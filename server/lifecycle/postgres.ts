@@ -61,20 +61,43 @@ function ownerCanUse(owner: ReturnType<typeof clusterOwner>, dir: string): boole
   return asOwner(owner, 'test', ['-w', dir, '-a', '-x', dir]).status === 0;
 }
 
+/** Parent of the clusters whose checkout the cluster owner cannot reach (root only). */
+export const FALLBACK_ROOT = '/var/lib/shockwright';
+
+/** The fallback data directory for a checkout's preferred one: one folder per checkout path. */
+export function fallbackDataDir(preferred: string): string {
+  return path.join(FALLBACK_ROOT, createHash('sha1').update(preferred).digest('hex').slice(0, 12), 'postgres');
+}
+
 /**
  * Where the cluster lives. The preferred folder may sit below a directory the unprivileged owner
- * cannot enter (e.g. a checkout under /root); then a folder under /var/lib/shockwright named
- * after the checkout is used instead.
+ * cannot enter (a checkout under /root, in a `mktemp -d` folder: anything 0700 up the path);
+ * then the cluster lives in /var/lib/shockwright/<hash of the path>/postgres. Every folder on
+ * the way is traversable (0755, root's), the data directory itself is the owner's and 0700 (as
+ * PostgreSQL requires). Modes are set explicitly, so a folder an earlier version made 0700 is
+ * repaired.
  */
 export function resolveDataDir(preferred: string, owner: ReturnType<typeof clusterOwner>): string {
   mkdirSync(path.dirname(preferred), { recursive: true });
   mkdirSync(preferred, { recursive: true, mode: 0o700 });
   if (owner) chownSync(preferred, owner.uid, owner.gid);
   if (ownerCanUse(owner, preferred)) return preferred;
-  const fallback = path.join('/var/lib/shockwright', createHash('sha1').update(preferred).digest('hex').slice(0, 12), 'postgres');
-  mkdirSync(fallback, { recursive: true, mode: 0o700 });
-  if (owner) chownSync(fallback, owner.uid, owner.gid);
-  console.log(`Note: ${owner?.name ?? 'this user'} cannot reach ${preferred}; the cluster lives in ${fallback}.`);
+  if (!owner) throw new Error(`Cannot write to ${preferred}; check the permissions of the checkout.`);
+  const fallback = fallbackDataDir(preferred);
+  const checkoutDir = path.dirname(fallback);
+  for (const dir of [FALLBACK_ROOT, checkoutDir]) {
+    mkdirSync(dir, { recursive: true });
+    chmodSync(dir, 0o755);
+  }
+  // Which checkout this folder belongs to, for whoever looks in /var/lib/shockwright.
+  writeFileSync(path.join(checkoutDir, 'checkout'), `${path.dirname(path.dirname(preferred))}\n`);
+  mkdirSync(fallback, { recursive: true });
+  chownSync(fallback, owner.uid, owner.gid);
+  chmodSync(fallback, 0o700);
+  if (!ownerCanUse(owner, fallback)) {
+    throw new Error(`${owner.name} can reach neither ${preferred} nor ${fallback}; make one of them reachable, or set DATABASE_URL to a server of your own.`);
+  }
+  console.log(`Note: ${owner.name} (the PostgreSQL user) cannot reach ${preferred}; the cluster lives in ${fallback}.`);
   return fallback;
 }
 

@@ -1,5 +1,5 @@
 import { spawnSync, type SpawnSyncOptions } from 'node:child_process';
-import { existsSync, readdirSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
 
 /** Runs a command, streaming its output; throws with `what` when it fails. */
 export function run(cmd: string, args: string[], what: string, options: SpawnSyncOptions = {}): void {
@@ -72,4 +72,45 @@ export function ensureSystemPackages(options: { chromium: boolean }): { pgBin: s
   const pgBin = findPostgresBin();
   if (!pgBin) throw new Error('PostgreSQL server binaries not found under /usr/lib/postgresql/*/bin even after installing; install the Debian package postgresql.');
   return { pgBin };
+}
+
+/** Clock ticks per second of /proc/<pid>/stat times (USER_HZ: 100 on every Linux ABI). */
+const USER_HZ = 100;
+
+function procStat(pid: number): { ppid: number; startTicks: number } | null {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    return { ppid: Number(fields[1]), startTicks: Number(fields[19]) };
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * When the command the person typed started, in ms since the epoch: the `npm` process that runs
+ * us (so npm's own start, the prestart install and tsx's start count), else this process. The
+ * start-up time printed is measured from here: the real wait.
+ */
+export function commandStartedAt(): number {
+  const ownStart = Date.now() - process.uptime() * 1000;
+  const self = procStat(process.pid);
+  if (!self) return ownStart;
+  let pid = self.ppid;
+  for (let depth = 0; depth < 8 && pid > 1; depth++) {
+    const stat = procStat(pid);
+    if (!stat) break;
+    let cmdline: string;
+    try {
+      // npm renames its process ("npm start"), so the name may hold spaces.
+      cmdline = readFileSync(`/proc/${pid}/cmdline`, 'utf8').replaceAll('\0', ' ');
+    } catch {
+      break;
+    }
+    if (/^(\S*\/)?npm( |$)|\/npm-cli\.js( |$)/.test(cmdline)) {
+      return ownStart - ((self.startTicks - stat.startTicks) / USER_HZ) * 1000;
+    }
+    pid = stat.ppid;
+  }
+  return ownStart;
 }

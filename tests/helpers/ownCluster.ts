@@ -1,7 +1,7 @@
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { rmSync } from 'node:fs';
 import path from 'node:path';
-import { freePort, makeOwnedTempDir, startCluster, type Cluster } from '../../server/lifecycle/postgres.ts';
+import { freePort, startCluster, type Cluster } from '../../server/lifecycle/postgres.ts';
+import { makeThrowawayClusterDir } from '../../server/lifecycle/throwawayCluster.ts';
 import { findPostgresBin } from '../../server/lifecycle/system.ts';
 
 export interface OwnCluster {
@@ -23,8 +23,8 @@ export interface OwnCluster {
 export async function startOwnCluster(): Promise<OwnCluster> {
   const pgBin = findPostgresBin();
   if (!pgBin) throw new Error('PostgreSQL server binaries not found');
-  const dir = mkdtempSync(path.join(tmpdir(), 'sw-own-pg-'));
-  makeOwnedTempDir(dir);
+  // Marked and guarded like the run's cluster: it never outlives the test process.
+  const dir = await makeThrowawayClusterDir('sw-own-pg-');
   const options = { pgBin, dataDir: path.join(dir, 'data'), port: await freePort(), secretFile: path.join(dir, 'secret'), throwaway: true };
   let cluster: Cluster = startCluster(options);
   return {

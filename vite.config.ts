@@ -13,7 +13,7 @@ export default defineConfig({
     // ant-design-vue v4 is CSS-in-JS: resolve <a-*> components on demand, no style imports.
     Components({
       dts: false,
-      resolvers: [AntDesignVueResolver({ importStyle: false, resolveIcons: true })],
+      resolvers: [AntDesignVueResolver({ importStyle: false })],
     }),
   ],
   resolve: {

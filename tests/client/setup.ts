@@ -1,7 +1,6 @@
 /**
  * Set-up for the client project (happy-dom). ant-design-vue's responsive helpers call
- * window.matchMedia; a fixed stub (nothing matches) keeps component tests deterministic and
- * also works under jsdom, which has no matchMedia at all.
+ * window.matchMedia; a fixed stub (nothing matches) keeps component tests deterministic.
  */
 Object.defineProperty(window, 'matchMedia', {
   writable: true,

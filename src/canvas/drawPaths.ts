@@ -1,5 +1,3 @@
-import type { Context } from 'konva/lib/Context';
-
 /**
  * Plain drawing primitives in screen pixels. Renderers produce these (pure, testable); one
  * Konva Shape per layer strokes them all in its sceneFunc, which keeps hundreds of wave lines
@@ -105,14 +103,4 @@ export function drawList(ctx: CanvasRenderingContext2D, list: DrawList): void {
     ctx.fillText(t.text, t.x, t.y);
   }
   ctx.restore();
-}
-
-/** A Konva Shape config that draws `list` and takes no pointer events (hit tests are ours). */
-export function drawListShape(list: DrawList, name: string) {
-  return {
-    name,
-    listening: false,
-    perfectDrawEnabled: false,
-    sceneFunc: (ctx: Context) => drawList(ctx._context, list),
-  };
 }

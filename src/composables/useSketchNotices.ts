@@ -1,4 +1,4 @@
-import { reactive, readonly, watch, type WatchStopHandle } from 'vue';
+import { reactive, watch, type WatchStopHandle } from 'vue';
 
 /**
  * What changed on the open sketch, as counters per topic. The realtime channel calls `bump`
@@ -31,8 +31,4 @@ export function watchTopic(topics: NoticeTopic | readonly NoticeTopic[], refresh
     () => list.map((t) => counters[t]).join(' '),
     () => refresh(),
   );
-}
-
-export function useSketchNotices() {
-  return { counters: readonly(counters), bump, bumpTopic, watchTopic };
 }

@@ -1,6 +1,5 @@
 import { findRepeatedPoint, findSelfIntersection, signedArea } from './polygon.ts';
-import type { Point } from './sketch.ts';
-import { MAX_SECTION_VERTICES } from './ops.ts';
+import { MAX_SECTION_VERTICES, type Point } from './sketch.ts';
 
 /**
  * Reading a section from a coordinates file: one vertex per line, `x y` separated by spaces,

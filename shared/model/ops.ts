@@ -5,6 +5,7 @@ import {
   conditionSchema,
   flapSchema,
   loadsSettingsSchema,
+  MAX_SECTION_VERTICES,
   pointSchema,
   type Condition,
   type Point,
@@ -17,7 +18,7 @@ import {
  *
  * - [O1] `applyOp` never mutates its inputs; it returns a new document or a reason.
  * - [O2] A document that `applyOp` returns is valid: its section is a simple polygon of
- *   3…2000 vertices and its condition, flap and moment point pass their zod schemas.
+ *   3…MAX_SECTION_VERTICES vertices and its condition, flap and moment point pass their zod schemas.
  * - [O3] `applyOp(applyOp(doc, op), invertOp(doc, op))` gives back `doc` (same values).
  * - [O4] Every op carries an `opId` so a server can ignore a duplicate.
  * - [O5] A form field's op names only the field its user changed (`setVertexCoordinate`,
@@ -26,9 +27,6 @@ import {
  *
  * Renaming a sketch is not an op: the title is not part of the document.
  */
-
-/** Most vertices a section may have (same limit as the document schema). */
-export const MAX_SECTION_VERTICES = 2000;
 
 const opIdSchema = z.string().min(1, 'must not be empty').max(64, 'must be at most 64 characters');
 const indexSchema = z.number().int('must be a whole number').min(0, 'must be at least 0');

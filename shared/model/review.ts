@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { pointSchema, sketchDocumentSchema } from './sketch.ts';
+import { pointSchema, sectionPointsSchema, sketchDocumentSchema } from './sketch.ts';
 
 /** Where a pin sits: a free point, a facet (by its index) or a wave of the wave map (by its id). */
 export const pinTargetSchema = z.discriminatedUnion('kind', [
@@ -88,7 +88,7 @@ export const reviewRequestSchema = z.object({
 });
 
 export const importSectionSchema = z.strictObject({
-  points: z.array(pointSchema).min(3, 'a section needs at least 3 vertices').max(2000, 'at most 2000 vertices'),
+  points: sectionPointsSchema,
   /** The file's name, kept in the activity feed and the automatic snapshot's name. */
   fileName: z.string().trim().max(200).default('coordinates file'),
 });

@@ -51,13 +51,27 @@ export const loadsSettingsSchema = z.strictObject({
 export type LoadsSettings = z.infer<typeof loadsSettingsSchema>;
 
 /**
+ * Most vertices a section may have [M2]: far more than a section needs, and it bounds the
+ * quadratic parts (self-intersection check, wave-map crossings) and the cost of one edit.
+ * Documents, ops, coordinates files, the solve input and socket selections all use this one.
+ */
+export const MAX_SECTION_VERTICES = 2000;
+export const MIN_SECTION_VERTICES = 3;
+
+/** The vertices of a section (3 to MAX_SECTION_VERTICES points). */
+export const sectionPointsSchema = z
+  .array(pointSchema)
+  .min(MIN_SECTION_VERTICES, `a section needs at least ${MIN_SECTION_VERTICES} vertices`)
+  .max(MAX_SECTION_VERTICES, `at most ${MAX_SECTION_VERTICES} vertices`);
+
+/**
  * Every object of the document refuses keys it does not know (zod strict objects): an imported
  * or saved document with a misspelt field ("gama") is refused with the key's name instead of
  * being solved with the default.
  */
 export const sketchDocumentSchema = z.strictObject({
   version: z.literal(1),
-  section: z.strictObject({ points: z.array(pointSchema).min(3, 'a section needs at least 3 vertices').max(2000, 'at most 2000 vertices') }),
+  section: z.strictObject({ points: sectionPointsSchema }),
   condition: conditionSchema,
   flap: flapSchema.nullable().default(null),
   /** Moment reference point in body axes; null = quarter chord on the nose's y. */

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { FIELD_EXTENT_CHORDS_DEFAULT, GAMMA_AIR } from '../solver/constants';
 import { allCollinear, findRepeatedPoint, findSelfIntersection, signedArea } from './polygon';
+import { MAX_SECTION_VERTICES } from './sketch';
 
 /**
  * The solve input, shared by the API route, the CLI and the browser worker.
@@ -23,11 +24,6 @@ import { allCollinear, findRepeatedPoint, findSelfIntersection, signedArea } fro
  * as drawn, so its coefficients do not change with the flap's projected chord.
  */
 
-/**
- * Most vertices accepted in one section. Far more than a section needs, and it bounds the
- * quadratic parts (self-intersection check, wave-map crossings) to about a second.
- */
-export const MAX_SECTION_POINTS = 2000;
 /** Largest free-stream Mach number accepted. */
 export const MACH_MAX = 50;
 /** Largest |α| accepted, degrees (exclusive). */
@@ -82,10 +78,10 @@ const pointsSchema = z
         : 'section.points must be a list of [x, y] points.',
   })
   .transform((raw, ctx) => {
-    if (raw.length > MAX_SECTION_POINTS) {
+    if (raw.length > MAX_SECTION_VERTICES) {
       ctx.addIssue({
         code: 'custom',
-        message: `section.points has ${raw.length} points; at most ${MAX_SECTION_POINTS} are accepted.`,
+        message: `section.points has ${raw.length} points; at most ${MAX_SECTION_VERTICES} are accepted.`,
       });
       return z.NEVER;
     }

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { sketchOpSchema, type SketchOp } from '../model/ops.ts';
-import { sketchDocumentSchema, sketchTitleSchema, pointSchema } from '../model/sketch.ts';
+import { MAX_SECTION_VERTICES, sketchDocumentSchema, sketchTitleSchema, pointSchema } from '../model/sketch.ts';
 import { roleSchema } from '../model/roles.ts';
 
 /**
@@ -16,6 +16,13 @@ import { roleSchema } from '../model/roles.ts';
  * - [R4] Presence (cursor, selection, viewport) is volatile: relayed, throttled, never stored.
  */
 export const PROTOCOL_VERSION = 2;
+
+/**
+ * What a `notice` says changed on a sketch (clients refetch that list) [M1]: the server's
+ * events, this protocol and the client's per-topic counters all use this list.
+ */
+export const NOTICE_TOPICS = ['pins', 'snapshots', 'status', 'activity', 'studies'] as const;
+export type NoticeTopic = (typeof NOTICE_TOPICS)[number];
 
 const sketchIdSchema = z.string().regex(/^sketch_[a-z0-9]{20}$/, 'must be a sketch id');
 const revisionSchema = z.number().int().min(0);
@@ -55,7 +62,7 @@ export const presenceMessageSchema = z.object({
   type: z.literal('presence'),
   sketchId: sketchIdSchema,
   cursor: pointSchema.nullable(),
-  selection: z.array(z.number().int().min(0)).max(2000),
+  selection: z.array(z.number().int().min(0)).max(MAX_SECTION_VERTICES),
 });
 export const resyncMessageSchema = z.object({ type: z.literal('resync'), sketchId: sketchIdSchema, lastRevision: revisionSchema.optional() });
 export const walkthroughStartSchema = z.object({ type: z.literal('walkthroughStart'), sketchId: sketchIdSchema });
@@ -121,7 +128,7 @@ export type ServerMessage =
   | { type: 'walkthrough'; sketchId: string; state: WalkthroughState }
   | { type: 'walkthroughView'; sketchId: string; view: View; highlight: Highlight; leadUserId: string }
   /** Pins, snapshots, status, activity or studies of the sketch changed: refetch that list. */
-  | { type: 'notice'; sketchId: string; topic: 'pins' | 'snapshots' | 'status' | 'activity' | 'studies' }
+  | { type: 'notice'; sketchId: string; topic: NoticeTopic }
   /**
    * My access to the sketch changed while I was in it: a new role, or none (removed from the team,
    * sketch deleted) — then the server has already taken me out of the room and sends nothing more.

@@ -7,8 +7,12 @@ import type { Point, SketchDocument } from './sketch.ts';
  * per-facet result as CSV and the whole result as JSON. Result exports carry the caution line.
  */
 
-/** A file name from a sketch title: letters, digits, dashes; never empty. */
-export function fileSafeName(title: string): string {
+/**
+ * A file name from a title [M3]: letters, digits and dashes only ("HD-7 Tern fin, root" →
+ * "HD-7-Tern-fin-root"), at most 80 characters, never empty. Every download name (CSV, JSON,
+ * PNG, the PDF report) is built from it.
+ */
+export function fileSafeName(title: string, fallback = 'sketch'): string {
   const s = title
     .normalize('NFKD')
     .replace(/[^\w\s-]/g, '')
@@ -17,7 +21,7 @@ export function fileSafeName(title: string): string {
     .replace(/-+/g, '-')
     .slice(0, 80)
     .replace(/^-|-$/g, '');
-  return s || 'sketch';
+  return s || fallback;
 }
 
 /** Strips line breaks so a title cannot break out of a `#` comment line. */

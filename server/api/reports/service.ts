@@ -9,14 +9,14 @@ import { getPreferences } from '../preferences/service.ts';
 import type { SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
 import type { UnitSystem } from '../../../shared/flight/units.ts';
 import { normalizeDocument } from '../../../shared/model/sketch.ts';
+import { fileSafeName } from '../../../shared/model/sketchExport.ts';
 import { renderReport } from './renderReport.ts';
 import { isSketchAnalysis, type ReportData } from './reportData.ts';
 import { findTeamName } from './repository.ts';
 
-/** "HD-7 Tern fin, root" → "HD-7-Tern-fin-root": letters, digits and dashes only. */
+/** "HD-7 Tern fin, root" at revision 12 → "HD-7-Tern-fin-root-r12-report.pdf" ([M3]). */
 export function reportFileName(title: string, revision: number): string {
-  const base = title.normalize('NFKD').replace(/[^\w\s-]/g, '').trim().replace(/[\s_]+/g, '-').replace(/-+/g, '-').slice(0, 80).replace(/^-|-$/g, '');
-  return `${base || 'sketch'}-r${revision}-report.pdf`;
+  return `${fileSafeName(title)}-r${revision}-report.pdf`;
 }
 
 /**

@@ -2,7 +2,7 @@ import type { Db } from './db/client.ts';
 import type { EventEmitter } from 'node:events';
 import type { Mailer } from './mail/mailer.ts';
 import type { EditQueue } from './realtime/editLog.ts';
-import type { AppliedEdit } from '../shared/protocol/messages.ts';
+import type { AppliedEdit, NoticeTopic } from '../shared/protocol/messages.ts';
 import type { AccessFilter } from './realtime/access.ts';
 
 /** Events services raise for the realtime layer (which relays them to every instance). */
@@ -18,7 +18,7 @@ export interface AppEvents {
   accessChanged: [filter: AccessFilter];
 }
 
-export type NoticeTopic = 'pins' | 'snapshots' | 'status' | 'activity' | 'studies';
+export type { NoticeTopic } from '../shared/protocol/messages.ts';
 
 /**
  * What services need besides their arguments: the database, outgoing mail and the public base

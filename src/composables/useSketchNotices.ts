@@ -1,4 +1,5 @@
 import { reactive, watch, type WatchStopHandle } from 'vue';
+import { NOTICE_TOPICS, type NoticeTopic } from '@shared/protocol/messages';
 
 /**
  * What changed on the open sketch, as counters per topic. The realtime channel calls `bump`
@@ -6,8 +7,7 @@ import { reactive, watch, type WatchStopHandle } from 'vue';
  * showing that topic refreshes once. Panels call `watchTopic` inside their setup (the watcher
  * stops with the component). Counters only ever grow; nothing reads their values but watchers.
  */
-export const NOTICE_TOPICS = ['pins', 'snapshots', 'status', 'activity', 'studies'] as const;
-export type NoticeTopic = (typeof NOTICE_TOPICS)[number];
+export { NOTICE_TOPICS, type NoticeTopic };
 
 /** Every review change also adds an entry to the activity feed. */
 export const ACTIVITY_TOPICS: readonly NoticeTopic[] = ['pins', 'snapshots', 'status', 'activity'];

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { isIdOf } from './ids.ts';
+import { pageOf } from './teams.ts';
 import { FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
 
 /**
@@ -150,35 +151,27 @@ export const STUDY_COLUMNS = [
   'cdSecondOrder', 'cmSecondOrder', 'limit',
 ] as const satisfies readonly (keyof StudyRow)[];
 
-export type PackedRow = (number | string | null)[];
+export type StudyColumn = (typeof STUDY_COLUMNS)[number];
+
+/** One packed row: the values of STUDY_COLUMNS in order ([ST3]). */
+export const packedRowSchema = z.array(z.union([z.number(), z.string(), z.null()]));
+export type PackedRow = z.infer<typeof packedRowSchema>;
 
 /** Per Mach: where the nose shock detaches, and the best L/D point for each deflection. */
-export interface StudyMachSummary {
-  mach: number;
+export const studyMachSummarySchema = z.object({
+  mach: z.number(),
   /** α above which the lower-surface nose shock detaches (its deflection α − φ exceeds θmax), degrees. */
-  detachAlphaHighDeg: number | null;
+  detachAlphaHighDeg: z.number().nullable(),
   /** α below which the upper-surface nose shock detaches (φ − α exceeds θmax), degrees. */
-  detachAlphaLowDeg: number | null;
-  best: { flapDeg: number | null; alphaDeg: number; liftToDrag: number; cl: number; cdTotal: number }[];
-}
+  detachAlphaLowDeg: z.number().nullable(),
+  best: z.array(z.object({ flapDeg: z.number().nullable(), alphaDeg: z.number(), liftToDrag: z.number(), cl: z.number(), cdTotal: z.number() })),
+});
+export type StudyMachSummary = z.infer<typeof studyMachSummarySchema>;
 
-export interface StudyResults {
-  version: 1;
-  machs: number[];
-  alphasDeg: number[];
-  flapsDeg: (number | null)[];
-  altitudeM: number | null;
-  friction: (typeof FRICTION_SETTINGS)[number];
-  /** Transition Reynolds number of mixed friction (absent in results stored before it existed). */
-  transitionReynolds?: number;
-  columns: typeof STUDY_COLUMNS;
-  /** [ST3] packed rows, flap outermost, then Mach, then α (ascending). */
-  rows: PackedRow[];
-  summaries: StudyMachSummary[];
-  counts: Partial<Record<StudyStatus, number>>;
-}
-
-const cell = z.union([z.number(), z.string(), z.null()]);
+/**
+ * A study's results as the engine returns them, the server stores them (studies.results) and
+ * the API sends them; read back through this schema at every edge (database row, API answer).
+ */
 export const studyResultsSchema = z.object({
   version: z.literal(1),
   machs: z.array(z.number()),
@@ -186,19 +179,16 @@ export const studyResultsSchema = z.object({
   flapsDeg: z.array(z.number().nullable()),
   altitudeM: z.number().nullable(),
   friction: studyFrictionSchema,
+  /** Transition Reynolds number of mixed friction (absent in results stored before it existed). */
   transitionReynolds: z.number().optional(),
-  columns: z.array(z.string()),
-  rows: z.array(z.array(cell)),
-  summaries: z.array(
-    z.object({
-      mach: z.number(),
-      detachAlphaHighDeg: z.number().nullable(),
-      detachAlphaLowDeg: z.number().nullable(),
-      best: z.array(z.object({ flapDeg: z.number().nullable(), alphaDeg: z.number(), liftToDrag: z.number(), cl: z.number(), cdTotal: z.number() })),
-    }),
-  ),
-  counts: z.record(z.string(), z.number()),
-}) as unknown as z.ZodType<StudyResults>;
+  /** Column names of `rows` (STUDY_COLUMNS when written; readers look columns up by name). */
+  columns: z.array(z.enum(STUDY_COLUMNS)).readonly(),
+  /** [ST3] packed rows, flap outermost, then Mach, then α (ascending). */
+  rows: z.array(packedRowSchema),
+  summaries: z.array(studyMachSummarySchema),
+  counts: z.partialRecord(z.enum(STUDY_STATUSES), z.number().int().min(0)),
+});
+export type StudyResults = z.infer<typeof studyResultsSchema>;
 
 /**
  * v to STUDY_SIGNIFICANT_DIGITS significant figures. Integer arithmetic with exact powers of ten
@@ -248,24 +238,21 @@ export const studySummarySchema = z.object({
   id: z.string(),
   sketchId: z.string(),
   name: z.string(),
-  definition: z.unknown(),
+  definition: studyDefinitionSchema,
   revision: z.number().int(),
   points: z.number().int(),
-  counts: z.record(z.string(), z.number()),
+  counts: z.partialRecord(z.enum(STUDY_STATUSES), z.number().int().min(0)),
   createdByName: z.string().nullable(),
   createdAt: z.string(),
 });
-export type StudySummary = Omit<z.infer<typeof studySummarySchema>, 'definition'> & { definition: StudyDefinition };
+export type StudySummary = z.infer<typeof studySummarySchema>;
 
-export type StudyDetail = StudySummary & { results: StudyResults; elapsedMs: number | null };
+export const studyDetailSchema = studySummarySchema.extend({ results: studyResultsSchema, elapsedMs: z.number().nullable() });
+export type StudyDetail = z.infer<typeof studyDetailSchema>;
 
 /** `{ items, total, limit, offset }` like every paginated list. */
-export interface StudyPage {
-  items: StudySummary[];
-  total: number;
-  limit: number;
-  offset: number;
-}
+export const studyPageSchema = pageOf(studySummarySchema);
+export type StudyPage = z.infer<typeof studyPageSchema>;
 
 /** A study as CSV: `#` lines (sketch, condition, caution) then one row per point. */
 export function studyCsv(meta: { title: string; studyName: string; revision: number; caution: string }, results: StudyResults): string {

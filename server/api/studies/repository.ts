@@ -1,7 +1,7 @@
 import { count, desc, eq } from 'drizzle-orm';
 import type { Db } from '../../db/client.ts';
 import { studies, users } from '../../db/schema.ts';
-import type { StudyDefinition, StudyResults } from '../../../shared/model/study.ts';
+import { studyDetailSchema, studySummarySchema, type StudyDefinition, type StudyDetail, type StudyResults, type StudySummary } from '../../../shared/model/study.ts';
 
 const summaryColumns = {
   id: studies.id,
@@ -17,12 +17,17 @@ const summaryColumns = {
 
 export async function insertStudy(
   db: Db,
-  row: { id: string; sketchId: string; name: string; definition: StudyDefinition; results: StudyResults; revision: number; points: number; counts: Record<string, number>; elapsedMs: number; createdBy: string },
+  row: { id: string; sketchId: string; name: string; definition: StudyDefinition; results: StudyResults; revision: number; points: number; counts: StudyResults['counts']; elapsedMs: number; createdBy: string },
 ): Promise<void> {
   await db.insert(studies).values(row);
 }
 
-export async function listStudies(db: Db, sketchId: string, limit: number, offset: number) {
+type SummaryRow = { [K in keyof typeof summaryColumns]: unknown } & { createdAt: Date };
+
+/** A stored row through the API schema: JSON columns are checked, not cast ([M1]). */
+const toSummary = (r: SummaryRow): StudySummary => studySummarySchema.parse({ ...r, counts: r.counts ?? {}, createdAt: r.createdAt.toISOString() });
+
+export async function listStudies(db: Db, sketchId: string, limit: number, offset: number): Promise<{ rows: StudySummary[]; total: number }> {
   const rows = await db
     .select(summaryColumns)
     .from(studies)
@@ -32,7 +37,7 @@ export async function listStudies(db: Db, sketchId: string, limit: number, offse
     .limit(limit)
     .offset(offset);
   const [{ total }] = await db.select({ total: count() }).from(studies).where(eq(studies.sketchId, sketchId));
-  return { rows, total };
+  return { rows: rows.map(toSummary), total };
 }
 
 /** Just the sketch of a study (for the role check before the rows are read). */
@@ -41,13 +46,14 @@ export async function findStudySketch(db: Db, id: string): Promise<string | null
   return row?.sketchId ?? null;
 }
 
-export async function findStudy(db: Db, id: string) {
+export async function findStudy(db: Db, id: string): Promise<StudyDetail | null> {
   const rows = await db
     .select({ ...summaryColumns, results: studies.results, elapsedMs: studies.elapsedMs })
     .from(studies)
     .leftJoin(users, eq(users.id, studies.createdBy))
     .where(eq(studies.id, id));
-  return rows[0] ?? null;
+  const r = rows[0];
+  return r ? studyDetailSchema.parse({ ...r, counts: r.counts ?? {}, createdAt: r.createdAt.toISOString() }) : null;
 }
 
 export async function deleteStudy(db: Db, id: string): Promise<void> {

@@ -4,26 +4,12 @@ import { authorizeSketch } from '../sketches/service.ts';
 import { findSketch } from '../sketches/repository.ts';
 import { newId } from '../../../shared/model/ids.ts';
 import { normalizeDocument } from '../../../shared/model/sketch.ts';
-import type { CreateStudy, StudyDefinition, StudyDetail, StudyPage, StudyResults, StudySummary } from '../../../shared/model/study.ts';
+import type { CreateStudy, StudyDetail, StudyPage } from '../../../shared/model/study.ts';
 import { runStudySliced } from '../../../shared/flight/study.ts';
 import * as repo from './repository.ts';
 
 /** Time the server computes before letting other requests in (see runStudySliced). */
 export const STUDY_SLICE_MS = 25;
-
-type SummaryRow = Awaited<ReturnType<typeof repo.listStudies>>['rows'][number];
-
-const toSummary = (r: SummaryRow): StudySummary => ({
-  id: r.id,
-  sketchId: r.sketchId,
-  name: r.name,
-  definition: r.definition as StudyDefinition,
-  revision: r.revision,
-  points: r.points,
-  counts: (r.counts ?? {}) as Record<string, number>,
-  createdByName: r.createdByName,
-  createdAt: r.createdAt.toISOString(),
-});
 
 /**
  * Runs a study on the server from the sketch as stored now, and keeps it. The server computes
@@ -40,7 +26,6 @@ export async function createStudy(ctx: AppContext, userId: string, sketchId: str
   if (outcome.status === 'invalid') throw new HttpError(400, 'invalid_study', outcome.reason);
   if (outcome.status === 'cancelled') throw new HttpError(500, 'study_cancelled', 'The study stopped before it finished.');
   const id = newId('study');
-  const counts = outcome.results.counts as Record<string, number>;
   await repo.insertStudy(ctx.db, {
     id,
     sketchId,
@@ -49,7 +34,7 @@ export async function createStudy(ctx: AppContext, userId: string, sketchId: str
     results: outcome.results,
     revision: sketch.revision,
     points: outcome.results.rows.length,
-    counts,
+    counts: outcome.results.counts,
     elapsedMs: Math.round(outcome.elapsedMs),
     createdBy: userId,
   });
@@ -60,7 +45,7 @@ export async function createStudy(ctx: AppContext, userId: string, sketchId: str
 export async function listStudies(ctx: AppContext, userId: string, sketchId: string, page: { limit: number; offset: number }): Promise<StudyPage> {
   await authorizeSketch(ctx.db, userId, sketchId, 'viewer', 'see studies');
   const { rows, total } = await repo.listStudies(ctx.db, sketchId, page.limit, page.offset);
-  return { items: rows.map(toSummary), total, ...page };
+  return { items: rows, total, ...page };
 }
 
 export async function getStudy(ctx: AppContext, userId: string, studyId: string): Promise<StudyDetail> {
@@ -69,7 +54,7 @@ export async function getStudy(ctx: AppContext, userId: string, studyId: string)
   await authorizeSketch(ctx.db, userId, sketchId, 'viewer', 'see studies');
   const row = await repo.findStudy(ctx.db, studyId);
   if (!row) throw new HttpError(404, 'not_found', 'No such study.');
-  return { ...toSummary(row), results: row.results as StudyResults, elapsedMs: row.elapsedMs };
+  return row;
 }
 
 /** For the report: a study of this sketch (404 when it belongs to another one). */

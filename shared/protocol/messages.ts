@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { sketchOpSchema, type SketchOp } from '../model/ops.ts';
 import { MAX_SECTION_VERTICES, sketchDocumentSchema, sketchTitleSchema, pointSchema } from '../model/sketch.ts';
 import { roleSchema } from '../model/roles.ts';
+import { idSchema } from '../model/ids.ts';
 
 /**
  * The realtime protocol between the editor and the server (socket.io). Every message is one
@@ -24,7 +25,7 @@ export const PROTOCOL_VERSION = 2;
 export const NOTICE_TOPICS = ['pins', 'snapshots', 'status', 'activity', 'studies'] as const;
 export type NoticeTopic = (typeof NOTICE_TOPICS)[number];
 
-const sketchIdSchema = z.string().regex(/^sketch_[a-z0-9]{20}$/, 'must be a sketch id');
+const sketchIdSchema = idSchema('sketch');
 const revisionSchema = z.number().int().min(0);
 
 /** Renaming is an edit too (it is ordered and logged), though the title is not in the document. */

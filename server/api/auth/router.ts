@@ -9,6 +9,7 @@ import { acceptInvitationSchema, resetConfirmSchema, resetRequestSchema, tokenSc
 import type { SessionUser } from '../../auth/passport.ts';
 import { SESSION_COOKIE } from '../../auth/session.ts';
 import * as service from './service.ts';
+import { idSchema } from '../../../shared/model/ids.ts';
 
 export { RESET_REQUEST_ANSWER } from './service.ts';
 
@@ -19,7 +20,7 @@ function logIn(req: Request, user: SessionUser): Promise<void> {
   return new Promise((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
 }
 
-const invitationRef = z.object({ teamId: z.string().regex(/^team_[a-z0-9]{20}$/, 'must be a team id'), token: tokenSchema });
+const invitationRef = z.object({ teamId: idSchema('team'), token: tokenSchema });
 const signUpConfirmSchema = z.object({ token: tokenSchema });
 
 export interface AuthLimits {

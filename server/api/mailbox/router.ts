@@ -5,9 +5,10 @@ import { currentUser } from '../../auth/guards.ts';
 import { parseOr400 } from '../../http/validate.ts';
 import { pageQuerySchema } from '../../../shared/model/teams.ts';
 import * as service from './service.ts';
+import { idSchema } from '../../../shared/model/ids.ts';
 
 const listQuery = pageQuerySchema.extend({ scope: z.enum(['mine', 'all']).default('mine') });
-const mailParams = z.object({ mailId: z.string().regex(/^mail_[a-z0-9]{20}$/, 'must be a message id') });
+const mailParams = z.object({ mailId: idSchema('mail', 'message') });
 
 /** The development mailbox (mounted at /api/dev/mailbox outside production, signed in). */
 export function mailboxRouter(ctx: AppContext): Router {

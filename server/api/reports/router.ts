@@ -6,8 +6,9 @@ import { parseOr400 } from '../../http/validate.ts';
 import { UNIT_SYSTEMS } from '../../../shared/flight/units.ts';
 import { studyIdSchema } from '../../../shared/model/study.ts';
 import { sketchReport } from './service.ts';
+import { idSchema } from '../../../shared/model/ids.ts';
 
-const sketchParams = z.object({ sketchId: z.string().regex(/^sketch_[a-z0-9]{20}$/, 'must be a sketch id') });
+const sketchParams = z.object({ sketchId: idSchema('sketch') });
 const reportQuery = z.object({ study: studyIdSchema.optional(), units: z.enum(UNIT_SYSTEMS).optional() });
 
 /** PDF reports, generated on the server with pdfkit. Mounted at /api. */

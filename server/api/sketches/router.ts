@@ -5,9 +5,10 @@ import { currentUser } from '../../auth/guards.ts';
 import { parseOr400 } from '../../http/validate.ts';
 import { createSketchSchema, renameSketchSchema, saveDocumentSchema } from '../../../shared/model/sketchApi.ts';
 import * as service from './service.ts';
+import { idSchema } from '../../../shared/model/ids.ts';
 
-const teamParams = z.object({ teamId: z.string().regex(/^team_[a-z0-9]{20}$/, 'must be a team id') });
-const sketchParams = z.object({ sketchId: z.string().regex(/^sketch_[a-z0-9]{20}$/, 'must be a sketch id') });
+const teamParams = z.object({ teamId: idSchema('team') });
+const sketchParams = z.object({ sketchId: idSchema('sketch') });
 
 /** Team-scoped list/create: mounted at /api/teams/:teamId/sketches. */
 export function teamSketchesRouter(ctx: AppContext): Router {

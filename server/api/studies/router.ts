@@ -6,8 +6,9 @@ import { parseOr400 } from '../../http/validate.ts';
 import { pageQuerySchema } from '../../../shared/model/teams.ts';
 import { createStudySchema, studyIdSchema } from '../../../shared/model/study.ts';
 import * as service from './service.ts';
+import { idSchema } from '../../../shared/model/ids.ts';
 
-const sketchParams = z.object({ sketchId: z.string().regex(/^sketch_[a-z0-9]{20}$/, 'must be a sketch id') });
+const sketchParams = z.object({ sketchId: idSchema('sketch') });
 const studyParams = z.object({ studyId: studyIdSchema });
 
 /** Studies of a sketch: list, run-and-save, open, delete. Mounted at /api; every route needs a signed-in user. */

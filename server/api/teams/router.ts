@@ -5,10 +5,11 @@ import { currentUser } from '../../auth/guards.ts';
 import { parseOr400 } from '../../http/validate.ts';
 import { changeRoleSchema, createTeamSchema, inviteSchema, pageQuerySchema } from '../../../shared/model/teams.ts';
 import * as service from './service.ts';
+import { idSchema } from '../../../shared/model/ids.ts';
 
-const teamParams = z.object({ teamId: z.string().regex(/^team_[a-z0-9]{20}$/, 'must be a team id') });
-const memberParams = teamParams.extend({ userId: z.string().regex(/^user_[a-z0-9]{20}$/, 'must be a user id') });
-const invitationParams = teamParams.extend({ invitationId: z.string().regex(/^invite_[a-z0-9]{20}$/, 'must be an invitation id') });
+const teamParams = z.object({ teamId: idSchema('team') });
+const memberParams = teamParams.extend({ userId: idSchema('user') });
+const invitationParams = teamParams.extend({ invitationId: idSchema('invite', 'invitation') });
 
 /** Teams, members, invitations and the audit trail: mounted at /api/teams (signed in). */
 export function teamsRouter(ctx: AppContext, limits: { invite: import('express').RequestHandler }): Router {

@@ -64,3 +64,14 @@ describe('[M3] one file-name rule for every download', () => {
     }
   });
 });
+
+describe('[M1] one id pattern for every edge', () => {
+  it('idSchema accepts an id of its kind and names the kind it expected otherwise', async () => {
+    const { idSchema } = await import('../../../shared/model/ids.ts');
+    expect(idSchema('sketch').safeParse(newId('sketch')).success).toBe(true);
+    const wrong = idSchema('sketch').safeParse(newId('team'));
+    expect(wrong.success).toBe(false);
+    expect(wrong.error!.issues[0].message).toBe('must be a sketch id');
+    expect(idSchema('invite', 'invitation').safeParse('invite_x').error!.issues[0].message).toBe('must be an invitation id');
+  });
+});

@@ -7,6 +7,12 @@ import type { Wave } from '@shared/solver/types';
  */
 
 type XY = readonly [number, number];
+/**
+ * An optional map applied to both the points and the pointer before measuring distances: the
+ * view's `isotropic` map under a vertical exaggeration, so that a tolerance in pixels means the
+ * same on screen in x and y. Results (`at`) are always in body axes.
+ */
+type Metric = ((p: XY) => XY) | null | undefined;
 
 /** Distance from p to segment ab, and where along ab (0…1) the nearest point lies. */
 export function distanceToSegment(p: XY, a: XY, b: XY): { distance: number; t: number; at: Point } {
@@ -20,11 +26,13 @@ export function distanceToSegment(p: XY, a: XY, b: XY): { distance: number; t: n
 }
 
 /** The vertex nearest to p within `tolerance`, or null. */
-export function hitVertex(points: readonly XY[], p: XY, tolerance: number): number | null {
+export function hitVertex(points: readonly XY[], p: XY, tolerance: number, metric?: Metric): number | null {
   let best: number | null = null;
   let bestD = tolerance;
-  points.forEach((q, i) => {
-    const d = Math.hypot(q[0] - p[0], q[1] - p[1]);
+  const pm = metric ? metric(p) : p;
+  points.forEach((raw, i) => {
+    const q = metric ? metric(raw) : raw;
+    const d = Math.hypot(q[0] - pm[0], q[1] - pm[1]);
     if (d <= bestD) {
       bestD = d;
       best = i;
@@ -34,15 +42,18 @@ export function hitVertex(points: readonly XY[], p: XY, tolerance: number): numb
 }
 
 /** The facet (edge i → i+1) nearest to p within `tolerance`: its index and the nearest point. */
-export function hitFacet(points: readonly XY[], p: XY, tolerance: number): { index: number; t: number; at: Point } | null {
+export function hitFacet(points: readonly XY[], p: XY, tolerance: number, metric?: Metric): { index: number; t: number; at: Point } | null {
   const n = points.length;
   let best: { index: number; t: number; at: Point } | null = null;
   let bestD = tolerance;
+  const pm = metric ? metric(p) : p;
   for (let i = 0; i < n; i++) {
-    const r = distanceToSegment(p, points[i], points[(i + 1) % n]);
+    const a = points[i];
+    const b = points[(i + 1) % n];
+    const r = metric ? distanceToSegment(pm, metric(a), metric(b)) : distanceToSegment(p, a, b);
     if (r.distance <= bestD) {
       bestD = r.distance;
-      best = { index: i, t: r.t, at: r.at };
+      best = { index: i, t: r.t, at: metric ? [a[0] + r.t * (b[0] - a[0]), a[1] + r.t * (b[1] - a[1])] : r.at };
     }
   }
   return best;
@@ -80,10 +91,11 @@ export function verticesInRect(points: readonly XY[], r: Rect): number[] {
 }
 
 export interface SnapSettings {
-  /** Snap positions to the grid. */
+  /** Snap positions to multiples of the steps. */
   grid: boolean;
-  /** Grid spacing in chord units. */
-  gridStep: number;
+  /** Snap steps along x and y, chord units (also the arrow keys' nudge). */
+  stepX: number;
+  stepY: number;
   /** Snap the direction of the facet being drawn or dragged to multiples of this; 0 = off. */
   angleStepDeg: number;
 }
@@ -96,8 +108,8 @@ export function roundTo(v: number, step: number): number {
   return r === 0 ? 0 : r;
 }
 
-export function snapToGrid(p: XY, step: number): Point {
-  return [roundTo(p[0], step), roundTo(p[1], step)];
+export function snapToGrid(p: XY, stepX: number, stepY: number = stepX): Point {
+  return [roundTo(p[0], stepX), roundTo(p[1], stepY)];
 }
 
 /**
@@ -123,7 +135,7 @@ export function snapAngle(anchor: XY, p: XY, stepDeg: number): Point {
  */
 export function snapPoint(p: XY, settings: SnapSettings, anchor: XY | null): Point {
   if (anchor && settings.angleStepDeg > 0) return snapAngle(anchor, p, settings.angleStepDeg);
-  if (settings.grid) return snapToGrid(p, settings.gridStep);
+  if (settings.grid) return snapToGrid(p, settings.stepX, settings.stepY);
   return [p[0], p[1]];
 }
 
@@ -134,17 +146,20 @@ export type WaveHit = { wave: Wave; ray: number | null; distance: number };
  * lines from origin to end; fans by each ray. `visible` filters by kind (hidden layers are not
  * hit).
  */
-export function hitWave(waves: readonly Wave[], p: XY, tolerance: number, visible: (w: Wave) => boolean = () => true): WaveHit | null {
+export function hitWave(waves: readonly Wave[], p: XY, tolerance: number, visible: (w: Wave) => boolean = () => true, metric?: Metric): WaveHit | null {
   let best: WaveHit | null = null;
+  const m = metric ?? ((q: XY) => q);
+  const pm = m(p);
   for (const wave of waves) {
     if (!visible(wave)) continue;
     if (wave.kind === 'fan' && wave.rays && wave.rays.length > 0) {
+      const origin = m(wave.origin);
       wave.rays.forEach((ray, k) => {
-        const d = distanceToSegment(p, wave.origin, ray.end).distance;
+        const d = distanceToSegment(pm, origin, m(ray.end)).distance;
         if (d <= tolerance && (!best || d < best.distance)) best = { wave, ray: k, distance: d };
       });
     } else {
-      const d = distanceToSegment(p, wave.origin, wave.end).distance;
+      const d = distanceToSegment(pm, m(wave.origin), m(wave.end)).distance;
       if (d <= tolerance && (!best || d < best.distance)) best = { wave, ray: null, distance: d };
     }
   }

@@ -1,4 +1,4 @@
-import { toScreen, toWorld, type Size, type View } from './view';
+import { scaleY, toScreen, toWorld, type Size, type View } from './view';
 
 /**
  * The body-axis grid in chord units: a "nice" spacing (1, 2 or 5 × 10^k chords) chosen so that
@@ -17,9 +17,26 @@ export function niceStep(minStep: number): number {
   return 10 * base;
 }
 
-/** Grid spacing in chord units for a view: lines at least `minPixels` apart. */
+/** Largest "nice" step (1, 2 or 5 × 10^k) ≤ `maxStep`. */
+export function niceStepBelow(maxStep: number): number {
+  if (!(maxStep > 0) || !Number.isFinite(maxStep)) return 1;
+  const exp = Math.floor(Math.log10(maxStep));
+  const base = 10 ** exp;
+  for (const m of [5, 2, 1]) {
+    const s = m * base;
+    if (s <= maxStep * (1 + 1e-12)) return Number(s.toPrecision(12));
+  }
+  return Number(base.toPrecision(12));
+}
+
+/** Grid spacing along x in chord units for a view: lines at least `minPixels` apart. */
 export function gridStepFor(view: View, minPixels = 18): number {
   return niceStep(minPixels / view.scale);
+}
+
+/** Grid spacing along y (finer than along x under a vertical exaggeration). */
+export function gridStepYFor(view: View, minPixels = 18): number {
+  return niceStep(minPixels / scaleY(view));
 }
 
 export interface GridLine {
@@ -33,6 +50,7 @@ export interface GridLine {
 
 export interface Grid {
   step: number;
+  stepY: number;
   vertical: GridLine[];
   horizontal: GridLine[];
 }
@@ -40,9 +58,10 @@ export interface Grid {
 /** Lines covering the visible area. */
 export function gridLines(view: View, size: Size, minPixels = 18): Grid {
   const step = gridStepFor(view, minPixels);
+  const stepY = gridStepYFor(view, minPixels);
   const [x0, y1] = toWorld(view, [0, 0]);
   const [x1, y0] = toWorld(view, [size.width, size.height]);
-  const lines = (from: number, to: number, toPx: (v: number) => number): GridLine[] => {
+  const lines = (from: number, to: number, step: number, toPx: (v: number) => number): GridLine[] => {
     const out: GridLine[] = [];
     const first = Math.ceil(from / step);
     const last = Math.floor(to / step);
@@ -54,8 +73,9 @@ export function gridLines(view: View, size: Size, minPixels = 18): Grid {
   };
   return {
     step,
-    vertical: lines(x0, x1, (v) => toScreen(view, [v, 0])[0]),
-    horizontal: lines(y0, y1, (v) => toScreen(view, [0, v])[1]),
+    stepY,
+    vertical: lines(x0, x1, step, (v) => toScreen(view, [v, 0])[0]),
+    horizontal: lines(y0, y1, stepY, (v) => toScreen(view, [0, v])[1]),
   };
 }
 
@@ -69,9 +89,7 @@ export interface ScaleBar {
 
 /** A scale bar of the longest nice length (1, 2 or 5 × 10^k chords) at most `targetPixels` long. */
 export function scaleBar(view: View, targetPixels = 100): ScaleBar {
-  const max = targetPixels / view.scale;
-  const base = 10 ** Math.floor(Math.log10(max));
-  const length = Number(([5, 2, 1].map((m) => m * base).find((l) => l <= max * (1 + 1e-12)) ?? base).toPrecision(12));
+  const length = niceStepBelow(targetPixels / view.scale);
   const pixels = length * view.scale;
   return { length, pixels, label: `${formatLength(length)} c` };
 }

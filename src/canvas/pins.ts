@@ -65,11 +65,13 @@ export function pinTargetAt(
   world: Point,
   tolerance: number,
   visible: (w: Wave) => boolean = () => true,
+  /** The view's `isotropic` map under a vertical exaggeration (tolerance then means pixels/scale in x and y alike). */
+  metric: ((p: readonly [number, number]) => [number, number]) | null = null,
 ): PinTarget {
-  const facet = hitFacet(points, world, tolerance);
+  const facet = hitFacet(points, world, tolerance, metric);
   if (facet) return { kind: 'facet', facet: facet.index, at: tidyPoint(facet.at[0], facet.at[1]) };
   if (result) {
-    const w = hitWave(result.waves, world, tolerance, visible);
+    const w = hitWave(result.waves, world, tolerance, visible, metric);
     if (w) {
       const at = nearestOnWave(w.wave, w.ray, world);
       const label = waveTooltip(w.wave, w.ray, result, 'pressureRatio').title.slice(0, 120);

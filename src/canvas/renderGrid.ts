@@ -6,6 +6,8 @@ import type { Size, View } from './view';
 
 export const CANVAS_FONT = "11px 'Work Sans', system-ui, sans-serif";
 const LABEL_FONT = "500 11px 'Work Sans', system-ui, sans-serif";
+/** The exaggeration note: amber like the other "read this before trusting the picture" marks. */
+const HUD_NOTE = '#ffcf7a';
 
 /** Background, the chord-unit grid (minor, major every fifth line, the axes) and labels. */
 export function renderGrid(view: View, size: Size, showGrid: boolean): DrawList {
@@ -49,6 +51,14 @@ export function renderHud(view: View, size: Size, legend: LegendModel | null, sh
     paths.push({ points: [x0, y0 - 8, 8 + x0 + bar.pixels + 8, y0 - 8, 8 + x0 + bar.pixels + 8, y0 + 10, x0, y0 + 10], colour: 'rgba(17, 28, 34, 0.85)', width: 0, closed: true, fill: 'rgba(17, 28, 34, 0.85)' });
     paths.push({ points: [x0 + 8, y0 - 3, x0 + 8, y0, x0 + 8 + bar.pixels, y0, x0 + 8 + bar.pixels, y0 - 3], colour: '#d7e3e6', width: 1.5 });
     texts.push({ x: x0 + 8 + bar.pixels / 2, y: y0 + 9, text: bar.label, colour: '#d7e3e6', font: LABEL_FONT, align: 'center', baseline: 'bottom' });
+  }
+  const ex = view.exaggeration ?? 1;
+  if (ex !== 1) {
+    // Always said on the canvas (and so in a PNG): the picture is stretched, the numbers are not.
+    const text = `vertical ×${ex} (view only)`;
+    const y = size.height - (showGrid ? 46 : 18);
+    paths.push({ points: [16, y - 13, 172, y - 13, 172, y + 5, 16, y + 5], colour: HUD_NOTE, width: 1, closed: true, fill: 'rgba(17, 28, 34, 0.85)' });
+    texts.push({ x: 24, y, text, colour: HUD_NOTE, font: LABEL_FONT, baseline: 'alphabetic' });
   }
   if (legend) {
     const w = 220;

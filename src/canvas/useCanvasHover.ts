@@ -9,6 +9,7 @@ import { waveVisible } from './renderWaves';
 import { facetTooltip, waveTooltip, type Tooltip } from './tooltips';
 import type { ToolId } from './tools';
 import type { CanvasView } from './useCanvasView';
+import { isotropic } from './view';
 
 /** How close (pixels) the pointer must be to a vertex, facet or wave for hover and pins. */
 export const HOVER_TOLERANCE_PX = 6;
@@ -57,17 +58,18 @@ export function useCanvasHover(source: () => HoverSource, canvas: CanvasView, on
   function updateHover(world: Point, screen: readonly [number, number]) {
     const s = source();
     const tol = HOVER_TOLERANCE_PX / canvas.view.value.scale;
+    const metric = isotropic(canvas.view.value);
     const [x, y] = screen;
-    const vertex = s.tool === 'moveSection' ? null : hitVertex(s.points, world, tol);
+    const vertex = s.tool === 'moveSection' ? null : hitVertex(s.points, world, tol, metric);
     if (vertex !== null) return setHover(vertex, null, null, x, y);
     const result = s.result;
-    const facetHit = hitFacet(s.points, world, tol);
+    const facetHit = hitFacet(s.points, world, tol, metric);
     if (facetHit) {
       const tip = result && facetPressures(result, s.points.length) ? facetTooltip(facetHit.index, result) : null;
       return setHover(null, facetHit.index, tip, x, y);
     }
     if (result && !s.invalid) {
-      const w = hitWave(result.waves, world, tol, (wave) => waveVisible(wave, s.layers));
+      const w = hitWave(result.waves, world, tol, (wave) => waveVisible(wave, s.layers), metric);
       if (w) return setHover(null, null, waveTooltip(w.wave, w.ray, result, s.legendMode), x, y, w.wave.id);
     }
     setHover(null, null, null, x, y);

@@ -12,6 +12,7 @@ import { notePaint } from './paintTiming';
 import { renderGrid, renderHud } from './renderGrid';
 import { renderLimits } from './renderLimits';
 import { renderPresence, type PresenceMark } from './renderPresence';
+import { renderReadout } from './renderReadout';
 import { renderReview, type CompareOutlines } from './renderReview';
 import { renderSection } from './renderSection';
 import { renderWaves, resultDomain } from './renderWaves';
@@ -110,6 +111,7 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
     });
   });
   const overlayList = computed(() => overlay(tools, view.value));
+  const readoutList = computed(() => renderReadout(source().points, tools.readout.value, view.value, size.value));
   const limits = computed(() => {
     const s = source();
     return s.layers.limits && !s.invalid ? renderLimits(s.result, view.value, size.value) : { marks: EMPTY_DRAW_LIST, labels: [] };
@@ -136,7 +138,7 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
     draw();
     notePaint(source().resultSeq);
   }
-  const scene = useDrawLayer('sceneLayer', () => [waveList.value, sectionList.value, overlayList.value, limits.value.marks], {
+  const scene = useDrawLayer('sceneLayer', () => [waveList.value, sectionList.value, overlayList.value, limits.value.marks, readoutList.value], {
     // A result that changes nothing on screen still ends a hold (and counts as its paint).
     alsoOn: () => source().resultSeq,
     schedule: (draw) => {

@@ -1,8 +1,9 @@
 import { computed, onBeforeUnmount, onMounted, ref, shallowRef, watch, type Ref } from 'vue';
 import type { SketchOpDraft } from '@shared/model/ops';
 import type { Point } from '@shared/model/sketch';
+import { sectionShape } from '@shared/model/sectionShape';
 import type { Rect, SnapSettings } from './geometry';
-import type { CanvasSnap } from './snap';
+import { snapSteps, type CanvasSnap } from './snap';
 import { noteHandlerStart } from './paintTiming';
 import { TOOLS, type KeyInput, type PointerInput, type ToolContext, type ToolId, type ToolStep } from './tools';
 import { toWorld } from './view';
@@ -43,12 +44,21 @@ export function useCanvasTools(host: Readonly<Ref<HTMLDivElement | null>>, sourc
   const marquee = shallowRef<Rect | null>(null);
   const drawPath = shallowRef<{ points: Point[]; cursor: Point | null } | null>(null);
   const ghost = shallowRef<Point | null>(null);
+  /** Where the drag readout (t/c, ridge x/c, the vertex) goes; null = hidden. */
+  const readout = shallowRef<Point | null>(null);
   const spaceHeld = ref(false);
   let pointerDown = false;
 
+  /** Chord and largest thickness of the committed section: the automatic snap steps follow them. */
+  const snapScale = computed(() => {
+    const pts = source().committedPoints;
+    if (pts.length < 3) return null;
+    const shape = sectionShape(pts);
+    return { chord: shape.chord, thickness: shape.thicknessRatio * shape.chord };
+  });
   const snapSettings = computed<SnapSettings>(() => {
     const snap = source().snap;
-    return { grid: snap.grid, gridStep: snap.gridStep === 'auto' ? canvas.gridStep.value : snap.gridStep, angleStepDeg: snap.angleStepDeg };
+    return { grid: snap.grid, ...snapSteps(snap, canvas.view.value, snapScale.value), angleStepDeg: snap.angleStepDeg };
   });
 
   function toolContext(): ToolContext {
@@ -90,6 +100,12 @@ export function useCanvasTools(host: Readonly<Ref<HTMLDivElement | null>>, sourc
           break;
         case 'hint':
           sink.hint(e.text);
+          break;
+        case 'tool':
+          sink.tool(e.id);
+          break;
+        case 'readout':
+          readout.value = e.at;
           break;
       }
     }
@@ -229,6 +245,8 @@ export function useCanvasTools(host: Readonly<Ref<HTMLDivElement | null>>, sourc
     marquee,
     drawPath,
     ghost,
+    readout,
+    snapSettings,
     handleKey,
     onPointerDown,
     onPointerMove,

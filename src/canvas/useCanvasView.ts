@@ -1,13 +1,13 @@
 import { computed, onBeforeUnmount, onMounted, ref, watch, type Ref } from 'vue';
 import type { Point } from '@shared/model/sketch';
 import { gridStepFor } from './grid';
-import { boundsOf, fitView, MAX_SCALE, MIN_SCALE, panBy, toWorld, zoomAt, type Size, type View } from './view';
+import { boundsOf, fitView, MAX_SCALE, MIN_SCALE, panBy, scaleY, toWorld, withExaggeration, zoomAt, type Size, type View } from './view';
 
 /**
  * The canvas's view state (SketchCanvas.vue): size, zoom and pan, fit, the host's page
  * position, and panning with the middle button or Space-drag. Pure view maths is in view.ts.
  */
-export function useCanvasView(host: Readonly<Ref<HTMLDivElement | null>>, points: () => readonly Point[]) {
+export function useCanvasView(host: Readonly<Ref<HTMLDivElement | null>>, points: () => readonly Point[], exaggeration: () => number = () => 1) {
   const size = ref<Size>({ width: 800, height: 500 });
   const view = ref<View>({ scale: 400, originX: 200, originY: 250 });
   const gridStep = computed(() => gridStepFor(view.value));
@@ -18,8 +18,13 @@ export function useCanvasView(host: Readonly<Ref<HTMLDivElement | null>>, points
   function fit() {
     const pts = points();
     if (pts.length === 0) return;
-    view.value = fitView(boundsOf(pts), size.value, 0.18);
+    view.value = fitView(boundsOf(pts), size.value, 0.18, exaggeration());
   }
+
+  // A new vertical exaggeration keeps x and the middle row of the canvas where they are.
+  watch(exaggeration, (ex) => {
+    view.value = withExaggeration(view.value, ex, size.value.height / 2);
+  });
 
   function zoomBy(factor: number) {
     view.value = zoomAt(view.value, factor, [size.value.width / 2, size.value.height / 2]);
@@ -28,7 +33,8 @@ export function useCanvasView(host: Readonly<Ref<HTMLDivElement | null>>, points
   /** Shows the section with `centre` at the middle of the canvas at `zoom` pixels per chord (walkthrough). */
   function showView(centre: Point, zoom: number) {
     const scale = Math.min(MAX_SCALE, Math.max(MIN_SCALE, zoom));
-    view.value = { scale, originX: size.value.width / 2 - centre[0] * scale, originY: size.value.height / 2 + centre[1] * scale };
+    const next: View = { ...view.value, scale, originX: size.value.width / 2 - centre[0] * scale };
+    view.value = { ...next, originY: size.value.height / 2 + centre[1] * scaleY(next) };
   }
 
   /** The centre of the canvas in section coordinates (what a walkthrough shares). */

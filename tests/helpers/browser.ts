@@ -89,8 +89,8 @@ export async function signInDemo(page: Page, email: string, baseUrl: string): Pr
 export async function worldOnScreen(page: Page, p: readonly [number, number]): Promise<{ x: number; y: number }> {
   const canvas = page.getByTestId('sketch-canvas');
   const box = (await canvas.boundingBox())!;
-  const [scale, originX, originY] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
-  return { x: box.x + p[0] * scale + originX, y: box.y - p[1] * scale + originY };
+  const [scale, originX, originY, exaggeration = 1] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
+  return { x: box.x + p[0] * scale + originX, y: box.y - p[1] * scale * exaggeration + originY };
 }
 
 /** Page position of vertex `i`, read from the vertex table. */

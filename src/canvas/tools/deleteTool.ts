@@ -1,5 +1,4 @@
-import { hitVertex } from '../geometry';
-import { hitTolerance, type Tool } from './types';
+import { vertexAt, type Tool } from './types';
 
 export type DeleteState = { mode: 'idle' };
 
@@ -12,12 +11,12 @@ export const deleteTool: Tool<DeleteState> = {
   initial: () => ({ mode: 'idle' }),
   down(s, ctx, p) {
     if (ctx.readOnly) return { state: s, effects: [] };
-    const vertex = hitVertex(ctx.points, p.world, hitTolerance(ctx.view));
+    const vertex = vertexAt(ctx, p.world);
     if (vertex === null) return { state: s, effects: [] };
     return { state: s, effects: [{ kind: 'commit', op: { type: 'deleteVertex', index: vertex }, select: [] }] };
   },
   move(s, ctx, p) {
-    const vertex = hitVertex(ctx.points, p.world, hitTolerance(ctx.view));
+    const vertex = vertexAt(ctx, p.world);
     return { state: s, effects: [], cursor: vertex !== null ? 'pointer' : 'default' };
   },
   up: (s) => ({ state: s, effects: [] }),

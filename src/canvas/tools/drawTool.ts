@@ -1,3 +1,4 @@
+import { explainSectionProblem } from '@shared/model/ops';
 import type { Point } from '@shared/model/sketch';
 import { snapPoint } from '../geometry';
 import { toScreen } from '../view';
@@ -11,7 +12,8 @@ export interface DrawState {
 /**
  * Draw a new section: click to place vertices (snapped to the grid, or the facet being drawn
  * to the angle step), click the first vertex or press Enter to close — the drawn polygon then
- * replaces the section in one edit. Backspace removes the last vertex, Escape abandons.
+ * replaces the section in one edit and the tool hands back to Select, so the next click edits
+ * the new section instead of starting another. Backspace removes the last vertex, Escape abandons.
  */
 export const drawTool: Tool<DrawState> = {
   id: 'draw',
@@ -47,7 +49,8 @@ export const drawTool: Tool<DrawState> = {
     return null;
   },
 
-  cancel: () => ({ state: { path: [], cursor: null }, effects: [{ kind: 'path', points: null, cursor: null }, { kind: 'hint', text: null }] }),
+  // Nothing drawn: nothing to clear (and the hint said after closing stays).
+  cancel: (s) => ({ state: { path: [], cursor: null }, effects: s.path.length > 0 ? [{ kind: 'path', points: null, cursor: null }, { kind: 'hint', text: null }] : [] }),
 };
 
 function place(s: DrawState, ctx: ToolContext, world: Point, alt: boolean): Point {
@@ -64,12 +67,16 @@ function show(state: DrawState, hint: string | null): ToolStep<DrawState> {
 }
 
 function close(s: DrawState): ToolStep<DrawState> {
+  // A path that would not make a section stays open to be fixed (nothing drawn is lost).
+  const problem = explainSectionProblem(s.path);
+  if (problem) return { state: s, effects: [{ kind: 'hint', text: `Not closed: ${problem}. Remove the last vertex (Backspace) and place it elsewhere.` }] };
   return {
     state: { path: [], cursor: null },
     effects: [
       { kind: 'path', points: null, cursor: null },
-      { kind: 'hint', text: null },
       { kind: 'commit', op: { type: 'replaceSection', points: s.path }, select: [] },
+      { kind: 'tool', id: 'select' },
+      { kind: 'hint', text: `Section of ${s.path.length} vertices drawn; Select is on. Press P to draw another.` },
     ],
   };
 }

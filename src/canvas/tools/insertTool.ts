@@ -1,5 +1,4 @@
-import { hitFacet } from '../geometry';
-import { hitTolerance, type Tool } from './types';
+import { facetAt, type Tool } from './types';
 
 export type InsertState = { mode: 'idle' };
 
@@ -12,13 +11,13 @@ export const insertTool: Tool<InsertState> = {
   initial: () => ({ mode: 'idle' }),
   down(s, ctx, p) {
     if (ctx.readOnly) return { state: s, effects: [] };
-    const hit = hitFacet(ctx.points, p.world, hitTolerance(ctx.view));
+    const hit = facetAt(ctx, p.world);
     if (!hit) return { state: s, effects: [{ kind: 'hint', text: 'Click on a facet to add a vertex there.' }] };
     const index = hit.index + 1;
     return { state: s, effects: [{ kind: 'ghost', at: null }, { kind: 'commit', op: { type: 'insertVertex', index, at: hit.at }, select: [index] }] };
   },
   move(s, ctx, p) {
-    const hit = hitFacet(ctx.points, p.world, hitTolerance(ctx.view));
+    const hit = facetAt(ctx, p.world);
     return { state: s, effects: [{ kind: 'ghost', at: hit ? hit.at : null }], cursor: hit ? 'copy' : 'default' };
   },
   up: (s) => ({ state: s, effects: [] }),

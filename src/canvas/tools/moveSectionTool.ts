@@ -1,6 +1,6 @@
 import type { Point } from '@shared/model/sketch';
-import { hitFacet, pointInPolygon, roundTo, tidyPoint } from '../geometry';
-import { ARROWS, hitTolerance, movedBeyondThreshold, nudgeStep, type Tool, type ToolContext, type ToolEffect } from './types';
+import { pointInPolygon, roundTo, tidyPoint } from '../geometry';
+import { ARROWS, facetAt, movedBeyondThreshold, nudgeBy, type Tool, type ToolContext, type ToolEffect } from './types';
 
 export type MoveSectionState =
   | { mode: 'idle' }
@@ -8,7 +8,7 @@ export type MoveSectionState =
 
 /**
  * Move the whole section: drag from inside it or from its outline; the offset snaps to whole
- * grid steps so a section on the grid stays on it. Arrow keys nudge the whole section.
+ * snap steps so a section on the grid stays on it. Arrow keys nudge the whole section.
  */
 export const moveSectionTool: Tool<MoveSectionState> = {
   id: 'moveSection',
@@ -18,21 +18,21 @@ export const moveSectionTool: Tool<MoveSectionState> = {
   initial: () => ({ mode: 'idle' }),
   down(s, ctx, p) {
     if (ctx.readOnly) return { state: s, effects: [] };
-    const on = pointInPolygon(ctx.points, p.world) || hitFacet(ctx.points, p.world, hitTolerance(ctx.view)) !== null;
+    const on = pointInPolygon(ctx.points, p.world) || facetAt(ctx, p.world) !== null;
     if (!on) return { state: s, effects: [] };
     return { state: { mode: 'dragging', startScreen: p.screen, startWorld: p.world, moved: null }, effects: [], cursor: 'grabbing' };
   },
   move(s, ctx, p) {
     if (s.mode === 'idle') {
-      const on = pointInPolygon(ctx.points, p.world) || hitFacet(ctx.points, p.world, hitTolerance(ctx.view)) !== null;
+      const on = pointInPolygon(ctx.points, p.world) || facetAt(ctx, p.world) !== null;
       return { state: s, effects: [], cursor: on ? 'move' : 'default' };
     }
     if (!s.moved && !movedBeyondThreshold(s.startScreen, p.screen)) return { state: s, effects: [] };
     let dx = p.world[0] - s.startWorld[0];
     let dy = p.world[1] - s.startWorld[1];
     if (ctx.snap.grid && !p.alt) {
-      dx = roundTo(dx, ctx.snap.gridStep);
-      dy = roundTo(dy, ctx.snap.gridStep);
+      dx = roundTo(dx, ctx.snap.stepX);
+      dy = roundTo(dy, ctx.snap.stepY);
     }
     const moved = ctx.points.map(([x, y]) => tidyPoint(x + dx, y + dy));
     return { state: { ...s, moved }, effects: [{ kind: 'preview', points: moved }], cursor: 'grabbing' };
@@ -48,15 +48,15 @@ export const moveSectionTool: Tool<MoveSectionState> = {
   key(s, ctx, k) {
     const dir = ARROWS[k.key];
     if (!dir || s.mode !== 'idle' || ctx.readOnly) return null;
-    return { state: s, effects: [{ kind: 'commit', op: shift(ctx, dir, nudgeStep(ctx, k)) }] };
+    return { state: s, effects: [{ kind: 'commit', op: shift(ctx, nudgeBy(ctx, k, dir)) }] };
   },
   cancel: () => ({ state: { mode: 'idle' }, effects: [{ kind: 'preview', points: null }] }),
 };
 
-function shift(ctx: ToolContext, dir: [number, number], step: number) {
+function shift(ctx: ToolContext, [dx, dy]: [number, number]) {
   return {
     type: 'moveVertices' as const,
     indices: ctx.points.map((_, i) => i),
-    to: ctx.points.map(([x, y]) => tidyPoint(x + dir[0] * step, y + dir[1] * step)),
+    to: ctx.points.map(([x, y]) => tidyPoint(x + dx, y + dy)),
   };
 }

@@ -1,6 +1,6 @@
 import type { Point } from '@shared/model/sketch';
-import { hitVertex, snapPoint, tidyPoint, verticesInRect } from '../geometry';
-import { ARROWS, hitTolerance, movedBeyondThreshold, nudgeStep, type Tool, type ToolContext, type ToolEffect, type ToolStep } from './types';
+import { snapPoint, tidyPoint, verticesInRect } from '../geometry';
+import { ARROWS, movedBeyondThreshold, nudgeBy, vertexAt, type KeyInput, type Tool, type ToolContext, type ToolEffect, type ToolStep } from './types';
 
 export type SelectState =
   | { mode: 'idle' }
@@ -24,7 +24,7 @@ export const selectTool: Tool<SelectState> = {
   initial: () => idle,
 
   down(_s, ctx, p) {
-    const vertex = hitVertex(ctx.points, p.world, hitTolerance(ctx.view));
+    const vertex = vertexAt(ctx, p.world);
     const effects: ToolEffect[] = [];
     if (vertex !== null) {
       if (p.shift) {
@@ -39,7 +39,7 @@ export const selectTool: Tool<SelectState> = {
 
   move(s, ctx, p) {
     if (s.mode === 'idle') {
-      const over = hitVertex(ctx.points, p.world, hitTolerance(ctx.view));
+      const over = vertexAt(ctx, p.world);
       return { state: s, effects: [], cursor: over !== null ? 'grab' : 'default' };
     }
     if (s.mode === 'pointing') {
@@ -69,7 +69,7 @@ export const selectTool: Tool<SelectState> = {
       s.indices.forEach((i, j) => {
         preview[i] = moved[j];
       });
-      return { state: { ...s, moved }, effects: [{ kind: 'preview', points: preview }], cursor: 'grabbing' };
+      return { state: { ...s, moved }, effects: [{ kind: 'preview', points: preview }, { kind: 'readout', at: moved[k] }], cursor: 'grabbing' };
     }
     const next = { ...s, current: p.world };
     return { state: next, effects: [{ kind: 'marquee', rect: rect(s.startWorld, p.world) }], cursor: 'crosshair' };
@@ -77,7 +77,7 @@ export const selectTool: Tool<SelectState> = {
 
   up(s, ctx) {
     if (s.mode === 'dragging') {
-      const effects: ToolEffect[] = [{ kind: 'preview', points: null }];
+      const effects: ToolEffect[] = [{ kind: 'preview', points: null }, { kind: 'readout', at: null }];
       const changed = s.moved && s.moved.some((m, j) => m[0] !== s.origins[j][0] || m[1] !== s.origins[j][1]);
       if (s.moved && changed) effects.push({ kind: 'commit', op: { type: 'moveVertices', indices: s.indices, to: s.moved }, select: s.indices });
       return { state: idle, effects, cursor: 'grab' };
@@ -99,20 +99,21 @@ export const selectTool: Tool<SelectState> = {
     if (k.ctrl && k.key.toLowerCase() === 'a') return { state: s, effects: [{ kind: 'select', indices: ctx.points.map((_, i) => i) }] };
     if (s.mode !== 'idle' || ctx.readOnly || ctx.selection.length === 0) return null;
     const dir = ARROWS[k.key];
-    if (dir) return nudge(s, ctx, dir, nudgeStep(ctx, k));
+    if (dir) return nudge(s, ctx, k, dir);
     if (k.key === 'Delete' || k.key === 'Backspace') return deleteSelection(s, ctx);
     return null;
   },
 
-  cancel: () => ({ state: idle, effects: [{ kind: 'preview', points: null }, { kind: 'marquee', rect: null }] }),
+  cancel: () => ({ state: idle, effects: [{ kind: 'preview', points: null }, { kind: 'marquee', rect: null }, { kind: 'readout', at: null }] }),
 };
 
 function rect(a: Point, b: Point) {
   return { x0: a[0], y0: a[1], x1: b[0], y1: b[1] };
 }
 
-function nudge(s: SelectState, ctx: ToolContext, dir: [number, number], step: number): ToolStep<SelectState> {
-  const to = ctx.selection.map((i) => tidyPoint(ctx.points[i][0] + dir[0] * step, ctx.points[i][1] + dir[1] * step));
+function nudge(s: SelectState, ctx: ToolContext, k: KeyInput, dir: [number, number]): ToolStep<SelectState> {
+  const [dx, dy] = nudgeBy(ctx, k, dir);
+  const to = ctx.selection.map((i) => tidyPoint(ctx.points[i][0] + dx, ctx.points[i][1] + dy));
   return { state: s, effects: [{ kind: 'commit', op: { type: 'moveVertices', indices: [...ctx.selection], to }, select: [...ctx.selection] }] };
 }
 

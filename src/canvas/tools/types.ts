@@ -1,7 +1,7 @@
 import type { SketchOpDraft } from '@shared/model/ops';
 import type { Point } from '@shared/model/sketch';
-import type { Rect, SnapSettings } from '../geometry';
-import type { View } from '../view';
+import { hitFacet, hitVertex, type Rect, type SnapSettings } from '../geometry';
+import { isotropic, type View } from '../view';
 
 /**
  * Editing tools are small state machines (idle → pointing → dragging …), one file each. A tool
@@ -51,7 +51,11 @@ export type ToolEffect =
   /** A candidate point (insert tool) or null. */
   | { kind: 'ghost'; at: Point | null }
   /** A short hint for the status line; null clears it. */
-  | { kind: 'hint'; text: string | null };
+  | { kind: 'hint'; text: string | null }
+  /** Switch to another tool (the draw tool hands back to Select once a section is closed). */
+  | { kind: 'tool'; id: ToolId }
+  /** Show the section's t/c and ridge x/c (and this vertex's position) beside `at` while dragging; null = hide. */
+  | { kind: 'readout'; at: Point | null };
 
 export interface ToolStep<S> {
   state: S;
@@ -86,13 +90,27 @@ export function hitTolerance(view: View): number {
   return HIT_TOLERANCE_PX / view.scale;
 }
 
+/** The vertex under the pointer (within HIT_TOLERANCE_PX on screen, whatever the exaggeration). */
+export function vertexAt(ctx: Pick<ToolContext, 'points' | 'view'>, world: Point): number | null {
+  return hitVertex(ctx.points, world, hitTolerance(ctx.view), isotropic(ctx.view));
+}
+
+/** The facet under the pointer and the nearest point on it (body axes). */
+export function facetAt(ctx: Pick<ToolContext, 'points' | 'view'>, world: Point) {
+  return hitFacet(ctx.points, world, hitTolerance(ctx.view), isotropic(ctx.view));
+}
+
 export function movedBeyondThreshold(a: readonly [number, number], b: readonly [number, number]): boolean {
   return Math.hypot(a[0] - b[0], a[1] - b[1]) > DRAG_THRESHOLD_PX;
 }
 
-/** The nudge distance for arrow keys: one grid step; Shift ×10, Alt ÷10. */
-export function nudgeStep(ctx: ToolContext, k: KeyInput): number {
-  return ctx.snap.gridStep * (k.shift ? 10 : 1) * (k.alt ? 0.1 : 1);
+/**
+ * The nudge for an arrow key, body axes: one snap step along the arrow's axis (steps follow the
+ * zoom and the thickness); Shift ×10 (coarse), Alt ÷10 (fine).
+ */
+export function nudgeBy(ctx: ToolContext, k: KeyInput, dir: readonly [number, number]): [number, number] {
+  const factor = (k.shift ? 10 : 1) * (k.alt ? 0.1 : 1);
+  return [dir[0] * ctx.snap.stepX * factor, dir[1] * ctx.snap.stepY * factor];
 }
 
 export const ARROWS: Record<string, [number, number]> = {

@@ -12,8 +12,10 @@ import {
   tidy,
   verticesInRect,
 } from '@/canvas/geometry';
-import { boundsOf, fitView, panBy, toScreen, toWorld, zoomAt, MAX_SCALE } from '@/canvas/view';
-import { gridLines, niceStep, scaleBar } from '@/canvas/grid';
+import { boundsOf, fitView, isotropic, panBy, toScreen, toWorld, withExaggeration, zoomAt, MAX_SCALE } from '@/canvas/view';
+import { gridLines, niceStep, niceStepBelow, scaleBar } from '@/canvas/grid';
+import { snapSteps } from '@/canvas/snap';
+import { facetAt, vertexAt } from '@/canvas/tools/types';
 import { expectClose } from '../../helpers/expectClose';
 
 const wedge: Point[] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
@@ -46,6 +48,86 @@ describe('view transform', () => {
     const v = fitView(boundsOf(wedge), size, 0.2);
     expect(toScreen(v, [0.5, 0])).toEqual([400, 300]);
     expect(v.scale).toBeCloseTo(480, 9); // 60 % of 800 px over a chord of 1
+  });
+});
+
+describe('vertical exaggeration (view only)', () => {
+  const view = { scale: 400, originX: 100, originY: 250, exaggeration: 5 };
+
+  it('[V1] toWorld inverts toScreen under a vertical exaggeration; y is stretched on screen only', () => {
+    expect(toScreen(view, [1, 0.02])).toEqual([500, 210]); // 0.02 c × 400 px × 5 = 40 px up
+    const back = toWorld(view, [500, 210]);
+    expectClose(back[0], 1, 1e-15);
+    expectClose(back[1], 0.02, 1e-15);
+  });
+
+  it('[V2] zoomAt keeps the point under the cursor and the exaggeration', () => {
+    const cursor: [number, number] = [321, 123];
+    const before = toWorld(view, cursor);
+    const zoomed = zoomAt(view, 2.5, cursor);
+    expect(zoomed.exaggeration).toBe(5);
+    const after = toWorld(zoomed, cursor);
+    expectClose(after[0], before[0], 1e-12);
+    expectClose(after[1], before[1], 1e-12);
+  });
+
+  it('withExaggeration keeps the world point at the middle row of the canvas where it was', () => {
+    const plain = { scale: 400, originX: 100, originY: 250 };
+    const middle = toWorld(plain, [0, 300]);
+    const stretched = withExaggeration(plain, 5, 300);
+    expectClose(toWorld(stretched, [0, 300])[1], middle[1], 1e-12);
+    expect(withExaggeration(stretched, 1, 300)).toEqual({ scale: 400, originX: 100, originY: 250 });
+  });
+
+  it('fitView with ×5 fits the stretched height: a 5 % section fills the height before the width', () => {
+    const v = fitView(boundsOf(wedge), { width: 800, height: 200 }, 0.1, 5);
+    // Height 0.05 × 5 = 0.25 c over 160 px → 640 px per chord (the width would allow 640 too: a tie).
+    expect(v.scale).toBeCloseTo(640, 9);
+    expect(v.exaggeration).toBe(5);
+  });
+
+  it('hit tests measure pixels on screen: under ×5 a pointer 10 px from a vertex does not hit it', () => {
+    // Thin lens, 0.5 % thick: the ridges are 12.5 px above and below the axis at 1000 px/c × 5.
+    const lens: Point[] = [[0, 0], [0.5, 0.0025], [1, 0], [0.5, -0.0025]];
+    const stretched = { scale: 1000, originX: 0, originY: 300, exaggeration: 5 };
+    // 2.5 px above the axis: 10 px from the upper ridge on screen (only 2 px in unstretched chord units).
+    expect(vertexAt({ points: lens, view: stretched }, [0.5, 0.0005])).toBeNull();
+    expect(vertexAt({ points: lens, view: { ...stretched, exaggeration: 1 } }, [0.5, 0.0005])).toBe(1);
+    expect(vertexAt({ points: lens, view: stretched }, [0.5, 0.002])).toBe(1);
+    expect(isotropic({ scale: 1, originX: 0, originY: 0 })).toBeNull();
+    // A facet point found through the stretched metric is on the facet in body axes.
+    const hit = facetAt({ points: lens, view: stretched }, [0.25, 0.0013]);
+    expect(hit?.index).toBe(0);
+    expectClose(hit!.at[1], hit!.at[0] * 0.005, 1e-15);
+  });
+});
+
+describe('snap steps follow the zoom and the thickness', () => {
+  const auto = { grid: true, gridStep: 'auto' as const, angleStepDeg: 0 };
+  const wedge5 = { chord: 1, thickness: 0.05 };
+
+  it('niceStepBelow(x) is the largest 1, 2, 5 × 10^k at most x', () => {
+    expect(niceStepBelow(0.00125)).toBe(0.001);
+    expect(niceStepBelow(0.003)).toBe(0.002);
+    expect(niceStepBelow(0.05)).toBe(0.05);
+    expect(niceStepBelow(0.07)).toBe(0.05);
+  });
+
+  it('a 5 % section fitted at 576 px/c snaps its ridge in 0.001 c (t/c in 0.1 %), x in 0.01 c', () => {
+    // The grid lines there are niceStep(18/576) = 0.05 c apart: snapping to them would move the
+    // ridge of a 5 % section from 0.025 to 0 or 0.05 (t/c 0 % or 7.5 %).
+    expect(snapSteps(auto, { scale: 576, originX: 0, originY: 0 }, wedge5)).toEqual({ stepX: 0.01, stepY: 0.001 });
+    expect(niceStep(18 / 576)).toBe(0.05);
+  });
+
+  it('zooming in makes the steps finer; a fixed step applies to both axes', () => {
+    expect(snapSteps(auto, { scale: 20_000, originX: 0, originY: 0 }, wedge5)).toEqual({ stepX: 0.0002, stepY: 0.0002 });
+    expect(snapSteps({ ...auto, gridStep: 0.05 }, { scale: 576, originX: 0, originY: 0 }, wedge5)).toEqual({ stepX: 0.05, stepY: 0.05 });
+  });
+
+  it('a thinner section gets a finer y step; a vertical exaggeration refines y by the zoom', () => {
+    expect(snapSteps(auto, { scale: 576, originX: 0, originY: 0 }, { chord: 1, thickness: 0.001 }).stepY).toBe(0.00002);
+    expect(snapSteps(auto, { scale: 50, originX: 0, originY: 0, exaggeration: 5 }, null)).toEqual({ stepX: 0.1, stepY: 0.02 });
   });
 });
 
@@ -87,7 +169,7 @@ describe('snapping', () => {
   });
 
   it('snapPoint prefers the angle step when there is an anchor, else the grid, else nothing', () => {
-    const settings = { grid: true, gridStep: 0.05, angleStepDeg: 15 };
+    const settings = { grid: true, stepX: 0.05, stepY: 0.05, angleStepDeg: 15 };
     const angled = snapPoint([1, 0.3], settings, [0, 0]);
     expectClose((Math.atan2(angled[1], angled[0]) * 180) / Math.PI, 15, 1e-12);
     expect(snapPoint([0.512, 0.033], settings, null)).toEqual([0.5, 0.05]);

@@ -15,7 +15,7 @@ const view: View = { scale: 1000, originX: 100, originY: 300 };
 const wedge: Point[] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
 
 function ctx(extra: Partial<ToolContext> = {}): ToolContext {
-  return { points: wedge, selection: [], view, snap: { grid: false, gridStep: 0.01, angleStepDeg: 0 }, readOnly: false, ...extra };
+  return { points: wedge, selection: [], view, snap: { grid: false, stepX: 0.01, stepY: 0.01, angleStepDeg: 0 }, readOnly: false, ...extra };
 }
 
 function at(world: Point, mods: Partial<PointerInput> = {}): PointerInput {
@@ -73,7 +73,7 @@ describe('select tool', () => {
   });
 
   it('drags the whole selection together, snapping the grabbed vertex to the grid', () => {
-    const c = ctx({ selection: [1, 3], snap: { grid: true, gridStep: 0.01, angleStepDeg: 0 } });
+    const c = ctx({ selection: [1, 3], snap: { grid: true, stepX: 0.01, stepY: 0.01, angleStepDeg: 0 } });
     const d = selectTool.down(selectTool.initial(), c, at([0.5, 0.025]));
     const m = selectTool.move(d.state, c, at([0.4132, 0.0368]));
     const u = selectTool.up(m.state, c, at([0.4132, 0.0368]));
@@ -82,7 +82,7 @@ describe('select tool', () => {
   });
 
   it('angle snapping turns the dragged facet (from the previous vertex) to the step', () => {
-    const c = ctx({ selection: [1], snap: { grid: false, gridStep: 0.01, angleStepDeg: 5 } });
+    const c = ctx({ selection: [1], snap: { grid: false, stepX: 0.01, stepY: 0.01, angleStepDeg: 5 } });
     const d = selectTool.down(selectTool.initial(), c, at([0.5, 0.025]));
     const m = selectTool.move(d.state, c, at([0.5, 0.046]));
     const p = find(m.effects, 'preview')[0].points![1];
@@ -103,7 +103,7 @@ describe('select tool', () => {
   });
 
   it('arrow keys nudge the selection by a grid step (Shift ×10), Delete removes it', () => {
-    const c = ctx({ selection: [1], snap: { grid: true, gridStep: 0.01, angleStepDeg: 0 } });
+    const c = ctx({ selection: [1], snap: { grid: true, stepX: 0.01, stepY: 0.01, angleStepDeg: 0 } });
     const up = selectTool.key(selectTool.initial(), c, { key: 'ArrowUp', shift: false, alt: false, ctrl: false });
     expect(find(up!.effects, 'commit')[0].op).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.035]] });
     const left = selectTool.key(selectTool.initial(), c, { key: 'ArrowLeft', shift: true, alt: false, ctrl: false });
@@ -112,6 +112,25 @@ describe('select tool', () => {
     expect(find(del!.effects, 'commit')[0].op).toEqual({ type: 'deleteVertex', index: 1 });
     const many = selectTool.key(selectTool.initial(), ctx({ selection: [1, 3] }), { key: 'Delete', shift: false, alt: false, ctrl: false });
     expect(find(many!.effects, 'commit')[0].op).toEqual({ type: 'replaceSection', points: [[0, 0], [1, 0]] });
+  });
+
+  it('a drag shows the readout at the grabbed vertex and hides it on release', () => {
+    const c = ctx({ selection: [1] });
+    const d = selectTool.down(selectTool.initial(), c, at([0.5, 0.025]));
+    const m = selectTool.move(d.state, c, at([0.5, 0.03]));
+    expect(find(m.effects, 'readout')).toEqual([{ kind: 'readout', at: [0.5, 0.03] }]);
+    const u = selectTool.up(m.state, c, at([0.5, 0.03]));
+    expect(find(u.effects, 'readout')).toEqual([{ kind: 'readout', at: null }]);
+  });
+
+  it('arrow keys move by the step of their axis: up by stepY, right by stepX; Alt ÷10, Shift ×10', () => {
+    const c = ctx({ selection: [1], snap: { grid: true, stepX: 0.01, stepY: 0.001, angleStepDeg: 0 } });
+    const key = (k: string, mods: { shift?: boolean; alt?: boolean } = {}) =>
+      find(selectTool.key(selectTool.initial(), c, { key: k, shift: !!mods.shift, alt: !!mods.alt, ctrl: false })!.effects, 'commit')[0].op;
+    expect(key('ArrowUp')).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.026]] });
+    expect(key('ArrowRight')).toEqual({ type: 'moveVertices', indices: [1], to: [[0.51, 0.025]] });
+    expect(key('ArrowDown', { alt: true })).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.0249]] });
+    expect(key('ArrowUp', { shift: true })).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.035]] });
   });
 
   it('[K2] read-only: selecting works, dragging does not', () => {
@@ -125,7 +144,7 @@ describe('select tool', () => {
 
 describe('draw tool', () => {
   it('places snapped vertices and closes on the first one with one replaceSection', () => {
-    const c = ctx({ snap: { grid: true, gridStep: 0.1, angleStepDeg: 0 } });
+    const c = ctx({ snap: { grid: true, stepX: 0.1, stepY: 0.1, angleStepDeg: 0 } });
     let s = drawTool.initial();
     for (const p of [[0.02, -0.01], [0.48, 0.12], [1.03, 0.01], [0.52, -0.09]] as Point[]) s = drawTool.down(s, c, at(p)).state;
     expect(s.path).toEqual([[0, 0], [0.5, 0.1], [1, 0], [0.5, -0.1]]);
@@ -150,6 +169,29 @@ describe('draw tool', () => {
   });
 });
 
+describe('draw tool stops after a polygon closes', () => {
+  it('closing commits once and hands back to Select (the next click does not start a new section)', () => {
+    let s = drawTool.initial();
+    for (const p of [[0, 0], [0.5, 0.1], [1, 0]] as Point[]) s = drawTool.down(s, ctx(), at(p)).state;
+    const closed = drawTool.down(s, ctx(), at([0, 0]));
+    expect(find(closed.effects, 'commit')).toHaveLength(1);
+    expect(find(closed.effects, 'tool')).toEqual([{ kind: 'tool', id: 'select' }]);
+    expect(find(closed.effects, 'hint')[0].text).toMatch(/3 vertices drawn; Select is on/);
+    // The tool switch cancels the (now empty) draw tool: that keeps the hint.
+    expect(drawTool.cancel(closed.state).effects).toEqual([]);
+  });
+
+  it('a path that would cross itself is not closed: it stays, with the reason', () => {
+    let s = drawTool.initial();
+    for (const p of [[0, 0], [1, 0.1], [1, 0], [0, 0.1]] as Point[]) s = drawTool.down(s, ctx(), at(p)).state;
+    const enter = drawTool.key(s, ctx(), { key: 'Enter', shift: false, alt: false, ctrl: false })!;
+    expect(find(enter.effects, 'commit')).toEqual([]);
+    expect(find(enter.effects, 'tool')).toEqual([]);
+    expect(enter.state.path).toHaveLength(4);
+    expect(find(enter.effects, 'hint')[0].text).toMatch(/^Not closed: facet .* would cross/);
+  });
+});
+
 describe('insert, delete and move-section tools', () => {
   it('insert puts a vertex on the clicked facet, right after its first vertex', () => {
     const step = insertTool.down(insertTool.initial(), ctx(), at([0.25, 0.0128]));
@@ -168,7 +210,7 @@ describe('insert, delete and move-section tools', () => {
   });
 
   it('[K1] move-section drags all vertices by a grid-snapped offset and commits once', () => {
-    const c = ctx({ snap: { grid: true, gridStep: 0.1, angleStepDeg: 0 } });
+    const c = ctx({ snap: { grid: true, stepX: 0.1, stepY: 0.1, angleStepDeg: 0 } });
     const d = moveSectionTool.down(moveSectionTool.initial(), c, at([0.5, 0]));
     const m = moveSectionTool.move(d.state, c, at([0.73, 0.18]));
     expect(find(m.effects, 'preview')[0].points![0]).toEqual([0.2, 0.2]);

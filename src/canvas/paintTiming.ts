@@ -5,14 +5,27 @@
  * it (the request numbers of useLiveSolve), and two latencies in ms are recorded:
  * - from the event's own timestamp (includes the browser's input queueing), and
  * - from when our handler ran (the editor's own share: solve in the worker, render, draw).
+ * With the worker painting, also until the drawing was rasterised (the canvas hands its pixels
+ * to the compositor then), and, for a move whose own request was solved and painted, where the
+ * time went: from the handler to the worker starting on it (the page's work, the copy, and
+ * waiting behind an earlier solve), the solve, the draw calls, and the raster.
  */
+interface Breakdown {
+  toWorker: number[];
+  solve: number[];
+  paint: number[];
+  raster: number[];
+}
+
 interface BenchGlobals {
   __shockwrightBench?: boolean;
-  __shockwrightPaintLatencies?: { fromEvent: number[]; fromHandler: number[] };
+  __shockwrightPaintLatencies?: { fromEvent: number[]; fromHandler: number[]; rasterised?: number[]; breakdown?: Breakdown };
 }
 
 const g = globalThis as typeof globalThis & BenchGlobals;
 const pending: { seq: number; eventTime: number; handlerTime: number }[] = [];
+/** Per request: when it went to the worker. */
+const requests = new Map<number, { sentAt: number }>();
 let handlerStart = 0;
 
 export function benchEnabled(): boolean {
@@ -30,14 +43,32 @@ export function noteInput(seq: number, eventTime: number): void {
   pending.push({ seq, eventTime, handlerTime: handlerStart || performance.now() });
 }
 
-/** The wave map was just drawn from the answer to request `seq`. */
-export function notePaint(seq: number): void {
+/** Request `seq` was posted to the solver worker. */
+export function noteSent(seq: number): void {
+  if (benchEnabled()) requests.set(seq, { sentAt: performance.now() });
+}
+
+/**
+ * The wave map was drawn from the answer to request `seq`, at `at` (this page's clock; now by
+ * default). The worker says how long it solved and painted.
+ */
+export function notePaint(seq: number, at: number = performance.now(), worker?: { solveMs: number; paintMs: number; rasterMs: number }): void {
   if (!benchEnabled() || pending.length === 0) return;
-  const now = performance.now();
   const out = (g.__shockwrightPaintLatencies ??= { fromEvent: [], fromHandler: [] });
+  const breakdown = (out.breakdown ??= { toWorker: [], solve: [], paint: [], raster: [] });
+  const rasterised = (out.rasterised ??= []);
+  const r = requests.get(seq);
   while (pending.length > 0 && pending[0].seq <= seq) {
     const p = pending.shift()!;
-    out.fromEvent.push(now - p.eventTime);
-    out.fromHandler.push(now - p.handlerTime);
+    out.fromEvent.push(at - p.eventTime);
+    out.fromHandler.push(at - p.handlerTime);
+    if (worker) rasterised.push(at + worker.rasterMs - p.eventTime);
+    if (p.seq === seq && r && worker) {
+      breakdown.toWorker.push(at - worker.paintMs - worker.solveMs - p.handlerTime);
+      breakdown.solve.push(worker.solveMs);
+      breakdown.paint.push(worker.paintMs);
+      breakdown.raster.push(worker.rasterMs);
+    }
   }
+  for (const k of requests.keys()) if (k <= seq) requests.delete(k);
 }

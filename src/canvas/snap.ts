@@ -21,7 +21,7 @@ export const SNAP_CHORD_FRACTION = 1 / 100;
 /** An automatic y step is at most this fraction of the section's thickness (t/c in 2 % of itself or finer). */
 export const SNAP_THICKNESS_FRACTION = 1 / 50;
 
-/** What the automatic steps depend on, in chord units (the committed section's chord and largest thickness). */
+/** What the automatic steps depend on, in chord units (the committed section's chord and thickness, or its height). */
 export interface SnapScale {
   chord: number;
   thickness: number;

@@ -1,39 +1,33 @@
-import { computed, onBeforeUnmount, useTemplateRef, watch } from 'vue';
+import { computed, onMounted, useTemplateRef, watch } from 'vue';
 import type Konva from 'konva';
 import type { Context } from 'konva/lib/Context';
 import type { Point } from '@shared/model/sketch';
 import type { SolveResult } from '@shared/solver/types';
 import type { Highlight } from '@shared/protocol/messages';
-import { MARQUEE, VERTEX_SELECTED } from './colors';
-import { EMPTY_DRAW_LIST, drawList, type DrawList, type StrokePath } from './drawPaths';
+import type { ScenePort } from '@/composables/useLiveSolve';
+import { EMPTY_DRAW_LIST, drawList, type DrawList } from './drawPaths';
 import type { LayerSettings, LegendMode } from './layers';
 import { legendModel } from './legend';
 import { notePaint } from './paintTiming';
-import { renderGrid, renderHud } from './renderGrid';
+import { renderHud } from './renderGrid';
 import { renderLimits } from './renderLimits';
 import { renderPresence, type PresenceMark } from './renderPresence';
-import { renderReadout } from './renderReadout';
 import { renderReview, type CompareOutlines } from './renderReview';
-import { renderSection } from './renderSection';
-import { renderWaves, resultDomain } from './renderWaves';
+import { resultDomain } from './renderWaves';
+import { paintScene, type SceneContent, type SceneState } from './scenePainter';
 import type { PinMarker } from './pins';
 import type { ToolId } from './tools';
 import type { CanvasHover } from './useCanvasHover';
 import type { CanvasTools } from './useCanvasTools';
 import type { CanvasView } from './useCanvasView';
-import { toScreen } from './view';
 
 /**
- * One Konva layer drawn from draw lists [D1]: a Shape whose config never changes and whose
+ * One Konva layer drawn from draw lists [D2]: a Shape whose config never changes and whose
  * sceneFunc strokes the current lists, so vue-konva never schedules a draw of its own. The layer
- * is drawn when its lists (or `alsoOn`) change — at once, or through `schedule` (the scene
- * waits for its solve). In the template: `<VLayer ref="<refName>"><VShape :config="shape" /></VLayer>`.
+ * is drawn when its lists change. In the template:
+ * `<VLayer ref="<refName>"><VShape :config="shape" /></VLayer>`.
  */
-export function useDrawLayer(
-  refName: string,
-  lists: () => DrawList | readonly DrawList[],
-  options: { schedule?: (draw: () => void) => void; alsoOn?: () => unknown } = {},
-) {
+export function useDrawLayer(refName: string, lists: () => DrawList | readonly DrawList[]) {
   const layer = useTemplateRef<{ getNode(): Konva.Layer }>(refName);
   const shape = {
     name: refName,
@@ -45,9 +39,9 @@ export function useDrawLayer(
       else drawList(ctx._context, l as DrawList);
     },
   };
-  const draw = () => layer.value?.getNode().draw();
-  const { schedule, alsoOn } = options;
-  watch(alsoOn ? [lists, alsoOn] : lists, () => (schedule ? schedule(draw) : draw()), { flush: 'post' });
+  // drawScene: the layers take no pointer events (hit tests are ours), so there is no hit canvas to draw.
+  const draw = () => layer.value?.getNode().drawScene();
+  watch(lists, draw, { flush: 'post' });
   return { shape, draw };
 }
 
@@ -58,7 +52,6 @@ export interface LayerSource {
   solvedPoints: readonly Point[] | null;
   hinge: Point | null;
   resultSeq: number;
-  requestSeq: number;
   invalid: boolean;
   selection: readonly number[];
   tool: ToolId;
@@ -68,21 +61,20 @@ export interface LayerSource {
   compare: CompareOutlines | null;
   presence: readonly PresenceMark[];
   highlight: Highlight | null;
+  /** The solver worker's scene port; absent (tests, an old browser): the page paints the scene. */
+  scenePort: ScenePort | null;
 }
 
 /**
- * While the shown section waits for its solve (a drag), its redraw is held until the answer
- * comes, so the section and its wave map are drawn together once per move; a slow solve still
- * lets the section move after this long.
- */
-export const SCENE_HOLD_MAX_MS = 40;
-
-/**
- * Every layer of SketchCanvas.vue, bottom to top: grid, scene (wave map, section, the tools'
- * overlay, limit rings), presence, review, HUD (scale bar and legend). Pure renderers
- * (render*.ts) turn (section, result, view, settings) into draw lists; keyed computeds keep an
- * unchanged input from redrawing anything downstream. Limit labels are Konva Text nodes in
- * the template (`limits.labels`).
+ * The canvas's two surfaces, bottom to top:
+ *
+ * - the **scene** (grid, wave map, section, the tools' marks, limit rings, drag readout) on a
+ *   plain `<canvas ref="sceneCanvas">`, painted by the solver worker right after each solve
+ *   (scenePainter.ts [D1]); this composable sends it the `SceneState` whenever the view, the
+ *   settings, the selection, the hover or the tools' marks change. Without a worker port the
+ *   page paints the same scene from its props.
+ * - the **overlay**, one Konva layer: limit labels (Konva Text), people's cursors and the
+ *   walkthrough highlight, review pins and compared outlines, and the HUD (scale bar, legend).
  */
 export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, hover: CanvasHover, tools: CanvasTools) {
   const { view, size } = canvas;
@@ -96,22 +88,79 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
     return { min, max };
   });
 
-  const gridList = computed(() => renderGrid(view.value, size.value, source().layers.grid));
-  const waveList = computed(() => renderWaves(source().result, view.value, source().layers, domain.value));
-  const sectionList = computed(() => {
+  // ---- scene ----
+  const pixelRatio = typeof window !== 'undefined' ? window.devicePixelRatio || 1 : 1;
+  // Primitives, so that a pointer moving over the same vertex (the tooltip follows it) changes nothing here.
+  const hoverVertex = computed(() => hover.hover.value.vertex);
+  const hoverFacet = computed(() => hover.hover.value.facet);
+  const sceneState = computed<SceneState>(() => {
     const s = source();
-    return renderSection(s.points, s.result, view.value, s.layers, domain.value, {
+    return {
+      size: size.value,
+      pixelRatio,
+      view: view.value,
+      layers: s.layers,
       selection: s.selection,
-      invalid: s.invalid,
-      hoverVertex: hover.hover.value.vertex,
-      hoverFacet: hover.hover.value.facet,
+      hoverVertex: hoverVertex.value,
+      hoverFacet: hoverFacet.value,
       showVertices: s.tool !== 'moveSection',
-      solvedPoints: s.solvedPoints,
-      hinge: s.hinge,
-    });
+      marquee: tools.marquee.value,
+      drawPath: tools.drawPath.value,
+      ghost: tools.ghost.value,
+      readoutVertex: tools.readout.value,
+    };
   });
-  const overlayList = computed(() => overlay(tools, view.value));
-  const readoutList = computed(() => renderReadout(source().points, tools.readout.value, view.value, size.value));
+  const sceneCanvas = useTemplateRef<HTMLCanvasElement>('sceneCanvas');
+  /** True once the worker paints the scene. */
+  let inWorker = false;
+
+  onMounted(() => {
+    const el = sceneCanvas.value;
+    const port = source().scenePort;
+    inWorker = !!el && !!port && port.attach(el);
+    if (inWorker) port!.update(toRawState(sceneState.value));
+    else paintHere();
+  });
+  // 'sync': the state goes out with the solve of the same pointer event (useLiveSolve batches both).
+  watch(sceneState, (state) => {
+    if (inWorker) source().scenePort?.update(toRawState(state));
+  }, { flush: 'sync' });
+
+  // Without a worker: paint from the props (section and result of the same answer).
+  const content = computed<SceneContent>(() => {
+    const s = source();
+    return { points: s.points, result: s.result, solvedPoints: s.solvedPoints, hinge: s.hinge, invalid: s.invalid };
+  });
+  function paintHere() {
+    const el = sceneCanvas.value;
+    const ctx = el?.getContext('2d');
+    if (!el || !ctx) return;
+    const state = sceneState.value;
+    const w = Math.round(state.size.width * state.pixelRatio);
+    const h = Math.round(state.size.height * state.pixelRatio);
+    if (el.width !== w) el.width = w;
+    if (el.height !== h) el.height = h;
+    paintScene(ctx, state, content.value);
+    notePaint(source().resultSeq);
+  }
+  watch([sceneState, content], () => {
+    if (!inWorker) paintHere();
+  }, { flush: 'post' });
+
+  /** The scene at `ratio` device pixels per CSS pixel, for a PNG. */
+  async function scenePicture(ratio: number): Promise<CanvasImageSource | null> {
+    if (inWorker) return (await source().scenePort?.picture(ratio)) ?? null;
+    const state = sceneState.value;
+    const out = document.createElement('canvas');
+    out.width = Math.round(state.size.width * ratio);
+    out.height = Math.round(state.size.height * ratio);
+    const ctx = out.getContext('2d');
+    if (!ctx) return null;
+    paintScene(ctx, { ...state, pixelRatio: ratio }, content.value);
+    return out;
+  }
+
+  // ---- overlay ----
   const limits = computed(() => {
     const s = source();
     return s.layers.limits && !s.invalid ? renderLimits(s.result, view.value, size.value) : { marks: EMPTY_DRAW_LIST, labels: [] };
@@ -125,68 +174,39 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
     return renderHud(view.value, size.value, l.shocks || l.fans || l.surfaceCp ? legend.value : null, l.grid);
   });
   const reviewList = computed(() => renderReview(source().pins, source().compare, view.value));
+  // The result matters only for a highlighted wave: otherwise a new answer (every move of a
+  // drag) must not redraw the overlay.
+  const highlightResult = computed(() => {
+    const s = source();
+    return s.highlight?.kind === 'wave' && !s.invalid ? s.result : null;
+  });
+  // Likewise the shown points (they change with every move) only when a mark sits on a vertex or facet.
+  const presencePoints = computed(() => {
+    const s = source();
+    const onOutline = (s.highlight && s.highlight.kind !== 'wave') || s.presence.some((m) => m.selection.length > 0);
+    return onOutline ? s.points : NO_POINTS;
+  });
   const presenceList = computed(() => {
     const s = source();
-    return renderPresence(s.presence, s.points, view.value, s.highlight, s.invalid ? null : s.result);
+    return renderPresence(s.presence, presencePoints.value, view.value, s.highlight, highlightResult.value);
   });
+  const overlay = useDrawLayer('overlayLayer', () => [presenceList.value, reviewList.value, hudList.value]);
 
-  // The scene: held while a solve of the shown section is running (see SCENE_HOLD_MAX_MS).
-  let heldDraw: ReturnType<typeof setTimeout> | null = null;
-  function drawSceneNow(draw: () => void) {
-    if (heldDraw) clearTimeout(heldDraw);
-    heldDraw = null;
-    draw();
-    notePaint(source().resultSeq);
-  }
-  const scene = useDrawLayer('sceneLayer', () => [waveList.value, sectionList.value, overlayList.value, limits.value.marks, readoutList.value], {
-    // A result that changes nothing on screen still ends a hold (and counts as its paint).
-    alsoOn: () => source().resultSeq,
-    schedule: (draw) => {
-      const s = source();
-      if (s.requestSeq > s.resultSeq) {
-        heldDraw ??= setTimeout(() => drawSceneNow(draw), SCENE_HOLD_MAX_MS);
-        return;
-      }
-      drawSceneNow(draw);
-    },
-  });
-  onBeforeUnmount(() => {
-    if (heldDraw) clearTimeout(heldDraw);
-  });
-
-  const grid = useDrawLayer('gridLayer', () => gridList.value);
-  const presence = useDrawLayer('presenceLayer', () => presenceList.value);
-  const review = useDrawLayer('reviewLayer', () => reviewList.value);
-  const hud = useDrawLayer('hudLayer', () => hudList.value);
-
-  return {
-    domain,
-    limits,
-    shapes: { grid: grid.shape, scene: scene.shape, presence: presence.shape, review: review.shape, hud: hud.shape },
-  };
+  return { domain, limits, scenePicture, shapes: { overlay: overlay.shape } };
 }
 
-/** The tools' transient drawing: the marquee, the draw tool's open path, the insert ghost. */
-function overlay(tools: CanvasTools, view: CanvasView['view']['value']): DrawList {
-  const list: DrawList = { paths: [], dots: [] };
-  const marquee = tools.marquee.value;
-  if (marquee) {
-    const [x0, y0] = toScreen(view, [marquee.x0, marquee.y0]);
-    const [x1, y1] = toScreen(view, [marquee.x1, marquee.y1]);
-    list.paths.push({ points: [x0, y0, x1, y0, x1, y1, x0, y1], colour: MARQUEE, width: 1, dash: [4, 3], closed: true, fill: 'rgba(95, 208, 196, 0.08)' });
-  }
-  const path = tools.drawPath.value;
-  if (path && path.points.length > 0) {
-    const pts = path.points.map((p) => toScreen(view, p));
-    const line: StrokePath = { points: pts.flat(), colour: VERTEX_SELECTED, width: 1.5 };
-    if (path.cursor) line.points.push(...toScreen(view, path.cursor));
-    list.paths.push(line);
-    pts.forEach(([x, y], i) => list.dots.push({ x, y, radius: i === 0 ? 5 : 3.5, fill: i === 0 ? VERTEX_SELECTED : '#e9f1f2', stroke: '#0c1418' }));
-  }
-  const ghost = tools.ghost.value;
-  if (ghost) {
-    const [x, y] = toScreen(view, ghost);
-    list.dots.push({ x, y, radius: 5, fill: 'rgba(95, 208, 196, 0.35)', stroke: VERTEX_SELECTED, strokeWidth: 1.5 });
-  }
-  return list;
+const NO_POINTS: readonly Point[] = [];
+
+/** A plain copy for postMessage (reactive proxies cannot be cloned). */
+function toRawState(state: SceneState): SceneState {
+  return {
+    ...state,
+    size: { ...state.size },
+    view: { ...state.view },
+    layers: { ...state.layers },
+    selection: [...state.selection],
+    marquee: state.marquee ? { ...state.marquee } : null,
+    drawPath: state.drawPath ? { points: state.drawPath.points.map((p) => [p[0], p[1]] as Point), cursor: state.drawPath.cursor ? [state.drawPath.cursor[0], state.drawPath.cursor[1]] : null } : null,
+    ghost: state.ghost ? [state.ghost[0], state.ghost[1]] : null,
+  };
 }

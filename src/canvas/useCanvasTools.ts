@@ -1,12 +1,11 @@
 import { computed, onBeforeUnmount, onMounted, ref, shallowRef, watch, type Ref } from 'vue';
 import type { SketchOpDraft } from '@shared/model/ops';
 import type { Point } from '@shared/model/sketch';
-import { sectionShape } from '@shared/model/sectionShape';
 import type { Rect, SnapSettings } from './geometry';
 import { snapSteps, type CanvasSnap } from './snap';
 import { noteHandlerStart } from './paintTiming';
 import { TOOLS, type KeyInput, type PointerInput, type ToolContext, type ToolId, type ToolStep } from './tools';
-import { toWorld } from './view';
+import { boundsOf, toWorld } from './view';
 import type { CanvasHover } from './useCanvasHover';
 import type { CanvasView } from './useCanvasView';
 
@@ -44,17 +43,21 @@ export function useCanvasTools(host: Readonly<Ref<HTMLDivElement | null>>, sourc
   const marquee = shallowRef<Rect | null>(null);
   const drawPath = shallowRef<{ points: Point[]; cursor: Point | null } | null>(null);
   const ghost = shallowRef<Point | null>(null);
-  /** Where the drag readout (t/c, ridge x/c, the vertex) goes; null = hidden. */
-  const readout = shallowRef<Point | null>(null);
+  /** The vertex the drag readout (t/c, ridge x/c, its position) sits beside; null = hidden. */
+  const readout = ref<number | null>(null);
   const spaceHeld = ref(false);
   let pointerDown = false;
 
-  /** Chord and largest thickness of the committed section: the automatic snap steps follow them. */
+  /**
+   * Chord and height of the committed section: the automatic snap steps follow them. The height
+   * of its box stands in for the thickness (equal for a symmetric section at zero incidence,
+   * larger otherwise, which only makes the step a little coarser).
+   */
   const snapScale = computed(() => {
     const pts = source().committedPoints;
     if (pts.length < 3) return null;
-    const shape = sectionShape(pts);
-    return { chord: shape.chord, thickness: shape.thicknessRatio * shape.chord };
+    const b = boundsOf(pts);
+    return { chord: b.maxX - b.minX, thickness: b.maxY - b.minY };
   });
   const snapSettings = computed<SnapSettings>(() => {
     const snap = source().snap;
@@ -105,7 +108,7 @@ export function useCanvasTools(host: Readonly<Ref<HTMLDivElement | null>>, sourc
           sink.tool(e.id);
           break;
         case 'readout':
-          readout.value = e.at;
+          readout.value = e.vertex;
           break;
       }
     }

@@ -2,12 +2,26 @@ import { onBeforeUnmount, ref, shallowRef, toRaw, watch, type Ref } from 'vue';
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
 import type { SketchDocument } from '@shared/model/sketch';
 import type { SolveResult } from '@shared/solver/types';
-import type { SolveRequest, SolveResponse } from '@/workers/solverProtocol';
+import type { SceneState } from '@/canvas/scenePainter';
+import type { WorkerRequest, WorkerResponse } from '@/workers/solverProtocol';
+import { benchEnabled, notePaint, noteSent } from '@/canvas/paintTiming';
+
+/**
+ * Where the canvas sends its scene: the solver worker paints it on a transferred canvas right
+ * after each solve (src/canvas/scenePainter.ts). `attach` returns false when this browser cannot
+ * transfer a canvas; the canvas then paints the scene itself.
+ */
+export interface ScenePort {
+  attach(canvas: HTMLCanvasElement): boolean;
+  update(state: SceneState): void;
+  /** The scene as a bitmap at `pixelRatio` (PNG export); null without a transferred canvas. */
+  picture(pixelRatio: number): Promise<ImageBitmap | null>;
+}
 
 /**
  * Analyses the shown document in the solver worker after every change (also during a drag).
- * At most one request is in flight; while it runs only the newest document waits, so a fast
- * drag never builds a queue — older positions are simply skipped.
+ * Every change is posted at once and the worker solves only the newest it has, so a fast drag
+ * never builds a queue and never waits for this thread — older positions are simply skipped.
  *
  * `data` (the solver result) and `analysis` keep the last solvable answer when the shown
  * sketch cannot be solved (mid-drag through a crossing, say); `issues` then says why.
@@ -26,57 +40,105 @@ export function useLiveSolve(document: Ref<SketchDocument | null>) {
 
   let worker: Worker | null = null;
   let seq = 0;
-  let inFlight = false;
-  let waiting: SolveRequest | null = null;
+  // What goes to the worker is sent once this task's work is done, the scene with the document,
+  // so the worker paints each solve with the marks of the same moment.
+  let pendingSolve: { seq: number; document: SketchDocument } | null = null;
+  let pendingScene: SceneState | null = null;
+  let flushQueued = false;
+  let pictureId = 0;
+  const pictures = new Map<number, (bitmap: ImageBitmap | null) => void>();
 
   function ensureWorker(): Worker {
     if (worker) return worker;
     worker = new Worker(new URL('../workers/solver.worker.ts', import.meta.url), { type: 'module', name: 'shockwright-solver' });
-    worker.onmessage = (event: MessageEvent<SolveResponse>) => {
-      const answer = event.data;
-      inFlight = false;
-      if (answer.ok && answer.analysis.result) {
-        analysis.value = answer.analysis;
-        data.value = answer.analysis.result;
-        issues.value = [];
-        solveMs.value = answer.solveMs;
-        error.value = null;
-      } else if (answer.ok) {
-        issues.value = [{ path: 'input', message: answer.analysis.problem ?? 'This sketch cannot be solved.' }];
-      } else {
-        error.value = answer.message;
+    worker.onmessage = (event: MessageEvent<WorkerResponse>) => {
+      const msg = event.data;
+      if (msg.type === 'painted') {
+        // The worker's clock has its own origin: bring the time onto this page's.
+        notePaint(msg.seq, msg.at - performance.timeOrigin, msg);
+        return;
       }
-      dataSeq.value = answer.seq;
-      if (waiting) send(waiting);
-      else isLoading.value = false;
+      if (msg.type === 'picture') {
+        pictures.get(msg.id)?.(msg.bitmap);
+        pictures.delete(msg.id);
+        return;
+      }
+      if (msg.seq < dataSeq.value) return;
+      if (msg.ok && msg.analysis.result) {
+        analysis.value = msg.analysis;
+        data.value = msg.analysis.result;
+        issues.value = [];
+        solveMs.value = msg.solveMs;
+        error.value = null;
+      } else if (msg.ok) {
+        issues.value = [{ path: 'input', message: msg.analysis.problem ?? 'This sketch cannot be solved.' }];
+      } else {
+        error.value = msg.message;
+      }
+      dataSeq.value = msg.seq;
+      isLoading.value = dataSeq.value < requestSeq.value;
     };
     worker.onerror = (event) => {
-      inFlight = false;
       isLoading.value = false;
       error.value = `The live solver stopped: ${event.message || 'unknown error'}. Reload the page to restart it.`;
     };
     return worker;
   }
 
-  function send(request: SolveRequest) {
-    waiting = null;
-    inFlight = true;
-    isLoading.value = true;
-    ensureWorker().postMessage(request);
+  function post(msg: WorkerRequest, transfer: Transferable[] = []) {
+    ensureWorker().postMessage(msg, transfer);
   }
 
-  /** Queues the document; returns the request's sequence number. */
+  function queueFlush() {
+    if (flushQueued) return;
+    flushQueued = true;
+    queueMicrotask(flush);
+  }
+
+  function flush() {
+    flushQueued = false;
+    if (pendingSolve) {
+      noteSent(pendingSolve.seq);
+      post({ type: 'solve', ...pendingSolve, scene: pendingScene ?? undefined });
+    } else if (pendingScene) {
+      post({ type: 'scene', state: pendingScene });
+    }
+    pendingSolve = null;
+    pendingScene = null;
+  }
+
+  /** Queues the document for the worker; returns the request's sequence number. */
   function refresh(): number {
     const doc = document.value;
     seq += 1;
     if (!doc) return seq;
     requestSeq.value = seq;
+    isLoading.value = true;
     // Plain arrays and numbers: cheap to structure-clone (toRaw in case a caller passes a proxy).
-    const request: SolveRequest = { seq, document: toRaw(doc) };
-    if (inFlight) waiting = request;
-    else send(request);
+    pendingSolve = { seq, document: toRaw(doc) };
+    queueFlush();
     return seq;
   }
+
+  const scene: ScenePort = {
+    attach(canvas) {
+      if (typeof canvas.transferControlToOffscreen !== 'function') return false;
+      const offscreen = canvas.transferControlToOffscreen();
+      post({ type: 'canvas', canvas: offscreen, bench: benchEnabled() }, [offscreen]);
+      return true;
+    },
+    update(state) {
+      pendingScene = state;
+      queueFlush();
+    },
+    picture(pixelRatio) {
+      const id = ++pictureId;
+      return new Promise((resolve) => {
+        pictures.set(id, resolve);
+        post({ type: 'picture', id, pixelRatio });
+      });
+    },
+  };
 
   // 'sync' so that a pointer event that changes the preview has its request number at once
   // (the paint-latency measurement pairs the event with the repaint that answers it).
@@ -85,7 +147,9 @@ export function useLiveSolve(document: Ref<SketchDocument | null>) {
   onBeforeUnmount(() => {
     worker?.terminate();
     worker = null;
+    for (const resolve of pictures.values()) resolve(null);
+    pictures.clear();
   });
 
-  return { data, analysis, dataSeq, requestSeq, issues, isLoading, error, solveMs, refresh, lastRequestSeq: () => seq };
+  return { data, analysis, dataSeq, requestSeq, issues, isLoading, error, solveMs, refresh, scene, lastRequestSeq: () => seq };
 }

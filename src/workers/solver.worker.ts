@@ -1,25 +1,156 @@
 /// <reference lib="webworker" />
-import { analyseSketch } from '@shared/flight/analyseSketch';
-import type { SolveRequest, SolveResponse } from './solverProtocol';
+import { analyseSketch, type SketchAnalysis } from '@shared/flight/analyseSketch';
+import { EMPTY_SCENE_CONTENT, paintScene, type SceneContent, type SceneState } from '@/canvas/scenePainter';
+import type { SolveRequest, SolveResponse, WorkerRequest, WorkerResponse } from './solverProtocol';
 
 /**
  * The shared analysis (flap, shock-expansion solve, both thin-section theories, wave map,
  * loads) in a Web Worker, so that solving never blocks drawing. It is the same pure function
- * the server runs on save, so the live preview and the stored result agree. One request in,
- * one answer out, in order; the page coalesces requests (see useLiveSolve).
+ * the server runs on save, so the live preview and the stored result agree.
+ *
+ * Only the newest document is solved: every message is read before the next solve starts
+ * (the solve is scheduled behind the messages already queued), so a fast drag never builds a
+ * queue. When the page has transferred the scene canvas, the worker paints the scene right
+ * after each solve — the section and its wave map reach the screen together, without the
+ * page's main thread [S1] — and again after each scene change from the page.
  */
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 
-scope.onmessage = (event: MessageEvent<SolveRequest>) => {
-  const { seq, document } = event.data;
+let latest: SolveRequest | null = null;
+let scheduled = false;
+let canvas: OffscreenCanvas | null = null;
+let context: OffscreenCanvasRenderingContext2D | null = null;
+let bench = false;
+let scene: SceneState | null = null;
+let content: SceneContent = EMPTY_SCENE_CONTENT;
+/** The last answer that could be solved: its waves stay on screen while a drag passes through a crossing. */
+let lastGood: SketchAnalysis | null = null;
+let contentSeq = 0;
+/**
+ * While solves follow each other closely (a drag), answers go to the page at most this often,
+ * the newest one each time: the page's panels refresh when the pointer pauses anyway, and each
+ * answer costs the page's main thread a structured clone of the whole analysis. The scene is
+ * painted here after every solve regardless. The last answer of a burst always arrives.
+ */
+const ANSWER_INTERVAL_MS = 80;
+let lastAnswerAt = -Infinity;
+let heldAnswer: SolveResponse | null = null;
+let answerTimer: ReturnType<typeof setTimeout> | null = null;
+/** How long the last solve took (bench timing). */
+let lastSolveMs = 0;
+
+// A zero-delay task queued behind the messages already waiting (setTimeout would clamp).
+const wake = new MessageChannel();
+wake.port1.onmessage = () => {
+  scheduled = false;
+  const request = latest;
+  latest = null;
+  if (request) solve(request);
+};
+
+scope.onmessage = (event: MessageEvent<WorkerRequest>) => {
+  const msg = event.data;
+  switch (msg.type) {
+    case 'solve':
+      latest = msg;
+      if (msg.scene) scene = msg.scene;
+      if (!scheduled) {
+        scheduled = true;
+        wake.port2.postMessage(null);
+      }
+      break;
+    case 'canvas':
+      canvas = msg.canvas;
+      context = canvas.getContext('2d');
+      bench = msg.bench;
+      paint();
+      break;
+    case 'scene':
+      scene = msg.state;
+      // A solve waiting to start paints anyway.
+      if (!latest) paint();
+      break;
+    case 'picture':
+      post({ type: 'picture', id: msg.id, bitmap: picture(msg.pixelRatio) });
+      break;
+  }
+};
+
+function solve(request: SolveRequest) {
   let answer: SolveResponse;
   try {
     const t0 = performance.now();
-    const analysis = analyseSketch(document);
-    answer = { seq, ok: true, analysis, solveMs: performance.now() - t0 };
+    const analysis = analyseSketch(request.document);
+    lastSolveMs = performance.now() - t0;
+    answer = { type: 'answer', seq: request.seq, ok: true, analysis, solveMs: lastSolveMs };
+    if (analysis.result) lastGood = analysis;
+    content = {
+      points: request.document.section.points,
+      result: lastGood?.result ?? null,
+      solvedPoints: analysis.result ? analysis.solvedPoints : null,
+      hinge: analysis.flap?.hinge ?? null,
+      invalid: !analysis.result,
+    };
   } catch (err) {
     // The solver throws only for programmer errors; say so rather than going silent.
-    answer = { seq, ok: false, message: `The solver failed unexpectedly: ${(err as Error).message}` };
+    answer = { type: 'answer', seq: request.seq, ok: false, message: `The solver failed unexpectedly: ${(err as Error).message}` };
   }
-  scope.postMessage(answer);
-};
+  contentSeq = request.seq;
+  paint(lastSolveMs);
+  answerPage(answer);
+}
+
+function answerPage(answer: SolveResponse) {
+  const wait = lastAnswerAt + ANSWER_INTERVAL_MS - performance.now();
+  if (wait <= 0 && !answerTimer) {
+    sendAnswer(answer);
+    return;
+  }
+  heldAnswer = answer;
+  answerTimer ??= setTimeout(() => {
+    answerTimer = null;
+    if (heldAnswer) sendAnswer(heldAnswer);
+  }, Math.max(0, wait));
+}
+
+function sendAnswer(answer: SolveResponse) {
+  heldAnswer = null;
+  lastAnswerAt = performance.now();
+  post(answer);
+}
+
+/** Paints the scene; `solveMs` is the solve it follows (0 for a scene change). */
+function paint(solveMs = 0) {
+  if (!canvas || !context || !scene) return;
+  const t0 = performance.now();
+  const w = Math.max(1, Math.round(scene.size.width * scene.pixelRatio));
+  const h = Math.max(1, Math.round(scene.size.height * scene.pixelRatio));
+  if (canvas.width !== w) canvas.width = w;
+  if (canvas.height !== h) canvas.height = h;
+  paintScene(context, scene, content);
+  if (bench && contentSeq > 0) {
+    const drawn = performance.now();
+    const seq = contentSeq;
+    // The canvas rasterises what was drawn when this task ends; a task queued now runs after that.
+    const after = new MessageChannel();
+    after.port1.onmessage = () => {
+      const rasterised = performance.now();
+      post({ type: 'painted', seq, at: performance.timeOrigin + drawn, solveMs, paintMs: drawn - t0, rasterMs: rasterised - drawn });
+    };
+    after.port2.postMessage(null);
+  }
+}
+
+function picture(pixelRatio: number): ImageBitmap | null {
+  if (!scene) return null;
+  const out = new OffscreenCanvas(Math.round(scene.size.width * pixelRatio), Math.round(scene.size.height * pixelRatio));
+  const ctx = out.getContext('2d');
+  if (!ctx) return null;
+  paintScene(ctx, { ...scene, pixelRatio }, content);
+  return out.transferToImageBitmap();
+}
+
+function post(msg: WorkerResponse) {
+  if (msg.type === 'picture' && msg.bitmap) scope.postMessage(msg, [msg.bitmap]);
+  else scope.postMessage(msg);
+}

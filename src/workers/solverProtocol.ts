@@ -1,12 +1,38 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
 import type { SketchDocument } from '@shared/model/sketch';
+import type { SceneState } from '@/canvas/scenePainter';
 
-/** Messages between the editor and the solver worker. `seq` pairs an answer with its request. */
+/**
+ * Messages between the editor and the solver worker. `seq` pairs an answer with its request.
+ * The worker solves only the newest document it has (older ones waiting behind it are
+ * skipped), and when the page has handed it the scene canvas it paints the scene right after
+ * each solve and after each scene change (src/canvas/scenePainter.ts).
+ */
 export interface SolveRequest {
+  type: 'solve';
   seq: number;
   document: SketchDocument;
+  /** The scene state of the same moment, when it changed. */
+  scene?: SceneState;
 }
 
+export type WorkerRequest =
+  | SolveRequest
+  /** The scene canvas, transferred (once); `bench` turns on paint timing (paintTiming.ts). */
+  | { type: 'canvas'; canvas: OffscreenCanvas; bench: boolean }
+  | { type: 'scene'; state: SceneState }
+  /** A picture of the scene at `pixelRatio` (PNG export); answered with `picture`. */
+  | { type: 'picture'; id: number; pixelRatio: number };
+
 export type SolveResponse =
-  | { seq: number; ok: true; analysis: SketchAnalysis; solveMs: number }
-  | { seq: number; ok: false; message: string };
+  | { type: 'answer'; seq: number; ok: true; analysis: SketchAnalysis; solveMs: number }
+  | { type: 'answer'; seq: number; ok: false; message: string };
+
+export type WorkerResponse =
+  | SolveResponse
+  /**
+   * Bench only: the scene with the answer to `seq` was drawn at `at` (ms since the epoch) after
+   * solving and drawing for these times, and rasterised `rasterMs` later.
+   */
+  | { type: 'painted'; seq: number; at: number; solveMs: number; paintMs: number; rasterMs: number }
+  | { type: 'picture'; id: number; bitmap: ImageBitmap | null };

@@ -104,9 +104,10 @@ describe('sketch editor in Chromium', () => {
     await cell.fill('0.3');
     await cell.press('Enter');
     await expect.poll(() => page.getByTestId('vertex-x-1').inputValue()).toBe('0.3');
-    // Move the nose beyond the tail's neighbours: the outline would cross itself.
+    // Move the nose aft of the tail: the closing facet from the lower surface would cross the
+    // lower aft facet, wherever the previous test's drag left vertex 1.
     const nose = page.getByTestId('vertex-x-0');
-    await nose.fill('0.9');
+    await nose.fill('1.2');
     await nose.press('Enter');
     await expect.poll(() => text(page, 'vertex-table-error')).toMatch(/not allowed: facet \d .* cross/);
     await nose.press('Escape');

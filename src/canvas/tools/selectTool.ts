@@ -69,7 +69,7 @@ export const selectTool: Tool<SelectState> = {
       s.indices.forEach((i, j) => {
         preview[i] = moved[j];
       });
-      return { state: { ...s, moved }, effects: [{ kind: 'preview', points: preview }, { kind: 'readout', at: moved[k] }], cursor: 'grabbing' };
+      return { state: { ...s, moved }, effects: [{ kind: 'preview', points: preview }, { kind: 'readout', vertex: s.grabbed }], cursor: 'grabbing' };
     }
     const next = { ...s, current: p.world };
     return { state: next, effects: [{ kind: 'marquee', rect: rect(s.startWorld, p.world) }], cursor: 'crosshair' };
@@ -77,7 +77,7 @@ export const selectTool: Tool<SelectState> = {
 
   up(s, ctx) {
     if (s.mode === 'dragging') {
-      const effects: ToolEffect[] = [{ kind: 'preview', points: null }, { kind: 'readout', at: null }];
+      const effects: ToolEffect[] = [{ kind: 'preview', points: null }, { kind: 'readout', vertex: null }];
       const changed = s.moved && s.moved.some((m, j) => m[0] !== s.origins[j][0] || m[1] !== s.origins[j][1]);
       if (s.moved && changed) effects.push({ kind: 'commit', op: { type: 'moveVertices', indices: s.indices, to: s.moved }, select: s.indices });
       return { state: idle, effects, cursor: 'grab' };
@@ -104,7 +104,7 @@ export const selectTool: Tool<SelectState> = {
     return null;
   },
 
-  cancel: () => ({ state: idle, effects: [{ kind: 'preview', points: null }, { kind: 'marquee', rect: null }, { kind: 'readout', at: null }] }),
+  cancel: () => ({ state: idle, effects: [{ kind: 'preview', points: null }, { kind: 'marquee', rect: null }, { kind: 'readout', vertex: null }] }),
 };
 
 function rect(a: Point, b: Point) {

@@ -54,8 +54,8 @@ export type ToolEffect =
   | { kind: 'hint'; text: string | null }
   /** Switch to another tool (the draw tool hands back to Select once a section is closed). */
   | { kind: 'tool'; id: ToolId }
-  /** Show the section's t/c and ridge x/c (and this vertex's position) beside `at` while dragging; null = hide. */
-  | { kind: 'readout'; at: Point | null };
+  /** Show the section's t/c and ridge x/c (and this vertex's position) beside the dragged vertex; null = hide. */
+  | { kind: 'readout'; vertex: number | null };
 
 export interface ToolStep<S> {
   state: S;

@@ -118,9 +118,9 @@ describe('select tool', () => {
     const c = ctx({ selection: [1] });
     const d = selectTool.down(selectTool.initial(), c, at([0.5, 0.025]));
     const m = selectTool.move(d.state, c, at([0.5, 0.03]));
-    expect(find(m.effects, 'readout')).toEqual([{ kind: 'readout', at: [0.5, 0.03] }]);
+    expect(find(m.effects, 'readout')).toEqual([{ kind: 'readout', vertex: 1 }]);
     const u = selectTool.up(m.state, c, at([0.5, 0.03]));
-    expect(find(u.effects, 'readout')).toEqual([{ kind: 'readout', at: null }]);
+    expect(find(u.effects, 'readout')).toEqual([{ kind: 'readout', vertex: null }]);
   });
 
   it('arrow keys move by the step of their axis: up by stepY, right by stepX; Alt ÷10, Shift ×10', () => {

@@ -1,0 +1,119 @@
+import { describe, expect, it } from 'vitest';
+import type { Point } from '@shared/model/sketch';
+import { parseSolveInput } from '@shared/model/solveInput';
+import { solveSection } from '@shared/solver';
+import { drawList, HAIRLINE_MAX_PX, type DrawList } from '@/canvas/drawPaths';
+import { DEFAULT_LAYERS } from '@/canvas/layers';
+import { readoutLines } from '@/canvas/renderReadout';
+import { sceneLists, type SceneContent, type SceneState } from '@/canvas/scenePainter';
+import { toScreen } from '@/canvas/view';
+
+function solve(points: Point[], mach: number, alphaDeg: number) {
+  const parsed = parseSolveInput({ section: { points }, flow: { mach, alphaDeg } });
+  if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+  return solveSection(parsed.value);
+}
+
+const wedge: Point[] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
+const state: SceneState = {
+  size: { width: 900, height: 500 },
+  pixelRatio: 1,
+  view: { scale: 400, originX: 100, originY: 250 },
+  layers: DEFAULT_LAYERS,
+  selection: [],
+  hoverVertex: null,
+  hoverFacet: null,
+  showVertices: true,
+  marquee: null,
+  drawPath: null,
+  ghost: null,
+  readoutVertex: null,
+};
+
+/** A 2D context that records the calls drawList makes. */
+function recorder() {
+  const calls: { name: string; args: unknown[]; lineWidth?: number }[] = [];
+  const ctx: Record<string, unknown> = { lineWidth: 1 };
+  for (const name of ['save', 'restore', 'beginPath', 'moveTo', 'lineTo', 'closePath', 'fill', 'stroke', 'setLineDash', 'arc', 'fillRect', 'fillText', 'createLinearGradient']) {
+    ctx[name] = (...args: unknown[]) => {
+      calls.push({ name, args, lineWidth: ctx.lineWidth as number });
+      if (name === 'createLinearGradient') return { addColorStop: () => {} };
+      return undefined;
+    };
+  }
+  return { ctx: ctx as unknown as CanvasRenderingContext2D, calls };
+}
+
+describe('scene painter', () => {
+  it('[S1] the scene is grid, wave map, section and marks, with the waves stroked unordered', () => {
+    const result = solve(wedge, 2, 2);
+    const lists = sceneLists(state, { points: wedge, result, solvedPoints: wedge, hinge: null, invalid: false });
+    expect(lists[1].unordered).toBe(true);
+    expect(lists[1].paths.length).toBeGreaterThan(0);
+    // The section's vertex dots sit on the content's points.
+    expect(lists[2].dots.map((d) => [d.x, d.y])).toEqual(wedge.map((p) => toScreen(state.view, p)));
+  });
+
+  it('[S1] the readout is named by vertex and sits beside that vertex of the solved section', () => {
+    const result = solve(wedge, 2, 2);
+    const content: SceneContent = { points: wedge, result, solvedPoints: wedge, hinge: null, invalid: false };
+    const lists = sceneLists({ ...state, readoutVertex: 1 }, content);
+    const readout = lists.at(-1)!;
+    expect(readout.texts!.map((t) => t.text)).toEqual(['t/c 5.00 %   ridge x/c 0.500', 'x 0.5000   y 0.0250']);
+    const [vx, vy] = toScreen(state.view, wedge[1]);
+    expect(readout.paths[0].points[0]).toBeGreaterThan(vx);
+    expect(readout.paths[0].points[1]).toBeLessThan(vy);
+    // A vertex index beyond the section (a stale mark) draws nothing.
+    expect(sceneLists({ ...state, readoutVertex: 9 }, content)).toHaveLength(lists.length - 1);
+  });
+
+  it('an unsolvable section keeps the last waves, drops the limit rings and its facet shading', () => {
+    const result = solve([[0, 0], [0.5, 0.06], [1, 0], [0.5, -0.06]], 1.4, 5);
+    expect(result.limits.length).toBeGreaterThan(0);
+    const crossing: Point[] = [[0, 0], [1, 0.06], [1, 0], [0, 0.06]];
+    const withLimits = sceneLists(state, { points: [[0, 0], [0.5, 0.06], [1, 0], [0.5, -0.06]], result, solvedPoints: null, hinge: null, invalid: false });
+    const invalid = sceneLists(state, { points: crossing, result, solvedPoints: null, hinge: null, invalid: true });
+    expect(withLimits).toHaveLength(5);
+    expect(invalid).toHaveLength(4);
+    expect(invalid[1].paths.length).toBe(withLimits[1].paths.length);
+  });
+
+  it('readoutLines: t/c and ridge of the shown section, then the vertex', () => {
+    expect(readoutLines([[0, 0], [0.3, 0.04], [1, 0], [0.3, -0.04]], [0.3, 0.04])).toEqual(['t/c 8.00 %   ridge x/c 0.300', 'x 0.3000   y 0.0400']);
+  });
+});
+
+describe('drawList', () => {
+  it('[D1] lines up to 1.25 px are stroked 1 px wide; wider lines keep their width', () => {
+    const { ctx, calls } = recorder();
+    const list: DrawList = {
+      paths: [
+        { points: [0, 0, 10, 10], colour: '#fff', width: 1.1 },
+        { points: [0, 0, 10, 10], colour: '#fff', width: HAIRLINE_MAX_PX + 0.05 },
+        { points: [0, 0, 10, 10], colour: '#fff', width: 0.9 },
+      ],
+      dots: [],
+    };
+    drawList(ctx, list);
+    expect(calls.filter((c) => c.name === 'stroke').map((c) => c.lineWidth)).toEqual([1, 1.3, 0.9]);
+  });
+
+  it('[D1] an unordered list is stroked once per style; filled and closed paths still draw one by one', () => {
+    const { ctx, calls } = recorder();
+    const list: DrawList = {
+      unordered: true,
+      paths: [
+        { points: [0, 0, 10, 10], colour: '#a00', width: 1.1 },
+        { points: [5, 0, 10, 10], colour: '#0a0', width: 1.1 },
+        { points: [7, 0, 10, 10], colour: '#a00', width: 1 },
+        { points: [0, 0, 1, 0, 1, 1], colour: '#a00', width: 1, closed: true, fill: '#123' },
+      ],
+      dots: [],
+    };
+    drawList(ctx, list);
+    // Red 1.1 and red 1 are one style (both 1 px); green is another; the closed one on its own.
+    expect(calls.filter((c) => c.name === 'stroke')).toHaveLength(3);
+    expect(calls.filter((c) => c.name === 'moveTo')).toHaveLength(4);
+    expect(calls.filter((c) => c.name === 'fill')).toHaveLength(1);
+  });
+});

@@ -1,6 +1,6 @@
 import type { SketchOpDraft } from './ops.ts';
 import type { XY } from './polygon.ts';
-import { chordLineYAt, sectionShape, sectionSurfaces, surfaceYAt, type SectionShape } from './sectionShape.ts';
+import { fromChordAxes, sectionShape, sectionSurfaces, surfaceYAt, toChordAxes, type SectionShape } from './sectionShape.ts';
 import type { Point } from './sketch.ts';
 
 /**
@@ -8,8 +8,9 @@ import type { Point } from './sketch.ts';
  * dragging. Each is a pure function (points in, points out, inputs never mutated) that either
  * returns the new outline or says in one sentence why it cannot; `sectionCommandOp` turns the
  * outline into an ordinary edit op, so a command syncs, undoes and persists like any edit.
- * Conventions are those of `sectionShape` (body axes, nose = min x, tail = max x, surfaces
- * nose → tail, thickness and mean line measured vertically, camber from the chord line).
+ * Conventions are those of `sectionShape`: nose = min x, tail = max x, surfaces nose → tail;
+ * thickness, mean line, camber and ridge in chord-line axes (s along the line from nose to tail,
+ * n normal to it; x and y for a section drawn level), positions as s/L.
  *
  * Invariants (tests cite them):
  * - [SC1] Commands that keep the vertex count keep every vertex's index (vertex i is moved,
@@ -17,7 +18,9 @@ import type { Point } from './sketch.ts';
  * - [SC2] Nose and tail stay where they are, except for normalise and rotate, which move the
  *   whole section rigidly (and normalise scales it).
  * - [SC3] Thickness commands keep the mean line at every vertex; the ridge command keeps
- *   every vertex's y; camber keeps the thickness at every vertex x of a surface.
+ *   every vertex's distance from the chord line; camber keeps the thickness at every vertex.
+ *   "At a vertex" uses the other surface interpolated at its s, so these hold exactly where
+ *   both surfaces have vertices at the same s and to within the facets' straightness elsewhere.
  */
 
 export type CommandResult = { ok: true; points: Point[] } | { ok: false; reason: string };
@@ -40,28 +43,38 @@ function fail(reason: string): CommandResult {
 function monotoneShape(points: readonly XY[], what: string): SectionShape | string {
   if (points.length < 3) return `${what} needs a section of at least 3 vertices.`;
   const shape = sectionShape(points);
-  if (!(shape.chord > 0)) return `${what} needs a section with a chord (its vertices all share one x).`;
-  if (!shape.monotone) return `${what} needs each surface to run from nose to tail without turning back; this outline doubles back in x.`;
+  if (!(shape.frame.length > 0)) return `${what} needs a section with a chord (its nose and tail are one point).`;
+  if (!shape.monotone) return `${what} needs each surface to run from nose to tail without turning back; this outline doubles back along its chord line.`;
   return shape;
 }
 
 /**
- * Moves every surface vertex to `mean + k·(y − mean)`, where `mean` is halfway between the
- * vertex and the other surface at its x: the half-thickness at each vertex is scaled by k about
- * the mean line [SC3]. Nose and tail (zero thickness) stay.
+ * Moves every surface vertex to `mean + k·(n − mean)` in chord-line axes, where `mean` is
+ * halfway between the vertex and the other surface at its s: the half-thickness at each vertex
+ * is scaled by k about the mean line [SC3]. Nose and tail (zero thickness) stay.
  */
 function scaleAboutMeanLine(points: readonly XY[], shape: SectionShape, k: number): Point[] {
+  return moveNormal(points, shape, (n, other) => {
+    const mean = (n + other) / 2;
+    return mean + k * (n - mean);
+  });
+}
+
+/**
+ * Each surface vertex but the nose and tail moved along n (chord-line axes) to `to(n, other, s)`,
+ * `other` being the other surface's n at the vertex's s.
+ */
+function moveNormal(points: readonly XY[], shape: SectionShape, to: (n: number, other: number, s: number) => number): Point[] {
   const out = points.map(([x, y]) => [x, y] as Point);
-  const move = (own: SectionShape['upper'], other: SectionShape['upper']) => {
+  const move = (own: SectionShape['alongUpper'], other: SectionShape['alongUpper']) => {
     for (let j = 1; j < own.vertices.length - 1; j++) {
-      const i = own.vertices[j];
-      const [x, y] = points[i];
-      const mean = (y + surfaceYAt(other, x)) / 2;
-      out[i] = tidyPoint(x, mean + k * (y - mean));
+      const sAt = own.xs[j];
+      const p = fromChordAxes(shape.frame, [sAt, to(own.ys[j], surfaceYAt(other, sAt), sAt)]);
+      out[own.vertices[j]] = tidyPoint(p[0], p[1]);
     }
   };
-  move(shape.upper, shape.lower);
-  move(shape.lower, shape.upper);
+  move(shape.alongUpper, shape.alongLower);
+  move(shape.alongLower, shape.alongUpper);
   return out;
 }
 
@@ -111,24 +124,30 @@ export function setThicknessRatio(points: readonly XY[], ratio: number): Command
 }
 
 /**
- * Moves the ridge (the thickest point) to `xOverC` from the nose by stretching x piecewise
+ * Moves the ridge (the thickest point) to `xOverC` from the nose by stretching s piecewise
  * linearly: [nose, ridge] onto [nose, new ridge] and [ridge, tail] onto [new ridge, tail]. Every
- * vertex keeps its y [SC3], so the thickness distribution moves with the ridge and the maximum
+ * vertex keeps its n [SC3], so the thickness distribution moves with the ridge and the maximum
  * thickness keeps its value.
  */
 export function moveRidge(points: readonly XY[], xOverC: number): CommandResult {
   if (!Number.isFinite(xOverC) || xOverC <= 0 || xOverC >= 1) return fail('The ridge position must be between the nose and the tail (above 0 and below 1 x/c).');
   const shape = monotoneShape(points, 'Moving the ridge');
   if (typeof shape === 'string') return fail(shape);
-  const { minX, maxX, chord } = shape;
-  const from = minX + (shape.ridgeXOverC ?? 0) * chord;
-  if (!(from > minX) || !(from < maxX)) return fail('The thickest point is at the nose or the tail; there is no ridge to move.');
-  const to = minX + xOverC * chord;
+  const L = shape.frame.length;
+  const from = (shape.ridgeXOverC ?? 0) * L;
+  if (!(from > 0) || !(from < L)) return fail('The thickest point is at the nose or the tail; there is no ridge to move.');
+  // A blunt nose or base (a face across the flow) that is the thickest part leaves no ridge either.
+  const tie = 1e-9 * shape.chord;
+  const onFace = points.some(([x, y]) => (x <= shape.minX + tie || x >= shape.maxX - tie) && Math.abs(toChordAxes(shape.frame, [x, y])[0] - from) <= 1e-9 * L);
+  if (onFace) return fail('The thickest point is at the nose or the tail; there is no ridge to move.');
+  const to = xOverC * L;
   return {
     ok: true,
-    points: points.map(([x, y]) => {
-      const nx = x <= from ? minX + ((x - minX) * (to - minX)) / (from - minX) : to + ((x - from) * (maxX - to)) / (maxX - from);
-      return tidyPoint(nx, y);
+    points: points.map((p) => {
+      const [sAt, n] = toChordAxes(shape.frame, p);
+      const moved = sAt <= from ? (sAt * to) / from : to + ((sAt - from) * (L - to)) / (L - from);
+      const q = fromChordAxes(shape.frame, [moved, n]);
+      return tidyPoint(q[0], q[1]);
     }),
   };
 }
@@ -180,29 +199,20 @@ export function fourDigitMeanLine(xi: number, camber: number, xOverC: number): n
 
 /**
  * Replaces the mean line with a four-digit mean line of the given largest camber (fraction of
- * chord, signed: positive up) at `xOverC`, keeping the thickness at every vertex [SC3]: each
- * surface vertex moves vertically by (new mean line − present mean line) at its x. Camber 0
- * makes the section symmetric about its chord line.
+ * the chord line's length, signed: positive up for a level section) at `xOverC`, keeping the
+ * thickness at every vertex [SC3]: each surface vertex moves normal to the chord line by (new
+ * mean line − present mean line) at its s. Camber 0 makes the section symmetric about its chord
+ * line.
  */
 export function setCamber(points: readonly XY[], camber: number, xOverC: number): CommandResult {
   if (!Number.isFinite(camber) || Math.abs(camber) > 0.2) return fail('The camber must be from −20 % to 20 % of the chord.');
   if (!Number.isFinite(xOverC) || xOverC <= 0 || xOverC >= 1) return fail('The position of largest camber must be above 0 and below 1 x/c.');
   const shape = monotoneShape(points, 'Setting the camber');
   if (typeof shape === 'string') return fail(shape);
-  const { minX, chord, nose, tail } = shape;
-  const out = points.map(([x, y]) => [x, y] as Point);
-  const move = (own: SectionShape['upper'], other: SectionShape['upper']) => {
-    for (let j = 1; j < own.vertices.length - 1; j++) {
-      const i = own.vertices[j];
-      const [x, y] = points[i];
-      const mean = (y + surfaceYAt(other, x)) / 2;
-      const target = chordLineYAt(nose, tail, x) + chord * fourDigitMeanLine((x - minX) / chord, camber, xOverC);
-      out[i] = tidyPoint(x, y + target - mean);
-    }
-  };
-  move(shape.upper, shape.lower);
-  move(shape.lower, shape.upper);
-  return { ok: true, points: out };
+  const L = shape.frame.length;
+  // The chord line is n = 0, so the new mean line is the four-digit line itself.
+  const points2 = moveNormal(points, shape, (n, other, sAt) => n + L * fourDigitMeanLine(Math.min(1, Math.max(0, sAt / L)), camber, xOverC) - (n + other) / 2);
+  return { ok: true, points: points2 };
 }
 
 /**

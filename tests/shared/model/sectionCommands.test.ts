@@ -221,6 +221,26 @@ describe('rotateSection / normaliseSection', () => {
   });
 });
 
+describe('a section drawn at an angle: measured and edited along its chord line', () => {
+  // The 5 % double wedge turned 10° nose down about its nose: t/c is still 5 % (measured
+  // normal to the chord line, as the solver's maxThicknessRatio does).
+  const tilted = ok(rotateSection(wedge5, -10, [0, 0]));
+
+  it('sectionShape of the tilted wedge: t/c 0.05, ridge at 0.5 of the chord line, no camber', () => {
+    const s = sectionShape(tilted);
+    expectClose(s.thicknessRatio, 0.05, 1e-12);
+    expectClose(s.ridgeXOverC!, 0.5, 1e-12);
+    expectClose(s.camberRatio!, 0, 1e-12);
+  });
+
+  it('thickness, ridge and camber commands on the tilted wedge equal the tilted results of the level ones', () => {
+    const tilt = (pts: Point[]) => ok(rotateSection(pts, -10, [0, 0]));
+    expectPoints(ok(setThicknessRatio(tilted, 0.08)), tilt(ok(setThicknessRatio(wedge5, 0.08))), 1e-11);
+    expectPoints(ok(moveRidge(tilted, 0.3)), tilt(ok(moveRidge(wedge5, 0.3))), 1e-11);
+    expectPoints(ok(setCamber(tilted, 0.02, 0.5)), tilt(ok(setCamber(wedge5, 0.02, 0.5))), 1e-11);
+  });
+});
+
 describe('sectionCommandOp', () => {
   it('[SC1] names only the vertices that moved, as one moveVertices edit the store can apply and undo', () => {
     const op = sectionCommandOp(wedge5, ok(setThicknessRatio(wedge5, 0.08)));

@@ -3,7 +3,7 @@ import type { Db } from './client.ts';
 import { appMeta, memberships, sketches, teams, users } from './schema.ts';
 import { newId } from '../../shared/model/ids.ts';
 import type { Role } from '../../shared/model/roles.ts';
-import { sketchDocumentSchema, type SketchDocument } from '../../shared/model/sketch.ts';
+import { FIRST_DESIGN_POINT_ID, sketchDocumentSchema, type SketchDocument } from '../../shared/model/sketch.ts';
 import { hashPassword } from '../auth/passwords.ts';
 import { solveDocument } from '../api/sketches/solveDocument.ts';
 
@@ -21,9 +21,28 @@ export const DEMO_PEOPLE: { name: string; email: string; role: Role }[] = [
   { name: 'Oren Lindqvist', email: 'oren@harrowgate.example', role: 'viewer' },
 ];
 
-function doc(points: [number, number][], mach: number, alphaDeg: number, extra: Partial<SketchDocument> & { altitudeM?: number } = {}): SketchDocument {
-  const { altitudeM = null, ...rest } = extra;
-  return sketchDocumentSchema.parse({ version: 1, section: { points }, condition: { mach, alphaDeg, altitudeM }, ...rest });
+/** One demo design point: name, Mach, α, altitude (m) and, on a sketch with a flap, its deflection. */
+interface DemoPoint {
+  name: string;
+  mach: number;
+  alphaDeg: number;
+  altitudeM?: number;
+  flapDeg?: number;
+}
+
+function doc(section: [number, number][], points: DemoPoint[], extra: Partial<Pick<SketchDocument, 'notes' | 'loads' | 'flap'>> = {}): SketchDocument {
+  return sketchDocumentSchema.parse({
+    version: 2,
+    section: { points: section },
+    designPoints: points.map((p, i) => ({
+      id: i === 0 ? FIRST_DESIGN_POINT_ID : `point_demo${i + 1}`.padEnd(26, 'a'),
+      name: p.name,
+      condition: { mach: p.mach, alphaDeg: p.alphaDeg, altitudeM: p.altitudeM ?? null },
+      flapDeflectionDeg: p.flapDeg ?? 0,
+    })),
+    selectedPointId: FIRST_DESIGN_POINT_ID,
+    ...extra,
+  });
 }
 
 /** Faceted circular-arc (biconvex) section: `perSide` facets on each surface, thickness `t`. */
@@ -40,34 +59,40 @@ function facetedBiconvex(t: number, perSide: number): [number, number][] {
 export const DEMO_SKETCHES: { title: string; document: SketchDocument }[] = [
   {
     title: 'Tern fin root — double wedge, 5% thick, ridge at 40%',
-    document: doc([[0, 0], [0.4, 0.025], [1, 0], [0.4, -0.025]], 2.6, 4, {
-      notes: 'Root section of the HD-7 Tern tail fin at the burnout condition.',
-      altitudeM: 12_000,
-      loads: { chordM: 0.32, spanM: 0.18, friction: 'turbulent' },
-    }),
+    document: doc(
+      [[0, 0], [0.4, 0.025], [1, 0], [0.4, -0.025]],
+      [
+        { name: 'Burnout', mach: 2.6, alphaDeg: 4, altitudeM: 12_000 },
+        { name: 'Max q', mach: 2.2, alphaDeg: 2, altitudeM: 7_500 },
+        { name: 'Pull-up', mach: 2.4, alphaDeg: 9, altitudeM: 10_000 },
+      ],
+      { notes: 'Root section of the HD-7 Tern tail fin: burnout, max q and the pull-up after burnout.', loads: { chordM: 0.32, spanM: 0.18, friction: 'turbulent' } },
+    ),
   },
   {
     title: 'Tern fin tip — hexagonal, 4% thick',
-    document: doc([[0, 0], [0.25, 0.02], [0.75, 0.02], [1, 0], [0.75, -0.02], [0.25, -0.02]], 3.1, 2, {
-      altitudeM: 18_000,
+    document: doc([[0, 0], [0.25, 0.02], [0.75, 0.02], [1, 0], [0.75, -0.02], [0.25, -0.02]], [{ name: 'Coast', mach: 3.1, alphaDeg: 2, altitudeM: 18_000 }], {
       loads: { chordM: 0.2, spanM: 0.18, friction: 'turbulent' },
     }),
   },
   {
     title: 'Tern canard — faceted biconvex, 6%, six facets a side',
-    document: doc(facetedBiconvex(0.06, 6), 1.8, 6, {
-      flap: { hingeXOverC: 0.7, deflectionDeg: 5 },
-      altitudeM: 6_000,
-      loads: { chordM: 0.12, spanM: 0.09, friction: 'turbulent' },
-    }),
+    document: doc(
+      facetedBiconvex(0.06, 6),
+      [
+        { name: 'Trim', mach: 1.8, alphaDeg: 6, altitudeM: 6_000, flapDeg: 5 },
+        { name: 'Pitch-over', mach: 2.1, alphaDeg: 3, altitudeM: 9_000, flapDeg: -8 },
+      ],
+      { flap: { hingeXOverC: 0.7 }, loads: { chordM: 0.12, spanM: 0.09, friction: 'turbulent' } },
+    ),
   },
   {
     title: 'Tern intake ramp — two-stage compression',
-    document: doc([[0, 0], [0.4, 0.0705], [0.8, 0.174], [1, 0.16]], 3, 0),
+    document: doc([[0, 0], [0.4, 0.0705], [0.8, 0.174], [1, 0.16]], [{ name: 'Design Mach', mach: 3, alphaDeg: 0 }]),
   },
   {
     title: 'Booster fin — thick root at low Mach (nose shock detaches)',
-    document: doc([[0, 0], [0.5, 0.06], [1, 0], [0.5, -0.06]], 1.4, 5),
+    document: doc([[0, 0], [0.5, 0.06], [1, 0], [0.5, -0.06]], [{ name: 'Boost', mach: 1.4, alphaDeg: 5 }]),
   },
 ];
 

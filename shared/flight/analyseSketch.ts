@@ -1,5 +1,5 @@
 import { formatPath, parseSolveInput, solveInputSchema, type SolveInput } from '../model/solveInput.ts';
-import type { Point, SketchDocument } from '../model/sketch.ts';
+import type { Point, SketchCase } from '../model/sketch.ts';
 import { solveSection } from '../solver/solveSection.ts';
 import type { SolveResult, SolveStatus } from '../solver/types.ts';
 import { deflectFlap, hingeMoments, type HingeMoments } from './flap.ts';
@@ -41,7 +41,7 @@ export interface AnalyseOptions {
   transitionReynolds?: number;
 }
 
-export function analyseSketch(doc: SketchDocument, options: AnalyseOptions = {}): SketchAnalysis {
+export function analyseSketch(doc: SketchCase, options: AnalyseOptions = {}): SketchAnalysis {
   return analysePrepared(prepareSketch(doc, options), options);
 }
 
@@ -55,7 +55,7 @@ export type PreparedSketch =
   | { ok: false; analysis: SketchAnalysis }
   | {
       ok: true;
-      doc: SketchDocument;
+      doc: SketchCase;
       input: SolveInput;
       points: Point[];
       flapDef: { hingeXOverC: number; deflectionDeg: number } | null;
@@ -63,7 +63,7 @@ export type PreparedSketch =
     };
 
 /** Deflects the flap and parses the solver input at the options' (or the document's) flow. */
-export function prepareSketch(doc: SketchDocument, options: AnalyseOptions = {}): PreparedSketch {
+export function prepareSketch(doc: SketchCase, options: AnalyseOptions = {}): PreparedSketch {
   const mach = options.mach ?? doc.condition.mach;
   const alphaDeg = options.alphaDeg ?? doc.condition.alphaDeg;
   const flapDef = doc.flap ? { hingeXOverC: doc.flap.hingeXOverC, deflectionDeg: options.flapDeg ?? doc.flap.deflectionDeg } : null;

@@ -1,4 +1,4 @@
-import type { SketchDocument } from '../model/sketch.ts';
+import type { SketchCase } from '../model/sketch.ts';
 import {
   STUDY_COLUMNS,
   STUDY_MAX_POINTS,
@@ -37,7 +37,7 @@ export interface StudyPlan {
 
 export type PlanAnswer = { ok: true; plan: StudyPlan } | { ok: false; reason: string };
 
-export function planStudy(doc: SketchDocument, def: StudyDefinition): PlanAnswer {
+export function planStudy(doc: SketchCase, def: StudyDefinition): PlanAnswer {
   const machs = machValues(def.mach);
   const alphasDeg = alphaValues(def.alpha);
   const flapsDeg = flapValues(def.flapDeg, doc.flap ? doc.flap.deflectionDeg : null);
@@ -96,7 +96,7 @@ export interface StudyRun {
   finish(): StudyResults;
 }
 
-export function startStudy(doc: SketchDocument, plan: StudyPlan): StudyRun {
+export function startStudy(doc: SketchCase, plan: StudyPlan): StudyRun {
   const rows: StudyRow[] = [];
   const { machs, alphasDeg, flapsDeg } = plan;
   const perFlap = machs.length * alphasDeg.length;
@@ -193,7 +193,7 @@ export type StudyOutcome =
 const now = () => (globalThis.performance ? globalThis.performance.now() : Date.now());
 
 /** Runs a whole study at once (server, tests, bench). Progress every `progressEvery` points. */
-export function runStudy(doc: SketchDocument, def: StudyDefinition, options: RunStudyOptions & { progressEvery?: number } = {}): StudyOutcome {
+export function runStudy(doc: SketchCase, def: StudyDefinition, options: RunStudyOptions & { progressEvery?: number } = {}): StudyOutcome {
   const planned = planStudy(doc, def);
   if (!planned.ok) return { status: 'invalid', reason: planned.reason };
   const t0 = now();
@@ -213,7 +213,7 @@ export function runStudy(doc: SketchDocument, def: StudyDefinition, options: Run
  * stays responsive (a worker receives its cancel message, a server answers other requests).
  */
 export async function runStudySliced(
-  doc: SketchDocument,
+  doc: SketchCase,
   def: StudyDefinition,
   options: RunStudyOptions & { pause: () => Promise<void>; sliceMs?: number },
 ): Promise<StudyOutcome> {

@@ -3,11 +3,21 @@ import { newId } from './ids.ts';
 import { findRepeatedPoint, findSelfIntersection, findSelfIntersectionNear, signedArea } from './polygon.ts';
 import {
   conditionSchema,
+  designPointIdSchema,
+  designPointNameSchema,
+  designPointSchema,
+  designPointsProblem,
+  findDesignPoint,
+  flapDeflectionDegSchema,
   flapSchema,
   loadsSettingsSchema,
   MAX_SECTION_VERTICES,
+  MAX_DESIGN_POINTS,
   pointSchema,
+  sameDesignPointName,
+  selectedPoint,
   type Condition,
+  type DesignPoint,
   type Point,
   type SketchDocument,
 } from './sketch.ts';
@@ -19,11 +29,17 @@ import {
  * - [O1] `applyOp` never mutates its inputs; it returns a new document or a reason.
  * - [O2] A document that `applyOp` returns is valid: its section is a simple polygon of
  *   3…MAX_SECTION_VERTICES vertices and its condition, flap and moment point pass their zod schemas.
- * - [O3] `applyOp(applyOp(doc, op), invertOp(doc, op))` gives back `doc` (same values).
+ * - [O3] `applyOp(applyOp(doc, op), invertOp(doc, op))` gives back `doc` (same values). One
+ *   exception, only in edit logs from before design points: a `setFlap` that switches the flap
+ *   on with a deflection is undone by switching it off; the point keeps that deflection, which
+ *   nothing reads while the flap is off.
  * - [O4] Every op carries an `opId` so a server can ignore a duplicate.
  * - [O5] A form field's op names only the field its user changed (`setVertexCoordinate`,
  *   `setCondition`, `setField`), so two people editing neighbouring fields never overwrite
  *   each other's values with stale copies.
+ * - [O6] Ops on a design point name it by id (`pointId`). An op without one — only edit logs
+ *   written before design points have them — means the selected point, which in those
+ *   documents was the only one.
  *
  * Renaming a sketch is not an op: the title is not part of the document.
  */
@@ -73,12 +89,15 @@ export const replaceSectionOpSchema = z.object({
   points: z.array(pointSchema),
 });
 
-export const CONDITION_FIELDS = ['mach', 'alphaDeg', 'gamma', 'altitudeM'] as const;
+/** The fields of a design point's condition a form edits one at a time. */
+export const CONDITION_FIELDS = ['mach', 'alphaDeg', 'gamma', 'altitudeM', 'flapDeflectionDeg'] as const;
 export type ConditionField = (typeof CONDITION_FIELDS)[number];
 
 export const setConditionOpSchema = z.object({
   type: z.literal('setCondition'),
   opId: opIdSchema,
+  /** The design point edited; absent only in old edit logs (= the selected point) [O6]. */
+  pointId: designPointIdSchema.optional(),
   field: z.enum(CONDITION_FIELDS),
   /** `null` only for altitudeM (no altitude given). */
   value: z.number().nullable(),
@@ -87,7 +106,54 @@ export const setConditionOpSchema = z.object({
 export const setFlapOpSchema = z.object({
   type: z.literal('setFlap'),
   opId: opIdSchema,
-  flap: flapSchema.nullable(),
+  /**
+   * The flap's hinge, or null to switch the flap off. `deflectionDeg`, when given, also sets
+   * the deflection of design point `pointId` (edit logs from before design points always give it).
+   */
+  flap: flapSchema.extend({ deflectionDeg: flapDeflectionDegSchema.optional() }).nullable(),
+  pointId: designPointIdSchema.optional(),
+});
+
+export const addDesignPointOpSchema = z.object({
+  type: z.literal('addDesignPoint'),
+  opId: opIdSchema,
+  point: designPointSchema,
+  /** Position in the list (0…n; past the end = last); the points from there on move down one. */
+  index: indexSchema,
+  /** Select the new point too (one undo step for "add and show"). */
+  select: z.boolean().optional(),
+});
+
+export const removeDesignPointOpSchema = z.object({
+  type: z.literal('removeDesignPoint'),
+  opId: opIdSchema,
+  pointId: designPointIdSchema,
+  /**
+   * The point selected afterwards when the removed one was selected (undo gives the one that was
+   * selected before); absent or gone: the point that takes its place in the list, else the one before.
+   */
+  select: designPointIdSchema.optional(),
+});
+
+export const renameDesignPointOpSchema = z.object({
+  type: z.literal('renameDesignPoint'),
+  opId: opIdSchema,
+  pointId: designPointIdSchema,
+  name: designPointNameSchema,
+});
+
+export const moveDesignPointOpSchema = z.object({
+  type: z.literal('moveDesignPoint'),
+  opId: opIdSchema,
+  pointId: designPointIdSchema,
+  /** Position the point takes in the list (past the end = last). */
+  index: indexSchema,
+});
+
+export const selectDesignPointOpSchema = z.object({
+  type: z.literal('selectDesignPoint'),
+  opId: opIdSchema,
+  pointId: designPointIdSchema,
 });
 
 export const setMomentPointOpSchema = z.object({
@@ -106,8 +172,10 @@ export const setLoadsOpSchema = z.object({
 
 /**
  * Single fields of the document's small records, as the editor's forms edit them one at a time
- * [O5]. (The condition's fields have their own op, `setCondition`; switching the flap or the
- * own moment point on and off replaces the record with `setFlap` / `setMomentPoint`.)
+ * [O5]. (A design point's condition fields, the flap deflection included, have their own op,
+ * `setCondition`; switching the flap or the own moment point on and off replaces the record with
+ * `setFlap` / `setMomentPoint`.) `flap.deflectionDeg` is only read from edit logs written before
+ * design points: it sets the selected point's deflection [O6].
  */
 export const DOCUMENT_FIELDS = ['flap.hingeXOverC', 'flap.deflectionDeg', 'momentPoint.x', 'momentPoint.y', 'loads.chordM', 'loads.spanM', 'loads.friction', 'loads.transitionReynolds'] as const;
 export type DocumentField = (typeof DOCUMENT_FIELDS)[number];
@@ -143,6 +211,11 @@ export const sketchOpSchema = z.discriminatedUnion('type', [
   setMomentPointOpSchema,
   setLoadsOpSchema,
   setFieldOpSchema,
+  addDesignPointOpSchema,
+  removeDesignPointOpSchema,
+  renameDesignPointOpSchema,
+  moveDesignPointOpSchema,
+  selectDesignPointOpSchema,
 ]);
 export type SketchOp = z.infer<typeof sketchOpSchema>;
 export type SketchOpType = SketchOp['type'];
@@ -216,8 +289,15 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
       return withSection(doc, op.points.map((p) => [p[0], p[1]] as Point), 'That section', check);
     }
     case 'setCondition': {
+      const point = pointOf(doc, op.pointId);
+      if (!point) return noPoint();
       if (op.value === null && op.field !== 'altitudeM') return { ok: false, reason: `${FIELD_LABEL[op.field]} needs a value.` };
-      const candidate = { ...doc.condition, [op.field]: op.value };
+      if (op.field === 'flapDeflectionDeg') {
+        const checked = flapDeflectionDegSchema.safeParse(op.value);
+        if (!checked.success) return { ok: false, reason: `${FIELD_LABEL.flapDeflectionDeg} ${checked.error.issues[0].message}.` };
+        return { ok: true, doc: withPoint(doc, { ...point, flapDeflectionDeg: checked.data }) };
+      }
+      const candidate = { ...point.condition, [op.field]: op.value };
       const checked = conditionSchema.safeParse(candidate);
       if (!checked.success) {
         const issue = checked.error.issues[0];
@@ -225,10 +305,56 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
         return { ok: false, reason: `${FIELD_LABEL[field] ?? field} ${issue.message}.` };
       }
       const condition: Condition = checked.data;
-      return { ok: true, doc: { ...doc, condition } };
+      return { ok: true, doc: withPoint(doc, { ...point, condition }) };
     }
-    case 'setFlap':
-      return { ok: true, doc: { ...doc, flap: op.flap ? { ...op.flap } : null } };
+    case 'setFlap': {
+      if (!op.flap) return { ok: true, doc: { ...doc, flap: null } };
+      const next: SketchDocument = { ...doc, flap: { hingeXOverC: op.flap.hingeXOverC } };
+      if (op.flap.deflectionDeg === undefined) return { ok: true, doc: next };
+      const point = pointOf(doc, op.pointId);
+      if (!point) return noPoint();
+      return { ok: true, doc: withPoint(next, { ...point, flapDeflectionDeg: op.flap.deflectionDeg }) };
+    }
+    case 'addDesignPoint': {
+      if (doc.designPoints.length >= MAX_DESIGN_POINTS) return { ok: false, reason: `A sketch holds at most ${MAX_DESIGN_POINTS} design points.` };
+      if (findDesignPoint(doc, op.point.id)) return { ok: false, reason: 'That design point is already in the sketch.' };
+      const taken = doc.designPoints.find((p) => sameDesignPointName(p.name, op.point.name));
+      if (taken) return { ok: false, reason: `There is already a design point named “${taken.name}”.` };
+      const designPoints = doc.designPoints.map((p) => p);
+      designPoints.splice(Math.min(op.index, designPoints.length), 0, copyPoint(op.point));
+      return checkedPoints(doc, designPoints, op.select ? op.point.id : doc.selectedPointId);
+    }
+    case 'removeDesignPoint': {
+      const at = doc.designPoints.findIndex((p) => p.id === op.pointId);
+      if (at < 0) return noPoint();
+      if (doc.designPoints.length === 1) return { ok: false, reason: 'A sketch keeps at least one design point.' };
+      const designPoints = doc.designPoints.filter((p) => p.id !== op.pointId);
+      let selected = doc.selectedPointId;
+      if (selected === op.pointId) {
+        const wanted = op.select && op.select !== op.pointId ? designPoints.find((p) => p.id === op.select) : undefined;
+        selected = (wanted ?? designPoints[Math.min(at, designPoints.length - 1)]).id;
+      }
+      return checkedPoints(doc, designPoints, selected);
+    }
+    case 'renameDesignPoint': {
+      const point = pointOf(doc, op.pointId);
+      if (!point) return noPoint();
+      const name = op.name.trim();
+      const taken = doc.designPoints.find((p) => p.id !== point.id && sameDesignPointName(p.name, name));
+      if (taken) return { ok: false, reason: `There is already a design point named “${taken.name}”.` };
+      return { ok: true, doc: withPoint(doc, { ...point, name }) };
+    }
+    case 'moveDesignPoint': {
+      const at = doc.designPoints.findIndex((p) => p.id === op.pointId);
+      if (at < 0) return noPoint();
+      const designPoints = doc.designPoints.filter((p) => p.id !== op.pointId);
+      designPoints.splice(Math.min(op.index, designPoints.length), 0, doc.designPoints[at]);
+      return { ok: true, doc: { ...doc, designPoints } };
+    }
+    case 'selectDesignPoint': {
+      if (!pointOf(doc, op.pointId)) return noPoint();
+      return { ok: true, doc: { ...doc, selectedPointId: op.pointId } };
+    }
     case 'setMomentPoint':
       return { ok: true, doc: { ...doc, momentPoint: op.point ? [op.point[0], op.point[1]] : null } };
     case 'setLoads': {
@@ -250,6 +376,11 @@ function applySetField(doc: SketchDocument, op: z.infer<typeof setFieldOpSchema>
   const refuse = (message: string): ApplyOpResult => ({ ok: false, reason: `${label} ${message}.` });
   if (record === 'flap') {
     if (!doc.flap) return { ok: false, reason: `The flap is switched off (perhaps by someone else meanwhile); switch it on to set its ${key === 'hingeXOverC' ? 'hinge' : 'deflection'}.` };
+    if (key === 'deflectionDeg') {
+      const deflection = flapDeflectionDegSchema.safeParse(op.value);
+      if (!deflection.success) return refuse(deflection.error.issues[0].message);
+      return { ok: true, doc: withPoint(doc, { ...selectedPoint(doc), flapDeflectionDeg: deflection.data }) };
+    }
     const checked = flapSchema.safeParse({ ...doc.flap, [key]: op.value });
     if (!checked.success) return refuse(checked.error.issues[0].message);
     return { ok: true, doc: { ...doc, flap: checked.data } };
@@ -271,7 +402,7 @@ export function documentFieldValue(doc: SketchDocument, field: DocumentField): n
     case 'flap.hingeXOverC':
       return doc.flap?.hingeXOverC ?? null;
     case 'flap.deflectionDeg':
-      return doc.flap?.deflectionDeg ?? null;
+      return doc.flap ? selectedPoint(doc).flapDeflectionDeg : null;
     case 'momentPoint.x':
       return doc.momentPoint?.[0] ?? null;
     case 'momentPoint.y':
@@ -302,10 +433,30 @@ export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string =
       return { type: 'insertVertex', opId, index: op.index, at: [points[op.index][0], points[op.index][1]] };
     case 'replaceSection':
       return { type: 'replaceSection', opId, points: points.map((p) => [p[0], p[1]] as Point) };
-    case 'setCondition':
-      return { type: 'setCondition', opId, field: op.field, value: docBefore.condition[op.field] };
-    case 'setFlap':
-      return { type: 'setFlap', opId, flap: docBefore.flap ? { ...docBefore.flap } : null };
+    case 'setCondition': {
+      const point = pointOf(docBefore, op.pointId)!;
+      return { type: 'setCondition', opId, pointId: point.id, field: op.field, value: conditionFieldValue(point, op.field) };
+    }
+    case 'setFlap': {
+      const flap = docBefore.flap;
+      if (op.flap?.deflectionDeg === undefined) return { type: 'setFlap', opId, flap: flap ? { hingeXOverC: flap.hingeXOverC } : null };
+      const point = pointOf(docBefore, op.pointId)!;
+      // Switching the flap on with a deflection: undo switches it off and puts the deflection back.
+      if (!flap) return { type: 'setFlap', opId, flap: null };
+      return { type: 'setFlap', opId, pointId: point.id, flap: { hingeXOverC: flap.hingeXOverC, deflectionDeg: point.flapDeflectionDeg } };
+    }
+    case 'addDesignPoint':
+      return { type: 'removeDesignPoint', opId, pointId: op.point.id, select: docBefore.selectedPointId };
+    case 'removeDesignPoint': {
+      const index = docBefore.designPoints.findIndex((p) => p.id === op.pointId);
+      return { type: 'addDesignPoint', opId, point: copyPoint(docBefore.designPoints[index]), index, select: docBefore.selectedPointId === op.pointId };
+    }
+    case 'renameDesignPoint':
+      return { type: 'renameDesignPoint', opId, pointId: op.pointId, name: findDesignPoint(docBefore, op.pointId)!.name };
+    case 'moveDesignPoint':
+      return { type: 'moveDesignPoint', opId, pointId: op.pointId, index: docBefore.designPoints.findIndex((p) => p.id === op.pointId) };
+    case 'selectDesignPoint':
+      return { type: 'selectDesignPoint', opId, pointId: docBefore.selectedPointId };
     case 'setMomentPoint':
       return { type: 'setMomentPoint', opId, point: docBefore.momentPoint ? [docBefore.momentPoint[0], docBefore.momentPoint[1]] : null };
     case 'setLoads':
@@ -319,6 +470,7 @@ export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string =
         if (op.field.startsWith('momentPoint.')) return { type: 'setMomentPoint', opId, point: null };
         return { type: 'setLoads', opId, loads: { ...docBefore.loads } };
       }
+      if (op.field === 'flap.deflectionDeg') return { type: 'setCondition', opId, pointId: docBefore.selectedPointId, field: 'flapDeflectionDeg', value: before as number };
       return { type: 'setField', opId, field: op.field, value: before };
     }
   }
@@ -347,7 +499,36 @@ export const FIELD_LABEL: Record<ConditionField, string> = {
   alphaDeg: 'Incidence α',
   gamma: 'γ',
   altitudeM: 'Altitude',
+  flapDeflectionDeg: 'Flap deflection',
 };
+
+/** A design point's value of a condition field. */
+export function conditionFieldValue(point: DesignPoint, field: ConditionField): number | null {
+  return field === 'flapDeflectionDeg' ? point.flapDeflectionDeg : point.condition[field];
+}
+
+/** The point an op names; no id (old edit logs) = the selected point [O6]. */
+function pointOf(doc: SketchDocument, pointId: string | undefined): DesignPoint | undefined {
+  return findDesignPoint(doc, pointId ?? doc.selectedPointId);
+}
+
+function noPoint(): ApplyOpResult {
+  return { ok: false, reason: 'That design point is not in the sketch (perhaps someone removed it meanwhile).' };
+}
+
+function copyPoint(p: DesignPoint): DesignPoint {
+  return { id: p.id, name: p.name, condition: { ...p.condition }, flapDeflectionDeg: p.flapDeflectionDeg };
+}
+
+function withPoint(doc: SketchDocument, point: DesignPoint): SketchDocument {
+  return { ...doc, designPoints: doc.designPoints.map((p) => (p.id === point.id ? point : p)) };
+}
+
+function checkedPoints(doc: SketchDocument, designPoints: DesignPoint[], selectedPointId: string): ApplyOpResult {
+  const problem = designPointsProblem(designPoints, selectedPointId);
+  if (problem) return { ok: false, reason: `The design points would not be valid: ${problem.path.join('.')} ${problem.message}.` };
+  return { ok: true, doc: { ...doc, designPoints, selectedPointId } };
+}
 
 /**
  * Checks that `points` form a valid section and explains the first problem in terms of the

@@ -17,13 +17,25 @@ export const conditionSchema = z.strictObject({
 });
 export type Condition = z.infer<typeof conditionSchema>;
 
+/** Flap deflection, degrees; positive = trailing edge down. */
+export const flapDeflectionDegSchema = z
+  .number({ error: 'must be a number' })
+  .gte(-45, 'must be at least −45°')
+  .lte(45, 'must be at most 45°');
+
+/**
+ * The flap of a sketch: where it is hinged. How far it is deflected belongs to each design
+ * point (`DesignPoint.flapDeflectionDeg`), so one sketch can hold cruise at 0° and a pull-up at 8°.
+ */
 export const flapSchema = z.strictObject({
   /** Hinge position as a fraction of chord from the nose. */
-  hingeXOverC: z.number().gt(0, 'must be inside the chord').lt(1, 'must be inside the chord'),
-  /** Positive = trailing edge down. */
-  deflectionDeg: z.number().gte(-45, 'must be at least −45°').lte(45, 'must be at most 45°'),
+  hingeXOverC: z.number({ error: 'must be a number' }).gt(0, 'must be inside the chord').lt(1, 'must be inside the chord'),
 });
 export type Flap = z.infer<typeof flapSchema>;
+
+/** The flap as version 1 documents stored it: hinge and the (one) deflection. */
+export const legacyFlapSchema = flapSchema.extend({ deflectionDeg: flapDeflectionDegSchema });
+export type LegacyFlap = z.infer<typeof legacyFlapSchema>;
 
 /** Friction regimes of the loads settings and studies ('none': wave drag only). */
 export const FRICTION_SETTINGS = ['mixed', 'turbulent', 'laminar', 'none'] as const;
@@ -65,30 +77,146 @@ export const sectionPointsSchema = z
   .max(MAX_SECTION_VERTICES, `at most ${MAX_SECTION_VERTICES} vertices`);
 
 /**
- * Every object of the document refuses keys it does not know (zod strict objects): an imported
- * or saved document with a misspelt field ("gama") is refused with the key's name instead of
- * being solved with the default.
+ * Text a person names things with (design point names): one line of printable characters. NUL,
+ * other control characters and unpaired UTF-16 surrogates are refused here, at the edge, with
+ * the field's name, so nothing unstorable reaches PostgreSQL.
  */
-export const sketchDocumentSchema = z.strictObject({
-  version: z.literal(1),
-  section: z.strictObject({ points: sectionPointsSchema }),
+// eslint-disable-next-line no-control-regex
+const CONTROL_OR_LONE_SURROGATE = /[\u0000-\u001f\u007f]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/;
+
+/** Most design points one sketch holds (each is solved on every edit). */
+export const MAX_DESIGN_POINTS = 12;
+/** Longest design point name. */
+export const DESIGN_POINT_NAME_MAX = 60;
+
+export const designPointIdSchema = z.string().regex(/^point_[a-z0-9]{4,40}$/, 'must be a design point id');
+
+export const designPointNameSchema = z
+  .string({ error: 'must be text' })
+  .trim()
+  .min(1, 'must not be empty')
+  .max(DESIGN_POINT_NAME_MAX, `must be at most ${DESIGN_POINT_NAME_MAX} characters`)
+  .refine((s) => !CONTROL_OR_LONE_SURROGATE.test(s), 'must be one line of printable characters');
+
+/**
+ * A design point: one named, full flight condition of the sketch (cruise, pull-up, max q…).
+ * All of a sketch's points are solved together; the selected one drives the canvas.
+ */
+export const designPointSchema = z.strictObject({
+  id: designPointIdSchema,
+  name: designPointNameSchema,
   condition: conditionSchema,
-  flap: flapSchema.nullable().default(null),
-  /** Moment reference point in body axes; null = quarter chord on the nose's y. */
-  momentPoint: pointSchema.nullable().default(null),
-  notes: z.string().max(10_000).default(''),
-  loads: loadsSettingsSchema.default({ chordM: 1, spanM: 1, friction: 'turbulent' }),
+  /** Flap deflection at this point, used when the sketch has a flap (kept when it is switched off). */
+  flapDeflectionDeg: flapDeflectionDegSchema.default(0),
 });
-export type SketchDocument = z.infer<typeof sketchDocumentSchema>;
+export type DesignPoint = z.infer<typeof designPointSchema>;
+
+/**
+ * The id of the design point a version 1 document becomes, and of a new sketch's first point.
+ * Ids only need to be unique within one document, and an upgrade must give the same id every
+ * time the same stored document is read (a client's edit names the point by it).
+ */
+export const FIRST_DESIGN_POINT_ID = 'point_aaaaaaaaaaaaaaaaaaaa';
+/** The name of the design point a version 1 document becomes. */
+export const FIRST_DESIGN_POINT_NAME = 'Design point 1';
+
+const sectionSchema = z.strictObject({ points: sectionPointsSchema });
+const momentPointSchema = pointSchema.nullable().default(null);
+const notesSchema = z.string().max(10_000).default('');
+const loadsSchema = loadsSettingsSchema.default({ chordM: 1, spanM: 1, friction: 'turbulent' });
+
+/** Version 1 (one condition per sketch), as stored before design points. Read-only: it is upgraded. */
+export const sketchDocumentV1Schema = z.strictObject({
+  version: z.literal(1),
+  section: sectionSchema,
+  condition: conditionSchema,
+  flap: legacyFlapSchema.nullable().default(null),
+  momentPoint: momentPointSchema,
+  notes: notesSchema,
+  loads: loadsSchema,
+});
+export type SketchDocumentV1 = z.infer<typeof sketchDocumentV1Schema>;
+
+/** Two names are the same design point name when they match ignoring case and outer spaces. */
+export function sameDesignPointName(a: string, b: string): boolean {
+  return a.trim().toLocaleLowerCase('en') === b.trim().toLocaleLowerCase('en');
+}
+
+/**
+ * Version 2: several design points, one of them selected. Every object of the document refuses
+ * keys it does not know (zod strict objects): an imported or saved document with a misspelt
+ * field ("gama") is refused with the key's name instead of being solved with the default.
+ * Invariants [D1]–[D3] (shared/model/README.md): point ids unique, names unique ignoring case,
+ * the selected id names one of the points.
+ */
+export const sketchDocumentV2Schema = z
+  .strictObject({
+    version: z.literal(2),
+    section: sectionSchema,
+    designPoints: z
+      .array(designPointSchema)
+      .min(1, 'a sketch needs at least one design point')
+      .max(MAX_DESIGN_POINTS, `at most ${MAX_DESIGN_POINTS} design points`),
+    /** The design point the canvas, the stored wave map and new studies use. */
+    selectedPointId: designPointIdSchema,
+    flap: flapSchema.nullable().default(null),
+    /** Moment reference point in body axes; null = quarter chord on the nose's y. */
+    momentPoint: momentPointSchema,
+    notes: notesSchema,
+    loads: loadsSchema,
+  })
+  .superRefine((doc, ctx) => {
+    const problem = designPointsProblem(doc.designPoints, doc.selectedPointId);
+    if (problem) ctx.addIssue({ code: 'custom', path: problem.path, message: problem.message });
+  });
+export type SketchDocument = z.infer<typeof sketchDocumentV2Schema>;
+
+/** [D1]–[D3] for a list of points and a selection; null when they hold. */
+export function designPointsProblem(points: readonly DesignPoint[], selectedPointId: string): { path: (string | number)[]; message: string } | null {
+  for (let i = 0; i < points.length; i++) {
+    for (let j = 0; j < i; j++) {
+      if (points[j].id === points[i].id) return { path: ['designPoints', i, 'id'], message: `repeats the id of design point ${j}` };
+      if (sameDesignPointName(points[j].name, points[i].name)) return { path: ['designPoints', i, 'name'], message: `repeats the name “${points[j].name}”` };
+    }
+  }
+  if (!points.some((p) => p.id === selectedPointId)) return { path: ['selectedPointId'], message: 'must name one of the design points' };
+  return null;
+}
+
+/** A version 1 document as version 2: its condition and flap deflection become one design point. */
+export function upgradeV1(doc: SketchDocumentV1): SketchDocument {
+  return {
+    version: 2,
+    section: doc.section,
+    designPoints: [{ id: FIRST_DESIGN_POINT_ID, name: FIRST_DESIGN_POINT_NAME, condition: doc.condition, flapDeflectionDeg: doc.flap?.deflectionDeg ?? 0 }],
+    selectedPointId: FIRST_DESIGN_POINT_ID,
+    flap: doc.flap ? { hingeXOverC: doc.flap.hingeXOverC } : null,
+    momentPoint: doc.momentPoint,
+    notes: doc.notes,
+    loads: doc.loads,
+  };
+}
+
+/**
+ * The sketch document at any edge (API bodies, socket ops, stored rows, snapshots, the edit
+ * log): version 1 or 2 in, always version 2 out. A version 1 document is validated as version 1
+ * (its messages name its own fields) and then upgraded.
+ */
+export const sketchDocumentSchema = z
+  .discriminatedUnion('version', [sketchDocumentV1Schema, sketchDocumentV2Schema], {
+    error: (issue) => (issue.code === 'invalid_union' ? 'version must be 1 or 2' : undefined),
+  })
+  .transform((doc): SketchDocument => (doc.version === 1 ? upgradeV1(doc) : doc));
 
 export const sketchTitleSchema = z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters');
 
 /** A new sketch: a modest symmetric double wedge at Mach 2, 2° incidence. */
 export function defaultSketchDocument(): SketchDocument {
   return {
-    version: 1,
+    version: 2,
     section: { points: [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]] },
-    condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: null },
+    designPoints: [{ id: FIRST_DESIGN_POINT_ID, name: FIRST_DESIGN_POINT_NAME, condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: null }, flapDeflectionDeg: 0 }],
+    selectedPointId: FIRST_DESIGN_POINT_ID,
     flap: null,
     momentPoint: null,
     notes: '',
@@ -97,9 +225,48 @@ export function defaultSketchDocument(): SketchDocument {
 }
 
 /**
- * A stored document read back: documents saved before a field existed get its default, so
- * every reader sees the current shape.
+ * A stored document read back: version 1 documents become one design point, and documents
+ * saved before a field existed get its default, so every reader sees the current shape.
  */
 export function normalizeDocument(raw: unknown): SketchDocument {
   return sketchDocumentSchema.parse(raw);
+}
+
+/**
+ * The sketch seen at one design point: one section at one condition, which is what an analysis
+ * takes (`analyseSketch`, studies, reports). The flap carries that point's deflection.
+ */
+export interface SketchCase {
+  section: { points: Point[] };
+  condition: Condition;
+  flap: LegacyFlap | null;
+  momentPoint: Point | null;
+  loads: LoadsSettings;
+}
+
+/** The selected design point (the document guarantees there is one [D3]). */
+export function selectedPoint(doc: SketchDocument): DesignPoint {
+  return doc.designPoints.find((p) => p.id === doc.selectedPointId) ?? doc.designPoints[0];
+}
+
+/** A design point by id, or undefined. */
+export function findDesignPoint(doc: SketchDocument, pointId: string): DesignPoint | undefined {
+  return doc.designPoints.find((p) => p.id === pointId);
+}
+
+/** The case of design point `pointId` (default, and for an id the sketch does not have: the selected one). */
+export function sketchCase(doc: SketchDocument, pointId?: string): SketchCase {
+  const point = (pointId === undefined ? undefined : findDesignPoint(doc, pointId)) ?? selectedPoint(doc);
+  return caseAt(doc, point);
+}
+
+/** The case of a given design point of `doc`. */
+export function caseAt(doc: SketchDocument, point: DesignPoint): SketchCase {
+  return {
+    section: doc.section,
+    condition: point.condition,
+    flap: doc.flap ? { hingeXOverC: doc.flap.hingeXOverC, deflectionDeg: point.flapDeflectionDeg } : null,
+    momentPoint: doc.momentPoint,
+    loads: doc.loads,
+  };
 }

@@ -13,6 +13,9 @@ export const sketchSummarySchema = z.object({
   thicknessRatio: z.number().nullable(),
   mach: z.number(),
   alphaDeg: z.number(),
+  /** How many design points the sketch holds, and the name of the selected one (whose Mach and α these are). */
+  designPointCount: z.number().int().default(1),
+  selectedPointName: z.string().default(''),
   lastSolveStatus: z.string().nullable(),
   updatedAt: z.string(),
   updatedByName: z.string().nullable(),

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { isIdOf } from './ids.ts';
 import { pageOf } from './teams.ts';
-import { FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
+import { designPointIdSchema, FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
 
 /**
  * A study: a sweep of one sketch over Mach × α × flap deflection at one altitude and friction
@@ -46,10 +46,15 @@ export type AlphaRange = z.infer<typeof alphaRangeSchema>;
 export const studyFrictionSchema = z.enum(FRICTION_SETTINGS);
 
 const definitionObject = z.strictObject({
+  /**
+   * The design point the study starts from: its γ, and its flap deflection when `flapDeg` is
+   * empty. Absent: the sketch's selected point when the study runs.
+   */
+  designPointId: designPointIdSchema.optional(),
   mach: machSpecSchema,
   alpha: alphaRangeSchema,
   /** Flap deflections, degrees, trailing edge down positive; ignored when the sketch has no flap,
-   *  and empty means "the sketch's own deflection". */
+   *  and empty means "the design point's own deflection". */
   flapDeg: z
     .array(z.number({ error: 'must be a number' }).gte(-45, 'must be at least −45°').lte(45, 'must be at most 45°'))
     .max(STUDY_MAX_FLAP_VALUES, `at most ${STUDY_MAX_FLAP_VALUES} deflections`)

@@ -16,7 +16,11 @@ import { idSchema } from '../model/ids.ts';
  *   never applied twice.
  * - [R4] Presence (cursor, selection, viewport) is volatile: relayed, throttled, never stored.
  */
-export const PROTOCOL_VERSION = 2;
+/**
+ * 2: single-field ops (setVertexCoordinate, setField). 3: sketch documents hold design points
+ * (document version 2) and the design point ops.
+ */
+export const PROTOCOL_VERSION = 3;
 
 /**
  * What a `notice` says changed on a sketch (clients refetch that list) [M1]: the server's

@@ -1,5 +1,5 @@
 import { applyOp, explainSectionProblem } from '../model/ops.ts';
-import { sketchDocumentSchema, type SketchDocument } from '../model/sketch.ts';
+import { DESIGN_POINT_NAME_MAX, sameDesignPointName, sketchDocumentSchema, type SketchDocument } from '../model/sketch.ts';
 import type { EditOp } from './messages.ts';
 
 /**
@@ -19,6 +19,8 @@ function shiftForInsert(index: number, at: number): number {
 
 export function transformOp(op: EditOp, applied: EditOp, opFirst = false): TransformResult {
   if (op.type === 'rename' || applied.type === 'rename') return { ok: true, op };
+  const points = transformPointOp(op, applied, opFirst);
+  if (points) return points;
   const indexBased = op.type === 'moveVertices' || op.type === 'setVertexCoordinate' || op.type === 'insertVertex' || op.type === 'deleteVertex';
   if (!indexBased) return { ok: true, op };
   if (applied.type === 'replaceSection' || applied.type === 'replaceDocument') {
@@ -61,6 +63,69 @@ export function transformOp(op: EditOp, applied: EditOp, opFirst = false): Trans
   return { ok: true, op };
 }
 
+/** The design point an edit names, if any (ops without an id mean the selected point [O6]). */
+function namedPoint(op: EditOp): string | undefined {
+  switch (op.type) {
+    case 'setCondition':
+    case 'removeDesignPoint':
+    case 'renameDesignPoint':
+    case 'moveDesignPoint':
+    case 'selectDesignPoint':
+      return op.pointId;
+    case 'setFlap':
+      return op.flap?.deflectionDeg === undefined ? undefined : op.pointId;
+    default:
+      return undefined;
+  }
+}
+
+/** " (2)", " (3)"… after a name, kept within the name's length limit. */
+function renamedApart(name: string): string {
+  const m = /^(.*) \((\d+)\)$/.exec(name);
+  const base = m ? m[1] : name;
+  const n = m ? Number(m[2]) + 1 : 2;
+  const suffix = ` (${n})`;
+  return base.slice(0, DESIGN_POINT_NAME_MAX - suffix.length) + suffix;
+}
+
+/**
+ * Design point edits [R8]: they name points by id, so most need nothing; what changes is
+ * - an edit of a point someone removed meanwhile is refused, saying so (a removal naming a
+ *   point to select afterwards forgets a point that is gone);
+ * - two points added concurrently under one name (two people pressing "Add" at once both get
+ *   "Design point 2") are kept apart: the one ordered second becomes "Design point 2 (2)"; the
+ *   same for a point added under a name someone just gave another point;
+ * - two adds at one position keep server order, like vertex inserts.
+ * Null: not a design point matter (the generic rules apply).
+ */
+function transformPointOp(op: EditOp, applied: EditOp, opFirst: boolean): TransformResult | null {
+  if (applied.type === 'removeDesignPoint') {
+    if (namedPoint(op) === applied.pointId) {
+      const reason = op.type === 'removeDesignPoint' ? 'Someone already removed that design point.' : 'Someone removed that design point meanwhile; your change to it no longer applies.';
+      return { ok: false, reason };
+    }
+    if (op.type === 'removeDesignPoint' && op.select === applied.pointId) {
+      const { select: _gone, ...rest } = op;
+      void _gone;
+      return { ok: true, op: rest };
+    }
+    return null;
+  }
+  if (op.type === 'addDesignPoint') {
+    const clash =
+      (applied.type === 'addDesignPoint' && sameDesignPointName(applied.point.name, op.point.name)) ||
+      (applied.type === 'renameDesignPoint' && sameDesignPointName(applied.name, op.point.name));
+    let next = op;
+    if (clash && !opFirst) next = { ...next, point: { ...next.point, name: renamedApart(op.point.name) } };
+    if (applied.type === 'addDesignPoint') {
+      const at = applied.index;
+      if (opFirst ? op.index > at : op.index >= at) next = { ...next, index: op.index + 1 };
+    }
+    return { ok: true, op: next };
+  }
+  return null;
+}
+
 /** Transforms `op` past every edit in `applied`, in order. */
 export function transformPast(op: EditOp, applied: readonly EditOp[]): TransformResult {
   let current: EditOp = op;
@@ -86,7 +151,9 @@ export function applyEdit(state: SketchState, op: EditOp, options: { trusted?: b
     return { ok: true, state: { ...state, title } };
   }
   if (op.type === 'replaceDocument') {
-    if (options.trusted) return { ok: true, state: { ...state, document: op.document } };
+    // Trusted: the server checked it; an edit log written before design points may still hold
+    // a version 1 document, which is upgraded (cheaply) rather than re-validated.
+    if (options.trusted) return { ok: true, state: { ...state, document: (op.document as { version: number }).version === 1 ? sketchDocumentSchema.parse(op.document) : op.document } };
     const parsed = sketchDocumentSchema.safeParse(op.document);
     if (!parsed.success) return { ok: false, reason: `That document is not valid: ${parsed.error.issues[0].path.join('.')} ${parsed.error.issues[0].message}.` };
     const problem = explainSectionProblem(parsed.data.section.points);

@@ -1,4 +1,5 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
+import { readSelectedAnalysis } from '@shared/flight/designPoints';
 import type { Coefficients } from '@shared/solver/types';
 import { formatNumber } from '@/canvas/legend';
 
@@ -26,12 +27,8 @@ export interface CompareCell {
   diff: number | null;
 }
 
-/** The stored analysis, if the snapshot has one in the current shape (older rows may not). */
-export function asAnalysis(raw: unknown): SketchAnalysis | null {
-  if (!raw || typeof raw !== 'object') return null;
-  const r = raw as Partial<SketchAnalysis>;
-  return typeof r.status === 'string' && 'result' in r ? (raw as SketchAnalysis) : null;
-}
+/** The stored analysis of the selected design point, if the snapshot has one (older rows may not). */
+export const asAnalysis = readSelectedAnalysis;
 
 function coefficientsOf(analysis: SketchAnalysis | null, theory: CompareTheory): Coefficients | null {
   const r = analysis?.result;

@@ -1,5 +1,5 @@
 import { onBeforeUnmount, ref, shallowRef } from 'vue';
-import type { SketchDocument } from '@shared/model/sketch';
+import type { SketchCase } from '@shared/model/sketch';
 import type { StudyDefinition, StudyResults } from '@shared/model/study';
 import type { StudyRequest, StudyResponse } from '@/workers/studyProtocol';
 
@@ -51,7 +51,7 @@ export function useStudyRunner() {
     return worker;
   }
 
-  function run(document: SketchDocument, definition: StudyDefinition): void {
+  function run(document: SketchCase, definition: StudyDefinition): void {
     const w = ensureWorker();
     if (running.value) w.postMessage({ type: 'cancel', id: current } satisfies StudyRequest);
     current = ++seq;

@@ -3,6 +3,7 @@ import type { Sketch } from '@shared/model/sketchApi';
 import type { SketchDocument } from '@shared/model/sketch';
 import type { SketchOp } from '@shared/model/ops';
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
+import { readSelectedAnalysis } from '@shared/flight/designPoints';
 import type { EditOp } from '@shared/protocol/messages';
 
 /** One local edit in the history: the op as applied and the op that takes it back. */
@@ -91,9 +92,7 @@ export function createSketchState() {
 
 export type SketchState = ReturnType<typeof createSketchState>;
 
-/** The stored analysis, if the server stored one in the current shape (older rows may not). */
+/** The stored analysis of the selected design point, if the server stored one (older rows may not). */
 export function asAnalysis(raw: unknown): SketchAnalysis | null {
-  if (!raw || typeof raw !== 'object') return null;
-  const r = raw as Partial<SketchAnalysis>;
-  return typeof r.status === 'string' && 'result' in r ? (raw as SketchAnalysis) : null;
+  return readSelectedAnalysis(raw);
 }

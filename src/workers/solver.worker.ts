@@ -1,11 +1,12 @@
 /// <reference lib="webworker" />
-import { analyseSketch, type SketchAnalysis } from '@shared/flight/analyseSketch';
+import type { SketchAnalysis } from '@shared/flight/analyseSketch';
+import { analyseDesignPoints, selectedAnalysis } from '@shared/flight/designPoints';
 import { EMPTY_SCENE_CONTENT, paintScene, type SceneContent, type SceneState } from '@/canvas/scenePainter';
 import type { SolveRequest, SolveResponse, WorkerRequest, WorkerResponse } from './solverProtocol';
 
 /**
- * The shared analysis (flap, shock-expansion solve, both thin-section theories, wave map,
- * loads) in a Web Worker, so that solving never blocks drawing. It is the same pure function
+ * The shared analysis of every design point (flap, shock-expansion solve, both thin-section
+ * theories, the selected point's wave map, loads) in a Web Worker, so that solving never blocks drawing. It is the same pure function
  * the server runs on save, so the live preview and the stored result agree.
  *
  * Only the newest document is solved: every message is read before the next solve starts
@@ -80,9 +81,10 @@ function solve(request: SolveRequest) {
   let answer: SolveResponse;
   try {
     const t0 = performance.now();
-    const analysis = analyseSketch(request.document);
+    const points = analyseDesignPoints(request.document, { selectedOnly: request.selectedOnly });
+    const analysis = selectedAnalysis(points)!;
     lastSolveMs = performance.now() - t0;
-    answer = { type: 'answer', seq: request.seq, ok: true, analysis, solveMs: lastSolveMs };
+    answer = { type: 'answer', seq: request.seq, ok: true, analysis, points, solveMs: lastSolveMs };
     if (analysis.result) lastGood = analysis;
     content = {
       points: request.document.section.points,

@@ -1,4 +1,5 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
+import type { DesignPointsAnalysis } from '@shared/flight/designPoints';
 import type { SketchDocument } from '@shared/model/sketch';
 import type { SceneState } from '@/canvas/scenePainter';
 
@@ -12,6 +13,8 @@ export interface SolveRequest {
   type: 'solve';
   seq: number;
   document: SketchDocument;
+  /** Solve only the selected design point (a drag's preview); the release solves them all. */
+  selectedOnly?: boolean;
   /** The scene state of the same moment, when it changed. */
   scene?: SceneState;
 }
@@ -25,7 +28,16 @@ export type WorkerRequest =
   | { type: 'picture'; id: number; pixelRatio: number };
 
 export type SolveResponse =
-  | { type: 'answer'; seq: number; ok: true; analysis: SketchAnalysis; solveMs: number }
+  | {
+      type: 'answer';
+      seq: number;
+      ok: true;
+      /** The selected design point's analysis (with its wave map: the one drawn). */
+      analysis: SketchAnalysis;
+      /** Every design point solved (only the selected one for a `selectedOnly` request). */
+      points: DesignPointsAnalysis;
+      solveMs: number;
+    }
   | { type: 'answer'; seq: number; ok: false; message: string };
 
 export type WorkerResponse =

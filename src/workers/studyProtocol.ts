@@ -1,9 +1,9 @@
-import type { SketchDocument } from '@shared/model/sketch';
+import type { SketchCase } from '@shared/model/sketch';
 import type { StudyDefinition, StudyResults } from '@shared/model/study';
 
 /** Messages between a page and the study worker; `id` pairs answers with their run. */
 export type StudyRequest =
-  | { type: 'run'; id: number; document: SketchDocument; definition: StudyDefinition }
+  | { type: 'run'; id: number; document: SketchCase; definition: StudyDefinition }
   | { type: 'cancel'; id: number };
 
 export type StudyResponse =

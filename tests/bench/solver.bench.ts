@@ -162,16 +162,17 @@ if (sink === 42.4242) console.log('');
 await (async () => {
   const { runStudy, runStudySliced } = await import('../../shared/flight/study.ts');
   const { studyDefinitionSchema } = await import('../../shared/model/study.ts');
-  const { defaultSketchDocument } = await import('../../shared/model/sketch.ts');
-  const { analyseSketch } = await import('../../shared/flight/analyseSketch.ts');
+  const { normalizeDocument, sketchCase } = await import('../../shared/model/sketch.ts');
+  const { analyseDesignPoints, selectedAnalysis } = await import('../../shared/flight/designPoints.ts');
 
-  const doc = {
-    ...defaultSketchDocument(),
+  const document = normalizeDocument({
+    version: 1,
     section: { points: demoSection(64) },
     condition: { mach: 2.5, alphaDeg: 3, gamma: 1.4, altitudeM: 10_000 },
     flap: { hingeXOverC: 0.75, deflectionDeg: 0 },
     loads: { chordM: 0.4, spanM: 0.3, friction: 'turbulent' as const },
-  };
+  });
+  const doc = sketchCase(document);
   const definition = studyDefinitionSchema.parse({
     mach: { kind: 'range', start: 1.2, end: 5, step: 3.8 / 39 },
     alpha: { startDeg: -15, endDeg: 15, stepDeg: 0.5 },
@@ -209,8 +210,9 @@ await (async () => {
 
   // PDF report: the demo fin's analysis alone, and with the study (charts + per-Mach table).
   const { renderReport } = await import('../../server/api/reports/renderReport.ts');
-  const analysis = analyseSketch(doc);
-  const base = { title: 'Shockwright demo fin', teamName: 'Bench', revision: 1, generatedAt: new Date(), generatedBy: 'Bench', units: 'si' as const, document: doc, analysis };
+  const solvedPoints = analyseDesignPoints(document);
+  const analysis = selectedAnalysis(solvedPoints)!;
+  const base = { title: 'Shockwright demo fin', teamName: 'Bench', revision: 1, generatedAt: new Date(), generatedBy: 'Bench', units: 'si' as const, document, analysis, points: solvedPoints };
   const study = { id: 'study_bench', name: 'Envelope', revision: 1, definition, results: first.results, createdByName: 'Bench', createdAt: new Date().toISOString() };
   const t0 = performance.now();
   const firstPdf = await renderReport({ ...base, study: null });

@@ -2,13 +2,19 @@ import { describe, expect, it, vi } from 'vitest';
 import { mount, flushPromises, type VueWrapper } from '@vue/test-utils';
 import { FIELD_CHANGES, type FieldChangeEvent, type FieldChangeFeed } from '@/composables/useFieldEdits';
 import { createPinia, setActivePinia } from 'pinia';
-import { defaultSketchDocument, type SketchDocument } from '@shared/model/sketch';
+import type { SketchDocument } from '@shared/model/sketch';
+import { oneCondition } from '../helpers/documents';
 import type { SketchOpDraft } from '@shared/model/ops';
 
 const { default: SketchConditionPanel } = await import('@/components/SketchConditionPanel.vue');
 const { usePreferencesStore } = await import('@/stores/preferences');
 
-const DOC: SketchDocument = { ...defaultSketchDocument(), condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: 3048 } };
+const DOC: SketchDocument = oneCondition({ condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: 3048 } });
+
+/** `doc` with the selected point's Mach set (what a colleague's edit does to the document). */
+function withMach(doc: SketchDocument, mach: number, pointId = doc.selectedPointId): SketchDocument {
+  return { ...doc, designPoints: doc.designPoints.map((p) => (p.id === pointId ? { ...p, condition: { ...p.condition, mach } } : p)) };
+}
 
 describe('SketchConditionPanel altitude units', () => {
   it('shows the altitude in feet for a US-customary user and stores what is typed in metres (1 ft = 0.3048 m exactly)', async () => {
@@ -22,7 +28,7 @@ describe('SketchConditionPanel altitude units', () => {
     expect((input.element as HTMLInputElement).value).toBe('10000');
     await input.setValue('20000');
     await input.trigger('blur');
-    expect(apply).toHaveBeenCalledWith({ type: 'setCondition', field: 'altitudeM', value: 6096 });
+    expect(apply).toHaveBeenCalledWith({ type: 'setCondition', pointId: DOC.selectedPointId, field: 'altitudeM', value: 6096 });
     w.unmount();
   });
 });
@@ -54,7 +60,7 @@ describe('SketchConditionPanel: fields are edit sessions', () => {
     expect((mach.element as HTMLInputElement).value).toBe('3.4');
     expect(w.find('[data-testid="field-conflict"]').exists()).toBe(false);
     await mach.trigger('blur');
-    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', field: 'mach', value: 3.4 });
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', pointId: DOC.selectedPointId, field: 'mach', value: 3.4 });
     w.unmount();
   });
 
@@ -63,22 +69,22 @@ describe('SketchConditionPanel: fields are edit sessions', () => {
     const mach = inputOf(w, 'mach');
     await mach.trigger('focus');
     await mach.setValue('3.4');
-    announce({ op: { type: 'setCondition', opId: 'o', field: 'mach', value: 2.6 }, by: 'Ines Marlow' });
-    await w.setProps({ document: { ...DOC, condition: { ...DOC.condition, mach: 2.6 } } });
+    announce({ op: { type: 'setCondition', opId: 'o', pointId: DOC.selectedPointId, field: 'mach', value: 2.6 }, by: 'Ines Marlow' });
+    await w.setProps({ document: withMach(DOC, 2.6) });
     await flushPromises();
     expect((mach.element as HTMLInputElement).value).toBe('3.4');
     expect(w.get('[data-testid="field-conflict"]').text()).toContain('Ines Marlow changed Mach to 2.6 while you were typing 3.4');
     await mach.trigger('blur');
     expect(apply).not.toHaveBeenCalled();
     await w.get('[data-testid="conflict-keep-mine"]').trigger('click');
-    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', field: 'mach', value: 3.4 });
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', pointId: DOC.selectedPointId, field: 'mach', value: 3.4 });
     w.unmount();
   });
 
   it('[F1][O5] the flap hinge sends only the hinge; a field opened and left sends nothing', async () => {
-    const flapped: SketchDocument = { ...DOC, flap: { hingeXOverC: 0.75, deflectionDeg: 4 } };
+    const flapped: SketchDocument = { ...DOC, flap: { hingeXOverC: 0.75 } };
     const { w, apply } = setup(flapped);
-    const deflection = inputOf(w, 'deflection');
+    const deflection = inputOf(w, 'flapDeflectionDeg');
     await deflection.trigger('focus');
     await deflection.trigger('blur');
     expect(apply).not.toHaveBeenCalled();

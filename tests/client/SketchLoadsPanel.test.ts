@@ -3,7 +3,8 @@ import { mount, flushPromises } from '@vue/test-utils';
 import { createPinia, setActivePinia } from 'pinia';
 import { analyseSketch } from '@shared/flight/analyseSketch';
 import { RESULTS_CAUTION } from '@shared/model/caution';
-import { defaultSketchDocument, type SketchDocument } from '@shared/model/sketch';
+import { sketchCase, type SketchDocument } from '@shared/model/sketch';
+import { oneCondition } from '../helpers/documents';
 import type { ApplyOpResult, SketchOpDraft } from '@shared/model/ops';
 import { FIELD_CHANGES, type FieldChangeEvent, type FieldChangeFeed } from '@/composables/useFieldEdits';
 
@@ -17,17 +18,17 @@ const { default: SketchLoadsPanel } = await import('@/components/SketchLoadsPane
 const { usePreferencesStore } = await import('@/stores/preferences');
 
 /** Our own fin at 11 km geometric: q∞ = ½γp∞M² with p∞ = 22 700 Pa, T∞ = 216.77 K (1976 standard atmosphere, geometric-altitude table, from memory). */
-const FIN: SketchDocument = {
-  ...defaultSketchDocument(),
-  section: { points: [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]] },
+const FIN_FIELDS = {
+  section: { points: [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]] as [number, number][] },
   condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: 11_000 },
   flap: { hingeXOverC: 0.75, deflectionDeg: 4 },
-  loads: { chordM: 0.5, spanM: 0.4, friction: 'turbulent' },
+  loads: { chordM: 0.5, spanM: 0.4, friction: 'turbulent' as const },
 };
+const FIN: SketchDocument = oneCondition(FIN_FIELDS);
 
 function mountPanel(props: Partial<{ readOnly: boolean; document: SketchDocument; apply: (op: SketchOpDraft) => ApplyOpResult }> = {}) {
   const doc = props.document ?? FIN;
-  return mount(SketchLoadsPanel, { props: { analysis: analyseSketch(doc), settings: doc.loads, readOnly: props.readOnly ?? false, apply: props.apply }, attachTo: document.body });
+  return mount(SketchLoadsPanel, { props: { analysis: analyseSketch(sketchCase(doc)), settings: doc.loads, readOnly: props.readOnly ?? false, apply: props.apply }, attachTo: document.body });
 }
 
 const text = (w: ReturnType<typeof mountPanel>, id: string) => w.get(`[data-testid="${id}"]`).text();
@@ -100,7 +101,7 @@ describe('SketchLoadsPanel', () => {
       return () => listeners.delete(l);
     };
     const apply = vi.fn((_op: SketchOpDraft): ApplyOpResult => ({ ok: true, doc: FIN }));
-    const w = mount(SketchLoadsPanel, { props: { analysis: analyseSketch(FIN), settings: FIN.loads, apply }, attachTo: document.body, global: { provide: { [FIELD_CHANGES as symbol]: feed } } });
+    const w = mount(SketchLoadsPanel, { props: { analysis: analyseSketch(sketchCase(FIN)), settings: FIN.loads, apply }, attachTo: document.body, global: { provide: { [FIELD_CHANGES as symbol]: feed } } });
     await flushPromises();
     const span = w.get('[data-testid="loads-span"]');
     await span.trigger('focus');
@@ -116,7 +117,7 @@ describe('SketchLoadsPanel', () => {
   });
 
   it('read-only: the form is disabled and emits nothing; no altitude: says why there are no loads', async () => {
-    const w = mountPanel({ readOnly: true, document: { ...FIN, condition: { ...FIN.condition, altitudeM: null } } });
+    const w = mountPanel({ readOnly: true, document: oneCondition({ ...FIN_FIELDS, condition: { ...FIN_FIELDS.condition, altitudeM: null } }) });
     await flushPromises();
     const chord = w.get('[data-testid="loads-chord"]');
     expect((chord.element as HTMLInputElement).disabled).toBe(true);
@@ -127,7 +128,7 @@ describe('SketchLoadsPanel', () => {
   });
 
   it('says which gas model the loads use and shows a∞ at the condition\'s γ (γ 1.3: a = √(1.3·287.05·216.77) = 284.4 m/s)', async () => {
-    const w = mountPanel({ document: { ...FIN, condition: { ...FIN.condition, gamma: 1.3 } } });
+    const w = mountPanel({ document: oneCondition({ ...FIN_FIELDS, condition: { ...FIN_FIELDS.condition, gamma: 1.3 } }) });
     await flushPromises();
     // R = 8314.32/28.9644 J/(kg·K); T at 11 km geometric = 288.15 − 0.0065·H with the
     // geopotential H = r0·Z/(r0 + Z) (1976 standard, eqs. 18 and 23): √(1.3·R·T), 4 figures.
@@ -139,7 +140,7 @@ describe('SketchLoadsPanel', () => {
   });
 
   it('mixed friction: offers the transition Reynolds number, sends it as one setField op, and shows the laws\' range flags (86 km: Re ≈ 230 on a 0.5 m chord)', async () => {
-    const doc: SketchDocument = { ...FIN, condition: { ...FIN.condition, mach: 3, altitudeM: 86_000 }, loads: { ...FIN.loads, friction: 'mixed' } };
+    const doc: SketchDocument = oneCondition({ ...FIN_FIELDS, condition: { ...FIN_FIELDS.condition, mach: 3, altitudeM: 86_000 }, loads: { ...FIN_FIELDS.loads, friction: 'mixed' } });
     const apply = vi.fn((_op: SketchOpDraft): ApplyOpResult => ({ ok: true, doc }));
     const w = mountPanel({ document: doc, apply });
     await flushPromises();

@@ -5,11 +5,12 @@
 import { describe, expect, it } from 'vitest';
 import { mount } from '@vue/test-utils';
 import { analyseSketch } from '@shared/flight/analyseSketch';
-import { defaultSketchDocument, type SketchDocument } from '@shared/model/sketch';
+import { defaultSketchDocument, sketchCase, type SketchDocument } from '@shared/model/sketch';
+import { oneCondition } from '../helpers/documents';
 import SketchResultsPanel from '@/components/SketchResultsPanel.vue';
 
 function mountFor(doc: SketchDocument) {
-  const analysis = analyseSketch(doc);
+  const analysis = analyseSketch(sketchCase(doc));
   return mount(SketchResultsPanel, {
     props: { result: analysis.result, analysis, issues: [], serverAnalysis: null, revision: 1, chartResult: null },
     global: { stubs: { SketchCpChart: true } },
@@ -18,7 +19,7 @@ function mountFor(doc: SketchDocument) {
 
 describe('SketchResultsPanel', () => {
   it('states the reference: the drawn chord, the moment point and, with a flap, the drawn flap chord', () => {
-    const w = mountFor({ ...defaultSketchDocument(), flap: { hingeXOverC: 0.75, deflectionDeg: 20 } });
+    const w = mountFor({ ...defaultSketchDocument(), flap: { hingeXOverC: 0.75 } });
     const text = w.get('[data-testid="results-reference"]').text();
     expect(text).toContain('Reference: the section as drawn (the flap deflection does not change it), chord c = 1 drawing units');
     expect(text).toContain('cm over q∞·c² about (0.25, 0), nose up +');
@@ -30,11 +31,10 @@ describe('SketchResultsPanel', () => {
     // Our own triangle: a 5° nose, then a 30° convex corner at M 10, γ 5/3 (ν_max = 90°).
     const r = Math.PI / 180;
     const top: [number, number] = [0.5, 0.5 * Math.tan(5 * r)];
-    const doc: SketchDocument = {
-      ...defaultSketchDocument(),
+    const doc: SketchDocument = oneCondition({
       section: { points: [[0, 0], top, [1, top[1] - 0.5 * Math.tan(25 * r)]] },
       condition: { mach: 10, alphaDeg: 0, gamma: 5 / 3, altitudeM: null },
-    };
+    });
     const w = mountFor(doc);
     expect(w.get('[data-testid="results-status"]').text()).toBe('vacuum');
     expect(w.get('[data-testid="results-validity"]').text()).toContain('Zero pressure past the marked vertex: the exact coefficients include it.');

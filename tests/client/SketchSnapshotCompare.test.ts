@@ -3,7 +3,8 @@ import { mount } from '@vue/test-utils';
 import { analyseSketch } from '@shared/flight/analyseSketch';
 import { RESULTS_CAUTION } from '@shared/model/caution';
 import type { SnapshotDetail } from '@shared/model/review';
-import { defaultSketchDocument, type SketchDocument } from '@shared/model/sketch';
+import { sketchCase, type SketchDocument } from '@shared/model/sketch';
+import { oneCondition } from '../helpers/documents';
 import SketchSnapshotCompare from '@/components/SketchSnapshotCompare.vue';
 import { compareCoefficients, difference, formatDifference } from '@/components/snapshotCompare';
 import { formatNumber } from '@/canvas/legend';
@@ -11,7 +12,7 @@ import { expectClose } from '../helpers/expectClose';
 
 /** Our own 5 % double wedge, ridge at mid-chord. */
 function doc(alphaDeg: number, mach = 2, halfThickness = 0.025): SketchDocument {
-  return { ...defaultSketchDocument(), section: { points: [[0, 0], [0.5, halfThickness], [1, 0], [0.5, -halfThickness]] }, condition: { mach, alphaDeg, gamma: 1.4, altitudeM: null } };
+  return oneCondition({ section: { points: [[0, 0], [0.5, halfThickness], [1, 0], [0.5, -halfThickness]] }, condition: { mach, alphaDeg, gamma: 1.4, altitudeM: null } });
 }
 
 function snapshot(id: string, name: string, revision: number, document: SketchDocument, stored = true): SnapshotDetail {
@@ -26,7 +27,7 @@ function snapshot(id: string, name: string, revision: number, document: SketchDo
     createdAt: '2030-03-04T09:15:00.000Z',
     title: 'Tern fin root',
     document,
-    result: stored ? analyseSketch(document) : null,
+    result: stored ? analyseSketch(sketchCase(document)) : null,
   };
 }
 
@@ -37,8 +38,8 @@ describe('SketchSnapshotCompare', () => {
     const a = snapshot('snap_a', 'Cruise', 4, doc(2));
     const b = snapshot('snap_b', 'Pull-up', 9, doc(4));
     const w = mount(SketchSnapshotCompare, { props: { a, b } });
-    const ra = analyseSketch(a.document).result!;
-    const rb = analyseSketch(b.document).result!;
+    const ra = analyseSketch(sketchCase(a.document)).result!;
+    const rb = analyseSketch(sketchCase(b.document)).result!;
 
     // Linear (Ackeret) cl ≈ 4α/√(M²−1) = 0.0806 at α 2°, M 2 and twice that at 4° (common
     // practice); the solver projects the forces exactly, so thickness moves it by ~0.3 %.
@@ -66,7 +67,7 @@ describe('SketchSnapshotCompare', () => {
     // A 12 % wedge at M 1.4, α 5°: the nose shock detaches (as the demo booster fin).
     const a = snapshot('snap_a', 'Thin', 1, doc(5, 1.4, 0.01));
     const b = snapshot('snap_b', 'Thick', 2, doc(5, 1.4, 0.06));
-    expect(analyseSketch(b.document).status).toBe('detached');
+    expect(analyseSketch(sketchCase(b.document)).status).toBe('detached');
     const w = mount(SketchSnapshotCompare, { props: { a, b } });
     expect(cell(w, 'compare-exact-cl-b')).toBe('—');
     expect(cell(w, 'compare-exact-cl-diff')).toBe('—');
@@ -90,7 +91,7 @@ describe('coefficient differences', () => {
     expect(difference(0.1, 0.3)).toBeCloseTo(0.2, 15);
     expect(difference(0.1 + 0.2, 0.3)).toBe(0);
     expect(difference(null, 0.3)).toBeNull();
-    const same = analyseSketch(doc(2));
+    const same = analyseSketch(sketchCase(doc(2)));
     const t = compareCoefficients(same, same);
     expect(t.exact.cl.diff).toBe(0);
     expect(t.secondOrder.liftToDrag.diff).toBe(0);

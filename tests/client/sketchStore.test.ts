@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { createPinia, setActivePinia } from 'pinia';
-import { defaultSketchDocument, type SketchDocument } from '@shared/model/sketch';
+import { defaultSketchDocument, selectedPoint, type SketchDocument } from '@shared/model/sketch';
 import type { Sketch } from '@shared/model/sketchApi';
 import { AUTOSAVE_DEBOUNCE_MS } from '@/timing';
 
@@ -66,7 +66,7 @@ describe('sketch store: undo and redo', () => {
     expect(store.undo()).toBe(true);
     expect(store.document!.section.points).toHaveLength(4);
     expect(store.undo()).toBe(true);
-    expect(store.document!.condition.mach).toBe(2);
+    expect(selectedPoint(store.document!).condition.mach).toBe(2);
     expect(store.undo()).toBe(true);
     expect(store.document).toEqual(original);
     expect(store.undo()).toBe(false);
@@ -76,7 +76,7 @@ describe('sketch store: undo and redo', () => {
     expect(store.redo()).toBe(true);
     expect(store.redo()).toBe(false);
     expect(store.document!.section.points[2]).toEqual([0.5, 0.04]);
-    expect(store.document!.condition.mach).toBe(3);
+    expect(selectedPoint(store.document!).condition.mach).toBe(3);
   });
 
   it('a new edit after undo clears the redo stack', async () => {
@@ -162,13 +162,14 @@ describe('sketch store: autosave', () => {
 
   it('on a revision conflict reloads, re-applies unsaved edits on top and tells the user', async () => {
     const store = await openDemo();
-    const theirs = { ...defaultSketchDocument(), condition: { ...defaultSketchDocument().condition, mach: 2.6 } };
+    const base = defaultSketchDocument();
+    const theirs = { ...base, designPoints: [{ ...base.designPoints[0], condition: { ...base.designPoints[0].condition, mach: 2.6 } }] };
     apiMock.put.mockRejectedValueOnce(new ApiError(409, 'revision_conflict', 'The sketch changed since revision 3 (now at 5).'));
     apiMock.get.mockResolvedValueOnce(sketch(theirs, 5, { updatedByName: 'Tomasz Reyes' }));
     store.dispatch(move(1, 0.5, 0.04));
     await vi.advanceTimersByTimeAsync(AUTOSAVE_DEBOUNCE_MS + 10);
     expect(store.revision).toBe(5);
-    expect(store.document!.condition.mach).toBe(2.6); // their edit
+    expect(selectedPoint(store.document!).condition.mach).toBe(2.6); // their edit
     expect(store.document!.section.points[1]).toEqual([0.5, 0.04]); // ours on top
     expect(store.notice?.kind).toBe('conflict');
     expect(store.notice?.message).toMatch(/^Tomasz Reyes saved this sketch while you were editing \(now revision 5\); it was reloaded\. Your 1 unsaved edit was re-applied on top\./);

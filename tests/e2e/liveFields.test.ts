@@ -4,7 +4,7 @@ import { and, eq, isNotNull } from 'drizzle-orm';
 import type { RunningServer } from '../../server/index.ts';
 import { DEMO_PEOPLE } from '../../server/db/seed.ts';
 import { sketchEdits, sketches } from '../../server/db/schema.ts';
-import type { SketchDocument } from '../../shared/model/sketch.ts';
+import { selectedPoint, type SketchDocument } from '../../shared/model/sketch.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, signInDemo, textOf, type BrowserSession } from '../helpers/browser.ts';
@@ -120,7 +120,7 @@ describe('form fields while a colleague edits (two browsers)', () => {
     expect(await mach.inputValue()).toBe('3.4');
     await screenshot(tomasz, 'fields-mach-kept-while-colleague-edits');
     await mach.press('Enter');
-    await expect.poll(async () => (await stored()).doc.condition.mach, { timeout: 10_000 }).toBe(3.4);
+    await expect.poll(async () => selectedPoint((await stored()).doc).condition.mach, { timeout: 10_000 }).toBe(3.4);
     await expect.poll(() => ines.locator('input#condition-mach').inputValue(), { timeout: 10_000 }).toBe('3.4');
     expect((await stored()).doc.section.points[5]).toEqual([0.25, -0.021]);
   });
@@ -139,7 +139,7 @@ describe('form fields while a colleague edits (two browsers)', () => {
     await clickAway(tomasz);
     await saved(tomasz);
     const after = await stored();
-    expect(after.doc.condition.alphaDeg).toBe(3);
+    expect(selectedPoint(after.doc).condition.alphaDeg).toBe(3);
     expect(after.revision).toBe(before);
     expect(inesSession.foreignRequests).toEqual([]);
   });

@@ -4,7 +4,7 @@ import type { RunningServer } from '../../server/index.ts';
 import { DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { mailMessages, sketches } from '../../server/db/schema.ts';
 import { analyseSketch } from '../../shared/flight/analyseSketch.ts';
-import type { Point } from '../../shared/model/sketch.ts';
+import { sketchCase, type Point } from '../../shared/model/sketch.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
@@ -59,7 +59,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
 
     // The lower surface's nose shock (M 2.6, α 4°: the lower facet turns the flow into itself),
     // a third of the way along its drawn line, well away from the section and the other waves.
-    const shock = analyseSketch(FIN.document).result!.waves.find((w) => w.id === 'wave_lower_0')!;
+    const shock = analyseSketch(sketchCase(FIN.document)).result!.waves.find((w) => w.id === 'wave_lower_0')!;
     expect(shock.kind).toBe('shock');
     const along: Point = [shock.origin[0] + (shock.end[0] - shock.origin[0]) / 3, shock.origin[1] + (shock.end[1] - shock.origin[1]) / 3];
     const at = await worldOnScreen(page, along);

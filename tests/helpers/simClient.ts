@@ -1,6 +1,8 @@
 import { io as connect, type Socket } from 'socket.io-client';
 import { createSyncEngine, type SyncEngine } from '../../shared/protocol/syncEngine.ts';
 import type { ClientMessage, ClientToServerEvents, EditOp, ServerMessage, ServerToClientEvents } from '../../shared/protocol/messages.ts';
+import { newId } from '../../shared/model/ids.ts';
+import type { SketchDocument } from '../../shared/model/sketch.ts';
 
 /**
  * A simulated editor: socket.io-client + the same sync engine the browser uses. Records every
@@ -114,24 +116,53 @@ export async function until(check: () => boolean | Promise<boolean>, timeoutMs =
   throw new Error(`timed out waiting for ${what}`);
 }
 
-/** A random edit that usually applies to `state` (the engine refuses the ones that do not). */
-export function randomEdit(doc: { section: { points: [number, number][] } }, rand: () => number, opId: string): EditOp {
+/** Names random design point edits draw from: few, so concurrent adds and renames collide. */
+const POINT_NAMES = ['Cruise', 'Pull-up', 'Max q', 'Dash', 'Design point 2'];
+
+/** A random edit that usually applies to `doc` (the engine refuses the ones that do not). */
+export function randomEdit(doc: SketchDocument, rand: () => number, opId: string): EditOp {
   const pts = doc.section.points;
   const n = pts.length;
   const k = Math.floor(rand() * n);
   const pick = rand();
-  if (pick < 0.6) {
+  if (pick < 0.5) {
     const [x, y] = pts[k];
     return { type: 'moveVertices', opId, indices: [k], to: [[x + (rand() - 0.5) * 0.02, y + (rand() - 0.5) * 0.02]] };
   }
-  if (pick < 0.72 && n < 40) {
+  if (pick < 0.6 && n < 40) {
     const a = pts[k];
     const b = pts[(k + 1) % n];
     return { type: 'insertVertex', opId, index: k + 1, at: [(a[0] + b[0]) / 2, (a[1] + b[1]) / 2] };
   }
-  if (pick < 0.8 && n > 12) return { type: 'deleteVertex', opId, index: k };
-  if (pick < 0.95) return { type: 'setCondition', opId, field: 'mach', value: Math.round((1.5 + rand() * 3) * 100) / 100 };
+  if (pick < 0.68 && n > 12) return { type: 'deleteVertex', opId, index: k };
+  if (pick < 0.8) return randomPointEdit(doc, rand, opId);
+  if (pick < 0.95) {
+    const point = doc.designPoints[Math.floor(rand() * doc.designPoints.length)];
+    return { type: 'setCondition', opId, pointId: point.id, field: 'mach', value: Math.round((1.5 + rand() * 3) * 100) / 100 };
+  }
   return { type: 'rename', opId, title: `Random title ${Math.floor(rand() * 1000)}` };
+}
+
+/** A random design point edit: add, remove, rename, reorder, select or change one. */
+export function randomPointEdit(doc: SketchDocument, rand: () => number, opId: string): EditOp {
+  const points = doc.designPoints;
+  const point = points[Math.floor(rand() * points.length)];
+  const name = POINT_NAMES[Math.floor(rand() * POINT_NAMES.length)];
+  const pick = rand();
+  if (pick < 0.25 && points.length < 6) {
+    return {
+      type: 'addDesignPoint',
+      opId,
+      point: { id: newId('point'), name, condition: { ...point.condition, alphaDeg: Math.round(rand() * 80) / 10 }, flapDeflectionDeg: 0 },
+      index: Math.floor(rand() * (points.length + 1)),
+      select: rand() < 0.3,
+    };
+  }
+  if (pick < 0.4 && points.length > 1) return { type: 'removeDesignPoint', opId, pointId: point.id };
+  if (pick < 0.55) return { type: 'renameDesignPoint', opId, pointId: point.id, name };
+  if (pick < 0.7) return { type: 'moveDesignPoint', opId, pointId: point.id, index: Math.floor(rand() * points.length) };
+  if (pick < 0.85) return { type: 'selectDesignPoint', opId, pointId: point.id };
+  return { type: 'setCondition', opId, pointId: point.id, field: 'alphaDeg', value: Math.round((rand() * 16 - 8) * 10) / 10 };
 }
 
 /** Deterministic PRNG (mulberry32) so a failing run can be replayed from its seed. */

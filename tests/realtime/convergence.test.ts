@@ -82,8 +82,9 @@ describe('convergence: 20 clients editing one sketch at once', () => {
           expect(c.acks.get(id), `acks for ${id}`).toBe(1);
           expect(applied.has(id), `${id} applied xor rejected`).toBe(!c.rejected.has(id));
         } else {
-          // Never sent: dropped locally because a concurrent edit made it meaningless.
-          expect(c.dropped.get(id), `${id} was dropped with a reason`).toMatch(/deleted|replaced|simple polygon|vertex/);
+          // Never sent: dropped locally because a concurrent edit made it meaningless (a vertex
+          // deleted or the section replaced; a design point removed, or its name taken meanwhile).
+          expect(c.dropped.get(id), `${id} was dropped with a reason`).toMatch(/deleted|replaced|simple polygon|vertex|design point/);
           expect(applied.has(id)).toBe(false);
         }
       }

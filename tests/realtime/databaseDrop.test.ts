@@ -1,3 +1,4 @@
+import { selectedPoint } from '../../shared/model/sketch.ts';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import pg from 'pg';
 import { openDatabase } from '../../server/db/client.ts';
@@ -175,7 +176,7 @@ describe('PostgreSQL stops and starts again under a running server', () => {
     await until(async () => (me = await get(`${server.url}/api/auth/me`, cookie)).status === 200, 30_000, 'the API answers again');
     expect((me.body as { user: { email: string } }).user.email).toBe(world.users[0].email);
     await until(() => client.engine.pendingCount === 0, 30_000, 'the edit made while away is confirmed');
-    expect(client.engine.state!.document.condition.mach).toBe(3.3);
+    expect(selectedPoint(client.engine.state!.document).condition.mach).toBe(3.3);
     expect((await get(`${server.url}/api/health`)).status).toBe(200);
     expect(server.alive()).toBe(true);
     expectCleanLog(server.output(), [cookie]);

@@ -1,3 +1,4 @@
+import { selectedPoint } from '../../shared/model/sketch.ts';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startServer, type RunningServer } from '../../server/index.ts';
 import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
@@ -73,7 +74,7 @@ describe('realtime protocol against one server', () => {
     expect(ack).toMatchObject({ status: 'applied', revision: 1 });
     const seen = (await b.waitFor((m) => m.type === 'edit' && m.revision === 1)) as Extract<ServerMessage, { type: 'edit' }>;
     expect(seen.op).toMatchObject({ type: 'setCondition', value: 3.2 });
-    await until(() => b.engine.state?.document.condition.mach === 3.2, 2000, 'b sees Mach 3.2');
+    await until(() => !!b.engine.state && selectedPoint(b.engine.state.document).condition.mach === 3.2, 2000, 'b sees Mach 3.2');
   });
 
   it('[R3] a repeated op id is acked again with the first outcome and not applied twice', async () => {

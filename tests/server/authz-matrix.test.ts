@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { newId } from '../../shared/model/ids.ts';
 import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
-import { defaultSketchDocument } from '../../shared/model/sketch.ts';
+import { defaultSketchDocument, sketchCase } from '../../shared/model/sketch.ts';
 import { hashToken } from '../../server/auth/tokens.ts';
 import { eq } from 'drizzle-orm';
 import { invitations, mailMessages, memberships, pinReplies, pins, snapshots, studies, teams, users } from '../../server/db/schema.ts';
@@ -64,7 +64,7 @@ const SMALL_STUDY = { mach: { kind: 'list', values: [1.5, 2.5] }, alpha: { start
 async function freshStudy(w: World): Promise<{ sketchId: string; studyId: string }> {
   const sketchId = await freshSketch(w);
   const definition = studyDefinitionSchema.parse(SMALL_STUDY);
-  const outcome = runStudy(defaultSketchDocument(), definition);
+  const outcome = runStudy(sketchCase(defaultSketchDocument()), definition);
   if (outcome.status !== 'done') throw new Error('study fixture failed');
   const studyId = newId('study');
   await w.database.db.insert(studies).values({ id: studyId, sketchId, name: 'Sweep', definition, results: outcome.results, revision: 0, points: outcome.results.rows.length, counts: outcome.results.counts, createdBy: w.users.editor.id });

@@ -36,11 +36,19 @@ describe('unknown keys are refused by name at every solver input', () => {
     expect(good.body.condition.gamma).toBe(1.3);
   });
 
-  it('PUT /api/sketches/:id/document: a document with "gama" in its condition is refused and nothing is saved', async () => {
+  it('PUT /api/sketches/:id/document: a document with "gama" in a condition is refused and nothing is saved (version 1 and 2)', async () => {
     const doc = defaultSketchDocument();
-    const res = await put(`/api/sketches/${sketchId}/document`, { document: { ...doc, condition: { ...doc.condition, gama: 1.3 } }, baseRevision: 0 });
+    const point = doc.designPoints[0];
+    const res = await put(`/api/sketches/${sketchId}/document`, { document: { ...doc, designPoints: [{ ...point, condition: { ...point.condition, gama: 1.3 } }] }, baseRevision: 0 });
     expect(res.status).toBe(400);
-    expect(res.body.error.message).toMatch(/document\.condition.*"gama"/);
+    expect(res.body.error.message).toMatch(/document\.designPoints\[0\]\.condition.*"gama"/);
+    const v1 = { version: 1, section: doc.section, condition: { ...point.condition, gama: 1.3 } };
+    const old = await put(`/api/sketches/${sketchId}/document`, { document: v1, baseRevision: 0 });
+    expect(old.status).toBe(400);
+    expect(old.body.error.message).toMatch(/document\.condition.*"gama"/);
+    const named = await put(`/api/sketches/${sketchId}/document`, { document: { ...doc, designPoints: [{ ...point, nmae: 'Cruise' }] }, baseRevision: 0 });
+    expect(named.status).toBe(400);
+    expect(named.body.error.message).toMatch(/document\.designPoints\[0\].*"nmae"/);
     const loads = await put(`/api/sketches/${sketchId}/document`, { document: { ...doc, loads: { ...doc.loads, fricton: 'laminar' } }, baseRevision: 0 });
     expect(loads.status).toBe(400);
     expect(loads.body.error.message).toMatch(/document\.loads.*"fricton"/);

@@ -3,19 +3,19 @@ import request from 'supertest';
 import { analyseSketch } from '../../shared/flight/analyseSketch.ts';
 import { studyRow } from '../../shared/flight/study.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
-import { defaultSketchDocument, type SketchDocument } from '../../shared/model/sketch.ts';
+import { sketchCase, type SketchDocument } from '../../shared/model/sketch.ts';
+import { oneCondition } from '../helpers/documents.ts';
 import { STUDY_COLUMNS, packStudyRows, type StudyDetail } from '../../shared/model/study.ts';
 import { CSRF, createWorld, freshSketch, signIn, type World } from '../helpers/world.ts';
 import { pdfFonts, pdfPageCount, pdfText } from '../helpers/pdf.ts';
 
 /** Our own fin: 6 % diamond, 25 % flap, at 9 km on a 0.3 m chord. */
-const FIN: SketchDocument = {
-  ...defaultSketchDocument(),
+const FIN: SketchDocument = oneCondition({
   section: { points: [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]] },
   condition: { mach: 2.2, alphaDeg: 3, gamma: 1.4, altitudeM: 9000 },
   flap: { hingeXOverC: 0.75, deflectionDeg: 4 },
   loads: { chordM: 0.3, spanM: 0.25, friction: 'turbulent' },
-};
+});
 
 const DEFINITION = {
   mach: { kind: 'range', start: 1.6, end: 3.2, step: 0.4 },
@@ -70,7 +70,7 @@ describe('studies, unit preferences and reports API', () => {
     for (const flapDeg of [-5, 0, 5]) {
       for (const mach of study.results.machs) {
         for (const alphaDeg of study.results.alphasDeg) {
-          const single = analyseSketch(FIN, { waves: false, mach, alphaDeg, flapDeg, altitudeM: 9000, friction: 'turbulent' });
+          const single = analyseSketch(sketchCase(FIN), { waves: false, mach, alphaDeg, flapDeg, altitudeM: 9000, friction: 'turbulent' });
           expect(study.results.rows[i++]).toEqual(packStudyRows([studyRow(single, mach, alphaDeg, flapDeg)])[0]);
         }
       }

@@ -5,6 +5,7 @@ import { interpolateViridis } from 'd3-scale-chromatic';
 import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
 import { formatQuantity, toDisplay, unitLabel, type Quantity, type UnitSystem } from '../../../shared/flight/units.ts';
 import { unpackStudyRows, type StudyRow } from '../../../shared/model/study.ts';
+import { sketchCase } from '../../../shared/model/sketch.ts';
 import type { Coefficients, Point, SolveResult, TheoryResult } from '../../../shared/solver/types.ts';
 import { ACCENT, INK, INK_SOFT, RULE, drawLineChart, drawMachKey, machColour, type LineChart } from './pdfCharts.ts';
 import { line, paragraph, registerFonts, widthOf } from './pdfText.ts';
@@ -286,7 +287,7 @@ function table(ctx: Ctx, columns: Column[], rows: string[][], opts: { size?: num
 
 function conditionAndStatus(ctx: Ctx): void {
   const { data } = ctx;
-  const d = data.document;
+  const d = sketchCase(data.document);
   const u = data.units;
   heading(ctx, 'Condition');
   const rows: string[][] = [
@@ -498,7 +499,8 @@ function studyPages(ctx: Ctx, study: ReportStudy): void {
   ];
   if (results.flapsDeg[0] !== null && results.flapsDeg.length > 1) {
     // Hinge moment against deflection at the swept α nearest the sketch's own.
-    const a0 = results.alphasDeg.reduce((b, a) => (Math.abs(a - data.document.condition.alphaDeg) < Math.abs(b - data.document.condition.alphaDeg) ? a : b), results.alphasDeg[0]);
+    const alpha = sketchCase(data.document).condition.alphaDeg;
+    const a0 = results.alphasDeg.reduce((b, a) => (Math.abs(a - alpha) < Math.abs(b - alpha) ? a : b), results.alphasDeg[0]);
     charts.push({
       title: `Hinge moment ch against δ at α = ${num(a0)}° (exact)`,
       xLabel: 'δ (°, trailing edge down +)',

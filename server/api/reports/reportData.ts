@@ -1,4 +1,5 @@
 import type { SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
+import type { DesignPointsAnalysis } from '../../../shared/flight/designPoints.ts';
 import type { UnitSystem } from '../../../shared/flight/units.ts';
 import type { SketchDocument } from '../../../shared/model/sketch.ts';
 import type { StudyDefinition, StudyResults } from '../../../shared/model/study.ts';
@@ -13,7 +14,10 @@ export interface ReportData {
   generatedBy: string;
   units: UnitSystem;
   document: SketchDocument;
+  /** The selected design point's analysis (section, wave map, coefficients, loads). */
   analysis: SketchAnalysis;
+  /** Every design point's analysis, in the document's order. */
+  points: DesignPointsAnalysis;
   study: ReportStudy | null;
 }
 
@@ -26,9 +30,4 @@ export interface ReportStudy {
   results: StudyResults;
   createdByName: string | null;
   createdAt: string;
-}
-
-/** True when a stored result is a whole analysis (what the server stores since flaps and loads). */
-export function isSketchAnalysis(value: unknown): value is SketchAnalysis {
-  return !!value && typeof value === 'object' && 'solvedPoints' in value && 'status' in value && 'result' in value;
 }

@@ -6,12 +6,12 @@ import { findSketch } from '../sketches/repository.ts';
 import { solveDocument } from '../sketches/solveDocument.ts';
 import { getStudyOfSketch } from '../studies/service.ts';
 import { getPreferences } from '../preferences/service.ts';
-import type { SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
 import type { UnitSystem } from '../../../shared/flight/units.ts';
 import { normalizeDocument } from '../../../shared/model/sketch.ts';
 import { fileSafeName } from '../../../shared/model/sketchExport.ts';
+import { readStoredAnalysis, selectedAnalysis } from '../../../shared/flight/designPoints.ts';
 import { renderReport } from './renderReport.ts';
-import { isSketchAnalysis, type ReportData } from './reportData.ts';
+import type { ReportData } from './reportData.ts';
 import { findTeamName } from './repository.ts';
 
 /** "HD-7 Tern fin, root" at revision 12 → "HD-7-Tern-fin-root-r12-report.pdf" ([M3]). */
@@ -29,7 +29,10 @@ export async function sketchReport(ctx: AppContext, user: SessionUser, sketchId:
   const row = await findSketch(ctx.db, sketchId);
   if (!row) throw new HttpError(404, 'not_found', 'No such sketch.');
   const document = normalizeDocument(row.document);
-  const analysis: SketchAnalysis = isSketchAnalysis(row.lastResult) ? row.lastResult : (solveDocument(document).result as SketchAnalysis);
+  // A stored result from before the document's current shape (or none) is solved again.
+  const stored = readStoredAnalysis(row.lastResult);
+  const points = stored && stored.selectedPointId === document.selectedPointId && stored.points.length === document.designPoints.length ? stored : solveDocument(document).result;
+  const analysis = selectedAnalysis(points)!;
   const study = query.study ? await getStudyOfSketch(ctx, user.id, sketchId, query.study) : null;
   const data: ReportData = {
     title: row.title,
@@ -40,6 +43,7 @@ export async function sketchReport(ctx: AppContext, user: SessionUser, sketchId:
     units: query.units ?? (await getPreferences(ctx.db, user.id)).unitSystem,
     document,
     analysis,
+    points,
     study: study && { id: study.id, name: study.name, revision: study.revision, definition: study.definition, results: study.results, createdByName: study.createdByName, createdAt: study.createdAt },
   };
   return { pdf: await renderReport(data), fileName: reportFileName(row.title, row.revision) };

@@ -2,7 +2,7 @@ import type { Db } from '../../db/client.ts';
 import { HttpError } from '../../http/errors.ts';
 import { assertTeamRole } from '../../auth/guards.ts';
 import { newId } from '../../../shared/model/ids.ts';
-import { defaultSketchDocument, normalizeDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
+import { defaultSketchDocument, normalizeDocument, selectedPoint, type SketchDocument } from '../../../shared/model/sketch.ts';
 import type { Role } from '../../../shared/model/roles.ts';
 import type { Sketch, SketchSummary } from '../../../shared/model/sketchApi.ts';
 import { thicknessRatio } from '../../../shared/solver/thicknessRatio.ts';
@@ -42,7 +42,8 @@ export async function listTeamSketches(db: Db, userId: string, teamId: string): 
   await assertTeamRole(db, userId, teamId, 'viewer', 'see this team’s sketches');
   const rows = await repo.listSketches(db, teamId);
   return rows.map((r) => {
-    const doc = r.document as SketchDocument;
+    const doc = normalizeDocument(r.document);
+    const point = selectedPoint(doc);
     return {
       id: r.id,
       teamId: r.teamId,
@@ -50,8 +51,10 @@ export async function listTeamSketches(db: Db, userId: string, teamId: string): 
       revision: r.revision,
       vertexCount: doc.section.points.length,
       thicknessRatio: thicknessRatio(doc.section.points),
-      mach: doc.condition.mach,
-      alphaDeg: doc.condition.alphaDeg,
+      mach: point.condition.mach,
+      alphaDeg: point.condition.alphaDeg,
+      designPointCount: doc.designPoints.length,
+      selectedPointName: point.name,
       lastSolveStatus: r.lastSolveStatus,
       updatedAt: r.updatedAt.toISOString(),
       updatedByName: r.updatedByName,
@@ -81,7 +84,7 @@ export async function duplicateSketch(db: Db, userId: string, sketchId: string):
   const { teamId } = await authorizeSketch(db, userId, sketchId, 'editor', 'duplicate sketches');
   const source = await repo.findSketch(db, sketchId);
   if (!source) throw new HttpError(404, 'not_found', 'No such sketch.');
-  return createSketch(db, userId, teamId, { title: `${source.title} (copy)`.slice(0, 200), document: source.document as SketchDocument });
+  return createSketch(db, userId, teamId, { title: `${source.title} (copy)`.slice(0, 200), document: normalizeDocument(source.document) });
 }
 
 /**

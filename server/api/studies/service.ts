@@ -3,7 +3,7 @@ import { HttpError } from '../../http/errors.ts';
 import { authorizeSketch } from '../sketches/service.ts';
 import { findSketch } from '../sketches/repository.ts';
 import { newId } from '../../../shared/model/ids.ts';
-import { normalizeDocument } from '../../../shared/model/sketch.ts';
+import { findDesignPoint, normalizeDocument, sketchCase } from '../../../shared/model/sketch.ts';
 import type { CreateStudy, StudyDetail, StudyPage } from '../../../shared/model/study.ts';
 import { runStudySliced } from '../../../shared/flight/study.ts';
 import * as repo from './repository.ts';
@@ -22,7 +22,11 @@ export async function createStudy(ctx: AppContext, userId: string, sketchId: str
   const sketch = await findSketch(ctx.db, sketchId);
   if (!sketch) throw new HttpError(404, 'not_found', 'No such sketch.');
   const document = normalizeDocument(sketch.document);
-  const outcome = await runStudySliced(document, input.definition, { pause: () => new Promise((r) => setImmediate(r)), sliceMs: STUDY_SLICE_MS });
+  const pointId = input.definition.designPointId;
+  if (pointId !== undefined && !findDesignPoint(document, pointId)) {
+    throw new HttpError(400, 'invalid_study', 'definition.designPointId: that design point is not in the sketch (perhaps someone removed it).');
+  }
+  const outcome = await runStudySliced(sketchCase(document, pointId), input.definition, { pause: () => new Promise((r) => setImmediate(r)), sliceMs: STUDY_SLICE_MS });
   if (outcome.status === 'invalid') throw new HttpError(400, 'invalid_study', outcome.reason);
   if (outcome.status === 'cancelled') throw new HttpError(500, 'study_cancelled', 'The study stopped before it finished.');
   const id = newId('study');

@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { analysePrepared, analyseSketch, prepareSketch } from '../../../shared/flight/analyseSketch.ts';
-import { defaultSketchDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
+import { defaultSketchDocument, sketchCase, type SketchCase } from '../../../shared/model/sketch.ts';
 
 /** A 6 %-thick diamond with a 25 % flap, at 11 km: every part of the analysis is exercised. */
-function flappedDoc(): SketchDocument {
+function flappedDoc(): SketchCase {
   return {
-    ...defaultSketchDocument(),
+    ...sketchCase(defaultSketchDocument()),
     section: { points: [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]] },
     condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: 11_000 },
     flap: { hingeXOverC: 0.75, deflectionDeg: 4 },

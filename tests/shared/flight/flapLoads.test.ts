@@ -8,7 +8,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyseSketch } from '../../../shared/flight/analyseSketch.ts';
-import type { SketchDocument } from '../../../shared/model/sketch.ts';
+import type { SketchCase } from '../../../shared/model/sketch.ts';
 import { expectClose, expectCloseRel } from '../../helpers/expectClose.ts';
 
 const CHORD_M = 0.32;
@@ -17,14 +17,12 @@ const MACH = 2.5;
 const ALPHA_DEG = 2;
 const HINGE_X = 0.75;
 
-function fin(deflectionDeg: number): SketchDocument {
+function fin(deflectionDeg: number): SketchCase {
   return {
-    version: 1,
     section: { points: [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]] },
     condition: { mach: MACH, alphaDeg: ALPHA_DEG, gamma: 1.4, altitudeM: 0 },
     flap: { hingeXOverC: HINGE_X, deflectionDeg },
     momentPoint: null,
-    notes: '',
     loads: { chordM: CHORD_M, spanM: 0.18, friction: 'none' },
   };
 }

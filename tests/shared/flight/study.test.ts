@@ -4,7 +4,7 @@ import fc from 'fast-check';
 import { analyseSketch } from '../../../shared/flight/analyseSketch.ts';
 import { planStudy, runStudy, runStudySliced, studyRow } from '../../../shared/flight/study.ts';
 import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
-import { defaultSketchDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
+import { defaultSketchDocument, sketchCase, type SketchCase } from '../../../shared/model/sketch.ts';
 import {
   STUDY_COLUMNS,
   STUDY_MAX_POINTS,
@@ -19,9 +19,9 @@ import {
 import { expectClose, expectCloseRel } from '../../helpers/expectClose.ts';
 
 /** Our own 6 %-thick diamond fin with a 25 % flap (the demo's kind of section). */
-function flappedDiamond(): SketchDocument {
+function flappedDiamond(): SketchCase {
   return {
-    ...defaultSketchDocument(),
+    ...sketchCase(defaultSketchDocument()),
     section: { points: [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]] },
     condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: 11_000 },
     flap: { hingeXOverC: 0.75, deflectionDeg: 0 },

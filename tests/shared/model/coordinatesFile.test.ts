@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { formatCoordinatesIssue, parseCoordinates, MAX_LISTED_ISSUES } from '../../../shared/model/coordinatesFile.ts';
 import { facetCsv, fileSafeName, resultJson, sectionCsv, FACET_CSV_COLUMNS } from '../../../shared/model/sketchExport.ts';
 import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
-import { defaultSketchDocument } from '../../../shared/model/sketch.ts';
+import { defaultSketchDocument, selectedPoint } from '../../../shared/model/sketch.ts';
 import { parseSolveInput } from '../../../shared/model/solveInput.ts';
 import { solveSection } from '../../../shared/solver/index.ts';
 
@@ -74,7 +74,8 @@ describe('parseCoordinates', () => {
 
 describe('exports', () => {
   const doc = defaultSketchDocument();
-  const parsed = parseSolveInput({ section: doc.section, flow: { mach: doc.condition.mach, alphaDeg: doc.condition.alphaDeg, gamma: doc.condition.gamma } });
+  const { condition } = selectedPoint(doc);
+  const parsed = parseSolveInput({ section: doc.section, flow: { mach: condition.mach, alphaDeg: condition.alphaDeg, gamma: condition.gamma } });
   if (!parsed.ok) throw new Error('demo does not parse');
   const result = solveSection(parsed.value);
 

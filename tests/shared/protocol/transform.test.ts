@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { applyEdit, transformOp, transformPast, type SketchState } from '../../../shared/protocol/transform.ts';
 import type { EditOp } from '../../../shared/protocol/messages.ts';
-import { sketchDocumentSchema } from '../../../shared/model/sketch.ts';
+import { selectedPoint, sketchDocumentSchema } from '../../../shared/model/sketch.ts';
 import { createSyncEngine } from '../../../shared/protocol/syncEngine.ts';
 import type { ClientMessage, ServerMessage } from '../../../shared/protocol/messages.ts';
 
@@ -148,7 +148,7 @@ describe('createSyncEngine [R6]', () => {
     engine.submit({ type: 'setCondition', opId: 'b', field: 'mach', value: 4 });
     const edits = () => sent.filter((m) => m.type === 'edit') as Extract<ClientMessage, { type: 'edit' }>[];
     expect(edits().map((m) => [m.op.opId, m.baseRevision])).toEqual([['a', 4]]);
-    expect(engine.state!.document.condition.mach).toBe(4);
+    expect(selectedPoint(engine.state!.document).condition.mach).toBe(4);
     engine.receive({ type: 'ack', sketchId: id, opId: 'a', status: 'applied', revision: 5, op: { type: 'setCondition', opId: 'a', field: 'mach', value: 3 } });
     expect(edits().map((m) => [m.op.opId, m.baseRevision])).toEqual([['a', 4], ['b', 5]]);
     expect(engine.revision).toBe(5);
@@ -168,7 +168,7 @@ describe('createSyncEngine [R6]', () => {
     expect(engine.revision).toBe(0);
     engine.receive(edit(1, 2.1));
     expect(engine.revision).toBe(2);
-    expect(engine.state!.document.condition.mach).toBe(2.2);
+    expect(selectedPoint(engine.state!.document).condition.mach).toBe(2.2);
     engine.receive(edit(4, 2.4));
     t = 2000;
     engine.tick();
@@ -185,9 +185,9 @@ describe('createSyncEngine [R6]', () => {
     const s0 = octagon();
     engine.receive({ type: 'joined', sketchId: id, title: 'T', document: s0.document, revision: 0, people: [], walkthrough: null, you: { connectionId: 'c', userId: 'u', name: 'N', role: 'viewer', colour: '#fff' } });
     engine.submit({ type: 'setCondition', opId: 'a', field: 'mach', value: 3 });
-    expect(engine.state!.document.condition.mach).toBe(3);
+    expect(selectedPoint(engine.state!.document).condition.mach).toBe(3);
     engine.receive({ type: 'ack', sketchId: id, opId: 'a', status: 'rejected', reason: 'Your role in this team is viewer; editing needs the editor role.' });
-    expect(engine.state!.document.condition.mach).toBe(2);
+    expect(selectedPoint(engine.state!.document).condition.mach).toBe(2);
     expect(rejected).toEqual(['Your role in this team is viewer; editing needs the editor role.']);
   });
 
@@ -213,7 +213,7 @@ describe('createSyncEngine [R6]', () => {
     expect(sent.filter((m) => m.type === 'resync')).toEqual([{ type: 'resync', sketchId: id, lastRevision: 3 }]);
     engine.receive({ type: 'replay', sketchId: id, revision: 4, edits: [{ revision: 4, userId: 'x', op: { type: 'setCondition', opId: 'lost', field: 'mach', value: 3.4 } }] });
     expect(engine.revision).toBe(4);
-    expect(engine.state!.document.condition.mach).toBe(3.4);
+    expect(selectedPoint(engine.state!.document).condition.mach).toBe(3.4);
     t = 9000;
     engine.tick();
     expect(sent.filter((m) => m.type === 'resync')).toHaveLength(1);
@@ -233,5 +233,144 @@ describe('createSyncEngine [R6]', () => {
     engine.receive({ type: 'edit', sketchId: id, revision: 1, userId: 'user_tomasz', op: remote });
     expect(seen).toEqual([{ op: remote, userId: 'user_tomasz', local: { ...remote, index: 6 } }]);
     expect(engine.state!.document.section.points[6][1]).toBe(-0.15);
+  });
+});
+
+describe('design point edits [R8]', () => {
+  const pt = (id: string, name: string) => ({ id, name, condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: null }, flapDeflectionDeg: 0 });
+  function threePoints(): SketchState {
+    const s = octagon();
+    return { ...s, document: { ...s.document, designPoints: [pt('point_cruise', 'Cruise'), pt('point_pullup', 'Pull-up'), pt('point_maxq', 'Max q')], selectedPointId: 'point_cruise' } };
+  }
+  const removeMaxq: EditOp = { type: 'removeDesignPoint', opId: 'r', pointId: 'point_maxq' };
+
+  it('refuses an edit of a point someone removed meanwhile, with that reason', () => {
+    const edits: EditOp[] = [
+      { type: 'setCondition', opId: 'a', pointId: 'point_maxq', field: 'mach', value: 3 },
+      { type: 'renameDesignPoint', opId: 'b', pointId: 'point_maxq', name: 'Max dynamic pressure' },
+      { type: 'moveDesignPoint', opId: 'c', pointId: 'point_maxq', index: 0 },
+      { type: 'selectDesignPoint', opId: 'd', pointId: 'point_maxq' },
+      { type: 'setFlap', opId: 'e', pointId: 'point_maxq', flap: { hingeXOverC: 0.7, deflectionDeg: 2 } },
+    ];
+    for (const op of edits) expect(transformOp(op, removeMaxq)).toEqual({ ok: false, reason: 'Someone removed that design point meanwhile; your change to it no longer applies.' });
+    expect(transformOp({ ...removeMaxq, opId: 'again' }, removeMaxq)).toEqual({ ok: false, reason: 'Someone already removed that design point.' });
+    // Edits of other points, and a hinge move (no point), pass unchanged.
+    const other: EditOp = { type: 'setCondition', opId: 'f', pointId: 'point_pullup', field: 'mach', value: 3 };
+    expect(transformOp(other, removeMaxq)).toEqual({ ok: true, op: other });
+    const hinge: EditOp = { type: 'setFlap', opId: 'g', flap: { hingeXOverC: 0.7 } };
+    expect(transformOp(hinge, removeMaxq)).toEqual({ ok: true, op: hinge });
+  });
+
+  it('a removal that would select a point removed meanwhile forgets that choice', () => {
+    const op: EditOp = { type: 'removeDesignPoint', opId: 'x', pointId: 'point_cruise', select: 'point_maxq' };
+    expect(transformOp(op, removeMaxq)).toEqual({ ok: true, op: { type: 'removeDesignPoint', opId: 'x', pointId: 'point_cruise' } });
+  });
+
+  it('two points added at once under one name are kept apart: the one ordered second is renamed, on the server and in its author’s view', () => {
+    const s0 = threePoints();
+    const a: EditOp = { type: 'addDesignPoint', opId: 'a', point: pt('point_aaaa', 'Design point 4'), index: 3 };
+    const b: EditOp = { type: 'addDesignPoint', opId: 'b', point: pt('point_bbbb', 'design point 4'), index: 3 };
+    const apply = (s: SketchState, op: EditOp) => {
+      const r = applyEdit(s, op);
+      if (!r.ok) throw new Error(r.reason);
+      return r.state;
+    };
+    // The server ordered a first and rebases b past it; b's author, holding b pending, rebases it
+    // past a the same way (a client's view is always the server's state plus its pending edits).
+    const bPastA = transformOp(b, a);
+    const aPastB = transformOp(a, b, true);
+    if (!bPastA.ok || !aPastB.ok) throw new Error('transform refused');
+    const serverOrder = apply(apply(s0, a), bPastA.op);
+    expect(serverOrder.document.designPoints.map((p) => p.name)).toEqual(['Cruise', 'Pull-up', 'Max q', 'Design point 4', 'design point 4 (2)']);
+    expect(aPastB.op).toEqual(a); // ordered first: unchanged
+    // A point added under a name someone just gave another point is kept apart too.
+    const rename: EditOp = { type: 'renameDesignPoint', opId: 'n', pointId: 'point_pullup', name: 'Dash' };
+    const add: EditOp = { type: 'addDesignPoint', opId: 'd', point: pt('point_dddd', 'Dash'), index: 0 };
+    const moved = transformOp(add, rename);
+    expect(moved.ok && moved.op.type === 'addDesignPoint' && moved.op.point.name).toBe('Dash (2)');
+  });
+
+  /**
+   * An in-memory server with the real server's ordering rule: an edit made on an older revision
+   * is transformed past the log since, then applied or refused. Clients are the real sync engine.
+   */
+  function miniServer(initial: SketchState) {
+    let state = initial;
+    const log: EditOp[] = [];
+    const clients: ReturnType<typeof createSyncEngine>[] = [];
+    const outbox: { to: number; msg: ServerMessage }[] = [];
+    const id = 'sketch_aaaaaaaaaaaaaaaaaaaa';
+    function receive(from: number, msg: ClientMessage) {
+      if (msg.type === 'join') {
+        outbox.push({ to: from, msg: { type: 'joined', sketchId: id, title: state.title, document: state.document, revision: log.length, people: [], walkthrough: null, you: { connectionId: `c${from}`, userId: `u${from}`, name: 'N', role: 'editor', colour: '#fff' } } });
+        return;
+      }
+      if (msg.type !== 'edit') return;
+      const moved = transformPast(msg.op, log.slice(msg.baseRevision));
+      const r = moved.ok ? applyEdit(state, moved.op) : moved;
+      if (!moved.ok || !r.ok) {
+        outbox.push({ to: from, msg: { type: 'ack', sketchId: id, opId: msg.op.opId, status: 'rejected', reason: r.ok ? '' : r.reason } });
+        return;
+      }
+      state = r.state;
+      log.push(moved.op);
+      const revision = log.length;
+      outbox.push({ to: from, msg: { type: 'ack', sketchId: id, opId: msg.op.opId, status: msg.baseRevision === revision - 1 ? 'applied' : 'rebased', revision, op: moved.op } });
+      clients.forEach((_, i) => i !== from && outbox.push({ to: i, msg: { type: 'edit', sketchId: id, revision, op: moved.op, userId: `u${from}` } }));
+    }
+    return {
+      get state() {
+        return state;
+      },
+      connect(): number {
+        const i = clients.length;
+        const engine = createSyncEngine({ send: (m) => receive(i, m) });
+        clients.push(engine);
+        engine.connectionOpened();
+        engine.join(id);
+        return i;
+      },
+      clients,
+      /** Delivers the queued server messages, one client's oldest first (network order per client). */
+      deliver(pick: (n: number) => number): boolean {
+        if (outbox.length === 0) return false;
+        const to = outbox[pick(outbox.length)].to;
+        const k = outbox.findIndex((m) => m.to === to);
+        const [{ msg }] = outbox.splice(k, 1);
+        clients[to].receive(msg);
+        return true;
+      },
+    };
+  }
+
+  it('property: three people adding, removing, renaming, reordering, selecting and editing points at once converge on the server’s document', async () => {
+    const { randomPointEdit, prng } = await import('../../helpers/simClient.ts');
+    const { reached } = await import('../../helpers/reached.ts');
+    const hits = reached('design point convergence');
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 2 ** 30 }), fc.integer({ min: 5, max: 40 }), (seed, steps) => {
+        const rand = prng(seed);
+        const server = miniServer(threePoints());
+        const ids = [server.connect(), server.connect(), server.connect()];
+        while (server.deliver(() => 0));
+        let submitted = 0;
+        for (let s = 0; s < steps; s++) {
+          if (rand() < 0.55) {
+            const c = server.clients[ids[Math.floor(rand() * ids.length)]];
+            if (c.state && c.submit(randomPointEdit(c.state.document, rand, `op${s}`)).ok) submitted++;
+          } else server.deliver((n) => Math.floor(rand() * n));
+        }
+        while (server.deliver((n) => Math.floor(rand() * n)));
+        if (submitted === 0) return;
+        hits.hit();
+        for (const c of server.clients) {
+          expect(c.pendingCount).toBe(0);
+          expect(c.state).toEqual(server.state);
+        }
+        expect(sketchDocumentSchema.safeParse(server.state.document).success).toBe(true);
+      }),
+      { numRuns: 300 },
+    );
+    hits.expectAtLeast(250);
   });
 });

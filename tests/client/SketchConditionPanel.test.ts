@@ -109,3 +109,74 @@ describe('SketchConditionPanel: fields are edit sessions', () => {
     w.unmount();
   });
 });
+
+describe('SketchConditionPanel: design points', () => {
+  const CRUISE = { id: 'point_cruise', name: 'Cruise', condition: { mach: 2, alphaDeg: 1, gamma: 1.4, altitudeM: null }, flapDeflectionDeg: 0 };
+  const PULLUP = { id: 'point_pullup', name: 'Pull-up', condition: { mach: 1.8, alphaDeg: 8, gamma: 1.4, altitudeM: 6000 }, flapDeflectionDeg: 6 };
+  const TWO: SketchDocument = { ...DOC, flap: { hingeXOverC: 0.75 }, designPoints: [CRUISE, PULLUP], selectedPointId: 'point_cruise' };
+
+  function setup(doc: SketchDocument = TWO) {
+    setActivePinia(createPinia());
+    const listeners = new Set<(e: FieldChangeEvent) => void>();
+    const feed: FieldChangeFeed = (l) => {
+      listeners.add(l);
+      return () => listeners.delete(l);
+    };
+    const apply = vi.fn((_op: SketchOpDraft) => ({ ok: true as const, doc }));
+    const w = mount(SketchConditionPanel, { props: { document: doc, readOnly: false, apply }, attachTo: document.body, global: { provide: { [FIELD_CHANGES as symbol]: feed } } });
+    return { w, apply, announce: (e: FieldChangeEvent) => listeners.forEach((l) => l(e)) };
+  }
+  const valueOf = (w: VueWrapper, key: string) => (w.get(`input#condition-${key}`).element as HTMLInputElement).value;
+
+  it('shows the selected point and its own flap deflection; an edit names that point', async () => {
+    const { w, apply } = setup({ ...TWO, selectedPointId: 'point_pullup' });
+    expect(w.get('[data-testid="condition-point"]').text()).toBe('Pull-up');
+    expect(valueOf(w, 'mach')).toBe('1.8');
+    expect(valueOf(w, 'flapDeflectionDeg')).toBe('6');
+    const deflection = w.get('input#condition-flapDeflectionDeg');
+    await deflection.trigger('focus');
+    await deflection.setValue('-4');
+    await deflection.trigger('blur');
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', pointId: 'point_pullup', field: 'flapDeflectionDeg', value: -4 });
+    w.unmount();
+  });
+
+  it('[F3] typing for one point while someone selects another: the panel stays on the typed-for point, says so, and sends there', async () => {
+    const { w, apply, announce } = setup();
+    const mach = w.get('input#condition-mach');
+    await mach.trigger('focus');
+    await mach.setValue('2.7');
+    announce({ op: { type: 'selectDesignPoint', opId: 's', pointId: 'point_pullup' }, by: 'Ines Marlow' });
+    await w.setProps({ document: { ...TWO, selectedPointId: 'point_pullup' } });
+    await flushPromises();
+    expect(w.get('[data-testid="condition-point"]').text()).toBe('Cruise');
+    expect(w.get('[data-testid="condition-held"]').text()).toContain('Still showing Cruise while you edit it');
+    expect(valueOf(w, 'mach')).toBe('2.7');
+    expect(Number(valueOf(w, 'alphaDeg'))).toBe(1);
+    await mach.trigger('blur');
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', pointId: 'point_cruise', field: 'mach', value: 2.7 });
+    await flushPromises();
+    // Decided: the panel follows the sketch's selection again.
+    expect(w.get('[data-testid="condition-point"]').text()).toBe('Pull-up');
+    expect(w.find('[data-testid="condition-held"]').exists()).toBe(false);
+    expect(valueOf(w, 'mach')).toBe('1.8');
+    w.unmount();
+  });
+
+  it('[F5] typing for a point someone removes is kept aside with their name until discarded; nothing is sent', async () => {
+    const { w, apply, announce } = setup();
+    const alpha = w.get('input#condition-alphaDeg');
+    await alpha.trigger('focus');
+    await alpha.setValue('3.5');
+    announce({ op: { type: 'removeDesignPoint', opId: 'r', pointId: 'point_cruise' }, by: 'Tomasz Reyes' });
+    await w.setProps({ document: { ...TWO, designPoints: [PULLUP], selectedPointId: 'point_pullup' } });
+    await flushPromises();
+    expect(w.get('[data-testid="condition-point"]').text()).toBe('Pull-up');
+    expect(w.get('[data-testid="condition-orphan"]').text()).toContain('Tomasz Reyes removed the design point you were typing Incidence α = 3.5 for.');
+    await alpha.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    await w.get('[data-testid="condition-orphan"] button').trigger('click');
+    expect(w.find('[data-testid="condition-orphan"]').exists()).toBe(false);
+    w.unmount();
+  });
+});

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { idSchema } from './ids.ts';
 
 /**
  * The sketch document: what one sketch stores and what collaborators edit. Declared once here
@@ -89,7 +90,8 @@ export const MAX_DESIGN_POINTS = 12;
 /** Longest design point name. */
 export const DESIGN_POINT_NAME_MAX = 60;
 
-export const designPointIdSchema = z.string().regex(/^point_[a-z0-9]{4,40}$/, 'must be a design point id');
+/** A design point's id [M1]: `point_` and 20 letters or digits (unique within its document [D1]). */
+export const designPointIdSchema = idSchema('point', 'design point');
 
 export const designPointNameSchema = z
   .string({ error: 'must be text' })

@@ -111,9 +111,9 @@ describe('SketchConditionPanel: fields are edit sessions', () => {
 });
 
 describe('SketchConditionPanel: design points', () => {
-  const CRUISE = { id: 'point_cruise', name: 'Cruise', condition: { mach: 2, alphaDeg: 1, gamma: 1.4, altitudeM: null }, flapDeflectionDeg: 0 };
-  const PULLUP = { id: 'point_pullup', name: 'Pull-up', condition: { mach: 1.8, alphaDeg: 8, gamma: 1.4, altitudeM: 6000 }, flapDeflectionDeg: 6 };
-  const TWO: SketchDocument = { ...DOC, flap: { hingeXOverC: 0.75 }, designPoints: [CRUISE, PULLUP], selectedPointId: 'point_cruise' };
+  const CRUISE = { id: 'point_cruise00000000000000', name: 'Cruise', condition: { mach: 2, alphaDeg: 1, gamma: 1.4, altitudeM: null }, flapDeflectionDeg: 0 };
+  const PULLUP = { id: 'point_pullup00000000000000', name: 'Pull-up', condition: { mach: 1.8, alphaDeg: 8, gamma: 1.4, altitudeM: 6000 }, flapDeflectionDeg: 6 };
+  const TWO: SketchDocument = { ...DOC, flap: { hingeXOverC: 0.75 }, designPoints: [CRUISE, PULLUP], selectedPointId: 'point_cruise00000000000000' };
 
   function setup(doc: SketchDocument = TWO) {
     setActivePinia(createPinia());
@@ -129,7 +129,7 @@ describe('SketchConditionPanel: design points', () => {
   const valueOf = (w: VueWrapper, key: string) => (w.get(`input#condition-${key}`).element as HTMLInputElement).value;
 
   it('shows the selected point and its own flap deflection; an edit names that point', async () => {
-    const { w, apply } = setup({ ...TWO, selectedPointId: 'point_pullup' });
+    const { w, apply } = setup({ ...TWO, selectedPointId: 'point_pullup00000000000000' });
     expect(w.get('[data-testid="condition-point"]').text()).toBe('Pull-up');
     expect(valueOf(w, 'mach')).toBe('1.8');
     expect(valueOf(w, 'flapDeflectionDeg')).toBe('6');
@@ -137,7 +137,7 @@ describe('SketchConditionPanel: design points', () => {
     await deflection.trigger('focus');
     await deflection.setValue('-4');
     await deflection.trigger('blur');
-    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', pointId: 'point_pullup', field: 'flapDeflectionDeg', value: -4 });
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', pointId: 'point_pullup00000000000000', field: 'flapDeflectionDeg', value: -4 });
     w.unmount();
   });
 
@@ -146,15 +146,15 @@ describe('SketchConditionPanel: design points', () => {
     const mach = w.get('input#condition-mach');
     await mach.trigger('focus');
     await mach.setValue('2.7');
-    announce({ op: { type: 'selectDesignPoint', opId: 's', pointId: 'point_pullup' }, by: 'Ines Marlow' });
-    await w.setProps({ document: { ...TWO, selectedPointId: 'point_pullup' } });
+    announce({ op: { type: 'selectDesignPoint', opId: 's', pointId: 'point_pullup00000000000000' }, by: 'Ines Marlow' });
+    await w.setProps({ document: { ...TWO, selectedPointId: 'point_pullup00000000000000' } });
     await flushPromises();
     expect(w.get('[data-testid="condition-point"]').text()).toBe('Cruise');
     expect(w.get('[data-testid="condition-held"]').text()).toContain('Still showing Cruise while you edit it');
     expect(valueOf(w, 'mach')).toBe('2.7');
     expect(Number(valueOf(w, 'alphaDeg'))).toBe(1);
     await mach.trigger('blur');
-    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', pointId: 'point_cruise', field: 'mach', value: 2.7 });
+    expect(apply).toHaveBeenCalledExactlyOnceWith({ type: 'setCondition', pointId: 'point_cruise00000000000000', field: 'mach', value: 2.7 });
     await flushPromises();
     // Decided: the panel follows the sketch's selection again.
     expect(w.get('[data-testid="condition-point"]').text()).toBe('Pull-up');
@@ -168,8 +168,8 @@ describe('SketchConditionPanel: design points', () => {
     const alpha = w.get('input#condition-alphaDeg');
     await alpha.trigger('focus');
     await alpha.setValue('3.5');
-    announce({ op: { type: 'removeDesignPoint', opId: 'r', pointId: 'point_cruise' }, by: 'Tomasz Reyes' });
-    await w.setProps({ document: { ...TWO, designPoints: [PULLUP], selectedPointId: 'point_pullup' } });
+    announce({ op: { type: 'removeDesignPoint', opId: 'r', pointId: 'point_cruise00000000000000' }, by: 'Tomasz Reyes' });
+    await w.setProps({ document: { ...TWO, designPoints: [PULLUP], selectedPointId: 'point_pullup00000000000000' } });
     await flushPromises();
     expect(w.get('[data-testid="condition-point"]').text()).toBe('Pull-up');
     expect(w.get('[data-testid="condition-orphan"]').text()).toContain('Tomasz Reyes removed the design point you were typing Incidence α = 3.5 for.');

@@ -35,8 +35,8 @@ function threePoints(): SketchDocument {
   return {
     ...defaultSketchDocument(),
     flap: { hingeXOverC: 0.75 },
-    designPoints: [point('point_cruise', 'Cruise', 2, 1), point('point_pullup', 'Pull-up', 1.8, 8), point('point_maxq', 'Max q', 3, 0)],
-    selectedPointId: 'point_cruise',
+    designPoints: [point('point_cruise00000000000000', 'Cruise', 2, 1), point('point_pullup00000000000000', 'Pull-up', 1.8, 8), point('point_maxq0000000000000000', 'Max q', 3, 0)],
+    selectedPointId: 'point_cruise00000000000000',
   };
 }
 
@@ -74,16 +74,16 @@ describe('document versions', () => {
     const doc = threePoints();
     const misspelt = sketchDocumentSchema.safeParse({ ...doc, designPoints: [{ ...doc.designPoints[0], gama: 1.3 }] });
     expect(misspelt.error!.issues[0]).toMatchObject({ code: 'unrecognized_keys', keys: ['gama'], path: ['designPoints', 0] });
-    const twiceId = sketchDocumentSchema.safeParse({ ...doc, designPoints: [doc.designPoints[0], { ...doc.designPoints[1], id: 'point_cruise' }] });
+    const twiceId = sketchDocumentSchema.safeParse({ ...doc, designPoints: [doc.designPoints[0], { ...doc.designPoints[1], id: 'point_cruise00000000000000' }] });
     expect(twiceId.error!.issues[0]).toMatchObject({ path: ['designPoints', 1, 'id'], message: 'repeats the id of design point 0' });
     const twiceName = sketchDocumentSchema.safeParse({ ...doc, designPoints: [doc.designPoints[0], { ...doc.designPoints[1], name: ' cruise ' }] });
     expect(twiceName.error!.issues[0]).toMatchObject({ path: ['designPoints', 1, 'name'], message: 'repeats the name “Cruise”' });
-    const lost = sketchDocumentSchema.safeParse({ ...doc, selectedPointId: 'point_elsewhere' });
+    const lost = sketchDocumentSchema.safeParse({ ...doc, selectedPointId: 'point_elsewhere00000000000' });
     expect(lost.error!.issues[0]).toMatchObject({ path: ['selectedPointId'], message: 'must name one of the design points' });
     const none = sketchDocumentSchema.safeParse({ ...doc, designPoints: [] });
     expect(none.error!.issues[0].message).toBe('a sketch needs at least one design point');
-    const many = Array.from({ length: MAX_DESIGN_POINTS + 1 }, (_, i) => point(`point_p${i}aaaa`, `P${i}`));
-    expect(sketchDocumentSchema.safeParse({ ...doc, designPoints: many, selectedPointId: 'point_p0aaaa' }).error!.issues[0].message).toBe(`at most ${MAX_DESIGN_POINTS} design points`);
+    const many = Array.from({ length: MAX_DESIGN_POINTS + 1 }, (_, i) => point(`point_p${String(i).padStart(19, '0')}`, `P${i}`));
+    expect(sketchDocumentSchema.safeParse({ ...doc, designPoints: many, selectedPointId: 'point_p0000000000000000000' }).error!.issues[0].message).toBe(`at most ${MAX_DESIGN_POINTS} design points`);
   });
 
   it('refuses design point names with control characters or unpaired surrogates, naming the field', () => {
@@ -98,61 +98,61 @@ describe('document versions', () => {
   });
 
   it('sketchCase gives a point its own condition and flap deflection; the hinge is the sketch’s', () => {
-    const doc = applied(threePoints(), { type: 'setCondition', pointId: 'point_pullup', field: 'flapDeflectionDeg', value: 8 });
-    expect(sketchCase(doc, 'point_pullup')).toMatchObject({ condition: { mach: 1.8, alphaDeg: 8 }, flap: { hingeXOverC: 0.75, deflectionDeg: 8 } });
+    const doc = applied(threePoints(), { type: 'setCondition', pointId: 'point_pullup00000000000000', field: 'flapDeflectionDeg', value: 8 });
+    expect(sketchCase(doc, 'point_pullup00000000000000')).toMatchObject({ condition: { mach: 1.8, alphaDeg: 8 }, flap: { hingeXOverC: 0.75, deflectionDeg: 8 } });
     expect(sketchCase(doc)).toMatchObject({ condition: { mach: 2, alphaDeg: 1 }, flap: { hingeXOverC: 0.75, deflectionDeg: 0 } });
-    expect(sketchCase({ ...doc, flap: null }, 'point_pullup').flap).toBeNull();
+    expect(sketchCase({ ...doc, flap: null }, 'point_pullup00000000000000').flap).toBeNull();
   });
 });
 
 describe('design point ops', () => {
   it('add appends or inserts, refuses a taken name (ignoring case), a repeated id and a thirteenth point', () => {
     const doc = threePoints();
-    const added = applied(doc, { type: 'addDesignPoint', point: point('point_dash', 'Dash', 4, 0), index: 1 });
+    const added = applied(doc, { type: 'addDesignPoint', point: point('point_dash0000000000000000', 'Dash', 4, 0), index: 1 });
     expect(added.designPoints.map((p) => p.name)).toEqual(['Cruise', 'Dash', 'Pull-up', 'Max q']);
-    expect(added.selectedPointId).toBe('point_cruise');
-    expect(applied(doc, { type: 'addDesignPoint', point: point('point_dash', 'Dash'), index: 99, select: true })).toMatchObject({ selectedPointId: 'point_dash' });
-    expect(applyOp(doc, withOpId({ type: 'addDesignPoint', point: point('point_dash', 'max Q'), index: 0 }))).toEqual({ ok: false, reason: 'There is already a design point named “Max q”.' });
-    expect(applyOp(doc, withOpId({ type: 'addDesignPoint', point: point('point_cruise', 'Other'), index: 0 }))).toEqual({ ok: false, reason: 'That design point is already in the sketch.' });
+    expect(added.selectedPointId).toBe('point_cruise00000000000000');
+    expect(applied(doc, { type: 'addDesignPoint', point: point('point_dash0000000000000000', 'Dash'), index: 99, select: true })).toMatchObject({ selectedPointId: 'point_dash0000000000000000' });
+    expect(applyOp(doc, withOpId({ type: 'addDesignPoint', point: point('point_dash0000000000000000', 'max Q'), index: 0 }))).toEqual({ ok: false, reason: 'There is already a design point named “Max q”.' });
+    expect(applyOp(doc, withOpId({ type: 'addDesignPoint', point: point('point_cruise00000000000000', 'Other'), index: 0 }))).toEqual({ ok: false, reason: 'That design point is already in the sketch.' });
     let full = doc;
-    for (let i = 3; i < MAX_DESIGN_POINTS; i++) full = applied(full, { type: 'addDesignPoint', point: point(`point_extra${i}`, `Extra ${i}`), index: i });
-    expect(applyOp(full, withOpId({ type: 'addDesignPoint', point: point('point_last', 'Last'), index: 0 }))).toEqual({ ok: false, reason: `A sketch holds at most ${MAX_DESIGN_POINTS} design points.` });
+    for (let i = 3; i < MAX_DESIGN_POINTS; i++) full = applied(full, { type: 'addDesignPoint', point: point(`point_extra${String(i).padStart(15, '0')}`, `Extra ${i}`), index: i });
+    expect(applyOp(full, withOpId({ type: 'addDesignPoint', point: point('point_last0000000000000000', 'Last'), index: 0 }))).toEqual({ ok: false, reason: `A sketch holds at most ${MAX_DESIGN_POINTS} design points.` });
   });
 
   it('remove keeps at least one point and moves the selection to the point taking its place', () => {
     const doc = threePoints();
-    const withoutCruise = applied(doc, { type: 'removeDesignPoint', pointId: 'point_cruise' });
-    expect(withoutCruise.designPoints.map((p) => p.id)).toEqual(['point_pullup', 'point_maxq']);
-    expect(withoutCruise.selectedPointId).toBe('point_pullup');
-    const lastSelected = applied(applied(doc, { type: 'selectDesignPoint', pointId: 'point_maxq' }), { type: 'removeDesignPoint', pointId: 'point_maxq' });
-    expect(lastSelected.selectedPointId).toBe('point_pullup');
-    const chosen = applied(doc, { type: 'removeDesignPoint', pointId: 'point_cruise', select: 'point_maxq' });
-    expect(chosen.selectedPointId).toBe('point_maxq');
-    const one = applied(applied(withoutCruise, { type: 'removeDesignPoint', pointId: 'point_pullup' }), { type: 'renameDesignPoint', pointId: 'point_maxq', name: 'Only' });
-    expect(applyOp(one, withOpId({ type: 'removeDesignPoint', pointId: 'point_maxq' }))).toEqual({ ok: false, reason: 'A sketch keeps at least one design point.' });
+    const withoutCruise = applied(doc, { type: 'removeDesignPoint', pointId: 'point_cruise00000000000000' });
+    expect(withoutCruise.designPoints.map((p) => p.id)).toEqual(['point_pullup00000000000000', 'point_maxq0000000000000000']);
+    expect(withoutCruise.selectedPointId).toBe('point_pullup00000000000000');
+    const lastSelected = applied(applied(doc, { type: 'selectDesignPoint', pointId: 'point_maxq0000000000000000' }), { type: 'removeDesignPoint', pointId: 'point_maxq0000000000000000' });
+    expect(lastSelected.selectedPointId).toBe('point_pullup00000000000000');
+    const chosen = applied(doc, { type: 'removeDesignPoint', pointId: 'point_cruise00000000000000', select: 'point_maxq0000000000000000' });
+    expect(chosen.selectedPointId).toBe('point_maxq0000000000000000');
+    const one = applied(applied(withoutCruise, { type: 'removeDesignPoint', pointId: 'point_pullup00000000000000' }), { type: 'renameDesignPoint', pointId: 'point_maxq0000000000000000', name: 'Only' });
+    expect(applyOp(one, withOpId({ type: 'removeDesignPoint', pointId: 'point_maxq0000000000000000' }))).toEqual({ ok: false, reason: 'A sketch keeps at least one design point.' });
   });
 
   it('rename trims, refuses a name another point has, and accepts a new case of its own name', () => {
     const doc = threePoints();
-    expect(applied(doc, { type: 'renameDesignPoint', pointId: 'point_cruise', name: '  Cruise 2  ' }).designPoints[0].name).toBe('Cruise 2');
-    expect(applied(doc, { type: 'renameDesignPoint', pointId: 'point_cruise', name: 'CRUISE' }).designPoints[0].name).toBe('CRUISE');
-    expect(applyOp(doc, withOpId({ type: 'renameDesignPoint', pointId: 'point_cruise', name: 'pull-up' }))).toEqual({ ok: false, reason: 'There is already a design point named “Pull-up”.' });
-    expect(applyOp(doc, withOpId({ type: 'renameDesignPoint', pointId: 'point_cruise', name: '' })).ok).toBe(false);
+    expect(applied(doc, { type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: '  Cruise 2  ' }).designPoints[0].name).toBe('Cruise 2');
+    expect(applied(doc, { type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: 'CRUISE' }).designPoints[0].name).toBe('CRUISE');
+    expect(applyOp(doc, withOpId({ type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: 'pull-up' }))).toEqual({ ok: false, reason: 'There is already a design point named “Pull-up”.' });
+    expect(applyOp(doc, withOpId({ type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: '' })).ok).toBe(false);
   });
 
   it('move puts a point at a position (past the end = last); select and edits name points by id', () => {
     const doc = threePoints();
-    expect(applied(doc, { type: 'moveDesignPoint', pointId: 'point_cruise', index: 2 }).designPoints.map((p) => p.name)).toEqual(['Pull-up', 'Max q', 'Cruise']);
-    expect(applied(doc, { type: 'moveDesignPoint', pointId: 'point_maxq', index: 0 }).designPoints.map((p) => p.name)).toEqual(['Max q', 'Cruise', 'Pull-up']);
-    expect(applied(doc, { type: 'moveDesignPoint', pointId: 'point_cruise', index: 40 }).designPoints.map((p) => p.name)).toEqual(['Pull-up', 'Max q', 'Cruise']);
-    const edited = applied(doc, { type: 'setCondition', pointId: 'point_maxq', field: 'mach', value: 3.4 });
+    expect(applied(doc, { type: 'moveDesignPoint', pointId: 'point_cruise00000000000000', index: 2 }).designPoints.map((p) => p.name)).toEqual(['Pull-up', 'Max q', 'Cruise']);
+    expect(applied(doc, { type: 'moveDesignPoint', pointId: 'point_maxq0000000000000000', index: 0 }).designPoints.map((p) => p.name)).toEqual(['Max q', 'Cruise', 'Pull-up']);
+    expect(applied(doc, { type: 'moveDesignPoint', pointId: 'point_cruise00000000000000', index: 40 }).designPoints.map((p) => p.name)).toEqual(['Pull-up', 'Max q', 'Cruise']);
+    const edited = applied(doc, { type: 'setCondition', pointId: 'point_maxq0000000000000000', field: 'mach', value: 3.4 });
     expect(edited.designPoints.map((p) => p.condition.mach)).toEqual([2, 1.8, 3.4]);
-    expect(applyOp(doc, withOpId({ type: 'setCondition', pointId: 'point_gone', field: 'mach', value: 3 }))).toEqual({
+    expect(applyOp(doc, withOpId({ type: 'setCondition', pointId: 'point_gone0000000000000000', field: 'mach', value: 3 }))).toEqual({
       ok: false,
       reason: 'That design point is not in the sketch (perhaps someone removed it meanwhile).',
     });
-    expect(applyOp(doc, withOpId({ type: 'setCondition', pointId: 'point_maxq', field: 'flapDeflectionDeg', value: 50 }))).toEqual({ ok: false, reason: 'Flap deflection must be at most 45°.' });
-    expect(applied(doc, { type: 'selectDesignPoint', pointId: 'point_maxq' }).selectedPointId).toBe('point_maxq');
+    expect(applyOp(doc, withOpId({ type: 'setCondition', pointId: 'point_maxq0000000000000000', field: 'flapDeflectionDeg', value: 50 }))).toEqual({ ok: false, reason: 'Flap deflection must be at most 45°.' });
+    expect(applied(doc, { type: 'selectDesignPoint', pointId: 'point_maxq0000000000000000' }).selectedPointId).toBe('point_maxq0000000000000000');
   });
 
   it('[O6] ops without a point id (old edit logs) mean the selected point; a version 1 log replays onto the upgraded document', () => {
@@ -173,7 +173,7 @@ describe('design point ops', () => {
     expect(trusted.ok && trusted.state.document.notes).toBe('saved');
     expect(sketchCase(state.document)).toMatchObject({ condition: { alphaDeg: 5 }, flap: { hingeXOverC: 0.65, deflectionDeg: -4 } });
     // With several points the id-less op goes to the selected one.
-    const doc = applied(threePoints(), { type: 'selectDesignPoint', pointId: 'point_pullup' });
+    const doc = applied(threePoints(), { type: 'selectDesignPoint', pointId: 'point_pullup00000000000000' });
     expect(applied(doc, { type: 'setCondition', field: 'mach', value: 2.9 }).designPoints.map((p) => p.condition.mach)).toEqual([2, 2.9, 3]);
   });
 });
@@ -181,19 +181,19 @@ describe('design point ops', () => {
 describe('invertOp on design points [O3]', () => {
   const base = threePoints();
   const cases: [string, SketchDocument, SketchOpDraft][] = [
-    ['add', base, { type: 'addDesignPoint', point: point('point_dash', 'Dash', 4, 0), index: 1 }],
-    ['add and select', base, { type: 'addDesignPoint', point: point('point_dash', 'Dash', 4, 0), index: 3, select: true }],
-    ['remove an unselected point', base, { type: 'removeDesignPoint', pointId: 'point_pullup' }],
-    ['remove the selected point', base, { type: 'removeDesignPoint', pointId: 'point_cruise' }],
-    ['rename', base, { type: 'renameDesignPoint', pointId: 'point_maxq', name: 'Max dynamic pressure' }],
-    ['move', base, { type: 'moveDesignPoint', pointId: 'point_cruise', index: 2 }],
-    ['select', base, { type: 'selectDesignPoint', pointId: 'point_maxq' }],
-    ['set a named point’s Mach', base, { type: 'setCondition', pointId: 'point_pullup', field: 'mach', value: 2.2 }],
-    ['set a named point’s deflection', base, { type: 'setCondition', pointId: 'point_pullup', field: 'flapDeflectionDeg', value: -7 }],
+    ['add', base, { type: 'addDesignPoint', point: point('point_dash0000000000000000', 'Dash', 4, 0), index: 1 }],
+    ['add and select', base, { type: 'addDesignPoint', point: point('point_dash0000000000000000', 'Dash', 4, 0), index: 3, select: true }],
+    ['remove an unselected point', base, { type: 'removeDesignPoint', pointId: 'point_pullup00000000000000' }],
+    ['remove the selected point', base, { type: 'removeDesignPoint', pointId: 'point_cruise00000000000000' }],
+    ['rename', base, { type: 'renameDesignPoint', pointId: 'point_maxq0000000000000000', name: 'Max dynamic pressure' }],
+    ['move', base, { type: 'moveDesignPoint', pointId: 'point_cruise00000000000000', index: 2 }],
+    ['select', base, { type: 'selectDesignPoint', pointId: 'point_maxq0000000000000000' }],
+    ['set a named point’s Mach', base, { type: 'setCondition', pointId: 'point_pullup00000000000000', field: 'mach', value: 2.2 }],
+    ['set a named point’s deflection', base, { type: 'setCondition', pointId: 'point_pullup00000000000000', field: 'flapDeflectionDeg', value: -7 }],
     ['set the selected point’s altitude (no id)', base, { type: 'setCondition', field: 'altitudeM', value: 12_000 }],
     ['switch the flap off', base, { type: 'setFlap', flap: null }],
     ['move the hinge', base, { type: 'setFlap', flap: { hingeXOverC: 0.6 } }],
-    ['flap with a deflection (old logs)', base, { type: 'setFlap', pointId: 'point_maxq', flap: { hingeXOverC: 0.6, deflectionDeg: 3 } }],
+    ['flap with a deflection (old logs)', base, { type: 'setFlap', pointId: 'point_maxq0000000000000000', flap: { hingeXOverC: 0.6, deflectionDeg: 3 } }],
     ['flap switched on with a deflection', { ...base, flap: null }, { type: 'setFlap', flap: { hingeXOverC: 0.6, deflectionDeg: 3 } }],
   ];
   it.each(cases)('%s followed by its inverse gives the document back', (_name, before, draft) => {
@@ -221,7 +221,7 @@ describe('invertOp on design points [O3]', () => {
           const pts = doc.designPoints;
           const p = pts[s.a % pts.length];
           const draft: SketchOpDraft = [
-            { type: 'addDesignPoint', point: point(`point_new${fresh++}aaaa`, `${s.name} ${s.b}`), index: s.b % (pts.length + 2), select: s.b % 2 === 0 },
+            { type: 'addDesignPoint', point: point(`point_new${String(fresh++).padStart(17, '0')}`, `${s.name} ${s.b}`), index: s.b % (pts.length + 2), select: s.b % 2 === 0 },
             { type: 'removeDesignPoint', pointId: p.id },
             { type: 'renameDesignPoint', pointId: p.id, name: s.name },
             { type: 'moveDesignPoint', pointId: p.id, index: s.b % (pts.length + 1) },

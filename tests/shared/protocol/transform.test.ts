@@ -240,36 +240,36 @@ describe('design point edits [R8]', () => {
   const pt = (id: string, name: string) => ({ id, name, condition: { mach: 2, alphaDeg: 2, gamma: 1.4, altitudeM: null }, flapDeflectionDeg: 0 });
   function threePoints(): SketchState {
     const s = octagon();
-    return { ...s, document: { ...s.document, designPoints: [pt('point_cruise', 'Cruise'), pt('point_pullup', 'Pull-up'), pt('point_maxq', 'Max q')], selectedPointId: 'point_cruise' } };
+    return { ...s, document: { ...s.document, designPoints: [pt('point_cruise00000000000000', 'Cruise'), pt('point_pullup00000000000000', 'Pull-up'), pt('point_maxq0000000000000000', 'Max q')], selectedPointId: 'point_cruise00000000000000' } };
   }
-  const removeMaxq: EditOp = { type: 'removeDesignPoint', opId: 'r', pointId: 'point_maxq' };
+  const removeMaxq: EditOp = { type: 'removeDesignPoint', opId: 'r', pointId: 'point_maxq0000000000000000' };
 
   it('refuses an edit of a point someone removed meanwhile, with that reason', () => {
     const edits: EditOp[] = [
-      { type: 'setCondition', opId: 'a', pointId: 'point_maxq', field: 'mach', value: 3 },
-      { type: 'renameDesignPoint', opId: 'b', pointId: 'point_maxq', name: 'Max dynamic pressure' },
-      { type: 'moveDesignPoint', opId: 'c', pointId: 'point_maxq', index: 0 },
-      { type: 'selectDesignPoint', opId: 'd', pointId: 'point_maxq' },
-      { type: 'setFlap', opId: 'e', pointId: 'point_maxq', flap: { hingeXOverC: 0.7, deflectionDeg: 2 } },
+      { type: 'setCondition', opId: 'a', pointId: 'point_maxq0000000000000000', field: 'mach', value: 3 },
+      { type: 'renameDesignPoint', opId: 'b', pointId: 'point_maxq0000000000000000', name: 'Max dynamic pressure' },
+      { type: 'moveDesignPoint', opId: 'c', pointId: 'point_maxq0000000000000000', index: 0 },
+      { type: 'selectDesignPoint', opId: 'd', pointId: 'point_maxq0000000000000000' },
+      { type: 'setFlap', opId: 'e', pointId: 'point_maxq0000000000000000', flap: { hingeXOverC: 0.7, deflectionDeg: 2 } },
     ];
     for (const op of edits) expect(transformOp(op, removeMaxq)).toEqual({ ok: false, reason: 'Someone removed that design point meanwhile; your change to it no longer applies.' });
     expect(transformOp({ ...removeMaxq, opId: 'again' }, removeMaxq)).toEqual({ ok: false, reason: 'Someone already removed that design point.' });
     // Edits of other points, and a hinge move (no point), pass unchanged.
-    const other: EditOp = { type: 'setCondition', opId: 'f', pointId: 'point_pullup', field: 'mach', value: 3 };
+    const other: EditOp = { type: 'setCondition', opId: 'f', pointId: 'point_pullup00000000000000', field: 'mach', value: 3 };
     expect(transformOp(other, removeMaxq)).toEqual({ ok: true, op: other });
     const hinge: EditOp = { type: 'setFlap', opId: 'g', flap: { hingeXOverC: 0.7 } };
     expect(transformOp(hinge, removeMaxq)).toEqual({ ok: true, op: hinge });
   });
 
   it('a removal that would select a point removed meanwhile forgets that choice', () => {
-    const op: EditOp = { type: 'removeDesignPoint', opId: 'x', pointId: 'point_cruise', select: 'point_maxq' };
-    expect(transformOp(op, removeMaxq)).toEqual({ ok: true, op: { type: 'removeDesignPoint', opId: 'x', pointId: 'point_cruise' } });
+    const op: EditOp = { type: 'removeDesignPoint', opId: 'x', pointId: 'point_cruise00000000000000', select: 'point_maxq0000000000000000' };
+    expect(transformOp(op, removeMaxq)).toEqual({ ok: true, op: { type: 'removeDesignPoint', opId: 'x', pointId: 'point_cruise00000000000000' } });
   });
 
   it('two points added at once under one name are kept apart: the one ordered second is renamed, on the server and in its author’s view', () => {
     const s0 = threePoints();
-    const a: EditOp = { type: 'addDesignPoint', opId: 'a', point: pt('point_aaaa', 'Design point 4'), index: 3 };
-    const b: EditOp = { type: 'addDesignPoint', opId: 'b', point: pt('point_bbbb', 'design point 4'), index: 3 };
+    const a: EditOp = { type: 'addDesignPoint', opId: 'a', point: pt('point_aaaa0000000000000000', 'Design point 4'), index: 3 };
+    const b: EditOp = { type: 'addDesignPoint', opId: 'b', point: pt('point_bbbb0000000000000000', 'design point 4'), index: 3 };
     const apply = (s: SketchState, op: EditOp) => {
       const r = applyEdit(s, op);
       if (!r.ok) throw new Error(r.reason);
@@ -284,8 +284,8 @@ describe('design point edits [R8]', () => {
     expect(serverOrder.document.designPoints.map((p) => p.name)).toEqual(['Cruise', 'Pull-up', 'Max q', 'Design point 4', 'design point 4 (2)']);
     expect(aPastB.op).toEqual(a); // ordered first: unchanged
     // A point added under a name someone just gave another point is kept apart too.
-    const rename: EditOp = { type: 'renameDesignPoint', opId: 'n', pointId: 'point_pullup', name: 'Dash' };
-    const add: EditOp = { type: 'addDesignPoint', opId: 'd', point: pt('point_dddd', 'Dash'), index: 0 };
+    const rename: EditOp = { type: 'renameDesignPoint', opId: 'n', pointId: 'point_pullup00000000000000', name: 'Dash' };
+    const add: EditOp = { type: 'addDesignPoint', opId: 'd', point: pt('point_dddd0000000000000000', 'Dash'), index: 0 };
     const moved = transformOp(add, rename);
     expect(moved.ok && moved.op.type === 'addDesignPoint' && moved.op.point.name).toBe('Dash (2)');
   });

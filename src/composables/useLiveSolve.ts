@@ -1,5 +1,6 @@
 import { onBeforeUnmount, ref, shallowRef, toRaw, watch, type Ref } from 'vue';
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
+import type { DesignPointsAnalysis } from '@shared/flight/designPoints';
 import type { SketchDocument } from '@shared/model/sketch';
 import type { SolveResult } from '@shared/solver/types';
 import type { SceneState } from '@/canvas/scenePainter';
@@ -23,11 +24,15 @@ export interface ScenePort {
  * Every change is posted at once and the worker solves only the newest it has, so a fast drag
  * never builds a queue and never waits for this thread — older positions are simply skipped.
  *
- * `data` (the solver result) and `analysis` keep the last solvable answer when the shown
- * sketch cannot be solved (mid-drag through a crossing, say); `issues` then says why.
+ * `data` (the solver result) and `analysis` are the selected design point's — the one drawn —
+ * and keep the last solvable answer when the shown sketch cannot be solved (mid-drag through a
+ * crossing, say); `issues` then says why. `points` holds every design point's analysis. While
+ * `selectedOnly` is true (a drag) only the selected point is solved and the others keep their
+ * last answer until the release solves them all again.
  */
-export function useLiveSolve(document: Ref<SketchDocument | null>) {
+export function useLiveSolve(document: Ref<SketchDocument | null>, options: { selectedOnly?: Ref<boolean> } = {}) {
   const analysis = shallowRef<SketchAnalysis | null>(null);
+  const points = shallowRef<DesignPointsAnalysis | null>(null);
   const data = shallowRef<SolveResult | null>(null);
   /** Sequence number of the request the latest answer belongs to. */
   const dataSeq = ref(0);
@@ -42,7 +47,7 @@ export function useLiveSolve(document: Ref<SketchDocument | null>) {
   let seq = 0;
   // What goes to the worker is sent once this task's work is done, the scene with the document,
   // so the worker paints each solve with the marks of the same moment.
-  let pendingSolve: { seq: number; document: SketchDocument } | null = null;
+  let pendingSolve: { seq: number; document: SketchDocument; selectedOnly: boolean } | null = null;
   let pendingScene: SceneState | null = null;
   let flushQueued = false;
   let pictureId = 0;
@@ -67,6 +72,7 @@ export function useLiveSolve(document: Ref<SketchDocument | null>) {
       if (msg.ok && msg.analysis.result) {
         analysis.value = msg.analysis;
         data.value = msg.analysis.result;
+        points.value = mergePoints(points.value, msg.points);
         issues.value = [];
         solveMs.value = msg.solveMs;
         error.value = null;
@@ -83,6 +89,16 @@ export function useLiveSolve(document: Ref<SketchDocument | null>) {
       error.value = `The live solver stopped: ${event.message || 'unknown error'}. Reload the page to restart it.`;
     };
     return worker;
+  }
+
+  /** A selected-only answer replaces that point's entry and keeps the others' last answers. */
+  function mergePoints(before: DesignPointsAnalysis | null, next: DesignPointsAnalysis): DesignPointsAnalysis {
+    const doc = document.value;
+    if (!doc || !before || next.points.length === doc.designPoints.length) return next;
+    const fresh = new Map(next.points.map((p) => [p.id, p]));
+    const held = new Map(before.points.map((p) => [p.id, p]));
+    const merged = doc.designPoints.map((p) => fresh.get(p.id) ?? held.get(p.id)).filter((p): p is NonNullable<typeof p> => !!p);
+    return { ...next, points: merged };
   }
 
   function post(msg: WorkerRequest, transfer: Transferable[] = []) {
@@ -115,7 +131,7 @@ export function useLiveSolve(document: Ref<SketchDocument | null>) {
     requestSeq.value = seq;
     isLoading.value = true;
     // Plain arrays and numbers: cheap to structure-clone (toRaw in case a caller passes a proxy).
-    pendingSolve = { seq, document: toRaw(doc) };
+    pendingSolve = { seq, document: toRaw(doc), selectedOnly: options.selectedOnly?.value ?? false };
     queueFlush();
     return seq;
   }
@@ -151,5 +167,5 @@ export function useLiveSolve(document: Ref<SketchDocument | null>) {
     pictures.clear();
   });
 
-  return { data, analysis, dataSeq, requestSeq, issues, isLoading, error, solveMs, refresh, scene, lastRequestSeq: () => seq };
+  return { data, analysis, points, dataSeq, requestSeq, issues, isLoading, error, solveMs, refresh, scene, lastRequestSeq: () => seq };
 }

@@ -23,6 +23,31 @@ export interface CompareOutlines {
   labelB: string;
 }
 
+/** Nose (min x) and chord (max x − min x) of an outline. */
+function noseAndChord(points: readonly Point[]): { nose: Point; chord: number } {
+  let nose = points[0];
+  let maxX = -Infinity;
+  for (const p of points) {
+    if (p[0] < nose[0]) nose = p;
+    maxX = Math.max(maxX, p[0]);
+  }
+  return { nose, chord: maxX - nose[0] };
+}
+
+/**
+ * B's outline to overlay on A's: as drawn when both share a nose and a chord (two snapshots of
+ * one sketch), else moved and scaled uniformly so that its nose and chord are A's — another
+ * sketch may be drawn at another size or place, and what is compared is the shape.
+ */
+export function outlineOnto(a: readonly Point[], b: readonly Point[]): { points: Point[]; fitted: boolean } {
+  const ra = noseAndChord(a);
+  const rb = noseAndChord(b);
+  const same = Math.abs(ra.chord - rb.chord) <= 1e-12 * Math.max(1, ra.chord) && ra.nose[0] === rb.nose[0] && ra.nose[1] === rb.nose[1];
+  if (same || !(rb.chord > 0) || !(ra.chord > 0)) return { points: b.map((p) => [p[0], p[1]] as Point), fitted: false };
+  const k = ra.chord / rb.chord;
+  return { points: b.map(([x, y]) => [ra.nose[0] + (x - rb.nose[0]) * k, ra.nose[1] + (y - rb.nose[1]) * k] as Point), fitted: true };
+}
+
 function outline(points: readonly Point[], view: View, colour: string, dash?: number[]): StrokePath {
   return { points: points.flatMap((p) => toScreen(view, p)), colour, width: 2, dash, closed: true };
 }

@@ -1,7 +1,37 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
 import { readSelectedAnalysis } from '@shared/flight/designPoints';
+import { formatNumber, formatSigned } from '@shared/format/number';
+import type { SnapshotDetail } from '@shared/model/review';
+import type { SketchDocument } from '@shared/model/sketch';
+import type { Sketch } from '@shared/model/sketchApi';
 import type { Coefficients } from '@shared/solver/types';
-import { formatNumber } from '@/canvas/legend';
+
+/**
+ * One side of a compare: a snapshot of this sketch, or a sketch of the team as stored now
+ * (its selected design point). Both carry the document and the result the server stored, so
+ * the outlines, Cp distributions and coefficients of any two can be put side by side.
+ */
+export interface CompareSide {
+  kind: 'snapshot' | 'sketch';
+  /** The snapshot's name, or the sketch's title. */
+  name: string;
+  revision: number;
+  /** Who saved the snapshot, or last edited the sketch. */
+  by: string | null;
+  /** When (ISO). */
+  at: string;
+  document: SketchDocument;
+  /** The stored result, in any shape readStoredAnalysis reads. */
+  result: unknown;
+}
+
+export function sideOfSnapshot(s: SnapshotDetail): CompareSide {
+  return { kind: 'snapshot', name: s.name, revision: s.revision, by: s.createdByName, at: s.createdAt, document: s.document, result: s.result };
+}
+
+export function sideOfSketch(s: Sketch): CompareSide {
+  return { kind: 'sketch', name: s.title, revision: s.revision, by: s.updatedByName, at: s.updatedAt, document: s.document, result: s.lastResult };
+}
 
 /** What the compare table lists, per theory. */
 export const COMPARE_THEORIES = [
@@ -65,13 +95,10 @@ export function compareCoefficients(a: SketchAnalysis | null, b: SketchAnalysis 
 }
 
 export function formatValue(v: number | null): string {
-  return v === null ? '—' : formatNumber(v, 4);
+  return formatNumber(v, 4);
 }
 
-/** A difference with its sign ("+0.0021", "−0.013", "0"). */
+/** A difference with its sign ("+0.0021", "−0.013", "0"); never in e-notation. */
 export function formatDifference(v: number | null): string {
-  if (v === null) return '—';
-  if (v === 0) return '0';
-  const s = formatNumber(Math.abs(v), 3);
-  return `${v > 0 ? '+' : '−'}${s}`;
+  return formatSigned(v, 3);
 }

@@ -19,7 +19,7 @@ import {
   type SnapshotDetail,
 } from '@shared/model/review';
 import type { PinMarker } from '@/canvas/pins';
-import type { CompareOutlines } from '@/canvas/renderReview';
+import { outlineOnto, type CompareOutlines } from '@/canvas/renderReview';
 
 export const REVIEW_TABS = ['pins', 'snapshots', 'activity'] as const;
 export type ReviewTab = (typeof REVIEW_TABS)[number];
@@ -159,8 +159,14 @@ export const useReviewStore = defineStore('review', () => {
     centrePending.value = false;
   }
 
-  function showCompare(a: SnapshotDetail, b: SnapshotDetail) {
-    compare.value = { a: a.document.section.points, b: b.document.section.points, labelA: 'A', labelB: 'B' };
+  /**
+   * Overlays two compared sides' outlines on the canvas (A dashed, B solid). Another sketch's
+   * outline is put on A's nose and chord; the answer says whether it was.
+   */
+  function showCompare(a: readonly Point[], b: readonly Point[]): { fitted: boolean } {
+    const onto = outlineOnto(a, b);
+    compare.value = { a, b: onto.points, labelA: 'A', labelB: 'B' };
+    return { fitted: onto.fitted };
   }
 
   // ---- server actions (each refreshes what it changed) ----

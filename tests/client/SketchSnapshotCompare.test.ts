@@ -6,8 +6,9 @@ import type { SnapshotDetail } from '@shared/model/review';
 import { sketchCase, type SketchDocument } from '@shared/model/sketch';
 import { oneCondition } from '../helpers/documents';
 import SketchSnapshotCompare from '@/components/SketchSnapshotCompare.vue';
-import { compareCoefficients, difference, formatDifference } from '@/components/snapshotCompare';
-import { formatNumber } from '@/canvas/legend';
+import { compareCoefficients, difference, formatDifference, sideOfSketch, sideOfSnapshot } from '@/components/snapshotCompare';
+import { outlineOnto } from '@/canvas/renderReview';
+import { formatNumber } from '@shared/format/number';
 import { expectClose } from '../helpers/expectClose';
 
 /** Our own 5 % double wedge, ridge at mid-chord. */
@@ -37,7 +38,7 @@ describe('SketchSnapshotCompare', () => {
   it('tabulates A, B and B − A of cl, cd, cm, x_cp/c and L/D for all three theories, with the caution', () => {
     const a = snapshot('snap_a', 'Cruise', 4, doc(2));
     const b = snapshot('snap_b', 'Pull-up', 9, doc(4));
-    const w = mount(SketchSnapshotCompare, { props: { a, b } });
+    const w = mount(SketchSnapshotCompare, { props: { a: sideOfSnapshot(a), b: sideOfSnapshot(b) } });
     const ra = analyseSketch(sketchCase(a.document)).result!;
     const rb = analyseSketch(sketchCase(b.document)).result!;
 
@@ -68,7 +69,7 @@ describe('SketchSnapshotCompare', () => {
     const a = snapshot('snap_a', 'Thin', 1, doc(5, 1.4, 0.01));
     const b = snapshot('snap_b', 'Thick', 2, doc(5, 1.4, 0.06));
     expect(analyseSketch(sketchCase(b.document)).status).toBe('detached');
-    const w = mount(SketchSnapshotCompare, { props: { a, b } });
+    const w = mount(SketchSnapshotCompare, { props: { a: sideOfSnapshot(a), b: sideOfSnapshot(b) } });
     expect(cell(w, 'compare-exact-cl-b')).toBe('—');
     expect(cell(w, 'compare-exact-cl-diff')).toBe('—');
     // The thin-section theories ignore the limit and still give numbers.
@@ -79,10 +80,48 @@ describe('SketchSnapshotCompare', () => {
   });
 
   it('a snapshot without a stored result shows — everywhere on its side', () => {
-    const w = mount(SketchSnapshotCompare, { props: { a: snapshot('snap_a', 'Old', 1, doc(2), false), b: snapshot('snap_b', 'New', 2, doc(3)) } });
+    const w = mount(SketchSnapshotCompare, { props: { a: sideOfSnapshot(snapshot('snap_a', 'Old', 1, doc(2), false)), b: sideOfSnapshot(snapshot('snap_b', 'New', 2, doc(3))) } });
     expect(cell(w, 'compare-linear-cm-a')).toBe('—');
     expect(w.get('[data-testid="compare-condition"]').text()).toContain('not stored');
     w.unmount();
+  });
+});
+
+describe('comparing with another sketch of the team', () => {
+  it('takes each sketch as stored (its selected design point) and says B’s outline is fitted onto A’s nose and chord', () => {
+    const mine = doc(2);
+    // Another sketch drawn at a 0.3 chord and moved aft: its shape, not its place, is compared.
+    const theirs = oneCondition({ section: { points: [[2, 1], [2.15, 1.0075], [2.3, 1], [2.15, 0.9925]] }, condition: { mach: 2, alphaDeg: 2 } });
+    const sketch = (id: string, title: string, document: SketchDocument) => ({
+      id,
+      teamId: 'team_aaaaaaaaaaaaaaaaaaaa',
+      title,
+      revision: 7,
+      document,
+      lastSolveStatus: 'ok',
+      lastResult: analyseSketch(sketchCase(document)),
+      createdAt: '2030-03-01T10:00:00.000Z',
+      updatedAt: '2030-03-04T09:15:00.000Z',
+      updatedByName: 'Tomasz Reyes',
+      reviewStatus: 'draft' as const,
+    });
+    const a = sideOfSketch(sketch('sketch_aaaaaaaaaaaaaaaaaaaa', 'Tern fin root', mine) as never);
+    const b = sideOfSketch(sketch('sketch_bbbbbbbbbbbbbbbbbbbb', 'Tern fin tip', theirs) as never);
+    const w = mount(SketchSnapshotCompare, { props: { a, b, fitted: true } });
+    expect(cell(w, 'compare-b')).toContain('Tern fin tip');
+    expect(cell(w, 'compare-b')).toContain('sketch as stored · revision 7');
+    expect(w.get('[data-testid="compare-fitted"]').text()).toContain('B’s outline is drawn on A’s nose and chord');
+    // The same 5 % double wedge, scaled: the coefficients are the same, B − A is 0.
+    expect(cell(w, 'compare-exact-cl-diff')).toBe('0');
+    w.unmount();
+    // The outline put on A's nose and chord: (2, 1)…(2.3, 1) → (0, 0)…(1, 0).
+    const onto = outlineOnto(mine.section.points, theirs.section.points);
+    expect(onto.fitted).toBe(true);
+    onto.points.forEach((p, i) => {
+      expect(p[0]).toBeCloseTo([0, 0.5, 1, 0.5][i], 12);
+      expect(p[1]).toBeCloseTo([0, 0.025, 0, -0.025][i], 12);
+    });
+    expect(outlineOnto(mine.section.points, mine.section.points).fitted).toBe(false);
   });
 });
 

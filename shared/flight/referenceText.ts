@@ -1,11 +1,12 @@
 import type { SketchAnalysis } from './analyseSketch.ts';
+import { formatNumber } from '../format/number.ts';
 
 /**
  * The sentences that say what an analysis' numbers are referred to and how they were made,
  * shared by the results panel, the loads panel and the PDF report so that all three say the same.
  */
 
-const n = (v: number, digits = 4) => String(Number(v.toPrecision(digits))).replace(/^-/, '−');
+const n = (v: number, digits = 4) => formatNumber(v, digits);
 
 /**
  * What every coefficient is over: the section as drawn (chord, leading edge, moment point) and,
@@ -42,7 +43,7 @@ export function frictionSentence(analysis: SketchAnalysis): string | null {
   if (f.regime === 'none') return 'No friction estimate (wave drag only).';
   const regime =
     f.regime === 'mixed'
-      ? `mixed laminar/turbulent flow with transition at Re ${f.transitionReynolds.toExponential(2).replace('e+', '×10^')} (Prandtl's transition formula)`
+      ? `mixed laminar/turbulent flow with transition at Re ${formatNumber(f.transitionReynolds, 3)} (Prandtl's transition formula)`
       : `${f.regime} flow over the whole length`;
   return `Friction: flat-plate estimate on each surface's wetted length, ${regime}, compressible by the reference-temperature method (Sommer & Short).`;
 }

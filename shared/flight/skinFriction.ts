@@ -1,4 +1,5 @@
 import { sutherlandViscosity } from './standardAtmosphere.ts';
+import { formatNumber } from '../format/number.ts';
 
 /**
  * Flat-plate skin friction with compressibility, by the reference-temperature method of Sommer &
@@ -97,7 +98,7 @@ export function incompressibleMixedCf(reynolds: number, transitionReynolds: numb
   return incompressibleCf(reynolds, 'turbulent') - a / reynolds;
 }
 
-const sci = (v: number) => v.toExponential(2).replace('e+', '×10^');
+const sci = (v: number) => formatNumber(v, 3);
 
 interface OneLaw {
   cf: number;

@@ -1,3 +1,4 @@
+import { formatNumber } from '../format/number.ts';
 /**
  * Display units. Everything is computed in SI; a person's choice of SI or US customary is
  * applied only when a value is shown or typed in. Conversion factors are exact by definition
@@ -42,5 +43,5 @@ export function unitLabel(quantity: Quantity, system: UnitSystem): string {
 /** "12.3 kN/m"-style text with the unit, to `digits` significant figures. */
 export function formatQuantity(valueSi: number, quantity: Quantity, system: UnitSystem, digits = 4): string {
   const v = toDisplay(valueSi, quantity, system);
-  return `${Number.isFinite(v) ? Number(v.toPrecision(digits)).toLocaleString('en-US', { maximumSignificantDigits: digits }) : '—'} ${unitLabel(quantity, system)}`;
+  return `${formatNumber(v, digits)} ${unitLabel(quantity, system)}`;
 }

@@ -7,7 +7,7 @@
  * - Ordinary magnitudes, 10⁻⁵ ≤ |v| < 10⁷, are written out ("0.00013", "−0.0421", "12,340"):
  *   no "e" notation for the coefficients, differences and loads people compare.
  * - Outside that range, powers of ten are typeset: "1.234 × 10⁷", "−3.1 × 10⁻⁸".
- * - `digits` significant figures, trailing zeros dropped; grouping with commas from 10 000.
+ * - `digits` significant figures, trailing zeros dropped; thousands grouped with commas (1,327).
  */
 export const MINUS = '\u2212';
 const SUPERSCRIPT: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
@@ -70,7 +70,7 @@ function trimZeros(s: string): string {
 
 function group(s: string): string {
   const [int, frac] = s.split('.');
-  if (int.length <= 4) return s;
+  if (int.length <= 3) return s;
   const grouped = int.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
   return frac === undefined ? grouped : `${grouped}.${frac}`;
 }

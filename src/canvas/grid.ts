@@ -1,4 +1,5 @@
 import { scaleY, toScreen, toWorld, type Size, type View } from './view';
+import { formatNumber } from '@shared/format/number';
 
 /**
  * The body-axis grid in chord units: a "nice" spacing (1, 2 or 5 × 10^k chords) chosen so that
@@ -95,6 +96,5 @@ export function scaleBar(view: View, targetPixels = 100): ScaleBar {
 }
 
 function formatLength(v: number): string {
-  if (v >= 1e-3 && v < 1e4) return String(Number(v.toPrecision(6)));
-  return v.toExponential(0);
+  return formatNumber(v, 6);
 }

@@ -1,19 +1,12 @@
 import { cpFromPressureRatio, pressureColourAt, type PressureDomain } from './colors';
 import type { LegendMode } from './layers';
+import { formatNumber } from '@shared/format/number';
 
 export interface LegendModel {
   title: string;
   /** Colour stops for a horizontal gradient, t ∈ [0, 1] left to right. */
   stops: [number, string][];
   ticks: { t: number; label: string }[];
-}
-
-/** Significant figures for legend and tooltip numbers. */
-export function formatNumber(v: number, digits = 3): string {
-  if (v === 0) return '0';
-  const abs = Math.abs(v);
-  if (abs >= 1e-3 && abs < 1e5) return String(Number(v.toPrecision(digits)));
-  return v.toExponential(digits - 1);
 }
 
 /**
@@ -29,7 +22,7 @@ export function legendModel(domain: PressureDomain, mode: LegendMode, mach: numb
   const ticks = [0, 0.25, 0.5, 0.75, 1].map((t) => {
     const p = Math.exp(lo + t * (hi - lo));
     const value = mode === 'cp' ? cpFromPressureRatio(p, mach, gamma) : p;
-    return { t, label: formatNumber(Math.abs(value) < 1e-12 ? 0 : value) };
+    return { t, label: formatNumber(Math.abs(value) < 1e-12 ? 0 : value, 3) };
   });
   return { title: mode === 'cp' ? 'Cp (line colour = pressure behind it)' : 'p/p∞ (line colour = pressure behind it)', stops, ticks };
 }

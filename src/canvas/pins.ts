@@ -4,6 +4,7 @@ import type { SolveResult, Wave } from '@shared/solver/types';
 import { distanceToSegment, hitFacet, hitWave, tidyPoint } from './geometry';
 import { waveTooltip } from './tooltips';
 import { toScreen, type View } from './view';
+import { formatNumber } from '@shared/format/number';
 
 /**
  * Pins on the canvas: what a click in pin mode points at, and where pin markers sit on screen.
@@ -85,5 +86,5 @@ export function pinTargetAt(
 export function describePinTarget(target: PinTarget): string {
   if (target.kind === 'facet') return `Facet ${target.facet}`;
   if (target.kind === 'wave') return target.label ?? `Wave ${target.waveId}`;
-  return `Point (${target.at[0].toPrecision(4)}, ${target.at[1].toPrecision(4)})`;
+  return `Point (${formatNumber(target.at[0], 4)}, ${formatNumber(target.at[1], 4)})`;
 }

@@ -3,6 +3,7 @@ import type { DrawList, StrokePath, TextItem } from './drawPaths';
 import { gridLines, scaleBar } from './grid';
 import type { LegendModel } from './legend';
 import type { Size, View } from './view';
+import { formatNumber } from '@shared/format/number';
 
 export const CANVAS_FONT = "11px 'Work Sans', system-ui, sans-serif";
 const LABEL_FONT = "500 11px 'Work Sans', system-ui, sans-serif";
@@ -33,7 +34,7 @@ export function renderGrid(view: View, size: Size, showGrid: boolean): DrawList 
 }
 
 function label(v: number): string {
-  return String(Number(v.toPrecision(6)));
+  return formatNumber(v, 6);
 }
 
 /**

@@ -2,6 +2,7 @@ import type { SolveLimit, SolveResult } from '@shared/solver/types';
 import { LIMIT_COLOUR } from './colors';
 import type { DrawList } from './drawPaths';
 import { toScreen, type Size, type View } from './view';
+import { formatFixed, formatNumber } from '@shared/format/number';
 
 /** Width of a limit label on the canvas, pixels. */
 export const LIMIT_LABEL_WIDTH_PX = 300;
@@ -27,17 +28,17 @@ const PLACE: Record<SolveLimit['surface'], string> = {
   leadingEdge: 'leading edge',
 };
 
-const deg = (v: number) => `${v.toFixed(1)}°`;
+const deg = (v: number) => `${formatFixed(v, 1)}°`;
 
 /** The figures that go with a limit, in the order an engineer checks them. */
 export function limitNumbers(limit: SolveLimit): string {
   const parts: string[] = [];
   if (limit.thetaDeg !== undefined) parts.push(`θ ${deg(limit.thetaDeg)}`);
   if (limit.thetaMaxDeg !== undefined) parts.push(`θmax ${deg(limit.thetaMaxDeg)}`);
-  if (limit.machBehind !== undefined) parts.push(`M behind ${limit.machBehind.toFixed(3)}`);
+  if (limit.machBehind !== undefined) parts.push(`M behind ${formatFixed(limit.machBehind, 3)}`);
   if (limit.nuDeg !== undefined) parts.push(`ν ${deg(limit.nuDeg)}`);
   if (limit.nuMaxDeg !== undefined) parts.push(`νmax ${deg(limit.nuMaxDeg)}`);
-  if (parts.length === 0) parts.push(`at (${limit.at[0].toPrecision(4)}, ${limit.at[1].toPrecision(4)})`);
+  if (parts.length === 0) parts.push(`at (${formatNumber(limit.at[0], 4)}, ${formatNumber(limit.at[1], 4)})`);
   return parts.join(', ');
 }
 

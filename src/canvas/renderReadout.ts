@@ -2,6 +2,7 @@ import type { Point } from '@shared/model/sketch';
 import { sectionShape } from '@shared/model/sectionShape';
 import type { DrawList } from './drawPaths';
 import { toScreen, type Size, type View } from './view';
+import { formatFixed } from '@shared/format/number';
 
 const FONT = "500 11px 'Work Sans', system-ui, sans-serif";
 /** Rough width of one character of FONT, pixels (the box only needs to hold the text). */
@@ -13,10 +14,10 @@ export function readoutLines(points: readonly Point[], at: Point): string[] {
   const lines: string[] = [];
   if (points.length >= 3) {
     const s = sectionShape(points);
-    const ridge = s.ridgeXOverC === null ? '' : `   ridge x/c ${s.ridgeXOverC.toFixed(3)}`;
-    lines.push(`t/c ${(s.thicknessRatio * 100).toFixed(2)} %${ridge}`);
+    const ridge = s.ridgeXOverC === null ? '' : `   ridge x/c ${formatFixed(s.ridgeXOverC, 3)}`;
+    lines.push(`t/c ${formatFixed(s.thicknessRatio * 100, 2)} %${ridge}`);
   }
-  lines.push(`x ${at[0].toFixed(4)}   y ${at[1].toFixed(4)}`);
+  lines.push(`x ${formatFixed(at[0], 4)}   y ${formatFixed(at[1], 4)}`);
   return lines;
 }
 

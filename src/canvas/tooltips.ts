@@ -1,7 +1,7 @@
 import type { Facet, SolveResult, Wave } from '@shared/solver/types';
 import { cpFromPressureRatio } from './colors';
 import type { LegendMode } from './layers';
-import { formatNumber } from './legend';
+import { formatNumber } from '@shared/format/number';
 
 export interface Tooltip {
   title: string;

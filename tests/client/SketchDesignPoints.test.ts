@@ -57,7 +57,7 @@ describe('SketchDesignPoints', () => {
   it('lists each point with its condition and its solver status; the shown one is marked', () => {
     const { w } = setup();
     expect(names(w)).toEqual(['Cruise', 'Pull-up', 'Max q']);
-    expect(w.get('[data-testid="design-point-1"]').text()).toContain('M 2.2 · α 9° · 9000 m · δ 6°');
+    expect(w.get('[data-testid="design-point-1"]').text()).toContain('M 2.2 · α 9° · 9,000 m · δ 6°');
     expect(w.get('[data-testid="design-point-status-0"]').text()).toBe('ok');
     expect(w.get('[data-testid="design-point-0"]').attributes('aria-selected')).toBe('true');
     w.unmount();

@@ -1,5 +1,6 @@
 import { interpolateViridis } from 'd3-scale-chromatic';
 import { line } from './pdfText.ts';
+import { formatFixed, formatNumber } from '../../../shared/format/number.ts';
 
 /**
  * Vector drawings for the PDF report: line charts (one line per Mach number) and the colour
@@ -36,7 +37,7 @@ export function niceTicks(min: number, max: number, count = 5): { lo: number; hi
 export function tickLabel(v: number, step: number): string {
   let decimals = 0;
   while (decimals < 6 && Math.abs(step * 10 ** decimals - Math.round(step * 10 ** decimals)) > 1e-9 * 10 ** decimals) decimals++;
-  return v.toFixed(decimals).replace('-', '−');
+  return formatFixed(v, decimals);
 }
 
 export interface ChartSeries {
@@ -152,4 +153,4 @@ export function drawMachKey(doc: PDFKit.PDFDocument, x: number, y: number, w: nu
   line(doc, '○ best L/D of each Mach line', bx + bw + 14, y + 10, { size: 7, color: INK_SOFT });
 }
 
-const fmt = (v: number) => String(Number(v.toPrecision(4)));
+const fmt = (v: number) => formatNumber(v, 4);

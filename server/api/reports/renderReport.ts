@@ -10,6 +10,7 @@ import type { Coefficients, Point, SolveResult, TheoryResult } from '../../../sh
 import { ACCENT, INK, INK_SOFT, RULE, drawLineChart, drawMachKey, machColour, type LineChart } from './pdfCharts.ts';
 import { line, paragraph, registerFonts, widthOf } from './pdfText.ts';
 import type { ReportData, ReportStudy } from './reportData.ts';
+import { formatNumber } from '../../../shared/format/number.ts';
 
 /**
  * The PDF report of a sketch, drawn with pdfkit vectors only: title block, caution, the section
@@ -93,22 +94,11 @@ function heading(ctx: Ctx, text: string, keep = 90): void {
   ctx.y += 6;
 }
 
-/** 2.829e+6 → "2.829 × 10⁶" (Reynolds numbers). */
-function sci(v: number, digits = 4): string {
-  const [m, e] = v.toExponential(digits - 1).split('e');
-  const sup: Record<string, string> = { '-': '⁻', '+': '', 0: '⁰', 1: '¹', 2: '²', 3: '³', 4: '⁴', 5: '⁵', 6: '⁶', 7: '⁷', 8: '⁸', 9: '⁹' };
-  return `${Number(m)} × 10${[...e].map((c) => sup[c] ?? c).join('')}`;
-}
-
-const num = (v: number | null | undefined, digits = 4): string => {
-  if (v === null || v === undefined || !Number.isFinite(v)) return '—';
-  if (v === 0) return '0';
-  const abs = Math.abs(v);
-  const s = abs >= 1e-3 && abs < 1e6 ? String(Number(v.toPrecision(digits))) : v.toExponential(digits - 1);
-  return s.replace('-', '−');
-};
+/** Every number in the report is printed by the one formatter (shared/format/number.ts). */
+const num = (v: number | null | undefined, digits = 4): string => formatNumber(v, digits);
+const sci = num;
 const deg = (v: number | null | undefined) => (v === null || v === undefined ? '—' : `${num(v, 4)}°`);
-const qty = (v: number | null | undefined, q: Quantity, units: UnitSystem) => (v === null || v === undefined ? '—' : formatQuantity(v, q, units, 4).replace(/^-/, '−'));
+const qty = (v: number | null | undefined, q: Quantity, units: UnitSystem) => (v === null || v === undefined ? '—' : formatQuantity(v, q, units, 4));
 
 function titleBlock(ctx: Ctx): void {
   const { doc, data } = ctx;

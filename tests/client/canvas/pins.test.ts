@@ -53,7 +53,7 @@ describe('pin targets', () => {
   it('describes targets in words', () => {
     expect(describePinTarget({ kind: 'facet', facet: 3, at: [0, 0] })).toBe('Facet 3');
     expect(describePinTarget({ kind: 'wave', waveId: 'wave_upper_0', label: 'Oblique shock · upper surface, vertex 0', at: [0, 0] })).toBe('Oblique shock · upper surface, vertex 0');
-    expect(describePinTarget({ kind: 'point', at: [0.41234, -0.0567] })).toBe('Point (0.4123, -0.05670)');
+    expect(describePinTarget({ kind: 'point', at: [0.41234, -0.0567] })).toBe('Point (0.4123, −0.0567)');
   });
 });
 

@@ -9,7 +9,8 @@ describe('formatNumber: one way to print a number for people', () => {
     expect(formatNumber(-0.0421)).toBe(`${MINUS}0.0421`);
     expect(formatNumber(-0.00013)).toBe(`${MINUS}0.00013`);
     expect(formatNumber(2.3e-5, 2)).toBe('0.000023');
-    expect(formatNumber(1234.5678)).toBe('1235');
+    expect(formatNumber(1234.5678)).toBe('1,235');
+    expect(formatNumber(999.94)).toBe('999.9');
     expect(formatNumber(12_345.678)).toBe('12,350');
     expect(formatNumber(-9_876_543.21, 7)).toBe(`${MINUS}9,876,543`);
     expect(formatNumber(0)).toBe('0');

@@ -1,6 +1,7 @@
 import { signedArea } from '../model/polygon.ts';
 import { explainSectionProblem } from '../model/ops.ts';
 import type { Point } from '../model/sketch.ts';
+import { itemAt } from '../util/invariant.ts';
 
 /**
  * A plain flap (control surface) on a section. The hinge line sits at x = x_nose + h·c, on the
@@ -45,8 +46,8 @@ export function deflectFlap(section: readonly Point[], flap: FlapInput): Deflect
   const onHinge: number[] = [];
   const n = section.length;
   for (let i = 0; i < n; i++) {
-    const a = section[i];
-    const b = section[(i + 1) % n];
+    const a = itemAt(section, i);
+    const b = itemAt(section, (i + 1) % n);
     if (Math.abs(a[0] - xh) <= EPS * chord) onHinge.push(points.length);
     points.push([a[0], a[1]]);
     const da = a[0] - xh;
@@ -57,10 +58,11 @@ export function deflectFlap(section: readonly Point[], flap: FlapInput): Deflect
       points.push([xh, a[1] + t * (b[1] - a[1])]);
     }
   }
-  if (onHinge.length !== 2) {
+  const [upperHinge, lowerHinge, ...more] = onHinge;
+  if (upperHinge === undefined || lowerHinge === undefined || more.length > 0) {
     return { ok: false, reason: `The hinge line at x/c = ${flap.hingeXOverC} meets the section outline ${onHinge.length} times; a flap needs a section it cuts exactly twice (once per surface).` };
   }
-  const hinge: Point = [xh, (points[onHinge[0]][1] + points[onHinge[1]][1]) / 2];
+  const hinge: Point = [xh, (itemAt(points, upperHinge)[1] + itemAt(points, lowerHinge)[1]) / 2];
   const d = (-flap.deflectionDeg * Math.PI) / 180;
   const c = Math.cos(d);
   const s = Math.sin(d);
@@ -77,10 +79,9 @@ export function deflectFlap(section: readonly Point[], flap: FlapInput): Deflect
     return { ok: false, reason: `A flap deflection of ${flap.deflectionDeg}° folds the section: ${problem}. Use a smaller deflection or move the hinge.` };
   }
   // The drawn nose: least x, least y among exact ties (the solver's own choice of nose).
-  let nose = 0;
-  for (let i = 1; i < section.length; i++) {
-    const p = section[i];
-    if (p[0] < section[nose][0] || (p[0] === section[nose][0] && p[1] < section[nose][1])) nose = i;
+  let nose = itemAt(section, 0);
+  for (const p of section) {
+    if (p[0] < nose[0] || (p[0] === nose[0] && p[1] < nose[1])) nose = p;
   }
   return {
     ok: true,
@@ -89,7 +90,7 @@ export function deflectFlap(section: readonly Point[], flap: FlapInput): Deflect
     flapVertices,
     hingeVertices: onHinge,
     flapChord: maxX - xh,
-    drawn: { chord, leadingEdge: [section[nose][0], section[nose][1]] },
+    drawn: { chord, leadingEdge: [nose[0], nose[1]] },
   };
 }
 
@@ -136,8 +137,8 @@ export function hingeMoments(deflected: Extract<DeflectedSection, { ok: true }>,
   let exactValid = true;
   let theoriesValid = true;
   for (const f of facets) {
-    const a = pts[f.index];
-    const b = pts[(f.index + 1) % n];
+    const a = itemAt(pts, f.index);
+    const b = itemAt(pts, (f.index + 1) % n);
     if (!onFlap.has(f.index) || !onFlap.has((f.index + 1) % n)) continue;
     if (deflected.hingeVertices.includes(f.index) && deflected.hingeVertices.includes((f.index + 1) % n)) continue;
     const dx = b[0] - a[0];

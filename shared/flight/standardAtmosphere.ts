@@ -1,3 +1,5 @@
+import { itemAt } from '../util/invariant.ts';
+
 /**
  * U.S. Standard Atmosphere, 1976 (NOAA/NASA/USAF, NOAA-S/T 76-1562), lower atmosphere from sea
  * level to 86 km geometric altitude.
@@ -39,13 +41,10 @@ const BASES = (() => {
   const out: { h: number; lapse: number; t: number; p: number }[] = [];
   let t = 288.15;
   let p = 101_325;
-  for (let i = 0; i < LAYERS.length; i++) {
-    const { h, lapse } = LAYERS[i];
+  for (const [i, { h, lapse }] of LAYERS.entries()) {
     out.push({ h, lapse, t, p });
-    const next = i + 1 < LAYERS.length ? LAYERS[i + 1].h : Infinity;
-    if (Number.isFinite(next)) {
-      [t, p] = stepLayer(t, p, lapse, next - h);
-    }
+    const next = LAYERS[i + 1];
+    if (next) [t, p] = stepLayer(t, p, lapse, next.h - h);
   }
   return out;
 })();
@@ -65,7 +64,7 @@ function molecularWeightRatio(zM: number): number {
   const x = (zM - 80_000) / 500;
   const i = Math.min(Math.floor(x), MOLECULAR_WEIGHT_RATIO.length - 2);
   const f = x - i;
-  return MOLECULAR_WEIGHT_RATIO[i] * (1 - f) + MOLECULAR_WEIGHT_RATIO[i + 1] * f;
+  return itemAt(MOLECULAR_WEIGHT_RATIO, i) * (1 - f) + itemAt(MOLECULAR_WEIGHT_RATIO, i + 1) * f;
 }
 
 export interface AtmosphereState {
@@ -99,7 +98,7 @@ export function sutherlandViscosity(temperatureK: number): number {
 export function standardAtmosphere(altitudeM: number): AtmosphereState | null {
   if (!Number.isFinite(altitudeM) || altitudeM < 0 || altitudeM > ATMOSPHERE_MAX_ALTITUDE_M) return null;
   const h = geopotentialAltitude(altitudeM);
-  let base = BASES[0];
+  let base = itemAt(BASES, 0);
   for (const b of BASES) if (h >= b.h) base = b;
   const [tM, p] = stepLayer(base.t, base.p, base.lapse, h - base.h);
   const t = tM * molecularWeightRatio(altitudeM);

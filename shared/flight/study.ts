@@ -15,6 +15,7 @@ import {
 import { maxDeflection } from '../solver/maxDeflection.ts';
 import { TRANSITION_REYNOLDS_DEFAULT } from './skinFriction.ts';
 import { analysePrepared, prepareSketch, type PreparedSketch, type SketchAnalysis } from './analyseSketch.ts';
+import { itemAt } from '../util/invariant.ts';
 
 /**
  * The study engine: expands a definition into points (flap outermost, then Mach, then α) and
@@ -114,18 +115,22 @@ export function startStudy(doc: SketchCase, plan: StudyPlan): StudyRun {
         const f = Math.floor(i / perFlap);
         const m = Math.floor((i % perFlap) / alphasDeg.length);
         const a = i % alphasDeg.length;
-        const flapDeg = flapsDeg[f];
-        const options = { waves: false, mach: machs[m], alphaDeg: alphasDeg[a], flapDeg, altitudeM: plan.altitudeM, friction: plan.friction, transitionReynolds: plan.transitionReynolds };
+        const flapDeg = itemAt(flapsDeg, f);
+        const mach = itemAt(machs, m);
+        const alphaDeg = itemAt(alphasDeg, a);
+        const options = { waves: false, mach, alphaDeg, flapDeg, altitudeM: plan.altitudeM, friction: plan.friction, transitionReynolds: plan.transitionReynolds };
         if (preparedFor !== f) {
           prepared = prepareSketch(doc, options);
           preparedFor = f;
         }
         const analysis = analysePrepared(prepared!, options);
         const result = analysis.result;
-        if (!noseFacets && result && result.status !== 'blunt' && result.surfaces.upper.length > 0 && result.surfaces.lower.length > 0) {
-          noseFacets = { upperPhiDeg: result.surfaces.upper[0].phiDeg, lowerPhiDeg: result.surfaces.lower[0].phiDeg };
+        const [upperNose] = result?.surfaces.upper ?? [];
+        const [lowerNose] = result?.surfaces.lower ?? [];
+        if (!noseFacets && result && result.status !== 'blunt' && upperNose && lowerNose) {
+          noseFacets = { upperPhiDeg: upperNose.phiDeg, lowerPhiDeg: lowerNose.phiDeg };
         }
-        rows.push(studyRow(analysis, machs[m], alphasDeg[a], flapDeg));
+        rows.push(studyRow(analysis, mach, alphaDeg, flapDeg));
         if (budget()) break;
       }
       return rows.length >= plan.total;

@@ -25,9 +25,10 @@ export function formatNumber(v: number | null | undefined, digits = 4): string {
   // Round first: 9.99995 at 4 figures is 10, which may cross a threshold.
   const rounded = Number(abs.toPrecision(digits));
   if (rounded >= FIXED_MIN && rounded < FIXED_MAX) return sign + fixed(rounded, digits);
-  const [mantissa, exponent] = rounded.toExponential(digits - 1).split('e');
-  const m = trimZeros(mantissa);
-  const e = String(Number(exponent)).split('').map((c) => SUPERSCRIPT[c]).join('');
+  const exp = rounded.toExponential(digits - 1); // "d.ddde±n"
+  const at = exp.indexOf('e');
+  const m = trimZeros(exp.slice(0, at));
+  const e = String(Number(exp.slice(at + 1))).split('').map((c) => SUPERSCRIPT[c]).join('');
   return `${sign}${m} × 10${e}`;
 }
 
@@ -51,7 +52,7 @@ export function formatFixed(v: number | null | undefined, decimals: number): str
 export function parseFormatted(text: string): number {
   const t = text.trim().replace(/\u2212/g, '-').replace(/,/g, '');
   const sci = /^([-+]?[\d.]+) × 10([⁻⁰¹²³⁴⁵⁶⁷⁸⁹]+)$/.exec(t);
-  if (sci) {
+  if (sci?.[1] !== undefined && sci[2] !== undefined) {
     const back: Record<string, string> = Object.fromEntries(Object.entries(SUPERSCRIPT).map(([k, v]) => [v, k]));
     return Number(`${sci[1]}e${sci[2].split('').map((c) => back[c]).join('')}`);
   }
@@ -69,7 +70,9 @@ function trimZeros(s: string): string {
 }
 
 function group(s: string): string {
-  const [int, frac] = s.split('.');
+  const dot = s.indexOf('.');
+  const int = dot < 0 ? s : s.slice(0, dot);
+  const frac = dot < 0 ? undefined : s.slice(dot + 1);
   if (int.length <= 3) return s;
   const grouped = int.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
   return frac === undefined ? grouped : `${grouped}.${frac}`;

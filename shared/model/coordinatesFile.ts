@@ -1,5 +1,6 @@
 import { findRepeatedPoint, findSelfIntersection, signedArea } from './polygon.ts';
 import { MAX_SECTION_VERTICES, type Point } from './sketch.ts';
+import { firstItem, itemAt, lastItem } from '../util/invariant.ts';
 
 /**
  * Reading a section from a coordinates file: one vertex per line, `x y` separated by spaces,
@@ -69,8 +70,8 @@ export function parseCoordinates(text: string): CoordinatesParseResult {
 
   const notes: string[] = [];
   if (points.length > 3) {
-    const first = points[0];
-    const last = points[points.length - 1];
+    const first = firstItem(points);
+    const last = lastItem(points);
     if (first[0] === last[0] && first[1] === last[1]) {
       points.pop();
       const dropped = lineOf.pop();
@@ -86,9 +87,10 @@ export function parseCoordinates(text: string): CoordinatesParseResult {
   const repeated = findRepeatedPoint(points);
   if (repeated) {
     const [a, b] = repeated;
+    const [x, y] = itemAt(points, a);
     return {
       ok: false,
-      issues: [{ line: lineOf[b], message: `repeats the point on line ${lineOf[a]} (${points[a][0]}, ${points[a][1]}); each vertex must be distinct.` }],
+      issues: [{ line: itemAt(lineOf, b), message: `repeats the point on line ${itemAt(lineOf, a)} (${x}, ${y}); each vertex must be distinct.` }],
     };
   }
   const crossing = findSelfIntersection(points);
@@ -99,10 +101,10 @@ export function parseCoordinates(text: string): CoordinatesParseResult {
       ok: false,
       issues: [
         {
-          line: lineOf[edgeB],
+          line: itemAt(lineOf, edgeB),
           message:
-            `the facet from line ${lineOf[edgeB]} to line ${lineOf[(edgeB + 1) % n]} crosses or touches the facet ` +
-            `from line ${lineOf[edgeA]} to line ${lineOf[(edgeA + 1) % n]}; the outline must not cross itself.`,
+            `the facet from line ${itemAt(lineOf, edgeB)} to line ${itemAt(lineOf, (edgeB + 1) % n)} crosses or touches the facet ` +
+            `from line ${itemAt(lineOf, edgeA)} to line ${itemAt(lineOf, (edgeA + 1) % n)}; the outline must not cross itself.`,
         },
       ],
     };

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { firstItem, itemAt } from '../util/invariant.ts';
 import { newId } from './ids.ts';
 import { findRepeatedPoint, findSelfIntersection, findSelfIntersectionNear, signedArea } from './polygon.ts';
 import {
@@ -240,7 +241,7 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
   const check = !options.trusted;
   const parsed = check ? sketchOpSchema.safeParse(op) : { success: true as const };
   if (!parsed.success) {
-    const issue = parsed.error.issues[0];
+    const issue = firstItem(parsed.error.issues);
     return { ok: false, reason: `The edit is malformed: ${issue.path.join('.') || 'op'} ${issue.message}.` };
   }
   const points = doc.section.points;
@@ -257,7 +258,8 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
       if (outOfRange !== undefined) return { ok: false, reason: `There is no vertex ${outOfRange}; the section has ${n}.` };
       const next = points.map((p) => [p[0], p[1]] as Point);
       op.indices.forEach((i, k) => {
-        next[i] = [op.to[k][0], op.to[k][1]];
+        const [x, y] = itemAt(op.to, k); // same length as op.indices, checked above
+        next[i] = [x, y];
       });
       const verb = op.indices.length === 1 ? `Moving vertex ${op.indices[0]} there` : `Moving those ${op.indices.length} vertices there`;
       return withSection(doc, next, verb, check, op.indices.flatMap((i) => [i - 1, i]));
@@ -265,7 +267,8 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
     case 'setVertexCoordinate': {
       if (op.index >= n) return { ok: false, reason: `There is no vertex ${op.index}; the section has ${n}.` };
       const next = points.map((p) => [p[0], p[1]] as Point);
-      next[op.index] = op.axis === 'x' ? [op.value, points[op.index][1]] : [points[op.index][0], op.value];
+      const [x, y] = itemAt(points, op.index);
+      next[op.index] = op.axis === 'x' ? [op.value, y] : [x, op.value];
       return withSection(doc, next, `Setting vertex ${op.index}’s ${op.axis} to ${op.value}`, check, [op.index - 1, op.index]);
     }
     case 'insertVertex': {
@@ -294,13 +297,13 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
       if (op.value === null && op.field !== 'altitudeM') return { ok: false, reason: `${FIELD_LABEL[op.field]} needs a value.` };
       if (op.field === 'flapDeflectionDeg') {
         const checked = flapDeflectionDegSchema.safeParse(op.value);
-        if (!checked.success) return { ok: false, reason: `${FIELD_LABEL.flapDeflectionDeg} ${checked.error.issues[0].message}.` };
+        if (!checked.success) return { ok: false, reason: `${FIELD_LABEL.flapDeflectionDeg} ${firstItem(checked.error.issues).message}.` };
         return { ok: true, doc: withPoint(doc, { ...point, flapDeflectionDeg: checked.data }) };
       }
       const candidate = { ...point.condition, [op.field]: op.value };
       const checked = conditionSchema.safeParse(candidate);
       if (!checked.success) {
-        const issue = checked.error.issues[0];
+        const issue = firstItem(checked.error.issues);
         const field = (issue.path[0] as ConditionField | undefined) ?? op.field;
         return { ok: false, reason: `${FIELD_LABEL[field] ?? field} ${issue.message}.` };
       }
@@ -332,7 +335,7 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
       let selected = doc.selectedPointId;
       if (selected === op.pointId) {
         const wanted = op.select && op.select !== op.pointId ? designPoints.find((p) => p.id === op.select) : undefined;
-        selected = (wanted ?? designPoints[Math.min(at, designPoints.length - 1)]).id;
+        selected = (wanted ?? itemAt(designPoints, Math.min(at, designPoints.length - 1))).id;
       }
       return checkedPoints(doc, designPoints, selected);
     }
@@ -348,7 +351,7 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
       const at = doc.designPoints.findIndex((p) => p.id === op.pointId);
       if (at < 0) return noPoint();
       const designPoints = doc.designPoints.filter((p) => p.id !== op.pointId);
-      designPoints.splice(Math.min(op.index, designPoints.length), 0, doc.designPoints[at]);
+      designPoints.splice(Math.min(op.index, designPoints.length), 0, itemAt(doc.designPoints, at));
       return { ok: true, doc: { ...doc, designPoints } };
     }
     case 'selectDesignPoint': {
@@ -360,7 +363,7 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
     case 'setLoads': {
       const checked = loadsSettingsSchema.safeParse(op.loads);
       if (!checked.success) {
-        const issue = checked.error.issues[0];
+        const issue = firstItem(checked.error.issues);
         return { ok: false, reason: `${String(issue.path[0] ?? 'Loads')} ${issue.message}.` };
       }
       return { ok: true, doc: { ...doc, loads: checked.data } };
@@ -378,11 +381,11 @@ function applySetField(doc: SketchDocument, op: z.infer<typeof setFieldOpSchema>
     if (!doc.flap) return { ok: false, reason: `The flap is switched off (perhaps by someone else meanwhile); switch it on to set its ${key === 'hingeXOverC' ? 'hinge' : 'deflection'}.` };
     if (key === 'deflectionDeg') {
       const deflection = flapDeflectionDegSchema.safeParse(op.value);
-      if (!deflection.success) return refuse(deflection.error.issues[0].message);
+      if (!deflection.success) return refuse(firstItem(deflection.error.issues).message);
       return { ok: true, doc: withPoint(doc, { ...selectedPoint(doc), flapDeflectionDeg: deflection.data }) };
     }
     const checked = flapSchema.safeParse({ ...doc.flap, [key]: op.value });
-    if (!checked.success) return refuse(checked.error.issues[0].message);
+    if (!checked.success) return refuse(firstItem(checked.error.issues).message);
     return { ok: true, doc: { ...doc, flap: checked.data } };
   }
   if (record === 'momentPoint') {
@@ -392,7 +395,7 @@ function applySetField(doc: SketchDocument, op: z.infer<typeof setFieldOpSchema>
     return { ok: true, doc: { ...doc, momentPoint: point } };
   }
   const checked = loadsSettingsSchema.safeParse({ ...doc.loads, [key]: op.value });
-  if (!checked.success) return refuse(checked.error.issues[0].message);
+  if (!checked.success) return refuse(firstItem(checked.error.issues).message);
   return { ok: true, doc: { ...doc, loads: checked.data } };
 }
 
@@ -426,11 +429,11 @@ export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string =
   const points = docBefore.section.points;
   switch (op.type) {
     case 'moveVertices':
-      return { type: 'moveVertices', opId, indices: [...op.indices], to: op.indices.map((i) => [points[i][0], points[i][1]] as Point) };
+      return { type: 'moveVertices', opId, indices: [...op.indices], to: op.indices.map((i) => [...itemAt(points, i)] as Point) };
     case 'insertVertex':
       return { type: 'deleteVertex', opId, index: op.index };
     case 'deleteVertex':
-      return { type: 'insertVertex', opId, index: op.index, at: [points[op.index][0], points[op.index][1]] };
+      return { type: 'insertVertex', opId, index: op.index, at: [...itemAt(points, op.index)] };
     case 'replaceSection':
       return { type: 'replaceSection', opId, points: points.map((p) => [p[0], p[1]] as Point) };
     case 'setCondition': {
@@ -449,7 +452,7 @@ export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string =
       return { type: 'removeDesignPoint', opId, pointId: op.point.id, select: docBefore.selectedPointId };
     case 'removeDesignPoint': {
       const index = docBefore.designPoints.findIndex((p) => p.id === op.pointId);
-      return { type: 'addDesignPoint', opId, point: copyPoint(docBefore.designPoints[index]), index, select: docBefore.selectedPointId === op.pointId };
+      return { type: 'addDesignPoint', opId, point: copyPoint(itemAt(docBefore.designPoints, index)), index, select: docBefore.selectedPointId === op.pointId };
     }
     case 'renameDesignPoint':
       return { type: 'renameDesignPoint', opId, pointId: op.pointId, name: findDesignPoint(docBefore, op.pointId)!.name };
@@ -462,7 +465,7 @@ export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string =
     case 'setLoads':
       return { type: 'setLoads', opId, loads: { ...docBefore.loads } };
     case 'setVertexCoordinate':
-      return { type: 'setVertexCoordinate', opId, index: op.index, axis: op.axis, value: points[op.index][op.axis === 'x' ? 0 : 1] };
+      return { type: 'setVertexCoordinate', opId, index: op.index, axis: op.axis, value: itemAt(points, op.index)[op.axis === 'x' ? 0 : 1] };
     case 'setField': {
       const before = documentFieldValue(docBefore, op.field);
       if (before === null) {

@@ -3,6 +3,8 @@
  * Points are [x, y]; a polygon is its vertex list, closed implicitly (last → first).
  */
 
+import { itemAt } from '../util/invariant.ts';
+
 /** A point as the model stores it. */
 export type XY = readonly [number, number];
 
@@ -17,14 +19,15 @@ export type XY = readonly [number, number];
 export function signedArea(points: readonly XY[]): number {
   const n = points.length;
   if (n < 3) return 0;
-  const x0 = points[0][0];
-  const y0 = points[0][1];
+  const [x0, y0] = itemAt(points, 0);
   let twice = 0;
   for (let i = 1; i < n - 1; i++) {
-    const ax = points[i][0] - x0;
-    const ay = points[i][1] - y0;
-    const bx = points[i + 1][0] - x0;
-    const by = points[i + 1][1] - y0;
+    const [px, py] = itemAt(points, i);
+    const [qx, qy] = itemAt(points, i + 1);
+    const ax = px - x0;
+    const ay = py - y0;
+    const bx = qx - x0;
+    const by = qy - y0;
     twice += ax * by - bx * ay;
   }
   return twice / 2;
@@ -83,10 +86,10 @@ export function findSelfIntersectionNear(points: readonly XY[], changedEdges: It
 /** Edges i < j of the closed polygon intersect improperly (see findSelfIntersection). */
 function edgesCross(points: readonly XY[], i: number, j: number): boolean {
   const n = points.length;
-  const a = points[i];
-  const b = points[(i + 1) % n];
-  const c = points[j];
-  const d = points[(j + 1) % n];
+  const a = itemAt(points, i);
+  const b = itemAt(points, (i + 1) % n);
+  const c = itemAt(points, j);
+  const d = itemAt(points, (j + 1) % n);
   const adjacentAfter = j === i + 1; // b === c
   const adjacentBefore = i === 0 && j === n - 1; // d === a
   if (adjacentAfter || adjacentBefore) {
@@ -129,15 +132,16 @@ export function findRepeatedPoint(
     if (y > maxY) maxY = y;
   }
   const tol = relTol * Math.max(maxX - minX, maxY - minY);
-  const order = points.map((_, i) => i).sort((a, b) => points[a][0] - points[b][0] || a - b);
+  // Vertex indices sorted by x, each with its point, so the scan below reads no index twice.
+  const order = points.map((point, index) => ({ point, index })).sort((a, b) => a.point[0] - b.point[0] || a.index - b.index);
   let best: [number, number] | null = null;
   for (let s = 0; s < n; s++) {
-    const i = order[s];
+    const { point: [xi, yi], index: i } = itemAt(order, s);
     for (let t = s + 1; t < n; t++) {
-      const j = order[t];
-      if (points[j][0] - points[i][0] > tol) break;
-      const dx = points[j][0] - points[i][0];
-      const dy = points[j][1] - points[i][1];
+      const { point: [xj, yj], index: j } = itemAt(order, t);
+      if (xj - xi > tol) break;
+      const dx = xj - xi;
+      const dy = yj - yi;
       if (Math.sqrt(dx * dx + dy * dy) <= tol) {
         const pair: [number, number] = i < j ? [i, j] : [j, i];
         if (!best || pair[1] < best[1] || (pair[1] === best[1] && pair[0] < best[0])) best = pair;
@@ -151,21 +155,21 @@ export function findRepeatedPoint(
 export function allCollinear(points: readonly XY[]): boolean {
   const n = points.length;
   if (n < 3) return true;
-  const [x0, y0] = points[0];
+  const [x0, y0] = itemAt(points, 0);
   // The point farthest from the first fixes the line (robust against a near-duplicate second point).
-  let far = 0;
+  let far: XY = [x0, y0];
   let best = -1;
-  for (let i = 1; i < n; i++) {
-    const d = (points[i][0] - x0) ** 2 + (points[i][1] - y0) ** 2;
+  for (const point of points) {
+    const d = (point[0] - x0) ** 2 + (point[1] - y0) ** 2;
     if (d > best) {
       best = d;
-      far = i;
+      far = point;
     }
   }
-  const dx = points[far][0] - x0;
-  const dy = points[far][1] - y0;
-  for (let i = 1; i < n; i++) {
-    if (dx * (points[i][1] - y0) - dy * (points[i][0] - x0) !== 0) return false;
+  const dx = far[0] - x0;
+  const dy = far[1] - y0;
+  for (const [x, y] of points) {
+    if (dx * (y - y0) - dy * (x - x0) !== 0) return false;
   }
   return true;
 }

@@ -2,6 +2,7 @@ import type { SketchOpDraft } from './ops.ts';
 import type { XY } from './polygon.ts';
 import { fromChordAxes, sectionShape, sectionSurfaces, surfaceYAt, toChordAxes, type SectionShape } from './sectionShape.ts';
 import type { Point } from './sketch.ts';
+import { firstItem, itemAt, lastItem } from '../util/invariant.ts';
 
 /**
  * Section commands: the whole-section changes an engineer makes by number rather than by
@@ -68,9 +69,10 @@ function moveNormal(points: readonly XY[], shape: SectionShape, to: (n: number, 
   const out = points.map(([x, y]) => [x, y] as Point);
   const move = (own: SectionShape['alongUpper'], other: SectionShape['alongUpper']) => {
     for (let j = 1; j < own.vertices.length - 1; j++) {
-      const sAt = own.xs[j];
-      const p = fromChordAxes(shape.frame, [sAt, to(own.ys[j], surfaceYAt(other, sAt), sAt)]);
-      out[own.vertices[j]] = tidyPoint(p[0], p[1]);
+      // xs, ys and vertices are parallel lists of one surface.
+      const sAt = itemAt(own.xs, j);
+      const p = fromChordAxes(shape.frame, [sAt, to(itemAt(own.ys, j), surfaceYAt(other, sAt), sAt)]);
+      out[itemAt(own.vertices, j)] = tidyPoint(p[0], p[1]);
     }
   };
   move(shape.alongUpper, shape.alongLower);
@@ -177,10 +179,10 @@ export function mirrorSurface(points: readonly XY[], from: MirrorSide): CommandR
     const along = (px * dx + py * dy) / len2;
     return tidyPoint(nx + 2 * along * dx - px, ny + 2 * along * dy - py);
   };
-  const keptPoints = kept.vertices.map((i) => [points[i][0], points[i][1]] as Point);
+  const keptPoints = kept.vertices.map((i) => [...itemAt(points, i)] as Point);
   const interior = keptPoints.slice(1, -1);
   const mirrored = interior.map(([x, y]) => reflect(x, y));
-  const upper = from === 'upper' ? keptPoints : [keptPoints[0], ...mirrored, keptPoints[keptPoints.length - 1]];
+  const upper = from === 'upper' ? keptPoints : [firstItem(keptPoints), ...mirrored, lastItem(keptPoints)];
   const lower = from === 'upper' ? mirrored : interior;
   return { ok: true, points: [...upper, ...[...lower].reverse()] };
 }
@@ -268,7 +270,8 @@ export function sectionCommandOp(before: readonly XY[], after: readonly Point[])
   const indices: number[] = [];
   const to: Point[] = [];
   after.forEach((p, i) => {
-    if (p[0] !== before[i][0] || p[1] !== before[i][1]) {
+    const [x, y] = itemAt(before, i); // same length, checked above
+    if (p[0] !== x || p[1] !== y) {
       indices.push(i);
       to.push([p[0], p[1]]);
     }

@@ -2,6 +2,7 @@ import { maxThicknessRatio } from '../solver/maxThicknessRatio.ts';
 import { splitSurfaces } from '../solver/splitSurfaces.ts';
 import type { XY } from './polygon.ts';
 import type { Point } from './sketch.ts';
+import { firstItem, itemAt, lastItem } from '../util/invariant.ts';
 
 /**
  * What an engineer reads off a section: chord, thickness ratio and where the thickest point
@@ -100,11 +101,11 @@ export function sectionSurfaces(points: readonly XY[]): Omit<SectionShape, 'thic
   const split = splitSurfaces(points);
   const upper: SurfacePath = { vertices: split.upper.vertices, xs: split.upper.xs, ys: split.upper.ys };
   const lower: SurfacePath = { vertices: split.lower.vertices, xs: split.lower.xs, ys: split.lower.ys };
-  const nose = points[split.noseIndex];
-  const tail = points[split.tailIndex];
+  const nose = itemAt(points, split.noseIndex);
+  const tail = itemAt(points, split.tailIndex);
   const frame = chordFrame(nose, tail);
   const along = (c: SurfacePath): SurfacePath => {
-    const q = c.vertices.map((i) => toChordAxes(frame, points[i]));
+    const q = c.vertices.map((i) => toChordAxes(frame, itemAt(points, i)));
     return { vertices: c.vertices, xs: q.map((p) => p[0]), ys: q.map((p) => p[1]) };
   };
   const alongUpper = along(upper);
@@ -128,8 +129,7 @@ export function sectionSurfaces(points: readonly XY[]): Omit<SectionShape, 'thic
 }
 
 function nonDecreasing(xs: readonly number[]): boolean {
-  for (let i = 1; i < xs.length; i++) if (xs[i] < xs[i - 1]) return false;
-  return true;
+  return xs.every((x, i) => i === 0 || x >= itemAt(xs, i - 1));
 }
 
 /**
@@ -139,14 +139,16 @@ function nonDecreasing(xs: readonly number[]): boolean {
  */
 export function surfaceYAt(surface: Pick<SurfacePath, 'xs' | 'ys'>, x: number): number {
   const { xs, ys } = surface;
-  const n = xs.length;
-  if (x <= xs[0]) return ys[0];
-  if (x >= xs[n - 1]) return ys[n - 1];
+  // xs and ys are parallel; j and j + 1 lie inside them once x is strictly between the ends.
+  if (x <= firstItem(xs)) return firstItem(ys);
+  if (x >= lastItem(xs)) return lastItem(ys);
   const j = lastAtOrBefore(xs, x);
-  const x0 = xs[j];
-  const x1 = xs[j + 1];
-  if (x1 <= x0) return ys[j + 1];
-  return ys[j] + ((x - x0) / (x1 - x0)) * (ys[j + 1] - ys[j]);
+  const x0 = itemAt(xs, j);
+  const x1 = itemAt(xs, j + 1);
+  const y0 = itemAt(ys, j);
+  const y1 = itemAt(ys, j + 1);
+  if (x1 <= x0) return y1;
+  return y0 + ((x - x0) / (x1 - x0)) * (y1 - y0);
 }
 
 /** The highest (`max`) or lowest (`min`) point of the surface at x, counting every vertex of a vertical step there. */
@@ -154,7 +156,7 @@ export function surfaceExtremeAt(surface: Pick<SurfacePath, 'xs' | 'ys'>, x: num
   const { xs, ys } = surface;
   let y = surfaceYAt(surface, x);
   const pick = which === 'max' ? Math.max : Math.min;
-  for (let j = lastAtOrBefore(xs, x); j >= 0 && xs[j] === x; j--) y = pick(y, ys[j]);
+  for (let j = lastAtOrBefore(xs, x); j >= 0 && itemAt(xs, j) === x; j--) y = pick(y, itemAt(ys, j));
   return y;
 }
 
@@ -164,7 +166,7 @@ function lastAtOrBefore(xs: readonly number[], x: number): number {
   let hi = xs.length;
   while (hi - lo > 1) {
     const mid = (lo + hi) >> 1;
-    if (xs[mid] <= x) lo = mid;
+    if (itemAt(xs, mid) <= x) lo = mid;
     else hi = mid;
   }
   return lo;
@@ -195,7 +197,8 @@ export function sectionShape(points: readonly XY[]): SectionShape {
       last = i;
     }
   });
-  const ridgeS = (ss[first] + ss[last]) / 2;
+  // thickness has an entry ≥ its own maximum, so first and last were set.
+  const ridgeS = (itemAt(ss, first) + itemAt(ss, last)) / 2;
 
   let cBest = 0;
   let cAt = 0;
@@ -210,6 +213,6 @@ export function sectionShape(points: readonly XY[]): SectionShape {
     thicknessRatio,
     ridgeXOverC: ridgeS / L,
     camberRatio: cBest / L,
-    camberXOverC: cBest === 0 ? null : ss[cAt] / L,
+    camberXOverC: cBest === 0 ? null : itemAt(ss, cAt) / L,
   };
 }

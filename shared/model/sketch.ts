@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { idSchema } from './ids.ts';
+import { firstItem } from '../util/invariant.ts';
 
 /**
  * The sketch document: what one sketch stores and what collaborators edit. Declared once here
@@ -175,10 +176,10 @@ export type SketchDocument = z.infer<typeof sketchDocumentV2Schema>;
 
 /** [D1]–[D3] for a list of points and a selection; null when they hold. */
 export function designPointsProblem(points: readonly DesignPoint[], selectedPointId: string): { path: (string | number)[]; message: string } | null {
-  for (let i = 0; i < points.length; i++) {
-    for (let j = 0; j < i; j++) {
-      if (points[j].id === points[i].id) return { path: ['designPoints', i, 'id'], message: `repeats the id of design point ${j}` };
-      if (sameDesignPointName(points[j].name, points[i].name)) return { path: ['designPoints', i, 'name'], message: `repeats the name “${points[j].name}”` };
+  for (const [i, point] of points.entries()) {
+    for (const [j, earlier] of points.slice(0, i).entries()) {
+      if (earlier.id === point.id) return { path: ['designPoints', i, 'id'], message: `repeats the id of design point ${j}` };
+      if (sameDesignPointName(earlier.name, point.name)) return { path: ['designPoints', i, 'name'], message: `repeats the name “${earlier.name}”` };
     }
   }
   if (!points.some((p) => p.id === selectedPointId)) return { path: ['selectedPointId'], message: 'must name one of the design points' };
@@ -248,7 +249,7 @@ export interface SketchCase {
 
 /** The selected design point (the document guarantees there is one [D3]). */
 export function selectedPoint(doc: SketchDocument): DesignPoint {
-  return doc.designPoints.find((p) => p.id === doc.selectedPointId) ?? doc.designPoints[0];
+  return doc.designPoints.find((p) => p.id === doc.selectedPointId) ?? firstItem(doc.designPoints);
 }
 
 /** A design point by id, or undefined. */

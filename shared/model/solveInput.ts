@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { FIELD_EXTENT_CHORDS_DEFAULT, GAMMA_AIR } from '../solver/constants';
 import { allCollinear, findRepeatedPoint, findSelfIntersection, signedArea } from './polygon';
 import { MAX_SECTION_VERTICES } from './sketch';
+import { itemAt } from '../util/invariant.ts';
 
 /**
  * The solve input, shared by the API route, the CLI and the browser worker.
@@ -113,14 +114,16 @@ const pointsSchema = z
     const repeated = findRepeatedPoint(out);
     if (repeated) {
       const [a, b] = repeated;
+      const pa = itemAt(out, a);
+      const pb = itemAt(out, b);
       ctx.addIssue({
         code: 'custom',
         path: [b],
         message:
-          out[a][0] === out[b][0] && out[a][1] === out[b][1]
-            ? `section.points[${b}] repeats section.points[${a}] (${fmt(out[a])}); each vertex must be distinct.`
-            : `section.points[${b}] ${fmt(out[b])} is practically the same point as section.points[${a}] ` +
-              `${fmt(out[a])} (closer than a billionth of the section's size); each vertex must be distinct.`,
+          pa[0] === pb[0] && pa[1] === pb[1]
+            ? `section.points[${b}] repeats section.points[${a}] (${fmt(pa)}); each vertex must be distinct.`
+            : `section.points[${b}] ${fmt(pb)} is practically the same point as section.points[${a}] ` +
+              `${fmt(pa)} (closer than a billionth of the section's size); each vertex must be distinct.`,
       });
       return z.NEVER;
     }

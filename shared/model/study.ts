@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { itemAt } from '../util/invariant.ts';
 import { isIdOf } from './ids.ts';
 import { pageOf } from './teams.ts';
 import { designPointIdSchema, FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
@@ -119,35 +120,38 @@ export type StudyStatus = (typeof STUDY_STATUSES)[number];
  * moment point, nose up positive; ch over q∞·c_f² about the hinge, positive trailing edge down).
  * Exact values are null unless the status is ok; the thin-section theories are given whenever
  * the solver gives them (they ignore the limits). cd is wave drag; cdFriction is null without an
- * altitude or with friction "none", and cdTotal = cd + (cdFriction ?? 0).
+ * altitude or with friction "none", and cdTotal = cd + (cdFriction ?? 0). Unpacked rows are
+ * parsed by this schema, so a stored column of the wrong kind is an error, not a wrong number.
  */
-export interface StudyRow {
-  mach: number;
-  alphaDeg: number;
-  flapDeg: number | null;
-  status: StudyStatus;
-  cl: number | null;
-  cd: number | null;
-  cdFriction: number | null;
-  cdTotal: number | null;
-  cm: number | null;
-  xcpOverC: number | null;
+const coefficient = z.number().nullable();
+export const studyRowSchema = z.object({
+  mach: z.number(),
+  alphaDeg: z.number(),
+  flapDeg: z.number().nullable(),
+  status: z.enum(STUDY_STATUSES),
+  cl: coefficient,
+  cd: coefficient,
+  cdFriction: coefficient,
+  cdTotal: coefficient,
+  cm: coefficient,
+  xcpOverC: coefficient,
   /** cl / cdTotal (wave + friction where estimated). */
-  liftToDrag: number | null;
+  liftToDrag: coefficient,
   /** cl / cd (wave drag only), the solver's figure. */
-  liftToDragWave: number | null;
-  chExact: number | null;
-  chLinear: number | null;
-  chSecondOrder: number | null;
-  clLinear: number | null;
-  cdLinear: number | null;
-  cmLinear: number | null;
-  clSecondOrder: number | null;
-  cdSecondOrder: number | null;
-  cmSecondOrder: number | null;
+  liftToDragWave: coefficient,
+  chExact: coefficient,
+  chLinear: coefficient,
+  chSecondOrder: coefficient,
+  clLinear: coefficient,
+  cdLinear: coefficient,
+  cmLinear: coefficient,
+  clSecondOrder: coefficient,
+  cdSecondOrder: coefficient,
+  cmSecondOrder: coefficient,
   /** Why the point is not ok: the first limit's sentence (or why it could not be solved). */
-  limit: string | null;
-}
+  limit: z.string().nullable(),
+});
+export type StudyRow = z.infer<typeof studyRowSchema>;
 
 /** Column order of packed rows and CSV files. */
 export const STUDY_COLUMNS = [
@@ -206,10 +210,10 @@ export function roundSignificant(v: number): number {
   const decimals = STUDY_SIGNIFICANT_DIGITS - 1 - Math.floor(Math.log10(Math.abs(v)));
   if (decimals > 22 || decimals < -22) return Number(v.toPrecision(STUDY_SIGNIFICANT_DIGITS));
   if (decimals >= 0) {
-    const f = POW10[decimals];
+    const f = itemAt(POW10, decimals);
     return Math.round(v * f) / f;
   }
-  const f = POW10[-decimals];
+  const f = itemAt(POW10, -decimals);
   return Math.round(v / f) * f;
 }
 const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
@@ -220,13 +224,10 @@ export function packStudyRows(rows: readonly StudyRow[]): PackedRow[] {
   return rows.map((r) => STUDY_COLUMNS.map((k) => (typeof r[k] === 'number' ? round(r[k] as number) : (r[k] as string | null))));
 }
 
+/** Packed rows → rows, columns looked up by name (a column missing from old results reads null); each row is parsed by `studyRowSchema`. */
 export function unpackStudyRows(results: Pick<StudyResults, 'columns' | 'rows'>): StudyRow[] {
-  const index = STUDY_COLUMNS.map((k) => results.columns.indexOf(k));
-  return results.rows.map((row) => {
-    const out = {} as Record<string, unknown>;
-    STUDY_COLUMNS.forEach((k, i) => (out[k] = index[i] >= 0 ? (row[index[i]] ?? null) : null));
-    return out as unknown as StudyRow;
-  });
+  const index = STUDY_COLUMNS.map((k) => [k, results.columns.indexOf(k)] as const);
+  return results.rows.map((row) => studyRowSchema.parse(Object.fromEntries(index.map(([k, i]) => [k, row[i] ?? null]))));
 }
 
 // ---- API shapes ----

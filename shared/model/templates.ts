@@ -1,4 +1,5 @@
 import type { Point } from './sketch.ts';
+import { invariant } from '../util/invariant.ts';
 
 /**
  * Section templates: pure generators of common supersonic sections from a few parameters.
@@ -42,6 +43,13 @@ export const TEMPLATE_IDS = ['wedge', 'doubleWedge', 'hexagonal', 'biconvex', 'f
 export type TemplateId = (typeof TEMPLATE_IDS)[number];
 
 const pct = (v: number) => v / 100;
+
+/** A generator's parameter; `generateSection` checked every one of the template's parameters first. */
+function param(p: Record<string, number>, key: string): number {
+  const v = p[key];
+  invariant(v !== undefined, `template parameter ${key} is missing`);
+  return v;
+}
 const DEG = Math.PI / 180;
 
 /** Rounds away binary noise so the vertex table shows 0.3 rather than 0.30000000000000004. */
@@ -61,8 +69,8 @@ export const SECTION_TEMPLATES: Record<TemplateId, SectionTemplate> = {
       { key: 'ridgePercent', label: 'Ridge position', unit: '% c', min: 10, max: 95, step: 5, default: 70, help: 'Where the ramp ends, from the nose.' },
     ],
     generate: (p) => {
-      const r = pct(p.ridgePercent);
-      return [pt(0, 0), pt(r, r * Math.tan(p.rampDeg * DEG)), pt(1, 0)];
+      const r = pct(param(p, 'ridgePercent'));
+      return [pt(0, 0), pt(r, r * Math.tan(param(p, 'rampDeg') * DEG)), pt(1, 0)];
     },
   },
   doubleWedge: {
@@ -74,8 +82,8 @@ export const SECTION_TEMPLATES: Record<TemplateId, SectionTemplate> = {
       { key: 'ridgePercent', label: 'Ridge position', unit: '% c', min: 5, max: 95, step: 5, default: 50, help: 'Where the ridge sits, from the nose.' },
     ],
     generate: (p) => {
-      const h = pct(p.thicknessPercent) / 2;
-      const r = pct(p.ridgePercent);
+      const h = pct(param(p, 'thicknessPercent')) / 2;
+      const r = pct(param(p, 'ridgePercent'));
       return [pt(0, 0), pt(r, h), pt(1, 0), pt(r, -h)];
     },
   },
@@ -88,8 +96,8 @@ export const SECTION_TEMPLATES: Record<TemplateId, SectionTemplate> = {
       { key: 'flatPercent', label: 'Flat length', unit: '% c', min: 5, max: 90, step: 5, default: 50, help: 'Length of the flat part, centred on mid-chord.' },
     ],
     generate: (p) => {
-      const h = pct(p.thicknessPercent) / 2;
-      const f = pct(p.flatPercent);
+      const h = pct(param(p, 'thicknessPercent')) / 2;
+      const f = pct(param(p, 'flatPercent'));
       const a = (1 - f) / 2;
       return [pt(0, 0), pt(a, h), pt(a + f, h), pt(1, 0), pt(a + f, -h), pt(a, -h)];
     },
@@ -103,8 +111,8 @@ export const SECTION_TEMPLATES: Record<TemplateId, SectionTemplate> = {
       { key: 'facetsPerSide', label: 'Facets per side', unit: '', min: 2, max: 200, step: 1, default: 8, integer: true, help: 'Straight facets on each surface.' },
     ],
     generate: (p) => {
-      const h = pct(p.thicknessPercent) / 2;
-      const n = Math.round(p.facetsPerSide);
+      const h = pct(param(p, 'thicknessPercent')) / 2;
+      const n = Math.round(param(p, 'facetsPerSide'));
       // Circular arc through (0,0), (1,0) and (0.5,h): radius R, centre at (0.5, h − R).
       const radius = (0.25 + h * h) / (2 * h);
       const arcY = (x: number) => Math.sqrt(Math.max(0, radius * radius - (x - 0.5) ** 2)) - (radius - h);
@@ -125,7 +133,7 @@ export const SECTION_TEMPLATES: Record<TemplateId, SectionTemplate> = {
       { key: 'thicknessPercent', label: 'Lens thickness', unit: '% c', min: 0.01, max: 1, step: 0.01, default: 0.1, help: 'Kept tiny: at 0.1 % cl differs from a true plate by under 4e-5 of its value and cd by a few 1e-6.' },
     ],
     generate: (p) => {
-      const h = pct(p.thicknessPercent) / 2;
+      const h = pct(param(p, 'thicknessPercent')) / 2;
       return [pt(0, 0), pt(0.5, h), pt(1, 0), pt(0.5, -h)];
     },
   },

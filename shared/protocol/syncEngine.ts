@@ -122,8 +122,8 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
   }
 
   function flush(): void {
-    if (!connected || rejoining || !server || pending.length === 0) return;
     const first = pending[0];
+    if (!connected || rejoining || !server || first === undefined) return;
     if (!first.sent) sendInFlight(first, false);
   }
 

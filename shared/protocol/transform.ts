@@ -1,6 +1,7 @@
 import { applyOp, explainSectionProblem } from '../model/ops.ts';
 import { DESIGN_POINT_NAME_MAX, sameDesignPointName, sketchDocumentSchema, type SketchDocument } from '../model/sketch.ts';
 import type { EditOp } from './messages.ts';
+import { firstItem, itemAt } from '../util/invariant.ts';
 
 /**
  * Operational transform for edits made on an older revision [R5]: `transformOp(op, applied)`
@@ -46,7 +47,7 @@ export function transformOp(op: EditOp, applied: EditOp, opFirst = false): Trans
     const gone = applied.index;
     switch (op.type) {
       case 'moveVertices': {
-        const keep = op.indices.map((i, k) => ({ i, to: op.to[k] })).filter((e) => e.i !== gone);
+        const keep = op.indices.map((i, k) => ({ i, to: itemAt(op.to, k) })).filter((e) => e.i !== gone);
         if (keep.length === 0) return { ok: false, reason: `Someone deleted vertex ${gone} meanwhile; there is nothing left to move.` };
         return { ok: true, op: { ...op, indices: keep.map((e) => (e.i > gone ? e.i - 1 : e.i)), to: keep.map((e) => e.to) } };
       }
@@ -82,8 +83,8 @@ function namedPoint(op: EditOp): string | undefined {
 /** " (2)", " (3)"… after a name, kept within the name's length limit. */
 function renamedApart(name: string): string {
   const m = /^(.*) \((\d+)\)$/.exec(name);
-  const base = m ? m[1] : name;
-  const n = m ? Number(m[2]) + 1 : 2;
+  const base = m?.[1] ?? name;
+  const n = m?.[2] !== undefined ? Number(m[2]) + 1 : 2;
   const suffix = ` (${n})`;
   return base.slice(0, DESIGN_POINT_NAME_MAX - suffix.length) + suffix;
 }
@@ -155,7 +156,7 @@ export function applyEdit(state: SketchState, op: EditOp, options: { trusted?: b
     // a version 1 document, which is upgraded (cheaply) rather than re-validated.
     if (options.trusted) return { ok: true, state: { ...state, document: (op.document as { version: number }).version === 1 ? sketchDocumentSchema.parse(op.document) : op.document } };
     const parsed = sketchDocumentSchema.safeParse(op.document);
-    if (!parsed.success) return { ok: false, reason: `That document is not valid: ${parsed.error.issues[0].path.join('.')} ${parsed.error.issues[0].message}.` };
+    if (!parsed.success) return { ok: false, reason: `That document is not valid: ${firstItem(parsed.error.issues).path.join('.')} ${firstItem(parsed.error.issues).message}.` };
     const problem = explainSectionProblem(parsed.data.section.points);
     if (problem) return { ok: false, reason: `That section is not allowed: ${problem}. The section must stay a simple polygon.` };
     return { ok: true, state: { ...state, document: parsed.data } };

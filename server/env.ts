@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import express from 'express';
+import { firstItem } from '../shared/util/invariant.ts';
 
 /**
  * The server's whole configuration, parsed once at boot. A bad value stops the process with a
@@ -80,7 +81,7 @@ export class EnvError extends Error {}
 export function parseEnv(source: Record<string, string | undefined>): Env {
   const result = checkedEnvSchema.safeParse(source);
   if (result.success) return result.data;
-  const first = result.error.issues[0];
+  const first = firstItem(result.error.issues);
   const name = String(first.path[0] ?? 'environment');
   const raw = source[name];
   const got = raw === undefined ? 'not set' : `got ${JSON.stringify(raw.length > 40 ? raw.slice(0, 40) + '…' : raw)}`;

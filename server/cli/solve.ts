@@ -29,8 +29,8 @@ function readCase(arg: string): string {
 
 function main(argv: readonly string[]): void {
   const args = argv.filter((a) => a !== '--');
-  if (args.length !== 1) fail(USAGE, 2);
-  const arg = args[0];
+  const [arg, ...extra] = args;
+  if (arg === undefined || extra.length > 0) fail(USAGE, 2);
   const text = readCase(arg);
   let raw: unknown;
   try {

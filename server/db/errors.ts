@@ -59,10 +59,16 @@ export function violatedConstraint(err: unknown): string | null {
 export function describeDatabaseError(err: unknown): string | null {
   const driver = chain(err).find((e) => typeof e.code === 'string' && (UNAVAILABLE_CODES.has(e.code) || /^[0-9A-Z]{5}$/.test(e.code)));
   if (driver) {
-    const first = String(driver.message ?? '').split('\n')[0];
+    const first = firstLine(String(driver.message ?? ''));
     // Data exceptions (class 22) quote the offending value after a colon: leave it out.
-    return `database error ${driver.code}: ${driver.code?.startsWith('22') ? first.split(':')[0] : first}`;
+    return `database error ${driver.code}: ${driver.code?.startsWith('22') ? first.replace(/:.*/, '') : first}`;
   }
   if (isDatabaseUnavailable(err)) return 'database unavailable';
   return null;
+}
+
+/** Text up to its first line break. */
+function firstLine(text: string): string {
+  const end = text.indexOf('\n');
+  return end < 0 ? text : text.slice(0, end);
 }

@@ -14,7 +14,14 @@ import { solveDocument } from '../api/sketches/solveDocument.ts';
  */
 export const DEMO_TEAM = 'Harrowgate Dynamics — fins group';
 export const DEMO_PASSWORD = 'harrowgate-demo';
-export const DEMO_PEOPLE: { name: string; email: string; role: Role }[] = [
+interface DemoPerson {
+  name: string;
+  email: string;
+  role: Role;
+}
+
+/** The demo team; the first person is its owner (whom start-up names for signing in). */
+export const DEMO_PEOPLE: readonly [DemoPerson, ...DemoPerson[]] = [
   { name: 'Ines Marlow', email: 'ines@harrowgate.example', role: 'owner' },
   { name: 'Tomasz Reyes', email: 'tomasz@harrowgate.example', role: 'editor' },
   { name: 'Priya Vance', email: 'priya@harrowgate.example', role: 'reviewer' },

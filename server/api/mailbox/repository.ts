@@ -1,4 +1,4 @@
-import { and, arrayContains, count, desc, eq, type SQL } from 'drizzle-orm';
+import { and, arrayContains, desc, eq, type SQL } from 'drizzle-orm';
 import type { Db } from '../../db/client.ts';
 import { mailMessages } from '../../db/schema.ts';
 import { newId } from '../../../shared/model/ids.ts';
@@ -22,7 +22,7 @@ export async function listMessages(db: Db, to: string | null, page: { limit: num
     .orderBy(desc(mailMessages.receivedAt), desc(mailMessages.id))
     .limit(page.limit)
     .offset(page.offset);
-  const [{ total }] = await db.select({ total: count() }).from(mailMessages).where(addressedTo(to));
+  const total = await db.$count(mailMessages, addressedTo(to));
   return { rows, total };
 }
 

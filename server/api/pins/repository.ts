@@ -1,4 +1,4 @@
-import { and, asc, count, desc, eq, inArray, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { Db } from '../../db/client.ts';
 import { memberships, pinReplies, pins, users } from '../../db/schema.ts';
@@ -35,7 +35,7 @@ export async function listPins(db: Db, sketchId: string, status: 'open' | 'resol
     .orderBy(desc(pins.createdAt), desc(pins.id))
     .limit(limit)
     .offset(offset);
-  const [{ total }] = await db.select({ total: count() }).from(pins).where(where);
+  const total = await db.$count(pins, where);
   return { rows, total };
 }
 

@@ -1,4 +1,4 @@
-import { count, desc, eq } from 'drizzle-orm';
+import { desc, eq } from 'drizzle-orm';
 import type { Db } from '../../db/client.ts';
 import { snapshots, users } from '../../db/schema.ts';
 import { newId } from '../../../shared/model/ids.ts';
@@ -33,7 +33,7 @@ export async function listSnapshots(db: Db, sketchId: string, limit: number, off
     .orderBy(desc(snapshots.createdAt), desc(snapshots.id))
     .limit(limit)
     .offset(offset);
-  const [{ total }] = await db.select({ total: count() }).from(snapshots).where(eq(snapshots.sketchId, sketchId));
+  const total = await db.$count(snapshots, eq(snapshots.sketchId, sketchId));
   return { rows, total };
 }
 

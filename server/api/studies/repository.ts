@@ -1,4 +1,4 @@
-import { count, desc, eq } from 'drizzle-orm';
+import { desc, eq } from 'drizzle-orm';
 import type { Db } from '../../db/client.ts';
 import { studies, users } from '../../db/schema.ts';
 import { studyDetailSchema, studySummarySchema, type StudyDefinition, type StudyDetail, type StudyResults, type StudySummary } from '../../../shared/model/study.ts';
@@ -36,7 +36,7 @@ export async function listStudies(db: Db, sketchId: string, limit: number, offse
     .orderBy(desc(studies.createdAt), desc(studies.id))
     .limit(limit)
     .offset(offset);
-  const [{ total }] = await db.select({ total: count() }).from(studies).where(eq(studies.sketchId, sketchId));
+  const total = await db.$count(studies, eq(studies.sketchId, sketchId));
   return { rows: rows.map(toSummary), total };
 }
 

@@ -1,4 +1,4 @@
-import { and, desc, eq, gt, isNull, sql, count } from 'drizzle-orm';
+import { and, desc, eq, gt, isNull, sql } from 'drizzle-orm';
 import type { Db, DbOrTx, Tx } from '../../db/client.ts';
 import { auditEvents, invitations, memberships, teams, users } from '../../db/schema.ts';
 import { newId } from '../../../shared/model/ids.ts';
@@ -137,7 +137,7 @@ export async function listAudit(db: Db, teamId: string, page: { limit: number; o
     .orderBy(desc(auditEvents.createdAt), desc(auditEvents.id))
     .limit(page.limit)
     .offset(page.offset);
-  const [{ total }] = await db.select({ total: count() }).from(auditEvents).where(eq(auditEvents.teamId, teamId));
+  const total = await db.$count(auditEvents, eq(auditEvents.teamId, teamId));
   return { rows, total };
 }
 

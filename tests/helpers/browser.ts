@@ -90,6 +90,7 @@ export async function worldOnScreen(page: Page, p: readonly [number, number]): P
   const canvas = page.getByTestId('sketch-canvas');
   const box = (await canvas.boundingBox())!;
   const [scale, originX, originY, exaggeration = 1] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
+  if (scale === undefined || originX === undefined || originY === undefined) throw new Error('the canvas has no data-view (scale originX originY)');
   return { x: box.x + p[0] * scale + originX, y: box.y - p[1] * scale * exaggeration + originY };
 }
 

@@ -17,8 +17,9 @@ export function expectClose(actual: number, expected: number, tol: number): void
  * more or less precision than its source has.
  */
 export function expectPrinted(actual: number, printed: string): void {
-  const [mantissa, exponent] = printed.toLowerCase().split('e');
-  const decimals = mantissa.includes('.') ? mantissa.split('.')[1].length : 0;
+  const [mantissa = '', exponent] = printed.toLowerCase().split('e'); // split always gives a first part
+  const dot = mantissa.indexOf('.');
+  const decimals = dot < 0 ? 0 : mantissa.length - dot - 1;
   const scale = exponent === undefined ? 1 : 10 ** Number(exponent);
   expectClose(actual, Number(printed), 0.5 * 10 ** -decimals * scale * (1 + 1e-12));
 }

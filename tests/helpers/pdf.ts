@@ -2,6 +2,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, rmSync, writeFileSync, mkdirSync, copyFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 /**
  * PDF checks for tests. Pages are counted in JavaScript (page objects in the file); text and
@@ -44,7 +45,7 @@ export function pdfFonts(pdf: Buffer): { name: string; embedded: boolean }[] {
       .filter((l) => l.trim())
       .map((l) => {
         const cols = l.trim().split(/\s+/);
-        return { name: cols[0].replace(/^[A-Z]{6}\+/, ''), embedded: cols[cols.length - 5] === 'yes' };
+        return { name: itemAt(cols, 0).replace(/^[A-Z]{6}\+/, ''), embedded: cols[cols.length - 5] === 'yes' };
       });
   });
 }

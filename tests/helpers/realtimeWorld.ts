@@ -7,6 +7,7 @@ import { sketchDocumentSchema, type SketchDocument } from '../../shared/model/sk
 import { applyEdit, type SketchState } from '../../shared/protocol/transform.ts';
 import type { EditOp } from '../../shared/protocol/messages.ts';
 import type { Db } from '../../server/db/client.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 export const RT_PASSWORD = 'realtime password';
 
@@ -34,7 +35,7 @@ export async function seedTeam(db: Db, people: { name: string; role: Role }[]) {
   }
   const sketchId = newId('sketch');
   const initial = ellipseDocument();
-  await db.insert(sketches).values({ id: sketchId, teamId, title: 'Shared section', document: initial, createdBy: out[0].id, updatedBy: out[0].id });
+  await db.insert(sketches).values({ id: sketchId, teamId, title: 'Shared section', document: initial, createdBy: itemAt(out, 0).id, updatedBy: itemAt(out, 0).id });
   return { teamId, users: out, sketchId, initial };
 }
 

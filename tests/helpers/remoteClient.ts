@@ -6,6 +6,7 @@ import { io } from 'socket.io-client';
 import { PROTOCOL_VERSION } from '../../shared/protocol/messages.ts';
 
 const [url, cookie, sketchId] = process.argv.slice(2);
+if (url === undefined || cookie === undefined || sketchId === undefined) throw new Error('usage: remoteClient URL COOKIE SKETCH_ID');
 const socket = io(url, { transports: ['websocket'], extraHeaders: { cookie }, reconnection: false });
 socket.on('connect', () => socket.emit('message', { type: 'join', protocol: PROTOCOL_VERSION, sketchId }));
 socket.on('message', (msg: { type: string }) => {

@@ -3,6 +3,7 @@ import { createSyncEngine, type SyncEngine } from '../../shared/protocol/syncEng
 import type { ClientMessage, ClientToServerEvents, EditOp, ServerMessage, ServerToClientEvents } from '../../shared/protocol/messages.ts';
 import { newId } from '../../shared/model/ids.ts';
 import type { SketchDocument } from '../../shared/model/sketch.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 /**
  * A simulated editor: socket.io-client + the same sync engine the browser uses. Records every
@@ -36,7 +37,8 @@ export async function signInCookie(baseUrl: string, email: string, password: str
   });
   if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`);
   const cookie = res.headers.getSetCookie().find((c) => c.startsWith('sw.sid='));
-  return cookie!.split(';')[0];
+  if (!cookie) throw new Error('no session cookie in the sign-in answer');
+  return cookie.replace(/;.*$/s, '');
 }
 
 export function simClient(baseUrl: string, cookie: string, options: { reconnect?: boolean } = {}): SimClient {
@@ -126,18 +128,18 @@ export function randomEdit(doc: SketchDocument, rand: () => number, opId: string
   const k = Math.floor(rand() * n);
   const pick = rand();
   if (pick < 0.5) {
-    const [x, y] = pts[k];
+    const [x, y] = itemAt(pts, k);
     return { type: 'moveVertices', opId, indices: [k], to: [[x + (rand() - 0.5) * 0.02, y + (rand() - 0.5) * 0.02]] };
   }
   if (pick < 0.6 && n < 40) {
-    const a = pts[k];
-    const b = pts[(k + 1) % n];
+    const a = itemAt(pts, k);
+    const b = itemAt(pts, (k + 1) % n);
     return { type: 'insertVertex', opId, index: k + 1, at: [(a[0] + b[0]) / 2, (a[1] + b[1]) / 2] };
   }
   if (pick < 0.68 && n > 12) return { type: 'deleteVertex', opId, index: k };
   if (pick < 0.8) return randomPointEdit(doc, rand, opId);
   if (pick < 0.95) {
-    const point = doc.designPoints[Math.floor(rand() * doc.designPoints.length)];
+    const point = itemAt(doc.designPoints, Math.floor(rand() * doc.designPoints.length));
     return { type: 'setCondition', opId, pointId: point.id, field: 'mach', value: Math.round((1.5 + rand() * 3) * 100) / 100 };
   }
   return { type: 'rename', opId, title: `Random title ${Math.floor(rand() * 1000)}` };
@@ -146,8 +148,8 @@ export function randomEdit(doc: SketchDocument, rand: () => number, opId: string
 /** A random design point edit: add, remove, rename, reorder, select or change one. */
 export function randomPointEdit(doc: SketchDocument, rand: () => number, opId: string): EditOp {
   const points = doc.designPoints;
-  const point = points[Math.floor(rand() * points.length)];
-  const name = POINT_NAMES[Math.floor(rand() * POINT_NAMES.length)];
+  const point = itemAt(points, Math.floor(rand() * points.length));
+  const name = itemAt(POINT_NAMES, Math.floor(rand() * POINT_NAMES.length));
   const pick = rand();
   if (pick < 0.25 && points.length < 6) {
     return {

@@ -10,6 +10,7 @@ import { defaultSketchDocument } from '../../shared/model/sketch.ts';
 import type { Role } from '../../shared/model/roles.ts';
 import { createTestDatabase, type TestDatabase } from './database.ts';
 import { testEnv } from './app.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 export const CSRF = { 'x-shockwright-request': '1' } as const;
 export const PASSWORD = 'correct horse battery';
@@ -73,7 +74,7 @@ export async function createWorld(options: { limits?: Partial<RateLimits>; env?:
   const passwordHash = await hashPassword(PASSWORD);
   const people = {} as Record<Member, TestUser>;
   for (const actor of ['owner', 'editor', 'reviewer', 'viewer', 'outsider'] as const) {
-    const u = { id: newId('user'), email: `${actor}@example.test`, name: `${actor[0].toUpperCase()}${actor.slice(1)} Person` };
+    const u = { id: newId('user'), email: `${actor}@example.test`, name: `${itemAt(actor, 0).toUpperCase()}${actor.slice(1)} Person` };
     await database.db.insert(users).values({ ...u, passwordHash });
     people[actor] = u;
   }
@@ -128,7 +129,7 @@ export function sessionCookie(setCookie: string | string[] | undefined): string 
   const list = Array.isArray(setCookie) ? setCookie : setCookie ? [setCookie] : [];
   const c = list.find((x) => x.startsWith('sw.sid='));
   if (!c) throw new Error('no session cookie in the response');
-  return c.split(';')[0];
+  return c.replace(/;.*$/s, '');
 }
 
 /** Waits (up to 30 s: a loaded machine) for a message to `to` whose subject matches, and returns it. */

@@ -65,7 +65,7 @@ describe('sign-up, sign-in, sessions', () => {
 
   it('the session cookie is HttpOnly and SameSite=Lax', async () => {
     const res = await request(world.app).post('/api/auth/sign-in').set(CSRF).send({ email: world.users.viewer.email, password: PASSWORD });
-    const cookie = ([] as string[]).concat(res.headers['set-cookie']).find((c) => c.startsWith('sw.sid='))!;
+    const cookie = ([] as string[]).concat(res.headers['set-cookie'] ?? []).find((c) => c.startsWith('sw.sid='))!;
     expect(cookie).toMatch(/HttpOnly/i);
     expect(cookie).toMatch(/SameSite=Lax/i);
   });

@@ -3,6 +3,7 @@ import { spawn } from 'node:child_process';
 import { createConnection } from 'node:net';
 import { rmSync } from 'node:fs';
 import path from 'node:path';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 const ROOT = path.resolve(import.meta.dirname, '../..');
 
@@ -31,7 +32,7 @@ describe('a crash of the process that started PostgreSQL', () => {
       expect(code).toBe(1); // it did crash
       expect(await listening(Number(m![1]))).toBe(false);
     } finally {
-      rmSync(m![2], { recursive: true, force: true });
+      rmSync(itemAt(m!, 2), { recursive: true, force: true });
     }
   }, 60_000);
 });

@@ -4,10 +4,11 @@ import { and, asc, eq, isNotNull } from 'drizzle-orm';
 import { sketchEdits } from '../../server/db/schema.ts';
 import { defaultSketchDocument } from '../../shared/model/sketch.ts';
 import { CSRF, createWorld, freshSketch, linkIn, signIn, waitForMail, type World } from '../helpers/world.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 describe('review workflow API', () => {
   let world: World;
-  const cookie: Record<string, string> = {};
+  const cookie = {} as Record<'owner' | 'editor' | 'reviewer' | 'viewer', string>; // filled in beforeAll
   let sketchId: string;
 
   const as = (who: 'owner' | 'editor' | 'reviewer' | 'viewer') => ({
@@ -75,7 +76,7 @@ describe('review workflow API', () => {
     expect(restored.body.document).toEqual(defaultSketchDocument());
     const log = await world.database.db.select().from(sketchEdits).where(and(eq(sketchEdits.sketchId, sketchId), isNotNull(sketchEdits.revision))).orderBy(asc(sketchEdits.revision));
     expect(log.map((e) => [e.revision, (e.op as { type: string }).type])).toEqual([[1, 'replaceDocument'], [2, 'replaceDocument']]);
-    expect((log[0].op as { document: unknown }).document).toEqual(thinner);
+    expect((itemAt(log, 0).op as { document: unknown }).document).toEqual(thinner);
 
     const list = await as('viewer').get(`/api/sketches/${sketchId}/snapshots`);
     expect(list.body.items.map((s: { name: string; kind: string; revision: number }) => [s.name, s.kind, s.revision])).toEqual([

@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { defaultSketchDocument } from '../../shared/model/sketch.ts';
 import { CSRF, createWorld, freshSketch, signIn, type World } from '../helpers/world.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 describe('unknown keys are refused by name at every solver input', () => {
   let world: World;
@@ -38,7 +39,7 @@ describe('unknown keys are refused by name at every solver input', () => {
 
   it('PUT /api/sketches/:id/document: a document with "gama" in a condition is refused and nothing is saved (version 1 and 2)', async () => {
     const doc = defaultSketchDocument();
-    const point = doc.designPoints[0];
+    const point = itemAt(doc.designPoints, 0);
     const res = await put(`/api/sketches/${sketchId}/document`, { document: { ...doc, designPoints: [{ ...point, condition: { ...point.condition, gama: 1.3 } }] }, baseRevision: 0 });
     expect(res.status).toBe(400);
     expect(res.body.error.message).toMatch(/document\.designPoints\[0\]\.condition.*"gama"/);

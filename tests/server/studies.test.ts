@@ -34,7 +34,7 @@ const binary = (res: request.Response, cb: (err: Error | null, body: Buffer) => 
 
 describe('studies, unit preferences and reports API', () => {
   let world: World;
-  const cookie: Record<string, string> = {};
+  const cookie = {} as Record<'owner' | 'editor' | 'viewer', string>; // filled in beforeAll
   let sketchId: string;
   let revision: number;
 

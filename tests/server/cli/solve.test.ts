@@ -6,6 +6,7 @@ import { spawnSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import type { SolveResult } from '../../../shared/solver/types';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 function run(args: string[], stdin?: string) {
   const r = spawnSync(process.execPath, ['--import', 'tsx', 'server/cli/solve.ts', ...args], {
@@ -37,7 +38,7 @@ describe('solve CLI', () => {
     const out = JSON.parse(r.stdout) as SolveResult;
     expect(out.status).toBe('detached');
     expect(out.coefficients).toBeNull();
-    expect(out.limits[0].message).toMatch(/detaches/);
+    expect(itemAt(out.limits, 0).message).toMatch(/detaches/);
   });
 
   it('reads the case from stdin with "-"', () => {

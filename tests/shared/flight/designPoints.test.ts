@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { analyseSketch } from '../../../shared/flight/analyseSketch.ts';
 import { analyseDesignPoints, pointAnalysis, readStoredAnalysis, selectedAnalysis } from '../../../shared/flight/designPoints.ts';
 import { caseAt, defaultSketchDocument, FIRST_DESIGN_POINT_ID, type SketchDocument } from '../../../shared/model/sketch.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 /** Our own 6 % fin with a 25 % flap and three design points (invented for the tests). */
 function fin(): SketchDocument {
@@ -36,7 +37,7 @@ describe('analyseDesignPoints', () => {
     const doc = fin();
     const all = analyseDesignPoints(doc);
     for (const p of all.points) expect(p.analysis.result!.waves.length > 0).toBe(p.id === 'point_pullup00000000000000');
-    const cruiseWithWaves = analyseSketch(caseAt(doc, doc.designPoints[0]), { waves: true });
+    const cruiseWithWaves = analyseSketch(caseAt(doc, itemAt(doc.designPoints, 0)), { waves: true });
     expect(pointAnalysis(all, 'point_cruise00000000000000')!.result!.coefficients).toEqual(cruiseWithWaves.result!.coefficients);
     expect(pointAnalysis(all, 'point_cruise00000000000000')!.loads).toEqual(cruiseWithWaves.loads);
   });
@@ -50,7 +51,7 @@ describe('analyseDesignPoints', () => {
     const doc = fin();
     const all = analyseDesignPoints(doc);
     expect(readStoredAnalysis(JSON.parse(JSON.stringify(all)))).toEqual(all);
-    const bare = analyseSketch(caseAt(defaultSketchDocument(), defaultSketchDocument().designPoints[0]));
+    const bare = analyseSketch(caseAt(defaultSketchDocument(), itemAt(defaultSketchDocument().designPoints, 0)));
     const old = readStoredAnalysis(bare);
     expect(old).toEqual({ version: 2, selectedPointId: FIRST_DESIGN_POINT_ID, points: [{ id: FIRST_DESIGN_POINT_ID, name: 'Design point 1', analysis: bare }] });
     expect(readStoredAnalysis(null)).toBeNull();

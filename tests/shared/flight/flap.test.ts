@@ -4,6 +4,7 @@ import { parseSolveInput } from '../../../shared/model/solveInput.ts';
 import { solveSection } from '../../../shared/solver/index.ts';
 import type { Point } from '../../../shared/model/sketch.ts';
 import { expectClose, expectCloseRel } from '../../helpers/expectClose.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 const diamond: Point[] = [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]];
 
@@ -28,7 +29,7 @@ describe('deflectFlap', () => {
     expect(r.hinge[0]).toBe(0.75);
     expectClose(r.hinge[1], 0, 1e-15);
     expect(r.flapChord).toBe(0.25);
-    const te = r.points[r.flapVertices[0]];
+    const te = itemAt(r.points, itemAt(r.flapVertices, 0));
     expectClose(te[0], 0.75 + 0.25 * Math.cos((10 * Math.PI) / 180), 1e-12);
     expectClose(te[1], -0.25 * Math.sin((10 * Math.PI) / 180), 1e-12);
     expect(diamond).toEqual([[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]]); // input untouched

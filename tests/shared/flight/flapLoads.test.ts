@@ -10,6 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { analyseSketch } from '../../../shared/flight/analyseSketch.ts';
 import type { SketchCase } from '../../../shared/model/sketch.ts';
 import { expectClose, expectCloseRel } from '../../helpers/expectClose.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 const CHORD_M = 0.32;
 const P_SEA_LEVEL_PA = 101_325; // U.S. Standard Atmosphere 1976, sea-level pressure (defined)
@@ -30,7 +31,7 @@ function fin(deflectionDeg: number): SketchCase {
 /** Signed area (shoelace): > 0 for a counter-clockwise outline. */
 const signedArea = (pts: readonly [number, number][]) =>
   pts.reduce((s, p, i) => {
-    const q = pts[(i + 1) % pts.length];
+    const q = itemAt(pts, (i + 1) % pts.length);
     return s + 0.5 * (p[0] * q[1] - q[0] * p[1]);
   }, 0);
 
@@ -44,8 +45,8 @@ function integrate(points: readonly [number, number][], pOf: (edge: number) => n
   let fy = 0;
   let mz = 0;
   for (const i of edges) {
-    const a = points[i];
-    const b = points[(i + 1) % points.length];
+    const a = itemAt(points, i);
+    const b = itemAt(points, (i + 1) % points.length);
     const dx = (b[0] - a[0]) * scale;
     const dy = (b[1] - a[1]) * scale;
     // Outward normal times length: right of the edge for a counter-clockwise outline.
@@ -100,8 +101,8 @@ describe('flap loads are referred to the drawn section (hand integration of face
     const onHingeLine = ([x]: [number, number]) => Math.abs(x - HINGE_X) < 1e-12;
     const back = ([x, y]: [number, number]) => hinge[0] + Math.cos(d) * (x - hinge[0]) - Math.sin(d) * (y - hinge[1]);
     const onFlapVertex = (p: [number, number]) => onHingeLine(p) || back(p) > HINGE_X + 1e-12;
-    const next = (i: number) => pts[(i + 1) % pts.length];
-    const flapEdges = [...pts.keys()].filter((i) => onFlapVertex(pts[i]) && onFlapVertex(next(i)) && !(onHingeLine(pts[i]) && onHingeLine(next(i))));
+    const next = (i: number) => itemAt(pts, (i + 1) % pts.length);
+    const flapEdges = [...pts.keys()].filter((i) => onFlapVertex(itemAt(pts, i)) && onFlapVertex(next(i)) && !(onHingeLine(itemAt(pts, i)) && onHingeLine(next(i))));
     expect(flapEdges.length).toBe(2);
     const h = integrate(pts, (i) => pOfEdge.get(i)!, scale, hinge, flapEdges);
     expectCloseRel(loads.perSpan.hingeMomentNMPerM!, -h.mz, 1e-9);

@@ -17,6 +17,7 @@ import {
   type StudyResults,
 } from '../../../shared/model/study.ts';
 import { expectClose, expectCloseRel } from '../../helpers/expectClose.ts';
+import { firstItem, itemAt } from '../../../shared/util/invariant.ts';
 
 /** Our own 6 %-thick diamond fin with a 25 % flap (the demo's kind of section). */
 function flappedDiamond(): SketchCase {
@@ -105,7 +106,7 @@ describe('runStudy', () => {
   it('[ST3] packing keeps 7 significant figures and round-trips the columns', () => {
     const results = done(runStudy(doc, def({ mach: { kind: 'list', values: [2.2] }, alpha: { startDeg: 3, endDeg: 3, stepDeg: 1 }, flapDeg: [5], altitudeM: 9000 })));
     const single = studyRow(analyseSketch(doc, { waves: false, mach: 2.2, alphaDeg: 3, flapDeg: 5, altitudeM: 9000 }), 2.2, 3, 5);
-    const [row] = unpackStudyRows(results);
+    const row = itemAt(unpackStudyRows(results), 0);
     expect(results.columns).toEqual(STUDY_COLUMNS);
     for (const k of ['cl', 'cd', 'cdFriction', 'cm', 'chExact', 'clLinear', 'cdSecondOrder'] as const) expectCloseRel(row[k]!, single[k]!, 5e-7);
     expect(row.status).toBe('ok');
@@ -113,11 +114,11 @@ describe('runStudy', () => {
   });
 
   it('total drag is wave + friction at an altitude, and wave drag alone without one', () => {
-    const [high] = unpackStudyRows(done(runStudy(doc, def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 2, endDeg: 2, stepDeg: 1 }, altitudeM: 11_000 }))));
+    const high = firstItem(unpackStudyRows(done(runStudy(doc, def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 2, endDeg: 2, stepDeg: 1 }, altitudeM: 11_000 })))));
     expect(high.cdFriction!).toBeGreaterThan(0);
     expectClose(high.cdTotal!, high.cd! + high.cdFriction!, 1e-7);
     expectCloseRel(high.liftToDrag!, high.cl! / high.cdTotal!, 1e-6);
-    const [none] = unpackStudyRows(done(runStudy(doc, def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 2, endDeg: 2, stepDeg: 1 }, altitudeM: null }))));
+    const none = firstItem(unpackStudyRows(done(runStudy(doc, def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 2, endDeg: 2, stepDeg: 1 }, altitudeM: null })))));
     expect(none.cdFriction).toBeNull();
     expect(none.cdTotal).toBe(none.cd);
     expect(none.liftToDrag).toBe(none.liftToDragWave);
@@ -130,8 +131,8 @@ describe('runStudy', () => {
       const line = rows.filter((r) => r.mach === mach).sort((a, b) => a.flapDeg! - b.flapDeg!);
       expect(line.map((r) => r.status)).toEqual(['ok', 'ok', 'ok', 'ok', 'ok']);
       for (let k = 1; k < line.length; k++) {
-        expect(line[k].chExact!).toBeLessThan(line[k - 1].chExact!);
-        expect(line[k].chLinear!).toBeLessThan(line[k - 1].chLinear!);
+        expect(itemAt(line, k).chExact!).toBeLessThan(itemAt(line, k - 1).chExact!);
+        expect(itemAt(line, k).chLinear!).toBeLessThan(itemAt(line, k - 1).chLinear!);
       }
       const zero = line.find((r) => r.flapDeg === 0)!;
       expectClose(zero.chExact!, 0, 1e-9);

@@ -5,6 +5,7 @@ import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
 import { defaultSketchDocument, selectedPoint } from '../../../shared/model/sketch.ts';
 import { parseSolveInput } from '../../../shared/model/solveInput.ts';
 import { solveSection } from '../../../shared/solver/index.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 describe('parseCoordinates', () => {
   it('reads whitespace-separated x y with comments and blank lines', () => {
@@ -44,19 +45,19 @@ describe('parseCoordinates', () => {
   it('reports a repeated vertex with both line numbers', () => {
     const r = parseCoordinates('# c\n0 0\n0.5 0.03\n1 0\n0.5 0.03\n');
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(formatCoordinatesIssue(r.issues[0])).toBe('Line 5: repeats the point on line 3 (0.5, 0.03); each vertex must be distinct.');
+    if (!r.ok) expect(formatCoordinatesIssue(itemAt(r.issues, 0))).toBe('Line 5: repeats the point on line 3 (0.5, 0.03); each vertex must be distinct.');
   });
 
   it('reports crossing facets by their lines', () => {
     const r = parseCoordinates('0 0\n1 1\n1 0\n0 1\n');
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.issues[0].message).toMatch(/^the facet from line \d to line \d crosses or touches the facet from line \d to line \d/);
+    if (!r.ok) expect(itemAt(r.issues, 0).message).toMatch(/^the facet from line \d to line \d crosses or touches the facet from line \d to line \d/);
   });
 
   it('refuses too few points and a file of collinear points as whole-file problems', () => {
     const few = parseCoordinates('0 0\n1 0\n');
     expect(few).toEqual({ ok: false, issues: [{ line: null, message: 'a section needs at least 3 points; the file has 2.' }] });
-    expect(formatCoordinatesIssue((few as { issues: { line: null; message: string }[] }).issues[0])).toBe(
+    expect(formatCoordinatesIssue(itemAt((few as { issues: { line: null; message: string }[] }).issues, 0))).toBe(
       'A section needs at least 3 points; the file has 2.',
     );
     const empty = parseCoordinates('');
@@ -92,10 +93,10 @@ describe('exports', () => {
     expect(csv[3]).toMatch(/^# x_mid_over_c from the leading edge \(0, 0\) over the reference chord 1 \(the solved outline\)/);
     expect(csv[4]).toBe(FACET_CSV_COLUMNS.join(','));
     expect(csv.slice(5)).toHaveLength(4);
-    const first = csv[5].split(',');
+    const first = itemAt(csv, 5).split(',');
     expect(first).toHaveLength(FACET_CSV_COLUMNS.length);
     expect(first[0]).toBe('upper');
-    expect(Number(first[FACET_CSV_COLUMNS.indexOf('cp')])).toBe(result.surfaces.upper[0].cp);
+    expect(Number(first[FACET_CSV_COLUMNS.indexOf('cp')])).toBe(itemAt(result.surfaces.upper, 0).cp);
   });
 
   it('the result JSON carries the caution, the document and the result', () => {

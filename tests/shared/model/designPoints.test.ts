@@ -14,6 +14,7 @@ import {
 import { applyOp, invertOp, sketchOpSchema, withOpId, type SketchOp, type SketchOpDraft } from '../../../shared/model/ops.ts';
 import { applyEdit } from '../../../shared/protocol/transform.ts';
 import { reached } from '../../helpers/reached.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 /** A stored document as version 1 wrote it (one condition, the deflection on the flap). */
 const V1 = {
@@ -66,11 +67,11 @@ describe('document versions', () => {
     expect(bare.flap).toBeNull();
     const bad = sketchDocumentSchema.safeParse({ ...V1, condition: { ...V1.condition, mach: 0.5 } });
     expect(bad.success).toBe(false);
-    expect(bad.error!.issues[0].path).toEqual(['condition', 'mach']);
+    expect(itemAt(bad.error!.issues, 0).path).toEqual(['condition', 'mach']);
   });
 
   it('refuses an unknown version, unknown keys, repeated ids or names and a selection that is not a point [D1]–[D3]', () => {
-    expect(sketchDocumentSchema.safeParse({ ...V1, version: 3 }).error!.issues[0].message).toBe('version must be 1 or 2');
+    expect(itemAt(sketchDocumentSchema.safeParse({ ...V1, version: 3 }).error!.issues, 0).message).toBe('version must be 1 or 2');
     const doc = threePoints();
     const misspelt = sketchDocumentSchema.safeParse({ ...doc, designPoints: [{ ...doc.designPoints[0], gama: 1.3 }] });
     expect(misspelt.error!.issues[0]).toMatchObject({ code: 'unrecognized_keys', keys: ['gama'], path: ['designPoints', 0] });
@@ -81,9 +82,9 @@ describe('document versions', () => {
     const lost = sketchDocumentSchema.safeParse({ ...doc, selectedPointId: 'point_elsewhere00000000000' });
     expect(lost.error!.issues[0]).toMatchObject({ path: ['selectedPointId'], message: 'must name one of the design points' });
     const none = sketchDocumentSchema.safeParse({ ...doc, designPoints: [] });
-    expect(none.error!.issues[0].message).toBe('a sketch needs at least one design point');
+    expect(itemAt(none.error!.issues, 0).message).toBe('a sketch needs at least one design point');
     const many = Array.from({ length: MAX_DESIGN_POINTS + 1 }, (_, i) => point(`point_p${String(i).padStart(19, '0')}`, `P${i}`));
-    expect(sketchDocumentSchema.safeParse({ ...doc, designPoints: many, selectedPointId: 'point_p0000000000000000000' }).error!.issues[0].message).toBe(`at most ${MAX_DESIGN_POINTS} design points`);
+    expect(itemAt(sketchDocumentSchema.safeParse({ ...doc, designPoints: many, selectedPointId: 'point_p0000000000000000000' }).error!.issues, 0).message).toBe(`at most ${MAX_DESIGN_POINTS} design points`);
   });
 
   it('refuses design point names with control characters or unpaired surrogates, naming the field', () => {
@@ -91,7 +92,7 @@ describe('document versions', () => {
     for (const name of ['Cruise\u0000', 'Line\nbreak', 'Half \uD800 pair', '   ']) {
       const r = sketchDocumentSchema.safeParse({ ...doc, designPoints: [{ ...doc.designPoints[0], name }, ...doc.designPoints.slice(1)] });
       expect(r.success, JSON.stringify(name)).toBe(false);
-      expect(r.error!.issues[0].path).toEqual(['designPoints', 0, 'name']);
+      expect(itemAt(r.error!.issues, 0).path).toEqual(['designPoints', 0, 'name']);
     }
     // A paired surrogate (an emoji) is ordinary text.
     expect(sketchDocumentSchema.safeParse({ ...doc, designPoints: [{ ...doc.designPoints[0], name: 'Cruise 🚀' }, ...doc.designPoints.slice(1)] }).success).toBe(true);
@@ -134,8 +135,8 @@ describe('design point ops', () => {
 
   it('rename trims, refuses a name another point has, and accepts a new case of its own name', () => {
     const doc = threePoints();
-    expect(applied(doc, { type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: '  Cruise 2  ' }).designPoints[0].name).toBe('Cruise 2');
-    expect(applied(doc, { type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: 'CRUISE' }).designPoints[0].name).toBe('CRUISE');
+    expect(itemAt(applied(doc, { type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: '  Cruise 2  ' }).designPoints, 0).name).toBe('Cruise 2');
+    expect(itemAt(applied(doc, { type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: 'CRUISE' }).designPoints, 0).name).toBe('CRUISE');
     expect(applyOp(doc, withOpId({ type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: 'pull-up' }))).toEqual({ ok: false, reason: 'There is already a design point named “Pull-up”.' });
     expect(applyOp(doc, withOpId({ type: 'renameDesignPoint', pointId: 'point_cruise00000000000000', name: '' })).ok).toBe(false);
   });
@@ -219,7 +220,7 @@ describe('invertOp on design points [O3]', () => {
         let fresh = 0;
         for (const s of steps) {
           const pts = doc.designPoints;
-          const p = pts[s.a % pts.length];
+          const p = itemAt(pts, s.a % pts.length);
           const draft: SketchOpDraft = [
             { type: 'addDesignPoint', point: point(`point_new${String(fresh++).padStart(17, '0')}`, `${s.name} ${s.b}`), index: s.b % (pts.length + 2), select: s.b % 2 === 0 },
             { type: 'removeDesignPoint', pointId: p.id },

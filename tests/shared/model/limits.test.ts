@@ -7,6 +7,7 @@ import { defaultSketchDocument, MAX_SECTION_VERTICES, sketchDocumentSchema, type
 import { fileSafeName } from '../../../shared/model/sketchExport.ts';
 import { parseSolveInput } from '../../../shared/model/solveInput.ts';
 import { presenceMessageSchema } from '../../../shared/protocol/messages.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 /** n vertices of a thin ellipse: a simple polygon of any size. */
 const ellipse = (n: number): Point[] => Array.from({ length: n }, (_, i) => [0.5 + 0.5 * Math.cos((2 * Math.PI * i) / n), 0.05 * Math.sin((2 * Math.PI * i) / n)]);
@@ -71,7 +72,7 @@ describe('[M1] one id pattern for every edge', () => {
     expect(idSchema('sketch').safeParse(newId('sketch')).success).toBe(true);
     const wrong = idSchema('sketch').safeParse(newId('team'));
     expect(wrong.success).toBe(false);
-    expect(wrong.error!.issues[0].message).toBe('must be a sketch id');
-    expect(idSchema('invite', 'invitation').safeParse('invite_x').error!.issues[0].message).toBe('must be an invitation id');
+    expect(itemAt(wrong.error!.issues, 0).message).toBe('must be a sketch id');
+    expect(itemAt(idSchema('invite', 'invitation').safeParse('invite_x').error!.issues, 0).message).toBe('must be an invitation id');
   });
 });

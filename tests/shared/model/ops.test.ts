@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { defaultSketchDocument, selectedPoint, type Point, type SketchDocument } from '../../../shared/model/sketch.ts';
 import { applyOp, explainSectionProblem, invertOp, remapVertexIndex, sketchOpSchema, withOpId, type SketchOp } from '../../../shared/model/ops.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 /** The demo double wedge: nose 0, upper ridge 1, tail 2, lower ridge 3. */
 function doc(): SketchDocument {
@@ -153,7 +154,7 @@ describe('invertOp', () => {
         ),
         (i, [small, x, y]) => {
           const before = doc();
-          const at = before.section.points[i];
+          const at = itemAt(before.section.points, i);
           const to: [number, number] = small ? [at[0] + x, at[1] + y] : [x, y];
           const op = withOpId({ type: 'moveVertices', indices: [i], to: [to] });
           const r = applyOp(before, op);
@@ -275,7 +276,7 @@ describe('incremental section check', () => {
             if (op.type === 'moveVertices') p[i] = [x, y];
             else if (op.type === 'insertVertex') p.splice(i, 0, [x, y]);
             else if (op.type === 'deleteVertex') p.splice(i, 1);
-            else p[i] = [p[i][0], y];
+            else p[i] = [itemAt(p, i)[0], y];
             return p;
           })();
           const full = explainSectionProblem(points);

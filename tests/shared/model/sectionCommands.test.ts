@@ -18,6 +18,7 @@ import { sectionShape } from '../../../shared/model/sectionShape.ts';
 import { defaultSketchDocument, type Point } from '../../../shared/model/sketch.ts';
 import { generateSection } from '../../../shared/model/templates.ts';
 import { expectClose } from '../../helpers/expectClose.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 /** The 5 % double wedge with its ridge at mid-chord (listed nose, upper, tail, lower). */
 const wedge5: Point[] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
@@ -32,8 +33,8 @@ function ok(r: CommandResult): Point[] {
 function expectPoints(actual: Point[], expected: Point[], tol = 1e-12) {
   expect(actual).toHaveLength(expected.length);
   actual.forEach((p, i) => {
-    expectClose(p[0], expected[i][0], tol);
-    expectClose(p[1], expected[i][1], tol);
+    expectClose(p[0], itemAt(expected, i)[0], tol);
+    expectClose(p[1], itemAt(expected, i)[1], tol);
   });
 }
 
@@ -156,8 +157,8 @@ describe('mirrorSurface', () => {
   it('mirrorSurface about a slanted chord line: (0.5, 0.1) about y = 0.1x lands at (0.50990…, 0.00099…)', () => {
     // Reflection of p about the line along d = (1, 0.1): 2(p·d)/(d·d)·d − p = (1.00990 − 0.5, 0.100990 − 0.1).
     const out = ok(mirrorSurface([[0, 0], [0.5, 0.1], [1, 0.1], [0.5, 0.0]], 'upper'));
-    expectClose(out[3][0], (2 * 0.51) / 1.01 - 0.5, 1e-12);
-    expectClose(out[3][1], (2 * 0.051) / 1.01 - 0.1, 1e-12);
+    expectClose(itemAt(out, 3)[0], (2 * 0.51) / 1.01 - 0.5, 1e-12);
+    expectClose(itemAt(out, 3)[1], (2 * 0.051) / 1.01 - 0.1, 1e-12);
   });
 
   it('refuses a blunt nose', () => {
@@ -200,10 +201,10 @@ describe('rotateSection / normaliseSection', () => {
     const out = ok(rotateSection(wedge5, 10, [0.25, 0]));
     const c = Math.cos((10 * Math.PI) / 180);
     const s = Math.sin((10 * Math.PI) / 180);
-    expectClose(out[2][0], 0.25 + 0.75 * c, 1e-12);
-    expectClose(out[2][1], -0.75 * s, 1e-12);
-    expectClose(out[0][0], 0.25 - 0.25 * c, 1e-12);
-    expectClose(out[0][1], 0.25 * s, 1e-12);
+    expectClose(itemAt(out, 2)[0], 0.25 + 0.75 * c, 1e-12);
+    expectClose(itemAt(out, 2)[1], -0.75 * s, 1e-12);
+    expectClose(itemAt(out, 0)[0], 0.25 - 0.25 * c, 1e-12);
+    expectClose(itemAt(out, 0)[1], 0.25 * s, 1e-12);
   });
 
   it('normaliseSection((2,1),(3,1.05),(4,1),(3,0.95)) gives the unit 5 % double wedge', () => {
@@ -217,7 +218,7 @@ describe('rotateSection / normaliseSection', () => {
     const kept = ok(normaliseSection(moved, { level: false }));
     expect(kept[0]).toEqual([0, 0]);
     expectClose(sectionShape(kept).chord, 1, 1e-12);
-    expect(Math.abs(kept[2][1])).toBeGreaterThan(0.05);
+    expect(Math.abs(itemAt(kept, 2)[1])).toBeGreaterThan(0.05);
   });
 });
 

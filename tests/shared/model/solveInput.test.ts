@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { formatPath, parseSolveInput } from '../../../shared/model/solveInput';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 const diamond = [
   [0, 0],
@@ -48,9 +49,9 @@ describe('parseSolveInput', () => {
     [{ mach: 'fast', alphaDeg: 0 }, 'flow.mach', /finite number/],
   ])('parseSolveInput refuses flow %j naming %s', (flow, path, message) => {
     const issues = issuesOf({ section: { points: diamond }, flow });
-    expect(issues[0].path).toBe(path);
-    expect(issues[0].message).toMatch(message);
-    expect(issues[0].message).toContain(path);
+    expect(itemAt(issues, 0).path).toBe(path);
+    expect(itemAt(issues, 0).message).toMatch(message);
+    expect(itemAt(issues, 0).message).toContain(path);
   });
 
   it('parseSolveInput accepts the bounds themselves: M = 50, γ = 5/3, α = ±89.99', () => {
@@ -64,15 +65,15 @@ describe('parseSolveInput', () => {
 
   it('parseSolveInput refuses a non-finite coordinate naming section.points[1]', () => {
     const issues = issuesOf({ section: { points: [[0, 0], [0.5, Number.NaN], [1, 0]] }, flow: { mach: 2, alphaDeg: 0 } });
-    expect(issues[0].path).toBe('section.points[1]');
-    expect(issues[0].message).toMatch(/finite numbers/);
+    expect(itemAt(issues, 0).path).toBe('section.points[1]');
+    expect(itemAt(issues, 0).message).toMatch(/finite numbers/);
     const inf = issuesOf({ section: { points: [[0, 0], [0.5, 1], [Infinity, 0]] }, flow: { mach: 2, alphaDeg: 0 } });
-    expect(inf[0].path).toBe('section.points[2]');
+    expect(itemAt(inf, 0).path).toBe('section.points[2]');
   });
 
   it('parseSolveInput refuses a point that is not a pair', () => {
     const issues = issuesOf({ section: { points: [[0, 0], [0.5, 1, 3], [1, 0]] }, flow: { mach: 2, alphaDeg: 0 } });
-    expect(issues[0].path).toBe('section.points[1]');
+    expect(itemAt(issues, 0).path).toBe('section.points[1]');
   });
 
   it('parseSolveInput refuses fewer than 3 points', () => {
@@ -95,8 +96,8 @@ describe('parseSolveInput', () => {
       section: { points: [[0, 0], [0.5, 0.1], [1, 0], [1 + 1e-12, 1e-12], [0.5, -0.1]] },
       flow: { mach: 2, alphaDeg: 0 },
     });
-    expect(issues[0].path).toBe('section.points[3]');
-    expect(issues[0].message).toMatch(/practically the same point as section\.points\[2\]/);
+    expect(itemAt(issues, 0).path).toBe('section.points[3]');
+    expect(itemAt(issues, 0).message).toMatch(/practically the same point as section\.points\[2\]/);
   });
 
   it('parseSolveInput refuses a repeated point naming the repeat', () => {
@@ -104,8 +105,8 @@ describe('parseSolveInput', () => {
       section: { points: [[0, 0], [0.5, 0.1], [1, 0], [0.5, 0.1]] },
       flow: { mach: 2, alphaDeg: 0 },
     });
-    expect(issues[0].path).toBe('section.points[3]');
-    expect(issues[0].message).toMatch(/repeats section.points\[1\]/);
+    expect(itemAt(issues, 0).path).toBe('section.points[3]');
+    expect(itemAt(issues, 0).message).toMatch(/repeats section.points\[1\]/);
   });
 
   it('parseSolveInput refuses a self-intersecting section', () => {
@@ -113,37 +114,37 @@ describe('parseSolveInput', () => {
       section: { points: [[0, 0], [1, 1], [1, 0], [0, 1]] },
       flow: { mach: 2, alphaDeg: 0 },
     });
-    expect(issues[0].path).toBe('section.points[2]');
-    expect(issues[0].message).toMatch(/simple polygon/);
+    expect(itemAt(issues, 0).path).toBe('section.points[2]');
+    expect(itemAt(issues, 0).message).toMatch(/simple polygon/);
   });
 
   it('parseSolveInput refuses points on one line (zero area)', () => {
     const issues = issuesOf({ section: { points: [[0, 0], [1, 0.5], [2, 1]] }, flow: { mach: 2, alphaDeg: 0 } });
-    expect(issues[0].path).toBe('section.points');
-    expect(issues[0].message).toMatch(/no area/);
+    expect(itemAt(issues, 0).path).toBe('section.points');
+    expect(itemAt(issues, 0).message).toMatch(/no area/);
   });
 
   it('parseSolveInput refuses a missing section, a non-object input and bad options', () => {
-    expect(issuesOf({ flow: { mach: 2, alphaDeg: 0 } })[0].path).toBe('section');
-    expect(issuesOf(42)[0].path).toBe('input');
-    expect(issuesOf(null)[0].message).toMatch(/JSON object/);
+    expect(itemAt(issuesOf({ flow: { mach: 2, alphaDeg: 0 } }), 0).path).toBe('section');
+    expect(itemAt(issuesOf(42), 0).path).toBe('input');
+    expect(itemAt(issuesOf(null), 0).message).toMatch(/JSON object/);
     const opt = issuesOf({ section: { points: diamond }, flow: { mach: 2, alphaDeg: 0 }, options: { fieldExtentChords: 0 } });
-    expect(opt[0].path).toBe('options.fieldExtentChords');
+    expect(itemAt(opt, 0).path).toBe('options.fieldExtentChords');
     const waves = issuesOf({ section: { points: diamond }, flow: { mach: 2, alphaDeg: 0 }, options: { waves: 'yes' } });
-    expect(waves[0].path).toBe('options.waves');
+    expect(itemAt(waves, 0).path).toBe('options.waves');
     const ref = issuesOf({ section: { points: diamond }, flow: { mach: 2, alphaDeg: 0 }, reference: { momentPoint: [1] } });
-    expect(ref[0].path).toMatch(/^reference\.momentPoint/);
+    expect(itemAt(ref, 0).path).toMatch(/^reference\.momentPoint/);
   });
 
   it('parseSolveInput refuses an unknown key at every level by name, so a misspelt field never falls back to its default', () => {
     const base = { section: { points: diamond }, flow: { mach: 2, alphaDeg: 1 } };
     const flow = issuesOf({ ...base, flow: { mach: 2, alphaDeg: 1, gama: 1.3 } });
     expect(flow).toEqual([{ path: 'flow', message: 'flow has an unknown key "gama" (it takes mach, alphaDeg, gamma).' }]);
-    expect(issuesOf({ ...base, flows: {} })[0].message).toBe('The solve input has an unknown key "flows" (it takes name, section, flow, reference, options).');
-    expect(issuesOf({ ...base, section: { points: diamond, closed: true } })[0].message).toMatch(/^section has an unknown key "closed"/);
-    expect(issuesOf({ ...base, reference: { chrod: 2 } })[0].message).toMatch(/^reference has an unknown key "chrod" \(it takes momentPoint, chord, leadingEdge\)/);
-    expect(issuesOf({ ...base, options: { wave: false } })[0].message).toMatch(/^options has an unknown key "wave"/);
-    expect(issuesOf({ ...base, flow: { mach: 2, alphaDeg: 1, gama: 1.3, machNumber: 2 } })[0].message).toMatch(/unknown keys "gama", "machNumber"/);
+    expect(itemAt(issuesOf({ ...base, flows: {} }), 0).message).toBe('The solve input has an unknown key "flows" (it takes name, section, flow, reference, options).');
+    expect(itemAt(issuesOf({ ...base, section: { points: diamond, closed: true } }), 0).message).toMatch(/^section has an unknown key "closed"/);
+    expect(itemAt(issuesOf({ ...base, reference: { chrod: 2 } }), 0).message).toMatch(/^reference has an unknown key "chrod" \(it takes momentPoint, chord, leadingEdge\)/);
+    expect(itemAt(issuesOf({ ...base, options: { wave: false } }), 0).message).toMatch(/^options has an unknown key "wave"/);
+    expect(itemAt(issuesOf({ ...base, flow: { mach: 2, alphaDeg: 1, gama: 1.3, machNumber: 2 } }), 0).message).toMatch(/unknown keys "gama", "machNumber"/);
   });
 
   it('parseSolveInput takes a reference chord and leading edge, and refuses a non-positive chord', () => {

@@ -15,6 +15,7 @@ import { parseSolveInput } from '../../../shared/model/solveInput.ts';
 import { solveSection } from '../../../shared/solver/index.ts';
 import { expectClose, expectCloseRel } from '../../helpers/expectClose.ts';
 import { cpFromPressure, fanState, shockState } from '../solver/independentRelations.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 function points(id: TemplateId, params: Record<string, number> = defaultTemplateParams(id)) {
   const r = generateSection(id, params);
@@ -59,7 +60,7 @@ describe('section templates', () => {
     const checked = reached(`[T1] ${id} parameter sets`);
     fc.assert(
       fc.property(fc.tuple(...arbs), (values) => {
-        const params = Object.fromEntries(t.params.map((p, i) => [p.key, values[i]]));
+        const params = Object.fromEntries(t.params.map((p, i) => [p.key, itemAt(values, i)]));
         checked.hit();
         expect(isSimplePolygon(points(id, params))).toBe(true);
       }),
@@ -81,7 +82,7 @@ describe('section templates', () => {
   it('wedge: the ramp rises at the asked angle over a flat underside', () => {
     const pts = points('wedge', { rampDeg: 10, ridgePercent: 60 });
     expect(pts).toHaveLength(3);
-    expectClose(Math.atan2(pts[1][1], pts[1][0]) * (180 / Math.PI), 10, 1e-9);
+    expectClose(Math.atan2(itemAt(pts, 1)[1], itemAt(pts, 1)[0]) * (180 / Math.PI), 10, 1e-9);
     expect(pts[2]).toEqual([1, 0]);
   });
 

@@ -6,6 +6,7 @@ import type { EditOp } from '../../../shared/protocol/messages.ts';
 import { selectedPoint, sketchDocumentSchema } from '../../../shared/model/sketch.ts';
 import { createSyncEngine } from '../../../shared/protocol/syncEngine.ts';
 import type { ClientMessage, ServerMessage } from '../../../shared/protocol/messages.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 function octagon(): SketchState {
   const points: [number, number][] = [];
@@ -67,7 +68,7 @@ describe('transformOp [R5]', () => {
 
   it('two inserts into one slot: both application orders give the same section (server order breaks the tie)', () => {
     const s0 = octagon();
-    const [v1, v2] = [s0.document.section.points[1], s0.document.section.points[2]];
+    const [v1, v2] = [itemAt(s0.document.section.points, 1), itemAt(s0.document.section.points, 2)];
     const on = (t: number): [number, number] => [v1[0] + (v2[0] - v1[0]) * t, v1[1] + (v2[1] - v1[1]) * t];
     const a: EditOp = { type: 'insertVertex', opId: 'a', index: 2, at: on(1 / 3) };
     const b: EditOp = { type: 'insertVertex', opId: 'b', index: 2, at: on(2 / 3) };
@@ -110,7 +111,7 @@ describe('transformOp [R5]', () => {
         }
         const moved = transformPast({ type: 'moveVertices', opId: 'm', indices: [target], to: [[0, 0]] }, applied);
         if (!moved.ok) return;
-        const idx = (moved.op as Extract<EditOp, { type: 'moveVertices' }>).indices[0];
+        const idx = itemAt((moved.op as Extract<EditOp, { type: 'moveVertices' }>).indices, 0);
         checked.hit();
         if (applied.length > 0) withEdits.hit();
         expect(state.document.section.points[idx]).toEqual(original);
@@ -126,8 +127,8 @@ describe('transformOp [R5]', () => {
 
 function midpoint(state: SketchState, index: number): [number, number] {
   const pts = state.document.section.points;
-  const a = pts[(index - 1 + pts.length) % pts.length];
-  const b = pts[index];
+  const a = itemAt(pts, (index - 1 + pts.length) % pts.length);
+  const b = itemAt(pts, index);
   return [(a[0] + b[0]) / 2, (a[1] + b[1]) / 2];
 }
 
@@ -232,7 +233,7 @@ describe('createSyncEngine [R6]', () => {
     const remote: EditOp = { type: 'setVertexCoordinate', opId: 'theirs', index: 5, axis: 'y', value: -0.15 };
     engine.receive({ type: 'edit', sketchId: id, revision: 1, userId: 'user_tomasz', op: remote });
     expect(seen).toEqual([{ op: remote, userId: 'user_tomasz', local: { ...remote, index: 6 } }]);
-    expect(engine.state!.document.section.points[6][1]).toBe(-0.15);
+    expect(itemAt(engine.state!.document.section.points, 6)[1]).toBe(-0.15);
   });
 });
 
@@ -334,10 +335,10 @@ describe('design point edits [R8]', () => {
       /** Delivers the queued server messages, one client's oldest first (network order per client). */
       deliver(pick: (n: number) => number): boolean {
         if (outbox.length === 0) return false;
-        const to = outbox[pick(outbox.length)].to;
+        const to = itemAt(outbox, pick(outbox.length)).to;
         const k = outbox.findIndex((m) => m.to === to);
-        const [{ msg }] = outbox.splice(k, 1);
-        clients[to].receive(msg);
+        const { msg } = itemAt(outbox.splice(k, 1), 0);
+        itemAt(clients, to).receive(msg);
         return true;
       },
     };
@@ -356,7 +357,7 @@ describe('design point edits [R8]', () => {
         let submitted = 0;
         for (let s = 0; s < steps; s++) {
           if (rand() < 0.55) {
-            const c = server.clients[ids[Math.floor(rand() * ids.length)]];
+            const c = itemAt(server.clients, itemAt(ids, Math.floor(rand() * ids.length)));
             if (c.state && c.submit(randomPointEdit(c.state.document, rand, `op${s}`)).ok) submitted++;
           } else server.deliver((n) => Math.floor(rand() * n));
         }

@@ -1,5 +1,7 @@
 import { and, asc, eq, gt, sql } from 'drizzle-orm';
 import type { Db } from '../db/client.ts';
+import { isDatabaseUnavailable, sqlState } from '../db/errors.ts';
+import { errorForLog } from '../log.ts';
 import { sketchEdits } from '../db/schema.ts';
 import { newId } from '../../shared/model/ids.ts';
 import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
@@ -184,8 +186,27 @@ export interface EditQueue {
 
 export const MAX_EDIT_BATCH = 200;
 
-export function createEditQueue(db: Db): EditQueue {
-  const queues = new Map<string, { items: { input: EditInput; resolve: (o: EditOutcome) => void; reject: (e: unknown) => void }[]; running: boolean }>();
+export function createEditQueue(db: Db, log: (line: string) => void = () => {}): EditQueue {
+  type Waiting = { input: EditInput; resolve: (o: EditOutcome) => void; reject: (e: unknown) => void };
+  const queues = new Map<string, { items: Waiting[]; running: boolean }>();
+  /** A lost database or a lost race (serialization failure, deadlock): the callers' answer, not the edit's fault. */
+  const passing = (err: unknown) => isDatabaseUnavailable(err) || ['40001', '40P01'].includes(sqlState(err) ?? '');
+
+  /** An edit that failed on its own (not for a lost database) is rejected; nothing of it was written. */
+  function refuse(b: Waiting, err: unknown): void {
+    log(`[realtime] edit ${b.input.op.type} on ${b.input.sketchId} refused by the database: ${errorForLog(err, false)}`);
+    b.resolve({ status: 'rejected', reason: 'This edit could not be stored (one of its values was refused); nothing of it was saved.', duplicate: false });
+  }
+
+  /** One edit in its own transaction. */
+  async function applyAlone(b: Waiting): Promise<void> {
+    try {
+      b.resolve((await applyEditBatch(db, b.input.sketchId, [b.input]))[0]);
+    } catch (err) {
+      if (passing(err)) b.reject(err);
+      else refuse(b, err);
+    }
+  }
 
   async function drain(sketchId: string): Promise<void> {
     const q = queues.get(sketchId)!;
@@ -197,7 +218,11 @@ export function createEditQueue(db: Db): EditQueue {
           const outcomes = await applyEditBatch(db, sketchId, batch.map((b) => b.input));
           batch.forEach((b, i) => b.resolve(outcomes[i]));
         } catch (err) {
-          for (const b of batch) b.reject(err);
+          // [R9] One edit the database refuses must not fail its neighbours: when a batch of
+          // several fails for any reason but a lost database or race, each edit is tried on its own.
+          if (passing(err)) for (const b of batch) b.reject(err);
+          else if (batch.length === 1) refuse(batch[0], err);
+          else for (const b of batch) await applyAlone(b);
         }
       }
     } finally {

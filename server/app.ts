@@ -19,6 +19,7 @@ import { studiesRouter } from './api/studies/router.ts';
 import { reportsRouter } from './api/reports/router.ts';
 import { preferencesRouter } from './api/preferences/router.ts';
 import { csrfGuard } from './http/csrf.ts';
+import { refuseDeepJson } from './http/jsonDepth.ts';
 import { clientKey, createDeviceKeys, createLimiter } from './http/rateLimit.ts';
 import { requireUser } from './auth/guards.ts';
 import { createMailer, type Mailer } from './mail/mailer.ts';
@@ -114,7 +115,7 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
     app.use(morgan(':date[iso] :method :safe-url :status :res[content-length] - :response-time ms', { stream: { write: (l) => log(l.trimEnd()) } }));
   }
 
-  app.use(express.json({ limit: '1mb' }));
+  app.use(express.json({ limit: '1mb' }), refuseDeepJson);
 
   const session = createSession(database.pool, env.SESSION_SECRET);
   const passport = createPassport(database.db);
@@ -135,7 +136,7 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
     devPages: env.NODE_ENV !== 'production',
     mailboxOperators: new Set(env.NODE_ENV === 'production' ? [] : env.MAILBOX_OPERATOR),
     events: new EventEmitter(),
-    edits: createEditQueue(database.db),
+    edits: createEditQueue(database.db, log),
   };
   const sizes = { ...DEFAULT_LIMITS, ...limits };
   const HOUR = 60 * 60 * 1000;

@@ -1,4 +1,4 @@
-import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
+import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 import { rateLimit, ipKeyGenerator, type Options, type Store, type IncrementResponse } from 'express-rate-limit';
 import type { Request, RequestHandler, Response } from 'express';
 import type { Db } from '../db/client.ts';
@@ -25,17 +25,26 @@ class PostgresRateLimitStore implements Store {
     this.windowMs = options.windowMs;
   }
 
+  /**
+   * The stored key: the limiter's name and a digest of what it counts (address, account…), so
+   * no e-mail address or client address sits in the table or in a query's parameters, and any
+   * text a person typed — however long, whatever characters — makes a short, storable key.
+   */
+  private stored(key: string): string {
+    return this.prefix + createHash('sha256').update(key).digest('base64url');
+  }
+
   async increment(key: string): Promise<IncrementResponse> {
-    const { hits, resetAt } = await hitRateLimit(this.db, this.prefix + key, this.windowMs);
+    const { hits, resetAt } = await hitRateLimit(this.db, this.stored(key), this.windowMs);
     return { totalHits: hits, resetTime: resetAt };
   }
 
   async decrement(key: string): Promise<void> {
-    await unhitRateLimit(this.db, this.prefix + key);
+    await unhitRateLimit(this.db, this.stored(key));
   }
 
   async resetKey(key: string): Promise<void> {
-    await clearRateLimit(this.db, this.prefix + key);
+    await clearRateLimit(this.db, this.stored(key));
   }
 }
 

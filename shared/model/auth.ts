@@ -1,29 +1,28 @@
 import { z } from 'zod';
+import { textSchema } from './text.ts';
 
-export const emailSchema = z
-  .string({ error: 'is required' })
+export const emailSchema = textSchema({ error: 'is required' })
   .trim()
   .min(1, 'is required')
   .max(254, 'is too long')
   .email('must be an e-mail address')
   .transform((v) => v.toLowerCase());
 
-export const newPasswordSchema = z
-  .string({ error: 'is required' })
+export const newPasswordSchema = textSchema({ error: 'is required' })
   .min(10, 'must be at least 10 characters')
   .max(200, 'must be at most 200 characters');
 
 export const signInSchema = z.object({
   email: emailSchema,
-  password: z.string({ error: 'is required' }).min(1, 'is required').max(200, 'is too long'),
+  password: textSchema({ error: 'is required' }).min(1, 'is required').max(200, 'is too long'),
 });
 export type SignIn = z.infer<typeof signInSchema>;
 
 export const signUpSchema = z.object({
-  name: z.string({ error: 'is required' }).trim().min(1, 'is required').max(100, 'must be at most 100 characters'),
+  name: textSchema({ error: 'is required' }).trim().min(1, 'is required').max(100, 'must be at most 100 characters'),
   email: emailSchema,
   password: newPasswordSchema,
-  teamName: z.string({ error: 'is required' }).trim().min(1, 'is required').max(100, 'must be at most 100 characters'),
+  teamName: textSchema({ error: 'is required' }).trim().min(1, 'is required').max(100, 'must be at most 100 characters'),
 });
 export type SignUp = z.infer<typeof signUpSchema>;
 

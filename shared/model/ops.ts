@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { firstItem, itemAt } from '../util/invariant.ts';
 import { newId } from './ids.ts';
+import { textSchema } from './text.ts';
 import { findRepeatedPoint, findSelfIntersection, findSelfIntersectionNear, signedArea } from './polygon.ts';
 import {
   conditionSchema,
@@ -45,7 +46,7 @@ import {
  * Renaming a sketch is not an op: the title is not part of the document.
  */
 
-const opIdSchema = z.string().min(1, 'must not be empty').max(64, 'must be at most 64 characters');
+export const opIdSchema = textSchema().min(1, 'must not be empty').max(64, 'must be at most 64 characters');
 const indexSchema = z.number().int('must be a whole number').min(0, 'must be at least 0');
 
 export const moveVerticesOpSchema = z.object({
@@ -186,7 +187,7 @@ export const setFieldOpSchema = z.object({
   opId: opIdSchema,
   field: z.enum(DOCUMENT_FIELDS),
   /** A number, or the friction regime's name for `loads.friction`; checked by the record's schema. */
-  value: z.union([z.number(), z.string().max(32)]),
+  value: z.union([z.number(), textSchema().max(32)]),
 });
 
 /** Human names of the document fields, for messages. */

@@ -1,15 +1,16 @@
 import { z } from 'zod';
 import { pointSchema, sectionPointsSchema, sketchDocumentSchema } from './sketch.ts';
+import { textSchema } from './text.ts';
 
 /** Where a pin sits: a free point, a facet (by its index) or a wave of the wave map (by its id). */
 export const pinTargetSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('point'), at: pointSchema }),
   z.object({ kind: z.literal('facet'), facet: z.number().int().min(0), at: pointSchema }),
-  z.object({ kind: z.literal('wave'), waveId: z.string().min(1).max(64), label: z.string().max(120).optional(), at: pointSchema }),
+  z.object({ kind: z.literal('wave'), waveId: textSchema().min(1).max(64), label: textSchema().max(120).optional(), at: pointSchema }),
 ]);
 export type PinTarget = z.infer<typeof pinTargetSchema>;
 
-const bodySchema = z.string({ error: 'is required' }).trim().min(1, 'must not be empty').max(5000, 'must be at most 5000 characters');
+const bodySchema = textSchema({ error: 'is required' }).trim().min(1, 'must not be empty').max(5000, 'must be at most 5000 characters');
 const mentionsSchema = z.array(z.string().regex(/^user_[a-z0-9]{20}$/, 'must be user ids')).max(20, 'at most 20 people').default([]);
 
 export const createPinSchema = z.object({ target: pinTargetSchema, body: bodySchema, mentions: mentionsSchema });
@@ -42,8 +43,8 @@ export const pinListQuerySchema = z.object({
 });
 
 export const createSnapshotSchema = z.object({
-  name: z.string({ error: 'is required' }).trim().min(1, 'must not be empty').max(120, 'must be at most 120 characters'),
-  note: z.string().trim().max(2000, 'must be at most 2000 characters').default(''),
+  name: textSchema({ error: 'is required' }).trim().min(1, 'must not be empty').max(120, 'must be at most 120 characters'),
+  note: textSchema().trim().max(2000, 'must be at most 2000 characters').default(''),
 });
 
 export const snapshotSummarySchema = z.object({
@@ -84,13 +85,13 @@ export const setStatusSchema = z.object({ status: reviewStatusSchema });
 
 export const reviewRequestSchema = z.object({
   reviewerIds: z.array(z.string().regex(/^user_[a-z0-9]{20}$/, 'must be user ids')).min(1, 'pick at least one reviewer').max(20, 'at most 20 reviewers'),
-  message: z.string().trim().max(2000, 'must be at most 2000 characters').default(''),
+  message: textSchema().trim().max(2000, 'must be at most 2000 characters').default(''),
 });
 
 export const importSectionSchema = z.strictObject({
   points: sectionPointsSchema,
   /** The file's name, kept in the activity feed and the automatic snapshot's name. */
-  fileName: z.string().trim().max(200).default('coordinates file'),
+  fileName: textSchema().trim().max(200, 'must be at most 200 characters').default('coordinates file'),
 });
 
 export const activityEntrySchema = z.object({

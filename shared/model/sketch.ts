@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { idSchema } from './ids.ts';
 import { firstItem } from '../util/invariant.ts';
+import { textSchema } from './text.ts';
 
 /**
  * The sketch document: what one sketch stores and what collaborators edit. Declared once here
@@ -94,8 +95,7 @@ export const DESIGN_POINT_NAME_MAX = 60;
 /** A design point's id [M1]: `point_` and 20 letters or digits (unique within its document [D1]). */
 export const designPointIdSchema = idSchema('point', 'design point');
 
-export const designPointNameSchema = z
-  .string({ error: 'must be text' })
+export const designPointNameSchema = textSchema()
   .trim()
   .min(1, 'must not be empty')
   .max(DESIGN_POINT_NAME_MAX, `must be at most ${DESIGN_POINT_NAME_MAX} characters`)
@@ -125,7 +125,7 @@ export const FIRST_DESIGN_POINT_NAME = 'Design point 1';
 
 const sectionSchema = z.strictObject({ points: sectionPointsSchema });
 const momentPointSchema = pointSchema.nullable().default(null);
-const notesSchema = z.string().max(10_000).default('');
+const notesSchema = textSchema().max(10_000, 'must be at most 10000 characters').default('');
 const loadsSchema = loadsSettingsSchema.default({ chordM: 1, spanM: 1, friction: 'turbulent' });
 
 /** Version 1 (one condition per sketch), as stored before design points. Read-only: it is upgraded. */
@@ -211,7 +211,7 @@ export const sketchDocumentSchema = z
   })
   .transform((doc): SketchDocument => (doc.version === 1 ? upgradeV1(doc) : doc));
 
-export const sketchTitleSchema = z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters');
+export const sketchTitleSchema = textSchema().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters');
 
 /** A new sketch: a modest symmetric double wedge at Mach 2, 2° incidence. */
 export function defaultSketchDocument(): SketchDocument {

@@ -3,6 +3,7 @@ import { FIELD_EXTENT_CHORDS_DEFAULT, GAMMA_AIR } from '../solver/constants';
 import { allCollinear, findRepeatedPoint, findSelfIntersection, signedArea } from './polygon';
 import { MAX_SECTION_VERTICES } from './sketch';
 import { itemAt } from '../util/invariant.ts';
+import { textSchema } from './text';
 
 /**
  * The solve input, shared by the API route, the CLI and the browser worker.
@@ -162,8 +163,7 @@ export const solveInputSchema = strictObject(
   'The solve input',
   {
     /** A label for the case (batch files carry one); the solver ignores it. */
-    name: z
-      .string({ error: (iss) => `name must be text; got ${fmt(iss.input)}.` })
+    name: textSchema({ error: (iss) => `name must be text; got ${fmt(iss.input)}.` })
       .max(500, { error: 'name must be at most 500 characters.' })
       .optional(),
     section: strictObject('section', { points: pointsSchema }, (input) =>

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { itemAt } from '../util/invariant.ts';
 import { isIdOf } from './ids.ts';
+import { textSchema } from './text.ts';
 import { pageOf } from './teams.ts';
 import { designPointIdSchema, FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
 
@@ -235,7 +236,7 @@ export function unpackStudyRows(results: Pick<StudyResults, 'columns' | 'rows'>)
 export const studyIdSchema = z.string().refine((s) => isIdOf('study', s), 'must be a study id');
 
 export const createStudySchema = z.strictObject({
-  name: z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
+  name: textSchema().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
   definition: studyDefinitionSchema,
 });
 export type CreateStudy = z.infer<typeof createStudySchema>;

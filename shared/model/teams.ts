@@ -1,8 +1,9 @@
 import { z } from 'zod';
 import { emailSchema, newPasswordSchema } from './auth.ts';
 import { roleSchema } from './roles.ts';
+import { textSchema } from './text.ts';
 
-export const teamNameSchema = z.string({ error: 'is required' }).trim().min(1, 'is required').max(100, 'must be at most 100 characters');
+export const teamNameSchema = textSchema({ error: 'is required' }).trim().min(1, 'is required').max(100, 'must be at most 100 characters');
 export const createTeamSchema = z.object({ name: teamNameSchema });
 
 export const inviteSchema = z.object({ email: emailSchema, role: roleSchema });
@@ -10,12 +11,12 @@ export type Invite = z.infer<typeof inviteSchema>;
 
 export const changeRoleSchema = z.object({ role: roleSchema });
 
-export const tokenSchema = z.string({ error: 'is required' }).min(20, 'is not a valid link token').max(100, 'is not a valid link token').regex(/^[A-Za-z0-9_-]+$/, 'is not a valid link token');
+export const tokenSchema = textSchema({ error: 'is required' }).min(20, 'is not a valid link token').max(100, 'is not a valid link token').regex(/^[A-Za-z0-9_-]+$/, 'is not a valid link token');
 
 /** Accepting an invitation: signed-in people send only the token; newcomers also create an account. */
 export const acceptInvitationSchema = z.object({
   token: tokenSchema,
-  name: z.string().trim().min(1, 'is required').max(100, 'must be at most 100 characters').optional(),
+  name: textSchema().trim().min(1, 'is required').max(100, 'must be at most 100 characters').optional(),
   password: newPasswordSchema.optional(),
 });
 

@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { sketchOpSchema, type SketchOp } from '../model/ops.ts';
+import { opIdSchema, sketchOpSchema, type SketchOp } from '../model/ops.ts';
+import { textSchema } from '../model/text.ts';
 import { MAX_SECTION_VERTICES, sketchDocumentSchema, sketchTitleSchema, pointSchema } from '../model/sketch.ts';
 import { roleSchema } from '../model/roles.ts';
 import { idSchema } from '../model/ids.ts';
@@ -33,11 +34,11 @@ const sketchIdSchema = idSchema('sketch');
 const revisionSchema = z.number().int().min(0);
 
 /** Renaming is an edit too (it is ordered and logged), though the title is not in the document. */
-export const renameOpSchema = z.object({ type: z.literal('rename'), opId: z.string().min(1).max(64), title: sketchTitleSchema });
+export const renameOpSchema = z.object({ type: z.literal('rename'), opId: opIdSchema, title: sketchTitleSchema });
 export type RenameOp = z.infer<typeof renameOpSchema>;
 
 /** A whole-document replacement (REST saves, imports, restores): logged like any edit. */
-export const replaceDocumentOpSchema = z.object({ type: z.literal('replaceDocument'), opId: z.string().min(1).max(64), document: sketchDocumentSchema });
+export const replaceDocumentOpSchema = z.object({ type: z.literal('replaceDocument'), opId: opIdSchema, document: sketchDocumentSchema });
 export type ReplaceDocumentOp = z.infer<typeof replaceDocumentOpSchema>;
 
 export const editOpSchema = z.discriminatedUnion('type', [...sketchOpSchema.options, renameOpSchema, replaceDocumentOpSchema]);
@@ -48,7 +49,7 @@ export type View = z.infer<typeof viewSchema>;
 
 /** What a walkthrough lead points at. */
 export const highlightSchema = z
-  .object({ kind: z.enum(['wave', 'facet', 'vertex']), id: z.union([z.string().max(64), z.number().int().min(0)]) })
+  .object({ kind: z.enum(['wave', 'facet', 'vertex']), id: z.union([textSchema().max(64), z.number().int().min(0)]) })
   .nullable();
 export type Highlight = z.infer<typeof highlightSchema>;
 
@@ -73,7 +74,7 @@ export const resyncMessageSchema = z.object({ type: z.literal('resync'), sketchI
 export const walkthroughStartSchema = z.object({ type: z.literal('walkthroughStart'), sketchId: sketchIdSchema });
 export const walkthroughStopSchema = z.object({ type: z.literal('walkthroughStop'), sketchId: sketchIdSchema });
 export const walkthroughViewSchema = z.object({ type: z.literal('walkthroughView'), sketchId: sketchIdSchema, view: viewSchema, highlight: highlightSchema });
-export const walkthroughHandOverSchema = z.object({ type: z.literal('walkthroughHandOver'), sketchId: sketchIdSchema, toUserId: z.string().max(64) });
+export const walkthroughHandOverSchema = z.object({ type: z.literal('walkthroughHandOver'), sketchId: sketchIdSchema, toUserId: textSchema().max(64) });
 
 export const clientMessageSchema = z.discriminatedUnion('type', [
   joinMessageSchema,

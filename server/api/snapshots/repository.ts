@@ -1,6 +1,6 @@
-import { desc, eq } from 'drizzle-orm';
+import { and, desc, eq, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client.ts';
-import { snapshots, users } from '../../db/schema.ts';
+import { sketchEvents, snapshots, users } from '../../db/schema.ts';
 import { newId } from '../../../shared/model/ids.ts';
 import type { SketchDocument } from '../../../shared/model/sketch.ts';
 
@@ -11,6 +11,17 @@ export async function insertSnapshot(
   const id = newId('snap');
   await db.insert(snapshots).values({ id, ...row });
   return id;
+}
+
+/**
+ * Takes back an automatic snapshot whose restore or import then failed, with its activity entry,
+ * atomically: a refused request leaves nothing behind.
+ */
+export async function withdrawSnapshot(db: Db, id: string, sketchId: string): Promise<void> {
+  await db.transaction(async (tx) => {
+    await tx.delete(sketchEvents).where(and(eq(sketchEvents.sketchId, sketchId), eq(sketchEvents.kind, 'snapshot.created'), sql`${sketchEvents.detail}->>'snapshotId' = ${id}`));
+    await tx.delete(snapshots).where(eq(snapshots.id, id));
+  });
 }
 
 const summaryColumns = {

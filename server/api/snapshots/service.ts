@@ -8,6 +8,7 @@ import { explainSectionProblem } from '../../../shared/model/ops.ts';
 import { normalizeDocument, type Point } from '../../../shared/model/sketch.ts';
 import type { SnapshotDetail, SnapshotSummary } from '../../../shared/model/review.ts';
 import type { Sketch } from '../../../shared/model/sketchApi.ts';
+import type { EditInput, EditOutcome } from '../../realtime/editLog.ts';
 import * as repo from './repository.ts';
 
 type Row = NonNullable<Awaited<ReturnType<typeof repo.findSnapshot>>>;
@@ -31,6 +32,23 @@ async function capture(ctx: AppContext, userId: string, sketchId: string, name: 
   await recordSketchEvent(ctx.db, { sketchId, actorId: userId, kind: 'snapshot.created', detail: { snapshotId: id, name, kind, revision: current.revision } });
   ctx.events.emit('sketchNotice', sketchId, 'snapshots');
   return id;
+}
+
+/**
+ * Submits the edit an automatic snapshot was kept for; when the edit is refused or fails, the
+ * snapshot is taken back, so a failed restore or import writes nothing.
+ */
+async function submitOrWithdraw(ctx: AppContext, snapshotId: string, input: EditInput): Promise<EditOutcome> {
+  let outcome: EditOutcome;
+  try {
+    outcome = await ctx.edits.submit(input);
+  } catch (err) {
+    await repo.withdrawSnapshot(ctx.db, snapshotId, input.sketchId).catch(() => {});
+    throw err;
+  }
+  if (outcome.status === 'rejected') await repo.withdrawSnapshot(ctx.db, snapshotId, input.sketchId);
+  ctx.events.emit('sketchNotice', input.sketchId, 'snapshots');
+  return outcome;
 }
 
 export async function createSnapshot(ctx: AppContext, userId: string, sketchId: string, input: { name: string; note: string }): Promise<SnapshotDetail> {
@@ -65,9 +83,9 @@ export async function restoreSnapshot(ctx: AppContext, userId: string, snapshotI
   await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'restore snapshots');
   const current = await findSketch(ctx.db, sketchId);
   if (!current) throw new HttpError(404, 'not_found', 'No such sketch.');
-  await capture(ctx, userId, sketchId, `Before restoring “${snap.name}”`, `Automatic: the sketch at revision ${current.revision}, kept before restoring revision ${snap.revision}.`, 'before_restore');
+  const kept = await capture(ctx, userId, sketchId, `Before restoring “${snap.name}”`, `Automatic: the sketch at revision ${current.revision}, kept before restoring revision ${snap.revision}.`, 'before_restore');
   const op = { type: 'replaceDocument' as const, opId: newId('op'), document: normalizeDocument(snap.document) };
-  const outcome = await ctx.edits.submit({ sketchId, userId, baseRevision: current.revision, op });
+  const outcome = await submitOrWithdraw(ctx, kept, { sketchId, userId, baseRevision: current.revision, op });
   if (outcome.status === 'rejected') throw new HttpError(409, 'edit_rejected', outcome.reason);
   ctx.events.emit('sketchEdited', sketchId, { revision: outcome.revision, op: outcome.op, userId });
   await recordSketchEvent(ctx.db, { sketchId, actorId: userId, kind: 'snapshot.restored', detail: { snapshotId, name: snap.name, revision: outcome.revision, fromRevision: snap.revision } });
@@ -86,9 +104,9 @@ export async function importSection(ctx: AppContext, userId: string, sketchId: s
   // Refuse a bad file before anything is written (no snapshot, no edit).
   const problem = explainSectionProblem(input.points);
   if (problem) throw new HttpError(400, 'invalid_section', `The imported section is not allowed: ${problem}. The section must be a simple polygon.`);
-  await capture(ctx, userId, sketchId, `Before importing ${input.fileName}`, `Automatic: the sketch at revision ${current.revision}, kept before an import.`, 'before_import');
+  const kept = await capture(ctx, userId, sketchId, `Before importing ${input.fileName}`, `Automatic: the sketch at revision ${current.revision}, kept before an import.`, 'before_import');
   const op = { type: 'replaceSection' as const, opId: newId('op'), points: input.points };
-  const outcome = await ctx.edits.submit({ sketchId, userId, baseRevision: current.revision, op });
+  const outcome = await submitOrWithdraw(ctx, kept, { sketchId, userId, baseRevision: current.revision, op });
   if (outcome.status === 'rejected') throw new HttpError(400, 'invalid_section', outcome.reason);
   ctx.events.emit('sketchEdited', sketchId, { revision: outcome.revision, op: outcome.op, userId });
   await recordSketchEvent(ctx.db, { sketchId, actorId: userId, kind: 'section.imported', detail: { fileName: input.fileName, vertexCount: input.points.length, revision: outcome.revision } });

@@ -1,10 +1,12 @@
 import type { Facet, SolveResult } from '../solver/types.ts';
 import { RESULTS_CAUTION } from './caution.ts';
+import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
 import type { Point, SketchDocument } from './sketch.ts';
 
 /**
  * Plain-text exports of a sketch: the section as CSV (readable back by `parseCoordinates`), the
  * per-facet result as CSV and the whole result as JSON. Result exports carry the caution line.
+ * CSV cells come from `shared/format/csv.ts` (text quoted and neutralised, numbers bare).
  */
 
 /**
@@ -24,15 +26,10 @@ export function fileSafeName(title: string, fallback = 'sketch'): string {
   return s || fallback;
 }
 
-/** Strips line breaks so a title cannot break out of a `#` comment line. */
-function oneLine(s: string): string {
-  return s.replace(/[\r\n]+/g, ' ');
-}
-
-/** The section's vertices as `x,y` rows under a `#` comment and a header. */
+/** The section's vertices as `x,y` rows under `#` notes and a header (readable by `parseCoordinates`). */
 export function sectionCsv(title: string, points: readonly Point[]): string {
-  const rows = points.map(([x, y]) => `${x},${y}`);
-  return [`# Shockwright section: ${oneLine(title)}`, '# Vertices in drawing order, body axes (x aft, y up).', 'x,y', ...rows, ''].join('\n');
+  const rows = points.map(([x, y]) => csvRow([x, y]));
+  return [csvNote('Shockwright section', title), csvNote('Vertices in drawing order, body axes (x aft, y up).'), csvHeader(['x', 'y']), ...rows, ''].join('\n');
 }
 
 export const FACET_CSV_COLUMNS = [
@@ -41,25 +38,22 @@ export const FACET_CSV_COLUMNS = [
   'cp', 'cp_linear', 'cp_second_order', 'vacuum',
 ] as const;
 
-const num = (v: number | null): string => (v === null ? '' : String(v));
-
 function facetRow(surface: string, f: Facet): string {
-  return [
+  return csvRow([
     surface, f.index, f.from[0], f.from[1], f.to[0], f.to[1], f.xMidOverC, f.length, f.phiDeg, f.thetaDeg, f.turnDeg,
-    f.wave, f.solved, num(f.mach), num(f.pRatio), num(f.tRatio), num(f.rhoRatio), num(f.p0Ratio), num(f.cp),
-    num(f.cpLinear), num(f.cpSecondOrder), f.vacuum,
-  ].join(',');
+    f.wave, f.solved, f.mach, f.pRatio, f.tRatio, f.rhoRatio, f.p0Ratio, f.cp, f.cpLinear, f.cpSecondOrder, f.vacuum,
+  ]);
 }
 
 /** One row per facet (upper surface nose → tail, then lower), empty cells where unsolved. */
 export function facetCsv(title: string, result: SolveResult): string {
   const c = result.condition;
   return [
-    `# Shockwright result per facet: ${oneLine(title)}`,
-    `# M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}; status ${result.status}`,
-    `# ${RESULTS_CAUTION}`,
-    `# x_mid_over_c from the leading edge (${result.geometry.reference.leadingEdge.join(', ')}) over the reference chord ${result.geometry.reference.chord} (${result.geometry.reference.source === 'input' ? 'the section as drawn' : 'the solved outline'}); vacuum: p = 0 past a Prandtl-Meyer limit`,
-    FACET_CSV_COLUMNS.join(','),
+    csvNote('Shockwright result per facet', title),
+    csvNote(`M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}; status ${result.status}`),
+    csvNote(RESULTS_CAUTION),
+    csvNote(`x_mid_over_c from the leading edge (${result.geometry.reference.leadingEdge.join(', ')}) over the reference chord ${result.geometry.reference.chord} (${result.geometry.reference.source === 'input' ? 'the section as drawn' : 'the solved outline'}); vacuum: p = 0 past a Prandtl-Meyer limit`),
+    csvHeader(FACET_CSV_COLUMNS),
     ...result.surfaces.upper.map((f) => facetRow('upper', f)),
     ...result.surfaces.lower.map((f) => facetRow('lower', f)),
     '',

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { itemAt } from '../util/invariant.ts';
 import { isIdOf } from './ids.ts';
 import { textSchema } from './text.ts';
+import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
 import { pageOf } from './teams.ts';
 import { designPointIdSchema, FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
 
@@ -261,21 +262,15 @@ export type StudyDetail = z.infer<typeof studyDetailSchema>;
 export const studyPageSchema = pageOf(studySummarySchema);
 export type StudyPage = z.infer<typeof studyPageSchema>;
 
-/** A study as CSV: `#` lines (sketch, condition, caution) then one row per point. */
+/** A study as CSV: `#` lines (study, sketch, condition, caution) then one row per point; cells from `shared/format/csv.ts`. */
 export function studyCsv(meta: { title: string; studyName: string; revision: number; caution: string }, results: StudyResults): string {
-  const oneLine = (s: string) => s.replace(/[\r\n]+/g, ' ');
-  const esc = (v: number | string | null) => {
-    if (v === null) return '';
-    if (typeof v === 'number') return String(v);
-    return /[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
-  };
   const index = STUDY_COLUMNS.map((k) => results.columns.indexOf(k));
   return [
-    `# Shockwright study: ${oneLine(meta.studyName)} — sketch ${oneLine(meta.title)}, revision ${meta.revision}`,
-    `# altitude ${results.altitudeM === null ? 'none (wave drag only)' : `${results.altitudeM} m`}, friction ${results.friction}; alpha and flap in degrees (flap trailing edge down positive)`,
-    `# ${meta.caution}`,
-    STUDY_COLUMNS.join(','),
-    ...results.rows.map((row) => index.map((i) => esc(i >= 0 ? (row[i] ?? null) : null)).join(',')),
+    csvNote('Shockwright study', meta.studyName, 'sketch', meta.title, 'revision', meta.revision),
+    csvNote(`altitude ${results.altitudeM === null ? 'none (wave drag only)' : `${results.altitudeM} m`}, friction ${results.friction}; alpha and flap in degrees (flap trailing edge down positive)`),
+    csvNote(meta.caution),
+    csvHeader(STUDY_COLUMNS),
+    ...results.rows.map((row) => csvRow(index.map((i) => (i >= 0 ? (row[i] ?? null) : null)))),
     '',
   ].join('\n');
 }

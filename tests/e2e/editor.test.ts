@@ -146,14 +146,14 @@ describe('sketch editor in Chromium', () => {
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-sectionCsv').click()]);
     expect(download.suggestedFilename()).toMatch(/-section\.csv$/);
     const csv = readFileSync((await download.path())!, 'utf8').trim().split('\n');
-    expect(csv[0]).toMatch(/^# Shockwright section: /);
+    expect(csv[0]).toMatch(/^# Shockwright section,"/);
     expect(csv.slice(2)).toEqual(['x,y', '0,0', '0.3,0.03', '0.7,0.03', '1,0', '0.5,-0.02']);
 
     await page.getByTestId('open-export').click();
     const [facets] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-facetCsv').click()]);
     const facetText = readFileSync((await facets.path())!, 'utf8');
     expect(facetText).toContain(`# ${RESULTS_CAUTION}`);
-    expect(facetText.trim().split('\n').filter((l) => /^(upper|lower),/.test(l))).toHaveLength(5);
+    expect(facetText.trim().split('\n').filter((l) => /^"(upper|lower)",/.test(l))).toHaveLength(5);
 
     // The canvas picture: a PNG at twice the canvas size with a 60 px caption band (the caution).
     const box = (await page.getByTestId('sketch-canvas').boundingBox())!;

@@ -82,7 +82,7 @@ describe('exports', () => {
 
   it('the section CSV reads back to the same points', () => {
     const csv = sectionCsv('Tern fin root\nsecond line', doc.section.points);
-    expect(csv.split('\n')[0]).toBe('# Shockwright section: Tern fin root second line');
+    expect(csv.split('\n')[0]).toBe('# Shockwright section,"Tern fin root second line"');
     const back = parseCoordinates(csv);
     expect(back.ok && back.points).toEqual(doc.section.points);
   });
@@ -95,7 +95,7 @@ describe('exports', () => {
     expect(csv.slice(5)).toHaveLength(4);
     const first = itemAt(csv, 5).split(',');
     expect(first).toHaveLength(FACET_CSV_COLUMNS.length);
-    expect(first[0]).toBe('upper');
+    expect(first[0]).toBe('"upper"');
     expect(Number(first[FACET_CSV_COLUMNS.indexOf('cp')])).toBe(itemAt(result.surfaces.upper, 0).cp);
   });
 

@@ -154,7 +154,7 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
         const device = devices.deviceOf(req, email);
         return device ? `device:${device}|${email}` : `address:${clientKey(req)}|${email}`;
       },
-    }),
+    }, log),
     createLimiter(database.db, {
       name: 'sign-in-address',
       windowMs: HOUR / 4,
@@ -163,11 +163,11 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
       onlyFailures: true,
       key: clientKey,
       skip: (req) => devices.deviceOf(req, signInEmail(req)) !== null,
-    }),
+    }, log),
   ];
-  const signUpLimit = createLimiter(database.db, { name: 'sign-up', windowMs: HOUR, limit: sizes.signUps, what: 'sign-ups from your address', key: clientKey });
-  const resetLimit = createLimiter(database.db, { name: 'reset', windowMs: HOUR, limit: sizes.resets, what: 'password-reset requests from your address', key: clientKey });
-  const inviteLimit = createLimiter(database.db, { name: 'invite', windowMs: HOUR, limit: sizes.invites, what: 'invitations sent', key: (req) => req.user?.id ?? clientKey(req) });
+  const signUpLimit = createLimiter(database.db, { name: 'sign-up', windowMs: HOUR, limit: sizes.signUps, what: 'sign-ups from your address', key: clientKey }, log);
+  const resetLimit = createLimiter(database.db, { name: 'reset', windowMs: HOUR, limit: sizes.resets, what: 'password-reset requests from your address', key: clientKey }, log);
+  const inviteLimit = createLimiter(database.db, { name: 'invite', windowMs: HOUR, limit: sizes.invites, what: 'invitations sent', key: (req) => req.user?.id ?? clientKey(req) }, log);
 
   // Public routes.
   app.use('/api/health', healthRouter(database.db, log));

@@ -3,6 +3,7 @@ import { rateLimit, ipKeyGenerator, type Options, type Store, type IncrementResp
 import type { Request, RequestHandler, Response } from 'express';
 import type { Db } from '../db/client.ts';
 import { clearRateLimit, hitRateLimit, unhitRateLimit } from './repository.ts';
+import { errorForLog } from '../log.ts';
 
 /**
  * express-rate-limit store over the `rate_limits` table, so every server instance on the same
@@ -71,8 +72,14 @@ function minutes(ms: number): string {
  * A limiter that answers a locked-out request with 429, a Retry-After header and the usual error
  * shape saying when to try again.
  */
-export function createLimiter(db: Db, options: LimitOptions): RequestHandler {
+export function createLimiter(db: Db, options: LimitOptions, log: (line: string) => void): RequestHandler {
   return rateLimit({
+    // express-rate-limit prints store errors to the console by default, raw: a Drizzle error's
+    // message carries the query's parameters. Ours go to the app's (redacting) log as one line.
+    logger: {
+      warn: (...args: unknown[]) => log(`[rate-limit] ${options.name}: ${describeLimiterLog(args)}`),
+      error: (...args: unknown[]) => log(`[rate-limit] ${options.name}: ${describeLimiterLog(args)}`),
+    },
     windowMs: options.windowMs,
     limit: options.limit,
     standardHeaders: 'draft-8',
@@ -96,6 +103,11 @@ export function createLimiter(db: Db, options: LimitOptions): RequestHandler {
       });
     },
   });
+}
+
+/** express-rate-limit's log arguments (an error and its own sentence) as one safe line. */
+function describeLimiterLog(args: unknown[]): string {
+  return args.map((a) => (typeof a === 'string' ? a : errorForLog(a, false))).join(' ');
 }
 
 /** Client address for limiter keys (IPv6 collapsed to its /56, as express-rate-limit advises). */

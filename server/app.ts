@@ -19,7 +19,7 @@ import { studiesRouter } from './api/studies/router.ts';
 import { reportsRouter } from './api/reports/router.ts';
 import { preferencesRouter } from './api/preferences/router.ts';
 import { csrfGuard } from './http/csrf.ts';
-import { refuseDeepJson } from './http/jsonDepth.ts';
+import { refuseDeepJson, refuseNonJsonBodies } from './http/jsonDepth.ts';
 import { clientKey, createDeviceKeys, createLimiter } from './http/rateLimit.ts';
 import { requireUser } from './auth/guards.ts';
 import { createMailer, type Mailer } from './mail/mailer.ts';
@@ -116,6 +116,7 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
   }
 
   app.use(express.json({ limit: '1mb' }), refuseDeepJson);
+  app.use('/api', refuseNonJsonBodies);
 
   const session = createSession(database.pool, env.SESSION_SECRET);
   const passport = createPassport(database.db);

@@ -33,3 +33,18 @@ export const refuseDeepJson: RequestHandler = (req, _res, next) => {
   }
   next();
 };
+
+/**
+ * The API reads JSON only: a request that carries a body of another type (a form, a multipart
+ * upload, a CSV file) is refused with 415 instead of being read as an empty body — which a route
+ * whose fields are all optional would otherwise accept. (Coordinates files are read in the
+ * browser and sent as JSON.) It also keeps plain HTML forms, which cannot send JSON, out.
+ */
+export const refuseNonJsonBodies: RequestHandler = (req, _res, next) => {
+  const hasBody = req.headers['transfer-encoding'] !== undefined || Number(req.headers['content-length'] ?? 0) > 0;
+  if (hasBody && !req.is('application/json')) {
+    next(new HttpError(415, 'unsupported_media_type', `body: send JSON (Content-Type: application/json), not ${req.headers['content-type'] ?? 'an untyped body'}.`));
+    return;
+  }
+  next();
+};

@@ -20,6 +20,7 @@ import { reportsRouter } from './api/reports/router.ts';
 import { preferencesRouter } from './api/preferences/router.ts';
 import { csrfGuard } from './http/csrf.ts';
 import { refuseDeepJson, refuseNonJsonBodies } from './http/jsonDepth.ts';
+import { createHeavyWork, DEFAULT_HEAVY_WORK } from './http/heavyWork.ts';
 import { clientKey, createDeviceKeys, createLimiter } from './http/rateLimit.ts';
 import { requireUser } from './auth/guards.ts';
 import { createMailer, type Mailer } from './mail/mailer.ts';
@@ -54,9 +55,13 @@ export interface RateLimits {
   resets: number;
   /** Invitations per inviting user per hour. */
   invites: number;
+  /** Heavy requests (server-side studies, PDF reports) one person may have running at once [H1]. */
+  heavyPerUser: number;
+  /** Heavy requests this instance runs at once, over everyone [H1]. */
+  heavyTotal: number;
 }
 
-export const DEFAULT_LIMITS: RateLimits = { signInFailures: 10, signInFailuresPerAddress: 100, signUps: 10, resets: 10, invites: 50 };
+export const DEFAULT_LIMITS: RateLimits = { signInFailures: 10, signInFailuresPerAddress: 100, signUps: 10, resets: 10, invites: 50, heavyPerUser: DEFAULT_HEAVY_WORK.perUser, heavyTotal: DEFAULT_HEAVY_WORK.total };
 
 export interface BuiltApp {
   app: Express;
@@ -128,6 +133,7 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
   });
   app.use('/api', csrfGuard, session.middleware, ...passportMiddleware);
 
+  const sizes = { ...DEFAULT_LIMITS, ...limits };
   const ownMailer = mailer ?? createMailer(env.SMTP_URL, env.MAIL_FROM, log);
   const context: AppContext = {
     db: database.db,
@@ -138,8 +144,8 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
     mailboxOperators: new Set(env.NODE_ENV === 'production' ? [] : env.MAILBOX_OPERATOR),
     events: new EventEmitter(),
     edits: createEditQueue(database.db, log),
+    heavy: createHeavyWork({ perUser: sizes.heavyPerUser, total: sizes.heavyTotal }),
   };
-  const sizes = { ...DEFAULT_LIMITS, ...limits };
   const HOUR = 60 * 60 * 1000;
   const devices = createDeviceKeys(env.SESSION_SECRET);
   const signInEmail = (req: Request) => String(req.body?.email ?? '').trim().toLowerCase();

@@ -4,6 +4,7 @@ import type { Mailer } from './mail/mailer.ts';
 import type { EditQueue } from './realtime/editLog.ts';
 import type { AppliedEdit, NoticeTopic } from '../shared/protocol/messages.ts';
 import type { AccessFilter } from './realtime/access.ts';
+import type { HeavyWork } from './http/heavyWork.ts';
 
 /** Events services raise for the realtime layer (which relays them to every instance). */
 export interface AppEvents {
@@ -37,4 +38,6 @@ export interface AppContext {
   events: EventEmitter<AppEvents>;
   /** Every edit to a sketch document goes through here (ordered, batched, logged). */
   edits: EditQueue;
+  /** Server-side studies and PDF reports run through here: bounded per person and per instance [H1]. */
+  heavy: HeavyWork;
 }

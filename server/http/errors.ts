@@ -47,6 +47,8 @@ export function errorMiddleware(log: (msg: string) => void): ErrorRequestHandler
   return (err, req, res, _next) => {
     if (res.headersSent) return;
     if (err instanceof HttpError) {
+      const retry = (err.details as { retryAfterSeconds?: unknown } | undefined)?.retryAfterSeconds;
+      if (err.status === 429 && typeof retry === 'number') res.setHeader('Retry-After', String(retry));
       res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.details ? { details: err.details } : {}) } });
       return;
     }

@@ -26,6 +26,11 @@ export function reportFileName(title: string, revision: number): string {
  */
 export async function sketchReport(ctx: AppContext, user: SessionUser, sketchId: string, query: { study?: string; units?: UnitSystem }): Promise<{ pdf: Buffer; fileName: string }> {
   const { teamId } = await authorizeSketch(ctx.db, user.id, sketchId, 'viewer', 'download reports');
+  // [H1] drawing a report is heavy work: one of the person's (and the instance's) few slots.
+  return ctx.heavy.run(user.id, 'this report', () => drawReport(ctx, user, sketchId, teamId, query));
+}
+
+async function drawReport(ctx: AppContext, user: SessionUser, sketchId: string, teamId: string, query: { study?: string; units?: UnitSystem }): Promise<{ pdf: Buffer; fileName: string }> {
   const row = await findSketch(ctx.db, sketchId);
   if (!row) throw new HttpError(404, 'not_found', 'No such sketch.');
   const document = normalizeDocument(row.document);

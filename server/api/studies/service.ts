@@ -19,6 +19,11 @@ export const STUDY_SLICE_MS = 25;
  */
 export async function createStudy(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy): Promise<StudyDetail> {
   await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'run and save studies');
+  // [H1] one of the person's (and the instance's) few heavy slots, for the run and the save.
+  return ctx.heavy.run(userId, 'this study', () => computeAndSave(ctx, userId, sketchId, input));
+}
+
+async function computeAndSave(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy): Promise<StudyDetail> {
   const sketch = await findSketch(ctx.db, sketchId);
   if (!sketch) throw new HttpError(404, 'not_found', 'No such sketch.');
   const document = normalizeDocument(sketch.document);

@@ -64,6 +64,8 @@ export async function startServer(
  * draining runs `emergency` (synchronous: e.g. stop PostgreSQL) and exits at once.
  */
 const DUPLICATE_SIGNAL_MS = 1500;
+/** Longest a graceful shutdown may take before the process exits regardless. */
+export const SHUTDOWN_DEADLINE_MS = 15_000;
 
 export function exitOnSignals(cleanup: () => Promise<void>, options: { log?: (l: string) => void; emergency?: () => void } = {}): void {
   const log = options.log ?? console.log;
@@ -77,6 +79,13 @@ export function exitOnSignals(cleanup: () => Promise<void>, options: { log?: (l:
     }
     firstAt = Date.now();
     log(`${signal}: shutting down…`);
+    // A drain that hangs (a connection that never closes, a database that never answers) must
+    // not keep a stopped server alive: after SHUTDOWN_DEADLINE_MS it exits anyway.
+    setTimeout(() => {
+      log(`Shutdown did not finish within ${SHUTDOWN_DEADLINE_MS / 1000} s: stopping now.`);
+      options.emergency?.();
+      process.exit(1);
+    }, SHUTDOWN_DEADLINE_MS).unref();
     cleanup().then(
       () => process.exit(0),
       (err) => {

@@ -12,8 +12,12 @@ export interface ServerProcess {
   alive(): boolean;
   /** SIGKILL: no drain, no goodbye to sockets — a crash. */
   kill(): Promise<void>;
+  /** SIGTERM and wait for the graceful exit; SIGKILL when it has not come after STOP_GRACE_MS. */
   stop(): Promise<void>;
 }
+
+/** How long stop() waits after SIGTERM before SIGKILL (the server's own deadline is shorter). */
+const STOP_GRACE_MS = 30_000;
 
 /** Starts `server/index.ts` in its own process (for crash and multi-instance tests). */
 export async function startServerProcess(databaseUrl: string, port: number, extraEnv: Record<string, string> = {}): Promise<ServerProcess> {
@@ -57,8 +61,18 @@ export async function startServerProcess(databaseUrl: string, port: number, extr
       await exited();
     },
     async stop() {
+      if (child.exitCode !== null || child.signalCode !== null) return;
       child.kill('SIGTERM');
-      await exited();
+      // A graceful stop that outlasts the server's own shutdown deadline is a hang: kill it, so a
+      // test's teardown always ends (and say so in the output the test may inspect).
+      let timer: NodeJS.Timeout | undefined;
+      const stopped = await Promise.race([exited().then(() => true), new Promise<false>((r) => (timer = setTimeout(() => r(false), STOP_GRACE_MS)))]);
+      clearTimeout(timer);
+      if (!stopped) {
+        output += `\n[test] no exit ${STOP_GRACE_MS / 1000} s after SIGTERM: killed\n`;
+        child.kill('SIGKILL');
+        await exited();
+      }
     },
   };
 }

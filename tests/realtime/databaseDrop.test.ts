@@ -78,15 +78,15 @@ describe('the database drops its connections under two running server instances'
       cookies.push(cookie);
       const c = simClient(server.url, cookie);
       clients.push(c);
-      await until(() => c.socket.connected, 10_000, 'connect');
+      await until(() => c.socket.connected, 30_000, 'connect');
       c.engine.join(world.sketchId);
-      await c.waitFor((m) => m.type === 'joined', 10_000);
+      await c.waitFor((m) => m.type === 'joined', 30_000);
     }
   });
   afterAll(async () => {
     for (const c of clients) c.close();
-    await one?.stop();
-    await two?.stop();
+    await Promise.all([one?.stop(), two?.stop()]);
+    for (const s of [one, two]) if (s?.output().includes('[test] no exit')) console.warn(`a server did not stop on SIGTERM:\n${s.output().slice(-2000)}`);
     await admin?.end();
     await database?.drop();
   });
@@ -116,7 +116,7 @@ describe('the database drops its connections under two running server instances'
     // Everyone converged on what the database holds, which is a replay of the log.
     await until(() => clients.every((c) => c.engine.pendingCount === 0), 30_000, 'pending edits drained');
     const { row, replayed } = await storedAndReplayed(database.db, world.sketchId, { title: 'Shared section', document: world.initial });
-    await until(() => clients.every((c) => c.engine.revision === row.revision), 15_000, 'clients at the stored revision');
+    await until(() => clients.every((c) => c.engine.revision === row.revision), 30_000, 'clients at the stored revision');
     for (const c of clients) expect(c.engine.state).toEqual({ title: row.title, document: row.document });
     expect(replayed).toEqual({ title: row.title, document: row.document });
     expectCleanLog(one.output() + two.output(), cookies);
@@ -141,13 +141,14 @@ describe('PostgreSQL stops and starts again under a running server', () => {
     server = await startServerProcess(url, await freePort());
     cookie = await signInCookie(server.url, world.users[0].email, RT_PASSWORD);
     client = simClient(server.url, cookie);
-    await until(() => client.socket.connected, 10_000, 'connect');
+    await until(() => client.socket.connected, 30_000, 'connect');
     client.engine.join(world.sketchId);
-    await client.waitFor((m) => m.type === 'joined', 10_000);
+    await client.waitFor((m) => m.type === 'joined', 30_000);
   }, 120_000);
   afterAll(async () => {
     client?.close();
     await server?.stop();
+    if (server?.output().includes('[test] no exit')) console.warn(`the server did not stop on SIGTERM:\n${server.output().slice(-2000)}`);
     cluster?.destroy();
   });
 
@@ -166,7 +167,7 @@ describe('PostgreSQL stops and starts again under a running server', () => {
     expect(JSON.stringify(health.body)).not.toMatch(/ECONNREFUSED|127\.0\.0\.1|terminat/i);
     // An edit made meanwhile waits in the client, unconfirmed.
     expect(client.engine.submit({ type: 'setCondition', opId: 'while-away', field: 'mach', value: 3.3 })).toEqual({ ok: true });
-    await client.waitFor((m) => m.type === 'error' && m.about === 'edit', 10_000);
+    await client.waitFor((m) => m.type === 'error' && m.about === 'edit', 30_000);
     expect(client.engine.pendingCount).toBe(1);
     expect(server.alive()).toBe(true);
 

@@ -12,7 +12,7 @@ import { createEditQueue } from '../../server/realtime/editLog.ts';
 import { MAX_JSON_DEPTH, jsonDepth } from '../../server/http/jsonDepth.ts';
 import { defaultSketchDocument, FIRST_DESIGN_POINT_ID } from '../../shared/model/sketch.ts';
 import { hasUnstorableText, textSchema } from '../../shared/model/text.ts';
-import type { EditOp } from '../../shared/protocol/messages.ts';
+import { clientMessageSchema, type EditOp } from '../../shared/protocol/messages.ts';
 import { CSRF, createWorld, freshSketch, signIn, type World } from '../helpers/world.ts';
 
 const BAD_TEXT: [string, string][] = [
@@ -27,6 +27,24 @@ describe('[M5] the text schema', () => {
     for (const [, s] of BAD_TEXT) expect(hasUnstorableText(s), JSON.stringify(s)).toBe(true);
     for (const s of ['Fin root', 'Fin 🚀 root', 'Ωμέγα', '', 'tab\there']) expect(hasUnstorableText(s), JSON.stringify(s)).toBe(false);
     expect(textSchema().safeParse('a\u0000').error!.issues[0].message).toBe('must not contain a NUL character or an unpaired surrogate');
+  });
+
+  it('[R1] a socket edit carrying NUL or an unpaired surrogate is refused by the message schema, naming the field', () => {
+    const doc = defaultSketchDocument();
+    const edit = (op: unknown) => clientMessageSchema.safeParse({ type: 'edit', sketchId: 'sketch_aaaaaaaaaaaaaaaaaaaa', baseRevision: 0, op });
+    const cases: [unknown, string][] = [
+      [{ type: 'rename', opId: 'op-1', title: 'Fin\u0000' }, 'op.title'],
+      [{ type: 'rename', opId: 'op-\uD800', title: 'Fin' }, 'op.opId'],
+      [{ type: 'renameDesignPoint', opId: 'op-2', pointId: FIRST_DESIGN_POINT_ID, name: 'Cruise \uDC00' }, 'op.name'],
+      [{ type: 'replaceDocument', opId: 'op-3', document: { ...doc, notes: 'a\u0000b' } }, 'op.document.notes'],
+      [{ type: 'setField', opId: 'op-4', field: 'loads.friction', value: 'laminar\u0000' }, 'op.value'],
+    ];
+    for (const [op, field] of cases) {
+      const r = edit(op);
+      expect(r.success, field).toBe(false);
+      expect(r.error!.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; '), field).toContain(`${field}: must not contain a NUL character or an unpaired surrogate`);
+    }
+    expect(edit({ type: 'rename', opId: 'op-5', title: 'Fin 🚀' }).success).toBe(true);
   });
 
   it('jsonDepth counts levels without recursing (a 100 000-deep array is measured, not a stack overflow)', () => {

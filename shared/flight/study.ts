@@ -79,6 +79,10 @@ export function studyRow(analysis: SketchAnalysis, mach: number, alphaDeg: numbe
     clSecondOrder: sec?.cl ?? null,
     cdSecondOrder: sec?.cd ?? null,
     cmSecondOrder: sec?.cm ?? null,
+    liftNPerM: analysis.loads?.perSpan.liftNPerM ?? null,
+    dragNPerM: analysis.loads?.perSpan.dragTotalNPerM ?? null,
+    momentNMPerM: analysis.loads?.perSpan.momentNMPerM ?? null,
+    hingeMomentNMPerM: analysis.loads?.perSpan.hingeMomentNMPerM ?? null,
     limit: analysis.problem ?? r?.limits[0]?.message ?? null,
   };
 }
@@ -144,6 +148,8 @@ export function startStudy(doc: SketchCase, plan: StudyPlan): StudyRun {
         altitudeM: plan.altitudeM,
         friction: plan.friction,
         transitionReynolds: plan.transitionReynolds,
+        chordM: doc.loads.chordM,
+        spanM: doc.loads.spanM,
         columns: STUDY_COLUMNS,
         rows: packStudyRows(rows),
         summaries: summarise(rows, plan, noseFacets, doc.condition.gamma),

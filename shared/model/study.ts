@@ -150,6 +150,17 @@ export const studyRowSchema = z.object({
   clSecondOrder: coefficient,
   cdSecondOrder: coefficient,
   cmSecondOrder: coefficient,
+  /**
+   * Section loads per unit span, SI, at the study's altitude on the sketch's physical chord
+   * (`StudyResults.chordM`): lift, total drag (wave + friction), pitching moment and hinge moment
+   * (cl·q∞·c, cdTotal·q∞·c, cm·q∞·c², ch·q∞·c_f²). Null without an altitude or when the exact
+   * result is not valid; absent (null) in studies stored before these columns existed. For the
+   * span, multiply by `StudyResults.spanM`.
+   */
+  liftNPerM: coefficient,
+  dragNPerM: coefficient,
+  momentNMPerM: coefficient,
+  hingeMomentNMPerM: coefficient,
   /** Why the point is not ok: the first limit's sentence (or why it could not be solved). */
   limit: z.string().nullable(),
 });
@@ -159,7 +170,7 @@ export type StudyRow = z.infer<typeof studyRowSchema>;
 export const STUDY_COLUMNS = [
   'mach', 'alphaDeg', 'flapDeg', 'status', 'cl', 'cd', 'cdFriction', 'cdTotal', 'cm', 'xcpOverC', 'liftToDrag',
   'liftToDragWave', 'chExact', 'chLinear', 'chSecondOrder', 'clLinear', 'cdLinear', 'cmLinear', 'clSecondOrder',
-  'cdSecondOrder', 'cmSecondOrder', 'limit',
+  'cdSecondOrder', 'cmSecondOrder', 'liftNPerM', 'dragNPerM', 'momentNMPerM', 'hingeMomentNMPerM', 'limit',
 ] as const satisfies readonly (keyof StudyRow)[];
 
 export type StudyColumn = (typeof STUDY_COLUMNS)[number];
@@ -192,6 +203,9 @@ export const studyResultsSchema = z.object({
   friction: studyFrictionSchema,
   /** Transition Reynolds number of mixed friction (absent in results stored before it existed). */
   transitionReynolds: z.number().optional(),
+  /** The sketch's physical chord and span (m) the loads columns were computed on (absent before they existed). */
+  chordM: z.number().optional(),
+  spanM: z.number().optional(),
   /** Column names of `rows` (STUDY_COLUMNS when written; readers look columns up by name). */
   columns: z.array(z.enum(STUDY_COLUMNS)).readonly(),
   /** [ST3] packed rows, flap outermost, then Mach, then α (ascending). */
@@ -262,15 +276,35 @@ export type StudyDetail = z.infer<typeof studyDetailSchema>;
 export const studyPageSchema = pageOf(studySummarySchema);
 export type StudyPage = z.infer<typeof studyPageSchema>;
 
-/** A study as CSV: `#` lines (study, sketch, condition, caution) then one row per point; cells from `shared/format/csv.ts`. */
+/** Loads over the whole span in the CSV (per-span column × the results' span), SI. */
+const SPAN_CSV_COLUMNS = [
+  ['liftN', 'liftNPerM'],
+  ['dragN', 'dragNPerM'],
+  ['momentNM', 'momentNMPerM'],
+  ['hingeMomentNM', 'hingeMomentNMPerM'],
+] as const;
+
+/**
+ * A study as CSV: `#` lines (study, sketch, condition, caution, chord and span) then one row per point:
+ * STUDY_COLUMNS, then the loads over the span (SI: N and N·m; per-span columns are N/m and
+ * N·m/m, as their names say). Cells from `shared/format/csv.ts`.
+ */
 export function studyCsv(meta: { title: string; studyName: string; revision: number; caution: string }, results: StudyResults): string {
   const index = STUDY_COLUMNS.map((k) => results.columns.indexOf(k));
+  const spanIndex = SPAN_CSV_COLUMNS.map(([, k]) => results.columns.indexOf(k));
+  const span = results.spanM ?? null;
+  const overSpan = (row: PackedRow) =>
+    spanIndex.map((i) => {
+      const v = i >= 0 ? row[i] : null;
+      return typeof v === 'number' && span !== null ? roundSignificant(v * span) : null;
+    });
   return [
     csvNote('Shockwright study', meta.studyName, 'sketch', meta.title, 'revision', meta.revision),
     csvNote(`altitude ${results.altitudeM === null ? 'none (wave drag only)' : `${results.altitudeM} m`}, friction ${results.friction}; alpha and flap in degrees (flap trailing edge down positive)`),
     csvNote(meta.caution),
-    csvHeader(STUDY_COLUMNS),
-    ...results.rows.map((row) => csvRow(index.map((i) => (i >= 0 ? (row[i] ?? null) : null)))),
+    csvNote(`loads in SI: liftNPerM, dragNPerM (wave + friction) in N/m and momentNMPerM, hingeMomentNMPerM in N·m/m per unit span${results.chordM === undefined ? ' (not in this study: it was computed before they existed)' : ` on a ${results.chordM} m chord`}; liftN, dragN, momentNM, hingeMomentNM over the ${span === null ? 'span' : `${span} m span`}`),
+    csvHeader([...STUDY_COLUMNS, ...SPAN_CSV_COLUMNS.map(([k]) => k)]),
+    ...results.rows.map((row) => csvRow([...index.map((i) => (i >= 0 ? (row[i] ?? null) : null)), ...overSpan(row)])),
     '',
   ].join('\n');
 }

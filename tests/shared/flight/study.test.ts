@@ -18,6 +18,7 @@ import {
 } from '../../../shared/model/study.ts';
 import { expectClose, expectCloseRel } from '../../helpers/expectClose.ts';
 import { firstItem, itemAt } from '../../../shared/util/invariant.ts';
+import { CHORD_M, SPAN_M, handLoads, wedgeDocument } from './wedgeByHand.ts';
 
 /** Our own 6 %-thick diamond fin with a 25 % flap (the demo's kind of section). */
 function flappedDiamond(): SketchCase {
@@ -206,7 +207,33 @@ describe('runStudy', () => {
     const csv = studyCsv({ title: 'HD-7 fin', studyName: 'Envelope', revision: 4, caution: RESULTS_CAUTION }, results);
     const lines = csv.trimEnd().split('\n');
     expect(lines[2]).toBe(`# ${RESULTS_CAUTION}`);
-    expect(lines[3]).toBe(STUDY_COLUMNS.join(','));
-    expect(lines).toHaveLength(4 + 108);
+    expect(lines[3]).toMatch(/^# loads in SI: liftNPerM, dragNPerM .* N\/m .* N·m\/m per unit span on a 0.4 m chord; liftN, dragN, momentNM, hingeMomentNM over the 0.3 m span$/);
+    expect(lines[4]).toBe([...STUDY_COLUMNS, 'liftN', 'dragN', 'momentNM', 'hingeMomentNM'].join(','));
+    expect(lines).toHaveLength(5 + 108);
+  });
+
+  it('loads columns: a double wedge at Mach 2, α 5°, 11 km gives lift, drag and moment in N/m and, in the CSV, N over the 3 m span equal to a hand integration (1976 standard p∞ 22 700 Pa)', () => {
+    const wedge = sketchCase(wedgeDocument());
+    const results = done(runStudy(wedge, def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 4, endDeg: 5, stepDeg: 1 }, altitudeM: 11_000, friction: 'none' })));
+    expect(results.chordM).toBe(CHORD_M);
+    expect(results.spanM).toBe(SPAN_M);
+    const row = unpackStudyRows(results).find((r) => r.alphaDeg === 5)!;
+    const hand = handLoads();
+    expectCloseRel(row.liftNPerM!, hand.lift, 3e-5);
+    expectCloseRel(row.dragNPerM!, hand.drag, 3e-5);
+    expectCloseRel(row.momentNMPerM!, hand.moment, 3e-5);
+    expect(row.hingeMomentNMPerM).toBeNull();
+    const csv = studyCsv({ title: 'wedge', studyName: 'loads', revision: 1, caution: RESULTS_CAUTION }, results).trimEnd().split('\n');
+    const header = csv[4].split(',');
+    const line = csv[6].split(',');
+    expectCloseRel(Number(line[header.indexOf('liftN')]), hand.lift * SPAN_M, 3e-5);
+    expectCloseRel(Number(line[header.indexOf('momentNM')]), hand.moment * SPAN_M, 3e-5);
+  });
+
+  it('loads columns are null without an altitude, and a study stored before them reads them as null', () => {
+    const results = done(runStudy(sketchCase(wedgeDocument()), def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 5, endDeg: 5, stepDeg: 1 }, altitudeM: null })));
+    expect(unpackStudyRows(results)[0]).toMatchObject({ liftNPerM: null, dragNPerM: null, momentNMPerM: null });
+    const old = { columns: STUDY_COLUMNS.filter((c) => !c.endsWith('PerM')), rows: [STUDY_COLUMNS.filter((c) => !c.endsWith('PerM')).map(() => 1)] };
+    expect(unpackStudyRows(old)[0]).toMatchObject({ liftNPerM: null, hingeMomentNMPerM: null, cl: 1 });
   });
 });

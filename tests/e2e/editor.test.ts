@@ -155,7 +155,8 @@ describe('sketch editor in Chromium', () => {
     expect(facetText).toContain(`# ${RESULTS_CAUTION}`);
     expect(facetText.trim().split('\n').filter((l) => /^"(upper|lower)",/.test(l))).toHaveLength(5);
 
-    // The canvas picture: a PNG at twice the canvas size with a 60 px caption band (the caution).
+    // The canvas picture: a PNG at twice the canvas size with a caption band (title, design point
+    // and condition, theory, caution: four 18 px lines and 8 px padding, all ×2).
     const box = (await page.getByTestId('sketch-canvas').boundingBox())!;
     await page.getByTestId('open-export').click();
     const [png] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-png').click()]);
@@ -163,7 +164,7 @@ describe('sketch editor in Chromium', () => {
     const bytes = readFileSync((await png.path())!);
     expect(bytes.subarray(1, 4).toString('ascii')).toBe('PNG');
     expect(bytes.readUInt32BE(16)).toBe(2 * Math.floor(box.width));
-    expect(bytes.readUInt32BE(20)).toBe(2 * Math.floor(box.height) + 60);
+    expect(bytes.readUInt32BE(20)).toBe(2 * Math.floor(box.height) + 2 * (16 + 18 * 4));
     mkdirSync(ARTIFACTS_DIR, { recursive: true });
     copyFileSync((await png.path())!, path.join(ARTIFACTS_DIR, 'editor-export.png'));
     expect(browser.foreignRequests).toEqual([]);

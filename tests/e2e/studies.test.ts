@@ -129,15 +129,16 @@ describe('studies and the PDF report in Chromium', () => {
     await download.saveAs(file);
     const pdf = readFileSync(file);
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
-    // Section report (2 pages) + study charts (1) + the per-Mach table (11 Mach × 5 δ rows, onto a
-    // second page); the 1,155 points themselves are not printed.
-    expect(pdfPageCount(pdf)).toBe(5);
+    // Section report (3 pages: design points and wave map; condition, Cp chart, coefficients;
+    // loads, per-facet and coordinates tables) + study charts (1) + the per-Mach table (11 Mach ×
+    // 5 δ rows, onto a second page); the 1,155 points themselves are not printed.
+    expect(pdfPageCount(pdf)).toBe(6);
     const text = pdfText(pdf).replace(/\s+/g, ' ');
     expect(text).toContain('Study: Canard envelope');
     expect(text).toContain('units: US customary');
     expect(text).toContain(RESULTS_CAUTION);
     const pngs = pdfToPng(pdf, ARTIFACTS_DIR, 'studies-report', 80);
-    expect(pngs.map((p) => path.basename(p))).toEqual([1, 2, 3, 4, 5].map((n) => `studies-report-${n}.png`));
+    expect(pngs.map((p) => path.basename(p))).toEqual([1, 2, 3, 4, 5, 6].map((n) => `studies-report-${n}.png`));
   });
 
   it('prints the results only (print stylesheet)', async () => {

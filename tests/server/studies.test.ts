@@ -130,7 +130,8 @@ describe('studies, unit preferences and reports API', () => {
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename="Tern-canard-6-diamond-r\d+-report\.pdf"$/);
     const pdf = res.body as Buffer;
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
-    expect(pdfPageCount(pdf)).toBe(2);
+    // Design points, wave map; condition, Cp chart, coefficients; loads, per-facet and coordinates tables.
+    expect(pdfPageCount(pdf)).toBe(3);
     const fonts = pdfFonts(pdf);
     expect(fonts.map((f) => f.name)).toEqual(expect.arrayContaining(['WorkSans-Regular', 'WorkSans-SemiBold', 'DejaVuSans']));
     expect(fonts.every((f) => f.embedded)).toBe(true);
@@ -158,13 +159,13 @@ describe('studies, unit preferences and reports API', () => {
     const res = await as('viewer').pdf(`/api/sketches/${sketchId}/report.pdf?study=${studyId}`);
     expect(res.status).toBe(200);
     const pdf = res.body as Buffer;
-    expect(pdfPageCount(pdf)).toBe(6);
+    expect(pdfPageCount(pdf)).toBe(7);
     const text = pdfText(pdf).replace(/\s+/g, ' ');
     expect(text).toContain('Study: Canard envelope');
     expect(text).toContain('Drag polar');
     expect(text).toContain('Hinge moment ch against δ');
     expect(text).toContain('Per Mach number: nose shock detachment and best L/D');
-    expect(text).toContain(`page 6 of 6`);
+    expect(text).toContain(`page 7 of 7`);
 
     const other = await freshSketch(world);
     expect((await as('viewer').get(`/api/sketches/${other}/report.pdf?study=${studyId}`)).status).toBe(404);

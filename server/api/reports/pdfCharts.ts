@@ -154,3 +154,85 @@ export function drawMachKey(doc: PDFKit.PDFDocument, x: number, y: number, w: nu
 }
 
 const fmt = (v: number) => formatNumber(v, 4);
+
+export interface StepSeries {
+  colour: string;
+  /** [a, b] dash pattern in points; solid when absent. */
+  dash?: [number, number];
+  width?: number;
+  /** Horizontal steps: from x0 to x1 at y (one per facet). */
+  steps: [number, number, number][];
+}
+
+export interface StepChart {
+  title: string;
+  xLabel: string;
+  yLabel: string;
+  /** Negative values up (the usual way to draw Cp). */
+  invertY?: boolean;
+  xRange?: [number, number];
+  series: StepSeries[];
+  legend: { colour: string; dash?: [number, number]; label: string }[];
+}
+
+/**
+ * A chart of piecewise-constant values (a facet's Cp over its x extent) with a legend row under
+ * the plot; the title sits inside the box's top.
+ */
+export function drawStepChart(doc: PDFKit.PDFDocument, x: number, y: number, w: number, h: number, chart: StepChart): void {
+  const pad = { left: 44, right: 8, top: 18, bottom: 44 };
+  const px = x + pad.left;
+  const py = y + pad.top;
+  const pw = w - pad.left - pad.right;
+  const ph = h - pad.top - pad.bottom;
+  line(doc, chart.title, x, y, { size: 9, weight: 'bold', color: INK });
+  const ys = chart.series.flatMap((s) => s.steps.map((t) => t[2])).filter(Number.isFinite);
+  const xs = chart.series.flatMap((s) => s.steps.flatMap((t) => [t[0], t[1]])).filter(Number.isFinite);
+  if (ys.length === 0) {
+    doc.rect(px, py, pw, ph).lineWidth(0.5).strokeColor(RULE).stroke();
+    line(doc, 'No valid facets to plot.', px, py + ph / 2 - 5, { size: 8, color: INK_SOFT, width: pw, align: 'center' });
+    return;
+  }
+  const xr = chart.xRange ?? [Math.min(...xs), Math.max(...xs)];
+  const xt = niceTicks(xr[0], xr[1], 5);
+  const yt = niceTicks(Math.min(0, ...ys), Math.max(0, ...ys), 6);
+  const X = (v: number) => px + ((v - xt.lo) / (xt.hi - xt.lo)) * pw;
+  const Y = (v: number) => (chart.invertY ? py + ((v - yt.lo) / (yt.hi - yt.lo)) * ph : py + ph - ((v - yt.lo) / (yt.hi - yt.lo)) * ph);
+
+  doc.lineWidth(0.4).strokeColor('#e7ecea');
+  for (const t of yt.ticks) doc.moveTo(px, Y(t)).lineTo(px + pw, Y(t)).stroke();
+  for (const t of xt.ticks) doc.moveTo(X(t), py).lineTo(X(t), py + ph).stroke();
+  if (yt.lo < 0 && yt.hi > 0) doc.lineWidth(0.6).strokeColor('#b8c3c0').moveTo(px, Y(0)).lineTo(px + pw, Y(0)).stroke();
+  doc.rect(px, py, pw, ph).lineWidth(0.6).strokeColor('#9aa8a4').stroke();
+  for (const t of yt.ticks) line(doc, tickLabel(t, yt.step), px - 40, Y(t) - 3.5, { size: 6.5, color: INK_SOFT, width: 37, align: 'right' });
+  for (const t of xt.ticks) line(doc, tickLabel(t, xt.step), X(t) - 20, py + ph + 3, { size: 6.5, color: INK_SOFT, width: 40, align: 'center' });
+  line(doc, chart.xLabel, px, py + ph + 13, { size: 7.5, color: INK, width: pw, align: 'center' });
+  doc.save();
+  doc.rotate(-90, { origin: [x + 6, py + ph / 2] });
+  line(doc, chart.yLabel, x + 6 - ph / 2, py + ph / 2 - 4, { size: 7.5, color: INK, width: ph, align: 'center' });
+  doc.restore();
+
+  doc.save();
+  doc.rect(px, py, pw, ph).clip();
+  for (const s of chart.series) {
+    doc.lineWidth(s.width ?? 1.1);
+    if (s.dash) doc.dash(s.dash[0], { space: s.dash[1] });
+    for (const [x0, x1, v] of s.steps) {
+      if (!Number.isFinite(v)) continue;
+      doc.moveTo(X(x0), Y(v)).lineTo(X(x1), Y(v)).strokeColor(s.colour).stroke();
+    }
+    doc.undash();
+  }
+  doc.restore();
+
+  // Legend under the axis title.
+  let lx = px;
+  const ly = py + ph + 28;
+  for (const item of chart.legend) {
+    doc.lineWidth(1.2);
+    if (item.dash) doc.dash(item.dash[0], { space: item.dash[1] });
+    doc.moveTo(lx, ly + 4).lineTo(lx + 18, ly + 4).strokeColor(item.colour).stroke();
+    doc.undash();
+    lx += 22 + line(doc, item.label, lx + 22, ly, { size: 7, color: INK }) + 14;
+  }
+}

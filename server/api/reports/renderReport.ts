@@ -6,8 +6,10 @@ import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
 import { formatQuantity, toDisplay, unitLabel, type Quantity, type UnitSystem } from '../../../shared/flight/units.ts';
 import { unpackStudyRows, type StudyRow } from '../../../shared/model/study.ts';
 import { sketchCase } from '../../../shared/model/sketch.ts';
-import type { Coefficients, Point, SolveResult, TheoryResult } from '../../../shared/solver/types.ts';
-import { ACCENT, INK, INK_SOFT, RULE, drawLineChart, drawMachKey, machColour, type LineChart } from './pdfCharts.ts';
+import type { Coefficients, Facet, Point, SolveResult, TheoryResult } from '../../../shared/solver/types.ts';
+import { ACCENT, INK, INK_SOFT, RULE, drawLineChart, drawMachKey, drawStepChart, machColour, niceTicks, tickLabel, type LineChart } from './pdfCharts.ts';
+import { facetLoads } from '../../../shared/flight/facetLoads.ts';
+import type { SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
 import { line, paragraph, registerFonts, widthOf } from './pdfText.ts';
 import type { ReportData, ReportStudy } from './reportData.ts';
 import { formatNumber } from '../../../shared/format/number.ts';
@@ -22,6 +24,8 @@ import { formatNumber } from '../../../shared/format/number.ts';
 
 /** Largest study whose every point is printed as a table; bigger ones print the per-Mach table only. */
 export const REPORT_POINT_TABLE_MAX = 300;
+/** Largest section whose vertices are printed as a table. */
+export const REPORT_VERTEX_TABLE_MAX = 400;
 
 const PAGE = { width: 595.28, height: 841.89 };
 const M = { left: 44, right: 44, top: 44, bottom: 58 };
@@ -59,10 +63,14 @@ export function renderReport(data: ReportData): Promise<Buffer> {
 
   titleBlock(ctx);
   cautionBox(ctx);
+  designPointsTable(ctx);
   waveMapPanel(ctx);
   conditionAndStatus(ctx);
+  cpChart(ctx);
   coefficientsTable(ctx);
   loadsTables(ctx);
+  facetTable(ctx);
+  coordinatesTable(ctx);
   if (data.study) studyPages(ctx, data.study);
   footers(ctx);
   doc.end();
@@ -99,6 +107,11 @@ const num = (v: number | null | undefined, digits = 4): string => formatNumber(v
 const sci = num;
 const deg = (v: number | null | undefined) => (v === null || v === undefined ? '—' : `${num(v, 4)}°`);
 const qty = (v: number | null | undefined, q: Quantity, units: UnitSystem) => (v === null || v === undefined ? '—' : formatQuantity(v, q, units, 4));
+
+/** The selected design point's name (what the wave map and the tables show). */
+function selectedName(data: ReportData): string {
+  return data.document.designPoints.find((p) => p.id === data.points.selectedPointId)?.name ?? '';
+}
 
 function titleBlock(ctx: Ctx): void {
   const { doc, data } = ctx;
@@ -144,39 +157,112 @@ function pressureScale(ratios: number[]): { colour: (p: number | null) => string
   return { colour, min: Math.exp(-span), max: Math.exp(span) };
 }
 
-function waveMapPanel(ctx: Ctx): void {
-  const { doc, data } = ctx;
-  const { analysis } = data;
-  const result = analysis.result;
-  const h = 260;
-  heading(ctx, 'Section and wave map', h + 40);
-  const x0 = M.left;
-  const y0 = ctx.y;
-  doc.rect(x0, y0, CONTENT_W, h).fillColor(CANVAS_BG).fill();
+/** Height range of the wave map's frame: it takes the drawing's aspect within these bounds. */
+const WAVE_MAP_MIN_H = 170;
+const WAVE_MAP_MAX_H = 330;
+/** Room left of and under the frame for the axes' labels. */
+const AXIS_LEFT = 34;
+const AXIS_BOTTOM = 24;
 
+/**
+ * The section and its wave map in a frame the drawing fills: the frame takes the width of the
+ * page and the height the drawing's aspect asks for (within WAVE_MAP_MIN_H…MAX_H; a taller
+ * drawing is cut at the top and bottom around the section, a flatter one gets more of the
+ * field above and below). Axes in x/c and y/c from the leading edge, a grid, and a scale bar
+ * with its physical length on the sketch's chord.
+ */
+export interface WaveMapLayout {
+  /** Points per drawing unit. */
+  scale: number;
+  /** Frame height, points (the width is given). */
+  height: number;
+  /** What is drawn: the section and every wave's line, with 3 % of the width added left and right. */
+  drawing: { minX: number; maxX: number; minY: number; maxY: number };
+  /** The y range the frame shows (drawing units). */
+  minY: number;
+  maxY: number;
+}
+
+/**
+ * Where the wave map goes in a frame `frameW` points wide: scaled so the drawing spans the
+ * width; the frame's height is the drawing's (plus 6 %) within WAVE_MAP_MIN_H…MAX_H. A taller
+ * drawing is cut above and below around the section's middle; a flatter one shows more field.
+ */
+export function waveMapLayout(analysis: SketchAnalysis, frameW: number): WaveMapLayout {
   const pts: Point[] = analysis.solvedPoints;
   const all: Point[] = [...pts];
-  for (const w of result?.waves ?? []) {
+  for (const w of analysis.result?.waves ?? []) {
     all.push(w.origin, w.end);
     for (const r of w.rays ?? []) all.push(r.end);
   }
   const xs = all.map((p) => p[0]);
   const ys = all.map((p) => p[1]);
-  let minX = Math.min(...xs);
-  let maxX = Math.max(...xs);
-  let minY = Math.min(...ys);
-  let maxY = Math.max(...ys);
-  const padX = (maxX - minX) * 0.04 || 0.1;
-  const padY = (maxY - minY) * 0.04 || 0.1;
-  minX -= padX;
-  maxX += padX;
-  minY -= padY;
-  maxY += padY;
-  const s = Math.min(CONTENT_W / (maxX - minX), h / (maxY - minY));
-  const ox = x0 + (CONTENT_W - (maxX - minX) * s) / 2;
-  const oy = y0 + (h - (maxY - minY) * s) / 2;
-  const X = (p: Point) => ox + (p[0] - minX) * s;
-  const Y = (p: Point) => oy + (maxY - p[1]) * s;
+  const secYs = pts.map((p) => p[1]);
+  const rawMinX = Math.min(...xs);
+  const rawMaxX = Math.max(...xs);
+  const padX = (rawMaxX - rawMinX) * 0.03 || 0.1;
+  const drawing = { minX: rawMinX - padX, maxX: rawMaxX + padX, minY: Math.min(...ys), maxY: Math.max(...ys) };
+  const scale = frameW / (drawing.maxX - drawing.minX);
+  const want = (drawing.maxY - drawing.minY) * 1.06 * scale;
+  const height = Math.min(WAVE_MAP_MAX_H, Math.max(WAVE_MAP_MIN_H, want));
+  const midY = want <= height ? (drawing.maxY + drawing.minY) / 2 : (Math.max(...secYs) + Math.min(...secYs)) / 2;
+  return { scale, height, drawing, minY: midY - height / 2 / scale, maxY: midY + height / 2 / scale };
+}
+
+function waveMapPanel(ctx: Ctx): void {
+  const { doc, data } = ctx;
+  const { analysis } = data;
+  const result = analysis.result;
+  const pts: Point[] = analysis.solvedPoints;
+  const frameW = CONTENT_W - AXIS_LEFT;
+  const layout = waveMapLayout(analysis, frameW);
+  const s = layout.scale;
+  const h = layout.height;
+  const { minX, maxX } = layout.drawing;
+  const { minY, maxY } = layout;
+
+  heading(ctx, `Section and wave map${data.document.designPoints.length > 1 ? ` — ${selectedName(data)}` : ''}`, h + AXIS_BOTTOM + 40);
+  const x0 = M.left + AXIS_LEFT;
+  const y0 = ctx.y;
+  doc.rect(x0, y0, frameW, h).fillColor(CANVAS_BG).fill();
+  const X = (p: Point) => x0 + (p[0] - minX) * s;
+  const Y = (p: Point) => y0 + (maxY - p[1]) * s;
+
+  // Axes in x/c and y/c from the reference leading edge (the canvas's own grid, drawn lighter).
+  const ref = result?.geometry.reference ?? null;
+  const le: Point = ref ? ref.leadingEdge : [minX, 0];
+  const chord = ref ? ref.chord : maxX - minX;
+  const xt = niceTicks((minX - le[0]) / chord, (maxX - le[0]) / chord, 10);
+  const yt = niceTicks((minY - le[1]) / chord, (maxY - le[1]) / chord, Math.max(3, Math.round(h / 45)));
+  doc.save();
+  doc.rect(x0, y0, frameW, h).clip();
+  doc.lineWidth(0.35).strokeColor('#22343d');
+  for (const t of xt.ticks) {
+    const gx = X([le[0] + t * chord, 0]);
+    doc.moveTo(gx, y0).lineTo(gx, y0 + h).stroke();
+  }
+  for (const t of yt.ticks) {
+    const gy = Y([0, le[1] + t * chord]);
+    doc.moveTo(x0, gy).lineTo(x0 + frameW, gy).stroke();
+  }
+  doc.restore();
+  for (const t of xt.ticks) {
+    const gx = X([le[0] + t * chord, 0]);
+    if (gx < x0 - 0.5 || gx > x0 + frameW + 0.5) continue;
+    doc.moveTo(gx, y0 + h).lineTo(gx, y0 + h + 3).lineWidth(0.5).strokeColor(INK_SOFT).stroke();
+    line(doc, tickLabel(t, xt.step), gx - 20, y0 + h + 4, { size: 6.5, color: INK_SOFT, width: 40, align: 'center' });
+  }
+  for (const t of yt.ticks) {
+    const gy = Y([0, le[1] + t * chord]);
+    if (gy < y0 - 0.5 || gy > y0 + h + 0.5) continue;
+    doc.moveTo(x0 - 3, gy).lineTo(x0, gy).lineWidth(0.5).strokeColor(INK_SOFT).stroke();
+    line(doc, tickLabel(t, yt.step), M.left, gy - 3.5, { size: 6.5, color: INK_SOFT, width: AXIS_LEFT - 5, align: 'right' });
+  }
+  line(doc, 'x/c from the leading edge', x0, y0 + h + 13, { size: 7, color: INK, width: frameW, align: 'center' });
+  doc.save();
+  doc.rotate(-90, { origin: [M.left + 2, y0 + h / 2] });
+  line(doc, 'y/c', M.left + 2 - 20, y0 + h / 2 - 4, { size: 7, color: INK, width: 40, align: 'center' });
+  doc.restore();
 
   const ratios: number[] = [];
   for (const w of result?.waves ?? []) {
@@ -187,7 +273,7 @@ function waveMapPanel(ctx: Ctx): void {
   const scale = pressureScale(ratios);
 
   doc.save();
-  doc.rect(x0, y0, CONTENT_W, h).clip();
+  doc.rect(x0, y0, frameW, h).clip();
   for (const w of result?.waves ?? []) {
     if (w.kind === 'fan') {
       doc.lineWidth(0.6);
@@ -211,8 +297,19 @@ function waveMapPanel(ctx: Ctx): void {
   doc.lineCap('butt');
   for (const l of result?.limits ?? []) doc.circle(X(l.at), Y(l.at), 4).lineWidth(1.2).strokeColor(LIMIT).stroke();
   if (analysis.flap) doc.circle(X(analysis.flap.hinge), Y(analysis.flap.hinge), 2.4).fillColor('#ffffff').fill();
+
+  // Scale bar, bottom left inside the frame: a round fraction of the chord about 1/6 of the frame.
+  const target = frameW / 6 / (s * chord);
+  const barC = [0.05, 0.1, 0.2, 0.25, 0.5, 1, 2, 5].reduce((b, v) => (Math.abs(v - target) < Math.abs(b - target) ? v : b), 0.25);
+  const scaleBarW = barC * chord * s;
+  const bx = x0 + 10;
+  const by = y0 + h - 12;
+  doc.rect(bx - 4, by - 13, scaleBarW + 8, 19).fillColor(CANVAS_BG).fillOpacity(0.85).fill().fillOpacity(1);
+  doc.moveTo(bx, by).lineTo(bx + scaleBarW, by).moveTo(bx, by - 3).lineTo(bx, by + 3).moveTo(bx + scaleBarW, by - 3).lineTo(bx + scaleBarW, by + 3).lineWidth(1).strokeColor('#e9f1f2').stroke();
+  line(doc, `${num(barC)} c = ${qty(barC * data.document.loads.chordM, 'length', data.units)}`, bx, by - 12, { size: 6.5, color: '#e9f1f2' });
   doc.restore();
-  ctx.y = y0 + h + 6;
+  doc.rect(x0, y0, frameW, h).lineWidth(0.6).strokeColor('#9aa8a4').stroke();
+  ctx.y = y0 + h + AXIS_BOTTOM + 4;
 
   // Legend: the colour bar in p/p∞, and what the marks mean.
   const barW = 180;
@@ -279,7 +376,7 @@ function conditionAndStatus(ctx: Ctx): void {
   const { data } = ctx;
   const d = sketchCase(data.document);
   const u = data.units;
-  heading(ctx, 'Condition');
+  heading(ctx, data.document.designPoints.length > 1 ? `Condition — design point “${selectedName(data)}”` : 'Condition');
   const rows: string[][] = [
     ['Mach number M∞', num(d.condition.mach, 5)],
     ['Incidence α (nose up +)', deg(d.condition.alphaDeg)],
@@ -369,13 +466,15 @@ function loadsTables(ctx: Ctx): void {
   const { data } = ctx;
   const u = data.units;
   const loads = data.analysis.loads;
-  heading(ctx, `Free stream and loads (${u === 'si' ? 'SI' : 'US customary'} units)`);
+  heading(ctx, `Free stream and loads (${u === 'si' ? 'SI' : 'US customary'} units)`, loads ? 8 * 15 + 10 : 40);
   if (!loads) {
     ctx.y += paragraph(ctx.doc, data.analysis.loadsNote ?? 'No loads for this analysis.', M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK }) + 10;
     return;
   }
   const atm = loads.atmosphere;
   const half = (CONTENT_W - 16) / 2;
+  ensure(ctx, 8 * 15 + 10);
+  // Taken after any page break: both tables start from the same top.
   const startY = ctx.y;
   const left: string[][] = [
     ['q∞ (dynamic pressure)', qty(loads.dynamicPressurePa, 'pressure', u)],
@@ -406,7 +505,6 @@ function loadsTables(ctx: Ctx): void {
     });
     return y;
   };
-  ensure(ctx, 8 * 15 + 10);
   const yl = tableAt(M.left, left);
   const yr = tableAt(M.left + half + 16, right);
   ctx.y = Math.max(yl, yr) + 10;
@@ -439,6 +537,192 @@ function loadsTables(ctx: Ctx): void {
     ctx.y += paragraph(ctx.doc, t, M.left, ctx.y, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 3;
   }
   ctx.y += 3;
+}
+
+// ---- design points, Cp chart, per-facet and coordinates tables ----
+
+/** Every design point side by side; the selected one (which the rest of the report shows) in bold. */
+function designPointsTable(ctx: Ctx): void {
+  const { data } = ctx;
+  const u = data.units;
+  const doc = data.document;
+  const shownId = data.points.selectedPointId;
+  heading(ctx, `Design points (${doc.designPoints.length})`, 50);
+  const flap = !!doc.flap;
+  const rows = doc.designPoints.map((p) => {
+    const a = data.points.points.find((x) => x.id === p.id)?.analysis ?? null;
+    const c = a?.result?.coefficients ?? null;
+    const loads = a?.loads ?? null;
+    return [
+      p.name,
+      num(p.condition.mach),
+      deg(p.condition.alphaDeg),
+      num(p.condition.gamma),
+      p.condition.altitudeM === null ? '—' : qty(p.condition.altitudeM, 'altitude', u),
+      ...(flap ? [deg(p.flapDeflectionDeg)] : []),
+      a?.status ?? 'not solved',
+      num(c?.cl ?? null),
+      num(c?.cd ?? null),
+      num(c?.cm ?? null),
+      loads ? qty(loads.perSpan.liftNPerM, 'forcePerSpan', u) : '—',
+    ];
+  });
+  // Column widths (points): name, Mach, α, γ, altitude, [flap δ], status, cl, cd, cm; lift takes the rest.
+  const w = flap ? [76, 30, 32, 26, 58, 34, 38, 44, 46, 48] : [96, 34, 36, 30, 62, 0, 44, 48, 50, 50];
+  const at = (i: number) => w[i] ?? 0;
+  const fixed = w.reduce((a, b) => a + b, 0);
+  table(
+    ctx,
+    [
+      { label: 'design point', width: at(0) },
+      { label: 'Mach', width: at(1), align: 'right' },
+      { label: 'α', width: at(2), align: 'right' },
+      { label: 'γ', width: at(3), align: 'right' },
+      { label: 'altitude', width: at(4), align: 'right' },
+      ...(flap ? [{ label: 'flap δ', width: at(5), align: 'right' as const }] : []),
+      { label: 'status', width: at(6) },
+      { label: 'cl', width: at(7), align: 'right' },
+      { label: 'cd wave', width: at(8), align: 'right' },
+      { label: 'cm', width: at(9), align: 'right' },
+      { label: 'lift per span', width: CONTENT_W - fixed, align: 'right' },
+    ],
+    rows,
+    { size: 7.5, emphasise: (i) => doc.designPoints[i]?.id === shownId },
+  );
+  const shown = doc.designPoints.find((p) => p.id === shownId);
+  if (doc.designPoints.length > 1 && shown) {
+    ctx.y += paragraph(ctx.doc, `Exact (shock-expansion) coefficients. The wave map, condition, Cp chart and tables below are for “${shown.name}” (bold), the sketch's selected design point.`, M.left, ctx.y - 4, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;
+  }
+}
+
+/** Cp along the chord for both surfaces and the three theories (negative up, as usual). */
+function cpChart(ctx: Ctx): void {
+  const r = ctx.data.analysis.result;
+  if (!r) return;
+  const h = 230;
+  heading(ctx, 'Pressure coefficient along the chord', h + 10);
+  const ref = r.geometry.reference;
+  const xc = (p: Point) => (p[0] - ref.leadingEdge[0]) / ref.chord;
+  const steps = (facets: Facet[], pick: (f: Facet) => number | null) =>
+    facets.flatMap((f): [number, number, number][] => {
+      const v = pick(f);
+      const a = xc(f.from);
+      const b = xc(f.to);
+      return v === null ? [] : [[Math.min(a, b), Math.max(a, b), v]];
+    });
+  const UPPER = '#0b6e69';
+  const LOWER = '#c0561b';
+  const LINEAR: [number, number] = [4, 2.5];
+  const SECOND: [number, number] = [1.2, 1.8];
+  drawStepChart(ctx.doc, M.left, ctx.y, CONTENT_W, h, {
+    title: `Cp on each facet — upper and lower surface, three theories`,
+    xLabel: 'x/c from the leading edge',
+    yLabel: 'Cp (negative up)',
+    invertY: true,
+    series: [
+      { colour: UPPER, steps: steps(r.surfaces.upper, (f) => f.cp), width: 1.6 },
+      { colour: LOWER, steps: steps(r.surfaces.lower, (f) => f.cp), width: 1.6 },
+      { colour: UPPER, steps: steps(r.surfaces.upper, (f) => f.cpLinear), dash: LINEAR },
+      { colour: LOWER, steps: steps(r.surfaces.lower, (f) => f.cpLinear), dash: LINEAR },
+      { colour: UPPER, steps: steps(r.surfaces.upper, (f) => f.cpSecondOrder), dash: SECOND },
+      { colour: LOWER, steps: steps(r.surfaces.lower, (f) => f.cpSecondOrder), dash: SECOND },
+    ],
+    legend: [
+      { colour: UPPER, label: 'upper surface' },
+      { colour: LOWER, label: 'lower surface' },
+      { colour: INK, label: 'exact (shock-expansion)' },
+      { colour: INK, dash: LINEAR, label: 'linear (Ackeret)' },
+      { colour: INK, dash: SECOND, label: 'second-order (Busemann)' },
+    ],
+  });
+  ctx.y += h + 8;
+}
+
+/** Each facet: where it is, its turn and wave, the state on it and its pressure and load. */
+function facetTable(ctx: Ctx): void {
+  const { data } = ctx;
+  const r = data.analysis.result;
+  if (!r) return;
+  const u = data.units;
+  heading(ctx, 'Per facet (selected design point)');
+  const loads = facetLoads(data.analysis, data.document.loads);
+  const byFacet = new Map(loads.ok ? loads.loads.facets.map((f) => [`${f.surface}|${f.facet}`, f]) : []);
+  const rows = (['upper', 'lower'] as const).flatMap((surface) =>
+    r.surfaces[surface].map((f, i) => {
+      const l = byFacet.get(`${surface}|${f.index}`);
+      return [
+        `${surface} ${i + 1}`,
+        num(f.xMidOverC, 3),
+        deg(f.thetaDeg),
+        f.vacuum ? 'vacuum' : f.wave,
+        num(f.mach),
+        num(f.pRatio),
+        num(f.cp),
+        num(f.cpLinear),
+        num(f.cpSecondOrder),
+        l?.pressurePa === null || l === undefined ? '—' : qty(l.pressurePa, 'pressure', u),
+        l?.normalNPerM === null || l === undefined ? '—' : qty(l.normalNPerM, 'forcePerSpan', u),
+      ];
+    }),
+  );
+  table(ctx, [
+    { label: 'facet', width: 44 },
+    { label: 'x_mid/c', width: 38, align: 'right' },
+    { label: 'θ', width: 38, align: 'right' },
+    { label: 'wave', width: 38 },
+    { label: 'M', width: 38, align: 'right' },
+    { label: 'p/p∞', width: 42, align: 'right' },
+    { label: 'Cp exact', width: 44, align: 'right' },
+    { label: 'Cp linear', width: 44, align: 'right' },
+    { label: 'Cp 2nd-order', width: 50, align: 'right' },
+    { label: 'p', width: 64, align: 'right' },
+    { label: '(p − p∞)·length', width: CONTENT_W - 440, align: 'right' },
+  ], rows, { size: 7, rowHeight: 11.5 });
+  const note = loads.ok
+    ? `Facets numbered nose → tail on each surface. θ: deflection from the free stream (+ into the flow); wave at the facet's leading vertex. p and (p − p∞)·length per unit span (positive pressing on the facet) at the condition's altitude on the ${qty(data.document.loads.chordM, 'length', u)} chord; the Export menu's “Loads per facet (CSV)” has the forces and moments in both axes.`
+    : `Facets numbered nose → tail on each surface. No pressures in ${u === 'si' ? 'Pa' : 'lbf/ft²'}: ${loads.reason}`;
+  ctx.y += paragraph(ctx.doc, note, M.left, ctx.y - 4, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;
+}
+
+/** The section's vertices as drawn, in drawing units and physical lengths, two columns of vertices. */
+function coordinatesTable(ctx: Ctx): void {
+  const { data } = ctx;
+  const u = data.units;
+  const pts = data.document.section.points;
+  const r = data.analysis.result;
+  heading(ctx, `Section coordinates as drawn (${pts.length} vertices)`);
+  if (pts.length > REPORT_VERTEX_TABLE_MAX) {
+    ctx.y += paragraph(ctx.doc, `The section has ${pts.length} vertices; tables of more than ${REPORT_VERTEX_TABLE_MAX} are not printed. Export the coordinates as CSV from the editor.`, M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK }) + 8;
+    return;
+  }
+  // Physical lengths from the reference leading edge, scaled so the drawn chord is the sketch's chord.
+  const chord = r?.geometry.reference.chord ?? null;
+  const le = r?.geometry.reference.leadingEdge ?? null;
+  const k = chord ? data.document.loads.chordM / chord : null;
+  const cell = (p: Point, i: number) => [
+    String(i),
+    num(p[0], 5),
+    num(p[1], 5),
+    k !== null && le ? qty((p[0] - le[0]) * k, 'length', u) : '—',
+    k !== null && le ? qty((p[1] - le[1]) * k, 'length', u) : '—',
+  ];
+  const half = Math.ceil(pts.length / 2);
+  const rows = Array.from({ length: half }, (_, i) => {
+    const a = pts[i];
+    const b = pts[i + half];
+    return [...(a ? cell(a, i) : []), ...(b ? cell(b, i + half) : ['', '', '', '', ''])];
+  });
+  const group = (): Column[] => [
+    { label: '#', width: 24, align: 'right' },
+    { label: 'x', width: 50, align: 'right' },
+    { label: 'y', width: 50, align: 'right' },
+    { label: 'x from LE', width: 64, align: 'right' },
+    { label: 'y from LE', width: 64, align: 'right' },
+  ];
+  const gap: Column = { label: '', width: 0 };
+  void gap;
+  table(ctx, [...group(), ...group()], rows, { size: 7, rowHeight: 11.5 });
+  ctx.y += paragraph(ctx.doc, `x, y in drawing units (body axes, x aft, y up, in drawing order); physical positions from the leading edge on the ${qty(data.document.loads.chordM, 'length', u)} chord.`, M.left, ctx.y - 4, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;
 }
 
 // ---- study ----

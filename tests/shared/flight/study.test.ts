@@ -233,7 +233,12 @@ describe('runStudy', () => {
   it('loads columns are null without an altitude, and a study stored before them reads them as null', () => {
     const results = done(runStudy(sketchCase(wedgeDocument()), def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 5, endDeg: 5, stepDeg: 1 }, altitudeM: null })));
     expect(unpackStudyRows(results)[0]).toMatchObject({ liftNPerM: null, dragNPerM: null, momentNMPerM: null });
-    const old = { columns: STUDY_COLUMNS.filter((c) => !c.endsWith('PerM')), rows: [STUDY_COLUMNS.filter((c) => !c.endsWith('PerM')).map(() => 1)] };
-    expect(unpackStudyRows(old)[0]).toMatchObject({ liftNPerM: null, hingeMomentNMPerM: null, cl: 1 });
+    // A study stored before the loads columns: the same rows without them.
+    const withAltitude = done(runStudy(sketchCase(wedgeDocument()), def({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 5, endDeg: 5, stepDeg: 1 }, altitudeM: 11_000 })));
+    const keep = withAltitude.columns.map((c, i) => [c, i] as const).filter(([c]) => !c.endsWith('PerM'));
+    const old = { columns: keep.map(([c]) => c), rows: withAltitude.rows.map((r) => keep.map(([, i]) => r[i] ?? null)) };
+    const [row] = unpackStudyRows(old);
+    expect(row).toMatchObject({ liftNPerM: null, dragNPerM: null, momentNMPerM: null, hingeMomentNMPerM: null, status: 'ok' });
+    expect(row!.cl).toBeGreaterThan(0);
   });
 });

@@ -1,0 +1,94 @@
+import { mkdirSync } from 'node:fs';
+import path from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { renderReport, waveMapLayout } from '../../server/api/reports/renderReport.ts';
+import type { ReportData } from '../../server/api/reports/reportData.ts';
+import { analyseDesignPoints, selectedAnalysis } from '../../shared/flight/designPoints.ts';
+import { DEMO_SKETCHES } from '../../server/db/seed.ts';
+import { pdfText, pdfToPng } from '../helpers/pdf.ts';
+import { ARTIFACTS_DIR } from '../helpers/browser.ts';
+import type { SketchDocument } from '../../shared/model/sketch.ts';
+import type { UnitSystem } from '../../shared/flight/units.ts';
+
+/**
+ * The section report's content (drawn by renderReport, no database): design points, the wave
+ * map with axes and scale filling its frame, the Cp chart, the coordinates and per-facet tables,
+ * and numbers printed by the one formatter. Pages are also rendered to PNG
+ * (tests/e2e/artifacts/report-*.png) for a person to look at.
+ */
+const ROOT = DEMO_SKETCHES.find((s) => s.title.startsWith('Tern fin root'))!;
+const CANARD = DEMO_SKETCHES.find((s) => s.title.startsWith('Tern canard'))!;
+
+function data(title: string, document: SketchDocument, units: UnitSystem = 'si'): ReportData {
+  const points = analyseDesignPoints(document);
+  return { title, teamName: 'Harrowgate Dynamics — fins group', revision: 7, generatedAt: new Date('2026-12-03T06:00:00Z'), generatedBy: 'Ines Marlow', units, document, analysis: selectedAnalysis(points)!, points, study: null };
+}
+
+describe('the section report (PDF)', () => {
+  it('lists every design point with its condition, status, coefficients and lift, the selected one named', async () => {
+    const text = pdfText(await renderReport(data(ROOT.title, ROOT.document))).replace(/\s+/g, ' ');
+    expect(text).toContain('Design points (3)');
+    for (const name of ['Burnout', 'Max q', 'Pull-up']) expect(text).toContain(name);
+    expect(text).toMatch(/Burnout 2\.6 4° 1\.4 12,000 m ok 0\.\d+ 0\.0\d+ −0\.\d+ [\d,.]+ N\/m/);
+    expect(text).toContain('are for “Burnout” (bold), the sketch\'s selected design point');
+    expect(text).toContain('Condition — design point “Burnout”');
+  });
+
+  it('has the Cp chart, the per-facet table with pressures in the person\'s units, and the coordinates table', async () => {
+    for (const units of ['si', 'us'] as const) {
+      const text = pdfText(await renderReport(data(ROOT.title, ROOT.document, units))).replace(/\s+/g, ' ');
+      expect(text).toContain('Pressure coefficient along the chord');
+      expect(text).toContain('Cp (negative up)');
+      expect(text).toContain('linear (Ackeret)');
+      expect(text).toContain('second-order (Busemann)');
+      expect(text).toContain('Per facet (selected design point)');
+      expect(text).toMatch(units === 'si' ? /upper 1 0\.2 [−\d.]+° fan [\d.]+ [\d.]+ [−\d.]+ [−\d.]+ [−\d.]+ [\d,.]+ Pa [−\d,.]+ N\/m/ : /upper 1 0\.2 [−\d.]+° fan [\d.]+ [\d.]+ [−\d.]+ [−\d.]+ [−\d.]+ [\d,.]+ lbf\/ft² [−\d,.]+ lbf\/ft/);
+      expect(text).toContain('Section coordinates as drawn (4 vertices)');
+      expect(text).toMatch(units === 'si' ? /0 0 0 0 ?m 0 ?m/ : /0 0 0 0 ?ft 0 ?ft/); // pdftotext may drop the space before a short unit
+      // The scale bar names a chord fraction and its length on the 0.32 m chord.
+      const bar = /([\d.]+) c = ([\d.]+) (m|ft)/.exec(text)!;
+      expect(bar[3]).toBe(units === 'si' ? 'm' : 'ft');
+      expect(Number(bar[2]) * (units === 'si' ? 1 : 0.3048)).toBeCloseTo(Number(bar[1]) * 0.32, 3); // the fin root's 0.32 m chord
+      expect(text).toContain('x/c from the leading edge');
+    }
+  });
+
+  it('prints numbers with the one formatter: true minus signs, no e-notation for ordinary values', async () => {
+    for (const s of [ROOT, CANARD]) {
+      const text = pdfText(await renderReport(data(s.title, s.document)));
+      // A hyphen before a digit that is not inside a word or date would be a minus sign.
+      const hyphenNumbers = text.match(/(?<![\w/.-])-\d[\d.,]*/g) ?? [];
+      expect(hyphenNumbers).toEqual([]);
+      expect(text).toContain('−'); // true minus signs are there
+      expect(text.match(/\d[eE][+-]?\d/g) ?? []).toEqual([]);
+    }
+  });
+
+  it('the wave map fills its frame: the drawing spans the width and the frame takes its aspect (within limits)', () => {
+    for (const s of [ROOT, CANARD, ...DEMO_SKETCHES]) {
+      const a = selectedAnalysis(analyseDesignPoints(s.document))!;
+      const layout = waveMapLayout(a, 473);
+      // Width: the drawing (with a 3 % margin) is the frame's width.
+      expect((layout.drawing.maxX - layout.drawing.minX) * layout.scale).toBeGreaterThan(473 * 0.93);
+      expect((layout.drawing.maxX - layout.drawing.minX) * layout.scale).toBeLessThanOrEqual(473 + 1e-9);
+      // Height: the frame is the drawing's height when that fits in 170…330 pt, else clamped.
+      const want = (layout.drawing.maxY - layout.drawing.minY) * layout.scale;
+      expect(layout.height).toBeGreaterThanOrEqual(170);
+      expect(layout.height).toBeLessThanOrEqual(330);
+      expect(layout.height).toBeCloseTo(Math.min(330, Math.max(170, want * 1.06)), 6);
+      // The frame shows the whole drawing's height whenever it fits, else the section's middle.
+      if (want * 1.06 <= 330) {
+        expect(layout.minY).toBeLessThanOrEqual(layout.drawing.minY);
+        expect(layout.maxY).toBeGreaterThanOrEqual(layout.drawing.maxY);
+      }
+    }
+  });
+
+  it('renders its pages for a person to look at', async () => {
+    mkdirSync(ARTIFACTS_DIR, { recursive: true });
+    const pdf = await renderReport(data(CANARD.title, CANARD.document, 'us'));
+    const pngs = pdfToPng(pdf, ARTIFACTS_DIR, 'report-canard', 80);
+    expect(pngs.length).toBeGreaterThanOrEqual(3);
+    void path;
+  });
+});

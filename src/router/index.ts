@@ -1,5 +1,6 @@
 import { createRouter, createWebHistory } from 'vue-router';
 import { useSessionStore } from '@/stores/session';
+import { isPhoneWidth } from '@/composables/usePhoneWidth';
 import { roleAtLeast, type Role } from '@shared/model/roles';
 
 declare module 'vue-router' {
@@ -21,6 +22,7 @@ export const router = createRouter({
   routes: [
     { path: '/', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { requiresAuth: true, title: 'Sketches' } },
     { path: '/sketches/:sketchId/studies', name: 'sketch-studies', component: () => import('@/views/StudyView.vue'), meta: { requiresAuth: true, title: 'Studies' }, props: true },
+    { path: '/sketches/:sketchId/phone', name: 'sketch-phone', component: () => import('@/views/SketchPhoneView.vue'), meta: { requiresAuth: true, title: 'Sketch' }, props: true },
     { path: '/sketches/:sketchId', name: 'sketch', component: () => import('@/views/SketchView.vue'), meta: { requiresAuth: true, title: 'Sketch' }, props: true },
     { path: '/team/members', name: 'members', component: () => import('@/views/MembersView.vue'), meta: { requiresAuth: true, title: 'Members', minRole: 'owner', action: 'manage members' } },
     { path: '/dev/mailbox', name: 'mailbox', component: () => import('@/views/MailboxView.vue'), meta: { requiresAuth: true, title: 'Mailbox' } },
@@ -48,6 +50,11 @@ router.beforeEach(async (to) => {
     return { name: 'sign-in', query: to.fullPath !== '/' ? { next: to.fullPath } : {} };
   }
   if (to.meta.guestOnly && session.user) return { name: 'home' };
+  // A sketch on a phone-width screen (a mention e-mail's link, say) opens read-only, unless the
+  // person asked for the full editor (?full=1).
+  if (to.name === 'sketch' && to.query.full !== '1' && isPhoneWidth()) {
+    return { name: 'sketch-phone', params: to.params, query: to.query, hash: to.hash };
+  }
   if (to.meta.minRole && !roleAtLeast(session.role, to.meta.minRole)) {
     return { name: 'forbidden', query: { needed: to.meta.minRole, action: to.meta.action } };
   }

@@ -3,25 +3,31 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import type { RunningServer } from '../../server/index.ts';
-import { sketches } from '../../server/db/schema.ts';
-import { DEMO_PEOPLE } from '../../server/db/seed.ts';
+import { mailMessages, sketches, users } from '../../server/db/schema.ts';
+import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { loadsCsvHeader } from '../../shared/flight/loadsExport.ts';
+import { analyseSketch } from '../../shared/flight/analyseSketch.ts';
+import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
+import { sketchCase } from '../../shared/model/sketch.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { ARTIFACTS_DIR, screenshot, signInDemo, textOf } from '../helpers/browser.ts';
 
+const root = DEMO_SKETCHES.find((s) => s.title.startsWith('Tern fin root'))!;
+
 /**
  * What people take away from a sketch: loads per facet as CSV (this design point or all), the
- * canvas picture with its caption, and the study table's loads in N and N·m.
+ * canvas picture with its caption, the study table's loads in N and N·m, and the sketch on a
+ * phone (390 × 844) from a mention e-mail's link, with the sketches table at that width.
  */
-describe('deliverables: loads CSV, the captioned picture, study loads', () => {
+describe('deliverables: loads CSV, the captioned picture, study loads, the phone view', () => {
   let world: BrowserWorld;
   let database: TestDatabase;
   let server: RunningServer;
   let sketchId: string;
 
   beforeAll(async () => {
-    world = await startBrowserWorld();
+    world = await startBrowserWorld({ mail: true, browsers: 2 });
     ({ database, server } = world);
     const root = await database.db.query.sketches.findFirst({ where: eq(sketches.title, 'Tern fin root — double wedge, 5% thick, ridge at 40%') });
     sketchId = root!.id;
@@ -91,5 +97,74 @@ describe('deliverables: loads CSV, the captioned picture, study loads', () => {
     expect(await table.locator('thead th').allTextContents()).toContain('moment (lbf·ft)');
     await page.getByTestId('units-switch').getByText('SI').click();
     await expect.poll(() => table.locator('thead th').allTextContents()).toContain('lift (N/m)');
+  });
+
+  it('a mention e-mail\'s link opens the read-only phone view at 390 × 844 with the pin\'s thread, the wave map and the coefficients', async () => {
+    const ines = world.browsers[0].page;
+    const priya = world.browsers[1];
+    // Ines pins the lower nose shock and mentions Priya (through the API, as the editor's composer does).
+    const priyaRow = await database.db.query.users.findFirst({ where: eq(users.email, DEMO_PEOPLE[2].email) });
+    const shock = analyseSketch(sketchCase(root.document)).result!.waves.find((w) => w.id === 'wave_lower_0')!;
+    const at = [shock.origin[0] + (shock.end[0] - shock.origin[0]) / 4, shock.origin[1] + (shock.end[1] - shock.origin[1]) / 4];
+    const status = await ines.evaluate(
+      async ({ sketchId, at, mention }) => {
+        const res = await fetch(`/api/sketches/${sketchId}/pins`, {
+          method: 'POST',
+          headers: { 'content-type': 'application/json', 'x-shockwright-request': '1' },
+          body: JSON.stringify({ target: { kind: 'wave', waveId: 'wave_lower_0', at }, body: '@Priya Vance does the nose shock stay attached at pull-up?', mentions: [mention] }),
+        });
+        return res.status;
+      },
+      { sketchId, at, mention: priyaRow!.id },
+    );
+    expect(status).toBe(201);
+    const mails = async () => (await database.db.select().from(mailMessages)).filter((m) => m.toAddresses.includes(DEMO_PEOPLE[2].email));
+    await expect.poll(async () => (await mails()).length, { timeout: 20_000 }).toBe(1);
+    const link = /https?:\/\/\S+\?pin=(pin_[a-z0-9]{20})/.exec((await mails())[0]!.textBody)!;
+
+    // Priya opens it on her phone, signed out: sign in, then straight to the sketch, read-only.
+    const page = priya.page;
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.goto(link[0]);
+    await page.getByTestId('sign-in-email').fill(DEMO_PEOPLE[2].email);
+    await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
+    await page.getByTestId('sign-in-submit').click();
+    await page.getByTestId('sketch-phone').waitFor();
+    expect(new URL(page.url()).pathname).toBe(`/sketches/${sketchId}/phone`);
+    await expect.poll(() => textOf(page, 'phone-thread'), { timeout: 20_000 }).toContain('does the nose shock stay attached at pull-up?');
+    expect(await page.getByTestId('phone-thread').locator('.phone__reply').count()).toBe(1);
+    expect(await textOf(page, 'phone-title')).toBe(root.title);
+    await expect.poll(() => page.getByTestId('phone-map').getAttribute('data-wave-count')).not.toBe('0');
+    expect(await page.getByTestId('phone-map').getAttribute('data-pin-count')).toBe('1');
+    expect(await textOf(page, 'phone-coef-cl')).toMatch(/^cl\s*0\.\d+/);
+    expect(await textOf(page, 'phone-caution')).toBe(RESULTS_CAUTION);
+    // Nothing wider than the screen: no sideways scrolling.
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+    expect(await page.getByTestId('phone-full-editor').count()).toBe(1);
+    expect(await page.getByTestId('phone-point').inputValue()).toBe(root.document.selectedPointId);
+    await screenshot(page, 'phone-sketch-from-mention');
+    await page.getByTestId('phone-pins').scrollIntoViewIfNeeded();
+    await page.getByTestId('phone-pins').screenshot({ path: path.join(ARTIFACTS_DIR, 'phone-sketch-thread.png') });
+
+    // Another design point: solved on the phone, its wave map drawn.
+    await page.getByTestId('phone-point').selectOption({ label: 'Pull-up' });
+    await expect.poll(() => textOf(page, 'phone-condition')).toContain('M 2.4, α 9°');
+    await expect.poll(() => page.getByTestId('phone-map').getAttribute('data-wave-count')).not.toBe('0');
+    await screenshot(page, 'phone-sketch-pull-up');
+  });
+
+  it('the sketches table at 390 px: one card per sketch, no sideways scrolling, a tap opens the phone view', async () => {
+    const page = world.browsers[1].page;
+    await page.goto(`${server.url}/`);
+    await page.getByTestId('sketch-table').waitFor();
+    await page.getByTestId(`card-${sketchId}`).waitFor();
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+    expect(await textOf(page, `card-${sketchId}`)).toMatch(/4 vertices, t\/c 5\.0 % · M 2\.6, α 4°/);
+    await screenshot(page, 'phone-home');
+    await page.getByTestId(`open-${sketchId}`).click();
+    await page.getByTestId('sketch-phone').waitFor();
+    // The full editor stays one tap away.
+    await page.getByTestId('phone-full-editor').click();
+    await page.getByTestId('sketch-editor').waitFor();
   });
 });

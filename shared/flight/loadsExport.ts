@@ -1,3 +1,4 @@
+import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
 import { RESULTS_CAUTION } from '../model/caution.ts';
 import type { SketchDocument } from '../model/sketch.ts';
 import type { DesignPointsAnalysis } from './designPoints.ts';
@@ -12,6 +13,8 @@ import { toDisplay, type Quantity, type UnitSystem } from './units.ts';
  * separator, no grouping), 9 significant figures. `#` lines before the header name the sketch,
  * each point's condition and free stream, the chord and span, the conventions and the caution;
  * a point without loads (no altitude, a limit) is named there with the reason and has no rows.
+ * Cells, notes and the header come from shared/format/csv.ts [CSV1]–[CSV4]: the title and the
+ * design points' names are quoted text cells, neutralised when they could run as a formula.
  */
 
 const UNIT_SUFFIX: Record<UnitSystem, Record<'length' | 'pressure' | 'forcePerSpan' | 'momentPerSpan' | 'force' | 'moment', string>> = {
@@ -54,15 +57,8 @@ export function loadsCsvHeader(units: UnitSystem): string[] {
   return ['design_point', 'surface', 'facet', ...columns().map((c) => (c.quantity ? `${c.key}_${UNIT_SUFFIX[units][c.quantity as keyof (typeof UNIT_SUFFIX)['si']]}` : c.key))];
 }
 
-/** A number for a machine: 9 significant figures, no −0, plain decimal or e-notation as JavaScript prints it. */
-const plain = (v: number | null) => (v === null || !Number.isFinite(v) ? '' : String(Number(v.toPrecision(9)) + 0));
-
-/** A text cell people typed (a design point's name): quoted, so commas and quotes stay inside it. */
-function textCell(s: string): string {
-  return `"${s.replace(/[\r\n]+/g, ' ').replace(/"/g, '""')}"`;
-}
-
-const oneLine = (s: string) => s.replace(/[\r\n]+/g, ' ');
+/** A number for a machine: 9 significant figures, no −0; empty when there is none. */
+const plain = (v: number | null): number | null => (v === null || !Number.isFinite(v) ? null : Number(v.toPrecision(9)) + 0);
 
 export interface LoadsCsvOptions {
   units: UnitSystem;
@@ -74,12 +70,13 @@ export function loadsCsv(title: string, doc: SketchDocument, analysis: DesignPoi
   const u = options.units;
   const cols = columns();
   const show = (v: number | null, q: Quantity | null) => plain(v === null ? null : q ? toDisplay(v, q, u) : v);
+  const text = (v: number | null, q: Quantity | null) => String(show(v, q) ?? '');
   const unit = (q: Quantity) => UNIT_SUFFIX[u][q as keyof (typeof UNIT_SUFFIX)['si']].replace(/_per_/g, '/').replace(/_/g, '·');
   const lines: string[] = [
-    `# Shockwright loads per facet: ${oneLine(title)}`,
-    `# Units: ${u === 'si' ? 'SI' : 'US customary (psf = lbf/ft²)'}. Chord ${show(doc.loads.chordM, 'length')} ${unit('length')} (the section as drawn), span ${show(doc.loads.spanM, 'length')} ${unit('length')}; "_over the span" columns are the per-span load times the span.`,
-    '# Exact (shock-expansion) facet pressures; forces from p - p_inf on each facet (p_inf acts all round and adds nothing), body axes x aft and y up, lift and drag in wind axes; normal = (p - p_inf) x length, positive pressing into the section; moments about the moment point, nose up positive; x_mid, y_mid from the leading edge. Friction is not included (wave loads).',
-    `# ${RESULTS_CAUTION}`,
+    csvNote('Shockwright loads per facet', title),
+    csvNote(`Units: ${u === 'si' ? 'SI' : 'US customary (psf = lbf/ft²)'}. Chord ${show(doc.loads.chordM, 'length')} ${unit('length')} (the section as drawn), span ${show(doc.loads.spanM, 'length')} ${unit('length')}; columns without "_per_" are the per-span load times the span.`),
+    csvNote('Exact (shock-expansion) facet pressures; forces from p - p_inf on each facet (p_inf acts all round and adds nothing), body axes x aft and y up, lift and drag in wind axes; normal = (p - p_inf) x length, positive pressing into the section; moments about the moment point, nose up positive; x_mid, y_mid from the leading edge. Friction is not included (wave loads).'),
+    csvNote(RESULTS_CAUTION),
   ];
   const rows: string[] = [];
   const wanted = options.pointIds ?? doc.designPoints.map((p) => p.id);
@@ -87,29 +84,32 @@ export function loadsCsv(title: string, doc: SketchDocument, analysis: DesignPoi
     if (!wanted.includes(point.id)) continue;
     const a = analysis.points.find((p) => p.id === point.id)?.analysis ?? null;
     const c = point.condition;
-    const head = `# Design point ${JSON.stringify(oneLine(point.name))}: M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}, altitude ${c.altitudeM === null ? 'none' : `${show(c.altitudeM, 'altitude')} ${unit('length')}`}${doc.flap ? `, flap ${point.flapDeflectionDeg} deg` : ''}`;
+    const condition = `M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}, altitude ${c.altitudeM === null ? 'none' : `${text(c.altitudeM, 'altitude')} ${unit('length')}`}${doc.flap ? `, flap ${point.flapDeflectionDeg} deg` : ''}`;
     if (!a) {
-      lines.push(`${head}; not solved yet.`);
+      lines.push(csvNote('Design point', point.name, `${condition}; not solved yet.`));
       continue;
     }
     const answer = facetLoads(a, doc.loads);
     if (!answer.ok) {
-      lines.push(`${head}; status ${a.status}; no loads: ${oneLine(answer.reason)}`);
+      lines.push(csvNote('Design point', point.name, `${condition}; status ${a.status}; no loads: ${answer.reason}`));
       continue;
     }
     const l = answer.loads;
     lines.push(
-      `${head}; status ${a.status}; p_inf ${show(l.freeStreamPressurePa, 'pressure')} ${unit('pressure')}, q_inf ${show(l.dynamicPressurePa, 'pressure')} ${unit('pressure')}; moment point (${show(l.momentPointM[0], 'length')}, ${show(l.momentPointM[1], 'length')}) ${unit('length')}`,
+      csvNote(
+        'Design point',
+        point.name,
+        `${condition}; status ${a.status}; p_inf ${text(l.freeStreamPressurePa, 'pressure')} ${unit('pressure')}, q_inf ${text(l.dynamicPressurePa, 'pressure')} ${unit('pressure')}; moment point (${text(l.momentPointM[0], 'length')}, ${text(l.momentPointM[1], 'length')}) ${unit('length')}`,
+      ),
     );
-    const name = textCell(point.name);
-    for (const f of l.facets) rows.push([name, f.surface, String(f.facet), ...cols.map((col) => show(col.value(f, l.spanM), col.quantity))].join(','));
+    for (const f of l.facets) rows.push(csvRow([point.name, f.surface, f.facet, ...cols.map((col) => show(col.value(f, l.spanM), col.quantity))]));
     if (l.total) {
       const t = l.total;
       const asFacet: FacetLoad = { surface: 'upper', facet: -1, xMidM: 0, yMidM: 0, lengthM: 0, cp: null, pressurePa: null, pressureDifferencePa: null, normalNPerM: null, ...t };
-      rows.push([name, 'total', '', ...cols.map((col) => (['x_mid', 'y_mid', 'length'].includes(col.key) ? '' : show(col.value(asFacet, l.spanM), col.quantity)))].join(','));
+      rows.push(csvRow([point.name, 'total', null, ...cols.map((col) => (['x_mid', 'y_mid', 'length'].includes(col.key) ? null : show(col.value(asFacet, l.spanM), col.quantity)))]));
     }
   }
-  return [...lines, loadsCsvHeader(u).join(','), ...rows, ''].join('\n');
+  return [...lines, csvHeader(loadsCsvHeader(u)), ...rows, ''].join('\n');
 }
 
 /** Is there anything to export for this point (loads at its altitude)? */

@@ -284,6 +284,9 @@ const SPAN_CSV_COLUMNS = [
   ['hingeMomentNM', 'hingeMomentNMPerM'],
 ] as const;
 
+/** The study CSV's header: STUDY_COLUMNS, then the loads over the span. */
+export const STUDY_CSV_COLUMNS = [...STUDY_COLUMNS, ...SPAN_CSV_COLUMNS.map(([k]) => k)] as const;
+
 /**
  * A study as CSV: `#` lines (study, sketch, condition, caution, chord and span) then one row per point:
  * STUDY_COLUMNS, then the loads over the span (SI: N and N·m; per-span columns are N/m and
@@ -303,7 +306,7 @@ export function studyCsv(meta: { title: string; studyName: string; revision: num
     csvNote(`altitude ${results.altitudeM === null ? 'none (wave drag only)' : `${results.altitudeM} m`}, friction ${results.friction}; alpha and flap in degrees (flap trailing edge down positive)`),
     csvNote(meta.caution),
     csvNote(`loads in SI: liftNPerM, dragNPerM (wave + friction) in N/m and momentNMPerM, hingeMomentNMPerM in N·m/m per unit span${results.chordM === undefined ? ' (not in this study: it was computed before they existed)' : ` on a ${results.chordM} m chord`}; liftN, dragN, momentNM, hingeMomentNM over the ${span === null ? 'span' : `${span} m span`}`),
-    csvHeader([...STUDY_COLUMNS, ...SPAN_CSV_COLUMNS.map(([k]) => k)]),
+    csvHeader(STUDY_CSV_COLUMNS),
     ...results.rows.map((row) => csvRow([...index.map((i) => (i >= 0 ? (row[i] ?? null) : null)), ...overSpan(row)])),
     '',
   ].join('\n');

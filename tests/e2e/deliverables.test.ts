@@ -57,7 +57,7 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
     expect(lines.find((l) => l.startsWith('design_point,'))!.split(',')).toEqual(loadsCsvHeader('si'));
     // The fin root is a double wedge: four facets and the total.
     expect(lines.filter((l) => l.startsWith('"Burnout",'))).toHaveLength(5);
-    expect(text).toMatch(/# Design point "Burnout": M 2\.6, alpha 4 deg, gamma 1\.4, altitude 12000 m; status ok; p_inf 19\d{3}\.\d+ Pa/);
+    expect(text).toMatch(/# Design point,"Burnout","M 2\.6, alpha 4 deg, gamma 1\.4, altitude 12000 m; status ok; p_inf 19\d{3}\.\d+ Pa/);
     expect(text).toContain('Inviscid preliminary estimate');
 
     const all = await download('export-loadsCsvAll', 'loads-all.csv');

@@ -64,7 +64,7 @@ describe('facetLoads (loads per facet in physical units)', () => {
       const data = lines.filter((l) => l.startsWith('"'));
       expect(data).toHaveLength(5);
       // The name people typed stays one quoted cell with its comma and quotes.
-      expect(data[0].startsWith('"Pull-up, ""max g""",upper,')).toBe(true);
+      expect(data[0].startsWith('"Pull-up, ""max g""","upper",')).toBe(true);
       const parse = (l: string) => l.slice(l.indexOf('",') + 2).split(',');
       const total = parse(data[4]);
       const col = (name: string) => cols.indexOf(name) - 1;
@@ -89,10 +89,21 @@ describe('facetLoads (loads per facet in physical units)', () => {
     const two: SketchDocument = { ...doc, designPoints: [...doc.designPoints, second] };
     const all = analyseDesignPoints(two);
     const text = loadsCsv('t', two, all, { units: 'si' });
-    expect(text).toMatch(/# Design point "Cruise".*no loads: Give an altitude/);
+    expect(text).toMatch(/# Design point,"Cruise",".*no loads: Give an altitude/);
     expect(text.split('\n').filter((l) => l.startsWith('"Cruise"'))).toHaveLength(0);
     const only = loadsCsv('t', two, all, { units: 'si', pointIds: [doc.designPoints[0].id] });
     expect(only).not.toContain('Cruise');
     expect(only.split('\n').filter((l) => l.startsWith('"Pull-up'))).toHaveLength(5);
+  });
+
+  it('a design point named like a formula is a neutralised text cell in every row and note [CSV2]', () => {
+    const doc = wedgeDocument();
+    const evil: SketchDocument = { ...doc, designPoints: [{ ...doc.designPoints[0]!, name: '=HYPERLINK("x")' }] };
+    const text = loadsCsv('@title', evil, analyseDesignPoints(evil), { units: 'si' });
+    const rows = text.split('\n').filter((l) => l.startsWith('"'));
+    expect(rows).toHaveLength(5);
+    for (const r of rows) expect(r.startsWith(`"'=HYPERLINK(""x"")",`)).toBe(true);
+    expect(text).toContain(`# Shockwright loads per facet,"'@title"`);
+    expect(text).toContain(`# Design point,"'=HYPERLINK(""x"")"`);
   });
 });

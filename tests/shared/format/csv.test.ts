@@ -3,7 +3,7 @@ import fc from 'fast-check';
 import { csvCell, csvHeader, csvNote, csvNumber, csvRow, csvText } from '../../../shared/format/csv.ts';
 import { parseCoordinates } from '../../../shared/model/coordinatesFile.ts';
 import { facetCsv, sectionCsv } from '../../../shared/model/sketchExport.ts';
-import { studyCsv, STUDY_COLUMNS, type StudyResults } from '../../../shared/model/study.ts';
+import { studyCsv, STUDY_COLUMNS, STUDY_CSV_COLUMNS, type StudyResults } from '../../../shared/model/study.ts';
 import { defaultSketchDocument, selectedPoint } from '../../../shared/model/sketch.ts';
 import { parseSolveInput } from '../../../shared/model/solveInput.ts';
 import { solveSection } from '../../../shared/solver/index.ts';
@@ -128,7 +128,7 @@ describe('every CSV writer uses the safe cells', () => {
         }
       }
       const studyRows = readCsv(study).filter((r) => !r[0].startsWith('#'));
-      expect(studyRows[0]).toEqual([...STUDY_COLUMNS]);
+      expect(studyRows[0]).toEqual([...STUDY_CSV_COLUMNS]);
       expect(studyRows[1][STUDY_COLUMNS.indexOf('cl')]).toBe('-0.125');
       expect(readCsv(section).filter((r) => !r[0].startsWith('#')).slice(1).map((r) => r.map(Number))).toEqual(doc.section.points);
     });

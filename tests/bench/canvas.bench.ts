@@ -49,7 +49,12 @@ function quantile(sorted: number[], q: number): number {
 async function dragBench(page: Page, baseUrl: string, vertices: number) {
   const generated = generateSection('biconvex', { thicknessPercent: 6, facetsPerSide: vertices / 2 });
   if (!generated.ok) throw new Error('bench section did not generate');
-  const sketchDocument = { ...defaultSketchDocument(), section: { points: generated.points }, condition: { mach: 2.5, alphaDeg: 3, gamma: 1.4, altitudeM: null } };
+  const base = defaultSketchDocument();
+  const sketchDocument = {
+    ...base,
+    section: { points: generated.points },
+    designPoints: base.designPoints.map((p) => ({ ...p, condition: { mach: 2.5, alphaDeg: 3, gamma: 1.4, altitudeM: null } })),
+  };
   const sketchId = await page.evaluate(
     async ({ doc, title }) => {
       const me = await (await fetch('/api/auth/me')).json();
@@ -58,7 +63,9 @@ async function dragBench(page: Page, baseUrl: string, vertices: number) {
         headers: { 'content-type': 'application/json', 'x-shockwright-request': '1' },
         body: JSON.stringify({ title, document: doc }),
       });
-      return (await res.json()).id as string;
+      const body = await res.json();
+      if (!res.ok) throw new Error(`creating the bench sketch: ${JSON.stringify(body)}`);
+      return body.id as string;
     },
     { doc: sketchDocument, title: `Bench — faceted biconvex, ${vertices} vertices` },
   );

@@ -89,6 +89,11 @@ export const replaceSectionOpSchema = z.object({
   type: z.literal('replaceSection'),
   opId: opIdSchema,
   points: z.array(pointSchema),
+  /**
+   * The physical chord (m) for loads, set together with the section: an import in millimetres
+   * or inches keeps its chord, and one undo puts back both the section and the chord.
+   */
+  loadsChordM: z.number().gt(0, 'must be a positive length').max(1000, 'must be at most 1000 m').optional(),
 });
 
 /** The fields of a design point's condition a form edits one at a time. */
@@ -290,7 +295,9 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
       if (op.points.length > MAX_SECTION_VERTICES) {
         return { ok: false, reason: `A section has at most ${MAX_SECTION_VERTICES} vertices; got ${op.points.length}.` };
       }
-      return withSection(doc, op.points.map((p) => [p[0], p[1]] as Point), 'That section', check);
+      const replaced = withSection(doc, op.points.map((p) => [p[0], p[1]] as Point), 'That section', check);
+      if (!replaced.ok || op.loadsChordM === undefined) return replaced;
+      return { ok: true, doc: { ...replaced.doc, loads: { ...replaced.doc.loads, chordM: op.loadsChordM } } };
     }
     case 'setCondition': {
       const point = pointOf(doc, op.pointId);
@@ -436,7 +443,12 @@ export function invertOp(docBefore: SketchDocument, op: SketchOp, opId: string =
     case 'deleteVertex':
       return { type: 'insertVertex', opId, index: op.index, at: [...itemAt(points, op.index)] };
     case 'replaceSection':
-      return { type: 'replaceSection', opId, points: points.map((p) => [p[0], p[1]] as Point) };
+      return {
+        type: 'replaceSection',
+        opId,
+        points: points.map((p) => [p[0], p[1]] as Point),
+        ...(op.loadsChordM === undefined ? {} : { loadsChordM: docBefore.loads.chordM }),
+      };
     case 'setCondition': {
       const point = pointOf(docBefore, op.pointId)!;
       return { type: 'setCondition', opId, pointId: point.id, field: op.field, value: conditionFieldValue(point, op.field) };

@@ -11,7 +11,15 @@ describe('parseCoordinates', () => {
   it('reads whitespace-separated x y with comments and blank lines', () => {
     const text = '# Tern fin root\n\n0 0\n0.4   0.025  # ridge\n1\t0\n0.4 -0.025\n';
     const r = parseCoordinates(text);
-    expect(r).toEqual({ ok: true, points: [[0, 0], [0.4, 0.025], [1, 0], [0.4, -0.025]], header: null, notes: [] });
+    expect(r).toEqual({
+      ok: true,
+      points: [[0, 0], [0.4, 0.025], [1, 0], [0.4, -0.025]],
+      header: null,
+      notes: [],
+      layout: 'loop',
+      decimalMark: 'point',
+      surfaces: null,
+    });
   });
 
   it('reads CSV with a header, CRLF line ends and exponents', () => {

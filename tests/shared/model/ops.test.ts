@@ -93,6 +93,15 @@ describe('applyOp', () => {
     expect(line.ok).toBe(false);
   });
 
+  it('replaceSection with loadsChordM sets the loads chord in the same edit, and refuses a chord of 0 by name', () => {
+    const hex: Point[] = [[0, 0], [25, 2], [75, 2], [100, 0], [75, -2], [25, -2]];
+    const after = applied(doc(), withOpId({ type: 'replaceSection', points: hex, loadsChordM: 0.1 }));
+    expect(after.section.points).toEqual(hex);
+    expect(after.loads).toEqual({ ...doc().loads, chordM: 0.1 });
+    const zero = applyOp(doc(), withOpId({ type: 'replaceSection', points: hex, loadsChordM: 0 }));
+    expect(zero).toEqual({ ok: false, reason: 'The edit is malformed: loadsChordM must be a positive length.' });
+  });
+
   it('[O2] setCondition checks the same ranges as the document schema', () => {
     expect(selectedPoint(applied(doc(), withOpId({ type: 'setCondition', field: 'mach', value: 3.2 }))).condition.mach).toBe(3.2);
     const sub = applyOp(doc(), withOpId({ type: 'setCondition', field: 'mach', value: 0.8 }));
@@ -126,6 +135,7 @@ describe('invertOp', () => {
     ['insertVertex', withOpId({ type: 'insertVertex', index: 2, at: [0.8, 0.015] })],
     ['deleteVertex', withOpId({ type: 'deleteVertex', index: 1 })],
     ['replaceSection', withOpId({ type: 'replaceSection', points: [[0, 0], [1, 0.1], [1.2, 0]] })],
+    ['replaceSection with a loads chord (an import)', withOpId({ type: 'replaceSection', points: [[0, 0], [60, 4], [120, 0], [60, -4]], loadsChordM: 0.12 })],
     ['setCondition', withOpId({ type: 'setCondition', field: 'alphaDeg', value: -3 })],
     ['setFlap', withOpId({ type: 'setFlap', flap: { hingeXOverC: 0.75 } })],
     ['setMomentPoint', withOpId({ type: 'setMomentPoint', point: [0.4, 0.01] })],

@@ -20,3 +20,6 @@ export const SYNC_TICK_MS = 250;
 
 /** A walkthrough lead re-sends the view this often so late joiners line up. */
 export const WALKTHROUGH_HEARTBEAT_MS = 1_000;
+
+/** Longest the editor waits for an import's new section to arrive before fitting the view anyway. */
+export const IMPORT_SHOWN_WAIT_MS = 5_000;

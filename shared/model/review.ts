@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { pointSchema, sectionPointsSchema, sketchDocumentSchema } from './sketch.ts';
+import { loadsSettingsSchema, pointSchema, sectionPointsSchema, sketchDocumentSchema } from './sketch.ts';
 import { textSchema } from './text.ts';
 
 /** Where a pin sits: a free point, a facet (by its index) or a wave of the wave map (by its id). */
@@ -92,7 +92,10 @@ export const importSectionSchema = z.strictObject({
   points: sectionPointsSchema,
   /** The file's name, kept in the activity feed and the automatic snapshot's name. */
   fileName: textSchema().trim().max(200, 'must be at most 200 characters').default('coordinates file'),
+  /** The file's physical chord (m) for the loads, when the import keeps or takes it; absent: loads unchanged. */
+  loadsChordM: loadsSettingsSchema.shape.chordM.unwrap().optional(),
 });
+export type ImportSection = z.infer<typeof importSectionSchema>;
 
 export const activityEntrySchema = z.object({
   id: z.string(),

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { sketchDocumentSchema, sketchTitleSchema } from './sketch.ts';
+import { pointSchema, sketchDocumentSchema, sketchTitleSchema } from './sketch.ts';
 import { approvalSchema } from './review.ts';
 
 /** Shape of one row of the team's sketches table. */
@@ -40,6 +40,19 @@ export const sketchSchema = z.object({
   approval: approvalSchema.nullable().default(null),
 });
 export type Sketch = z.infer<typeof sketchSchema>;
+
+/**
+ * The answer to an import: the sketch after it, the revision the import made, and what the
+ * section (and the loads chord, when the import set it) was just before — the client's one undo
+ * step for the import puts that back as an ordinary edit, so it reaches everyone.
+ */
+export const importResultSchema = sketchSchema.extend({
+  imported: z.object({
+    revision: z.number().int(),
+    before: z.object({ points: z.array(pointSchema), loadsChordM: z.number().optional() }),
+  }),
+});
+export type ImportResult = z.infer<typeof importResultSchema>;
 
 export const createSketchSchema = z.strictObject({
   title: sketchTitleSchema,

@@ -4,7 +4,8 @@ import { api } from '@/api/client';
 import { bump, watchTopic } from '@/composables/useSketchNotices';
 import { useSketchStore } from '@/stores/sketch';
 import type { Point } from '@shared/model/sketch';
-import { sketchSchema } from '@shared/model/sketchApi';
+import { importResultSchema, sketchSchema } from '@shared/model/sketchApi';
+import { newId } from '@shared/model/ids';
 import { pageOf } from '@shared/model/teams';
 import {
   activityEntrySchema,
@@ -222,12 +223,23 @@ export const useReviewStore = defineStore('review', () => {
     bump('snapshots', 'activity');
   }
 
-  /** Replaces the section with imported coordinates; the server snapshots the sketch first. */
-  async function importSection(points: Point[], fileName: string): Promise<void> {
+  /**
+   * Replaces the section with imported coordinates (and the loads chord, when the file gave one);
+   * the server snapshots the sketch first. The import then is one step of our undo history: undo
+   * puts back the section (and chord) it replaced, as an edit everyone receives.
+   */
+  async function importSection(input: { points: Point[]; fileName: string; loadsChordM: number | null }): Promise<void> {
     const id = requireSketch();
     await sketch.save();
-    await api.post(`/api/sketches/${id}/import`, { points, fileName }, sketchSchema);
+    const body = { points: input.points, fileName: input.fileName, ...(input.loadsChordM === null ? {} : { loadsChordM: input.loadsChordM }) };
+    const answer = await api.post(`/api/sketches/${id}/import`, body, importResultSchema);
     await reloadAfterServerEdit(id);
+    const chord = input.loadsChordM === null ? {} : { loadsChordM: input.loadsChordM };
+    const before = answer.imported.before;
+    sketch.recordServerEdit(
+      { type: 'replaceSection', opId: newId('op'), points: input.points, ...chord },
+      { type: 'replaceSection', opId: newId('op'), points: before.points, ...(before.loadsChordM === undefined ? {} : { loadsChordM: before.loadsChordM }) },
+    );
     bump('snapshots', 'activity');
   }
 

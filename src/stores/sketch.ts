@@ -147,6 +147,18 @@ export const useSketchStore = defineStore('sketch', () => {
     s.updatedAt.value = sketch.updatedAt;
   }
 
+  /**
+   * An edit the server made at our request (an import) enters our undo history as if we had made
+   * it: one undo applies `inverse` as an ordinary edit, which reaches everyone. A replaceSection
+   * is not index-based, so the realtime history rebase keeps it whether the server's broadcast of
+   * the edit arrives before or after this call.
+   */
+  function recordServerEdit(op: SketchOp, inverse: SketchOp) {
+    if (s.readOnly.value || !s.document.value) return;
+    s.undoStack.value = [...s.undoStack.value, { op, inverse }];
+    s.redoStack.value = [];
+  }
+
   function setSelection(indices: number[]) {
     const n = s.document.value?.section.points.length ?? 0;
     s.selection.value = [...new Set(indices)].filter((i) => i >= 0 && i < n).sort((a, b) => a - b);
@@ -183,6 +195,7 @@ export const useSketchStore = defineStore('sketch', () => {
     redo,
     save,
     rename,
+    recordServerEdit,
     setSelection,
     dismissNotice,
     close,

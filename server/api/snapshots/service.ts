@@ -5,9 +5,9 @@ import { findSketch } from '../sketches/repository.ts';
 import { recordSketchEvent } from '../activity/repository.ts';
 import { newId } from '../../../shared/model/ids.ts';
 import { explainSectionProblem } from '../../../shared/model/ops.ts';
-import { normalizeDocument, type Point } from '../../../shared/model/sketch.ts';
-import type { SnapshotDetail, SnapshotSummary } from '../../../shared/model/review.ts';
-import type { Sketch } from '../../../shared/model/sketchApi.ts';
+import { normalizeDocument } from '../../../shared/model/sketch.ts';
+import type { ImportSection, SnapshotDetail, SnapshotSummary } from '../../../shared/model/review.ts';
+import type { ImportResult, Sketch } from '../../../shared/model/sketchApi.ts';
 import type { EditInput, EditOutcome } from '../../realtime/editLog.ts';
 import * as repo from './repository.ts';
 
@@ -95,21 +95,41 @@ export async function restoreSnapshot(ctx: AppContext, userId: string, snapshotI
 
 /**
  * Replaces the section with imported coordinates: an automatic snapshot first, then one
- * replaceSection edit (condition and everything else stay).
+ * replaceSection edit (carrying the loads chord when the file gave one; the conditions and
+ * everything else stay). The answer says what the section was just before, for the importer's
+ * undo.
  */
-export async function importSection(ctx: AppContext, userId: string, sketchId: string, input: { points: Point[]; fileName: string }): Promise<Sketch> {
+export async function importSection(ctx: AppContext, userId: string, sketchId: string, input: ImportSection): Promise<ImportResult> {
   await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'import sections');
   const current = await findSketch(ctx.db, sketchId);
   if (!current) throw new HttpError(404, 'not_found', 'No such sketch.');
   // Refuse a bad file before anything is written (no snapshot, no edit).
   const problem = explainSectionProblem(input.points);
   if (problem) throw new HttpError(400, 'invalid_section', `The imported section is not allowed: ${problem}. The section must be a simple polygon.`);
+  const before = normalizeDocument(current.document);
   const kept = await capture(ctx, userId, sketchId, `Before importing ${input.fileName}`, `Automatic: the sketch at revision ${current.revision}, kept before an import.`, 'before_import');
-  const op = { type: 'replaceSection' as const, opId: newId('op'), points: input.points };
+  const op = {
+    type: 'replaceSection' as const,
+    opId: newId('op'),
+    points: input.points,
+    ...(input.loadsChordM === undefined ? {} : { loadsChordM: input.loadsChordM }),
+  };
   const outcome = await submitOrWithdraw(ctx, kept, { sketchId, userId, baseRevision: current.revision, op });
   if (outcome.status === 'rejected') throw new HttpError(400, 'invalid_section', outcome.reason);
   ctx.events.emit('sketchEdited', sketchId, { revision: outcome.revision, op: outcome.op, userId });
-  await recordSketchEvent(ctx.db, { sketchId, actorId: userId, kind: 'section.imported', detail: { fileName: input.fileName, vertexCount: input.points.length, revision: outcome.revision } });
+  await recordSketchEvent(ctx.db, {
+    sketchId,
+    actorId: userId,
+    kind: 'section.imported',
+    detail: { fileName: input.fileName, vertexCount: input.points.length, revision: outcome.revision, ...(input.loadsChordM === undefined ? {} : { loadsChordM: input.loadsChordM }) },
+  });
   ctx.events.emit('sketchNotice', sketchId, 'activity');
-  return getSketch(ctx.db, userId, sketchId);
+  const sketch = await getSketch(ctx.db, userId, sketchId);
+  return {
+    ...sketch,
+    imported: {
+      revision: outcome.revision,
+      before: { points: before.section.points, ...(input.loadsChordM === undefined ? {} : { loadsChordM: before.loads.chordM }) },
+    },
+  };
 }

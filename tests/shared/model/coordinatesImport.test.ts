@@ -182,23 +182,26 @@ describe('planImport and guessFileUnit', () => {
     expect(keepLoads.ok && keepLoads.plan.loadsChordM).toBeNull();
   });
 
-  it('keeps the physical chord: the numbers as in the file and the chord in the loads (5 in = 0.127 m, by definition of the inch)', () => {
+  it('keeps the physical size: the outline in metres and the chord in the loads (5 in = 0.127 m, by definition of the inch)', () => {
     const inches = read(parseCoordinates(fixture('tern-canard-two-blocks-inches.txt')));
-    const r = planImport(inches.points, { unit: 'in', scale: 'asFile', loadsChordFromFile: false });
+    const r = planImport(inches.points, { unit: 'in', scale: 'physical', loadsChordFromFile: false });
     if (!r.ok) throw new Error(r.reason);
-    expect(r.plan.points).toEqual(inches.points);
-    expect(r.plan.chord).toBe(5);
-    expectClose(r.plan.loadsChordM!, 0.127, 1e-15);
+    expect(r.plan.points).toEqual([[0, 0], [0.0635, 0.00381], [0.127, 0.000635], [0.127, -0.000635], [0.0635, -0.00381]]);
+    expect(r.plan.chord).toBe(0.127);
+    expect(r.plan.loadsChordM).toBe(0.127);
     // 0.3 in over 5 in at the ridge, by hand; the chord line runs to one corner of the 0.05 in
     // base (the tail is the max-x vertex), which tilts it by 0.3° and changes t/c by 1.5e-5.
     expectClose(r.plan.thicknessRatio, 0.06, 2e-5);
+    const mm = planImport(read(parseCoordinates(fixture('tern-fin-root-two-blocks-mm.dat'))).points, { unit: 'mm', scale: 'physical', loadsChordFromFile: false });
+    expect(mm.ok && mm.plan.points[4]).toEqual([0.16, 0.008]);
+    expect(mm.ok && mm.plan.loadsChordM).toBe(0.32);
   });
 
   it('a chord-relative file sets no loads chord; a chord beyond 1000 m is refused with the reason', () => {
     const tip = read(parseCoordinates(fixture('tern-fin-tip-decimal-comma.csv')));
-    const r = planImport(tip.points, { unit: 'chord', scale: 'asFile', loadsChordFromFile: true });
+    const r = planImport(tip.points, { unit: 'chord', scale: 'physical', loadsChordFromFile: true });
     expect(r.ok && r.plan.loadsChordM).toBeNull();
-    const huge = planImport(mm.points.map(([x, y]) => [x * 10_000, y * 10_000] as Point), { unit: 'm', scale: 'asFile', loadsChordFromFile: true });
+    const huge = planImport(mm.points.map(([x, y]) => [x * 10_000, y * 10_000] as Point), { unit: 'm', scale: 'physical', loadsChordFromFile: true });
     expect(huge).toEqual({ ok: false, reason: "The chord would be 3200000 m, more than the 1000 m a sketch's loads take; check the file's unit." });
   });
 

@@ -247,7 +247,8 @@ function twoBlocks(rows: (DataLine | null)[], data: DataLine[], values: Map<numb
   let upper: DataLine[];
   let lower: DataLine[];
   if (runs.length === 2) {
-    [upper, lower] = runs;
+    upper = itemAt(runs, 0);
+    lower = itemAt(runs, 1);
     if (upper.length !== nUpper || lower.length !== nLower) {
       return {
         issue: {

@@ -12,7 +12,7 @@ const fixture = (name: string) => readFileSync(path.resolve(import.meta.dirname,
 
 describe('POST /api/sketches/:id/import (coordinates files)', () => {
   let world: World;
-  const cookie: Record<string, string> = {};
+  const cookie = {} as Record<'editor' | 'viewer', string>; // filled in beforeAll
   let sketchId: string;
 
   const as = (who: 'editor' | 'viewer') => ({

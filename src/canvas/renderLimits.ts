@@ -3,6 +3,7 @@ import { LIMIT_COLOUR } from './colors';
 import type { DrawList } from './drawPaths';
 import { toScreen, type Size, type View } from './view';
 import { formatFixed, formatNumber } from '@shared/format/number';
+import { layoutLimitLabels } from './limitLayout';
 
 /** Width of a limit label on the canvas, pixels. */
 export const LIMIT_LABEL_WIDTH_PX = 300;
@@ -19,6 +20,8 @@ export interface LimitLabel {
   numbers: string;
   /** The solver's one-sentence explanation. */
   sentence: string;
+  /** A line from the callout's edge to its ring, when the callout sits away from it. */
+  leader: [number, number, number, number] | null;
 }
 
 const PLACE: Record<SolveLimit['surface'], string> = {
@@ -42,35 +45,67 @@ export function limitNumbers(limit: SolveLimit): string {
   return parts.join(', ');
 }
 
+/** Radius of the ring drawn at a limit's vertex, pixels (callouts keep clear of it). */
+export const LIMIT_RING_RADIUS_PX = 9;
+/** Space between callouts, and between a callout and a ring, pixels. */
+const LABEL_GAP_PX = 6;
+const CANVAS_MARGIN_PX = 8;
+
 /**
- * A ring at each limit's vertex and a label beside it: status, vertex and place, the numbers,
- * and the solver's sentence. Labels stay inside the canvas and stack when several limits
- * share a vertex (a nose that detaches on both surfaces).
+ * A ring at each limit's vertex and a callout for it: status, vertex and place, the numbers,
+ * and the solver's sentence. Callouts are placed by `layoutLimitLabels` ([L1]–[L4]): never over
+ * each other or over any limit's ring, always inside the canvas; one set away from its ring gets
+ * a leader line; when the canvas has no room for all, one box says how many are not labelled
+ * (they are all listed in the results panel).
  */
-export function renderLimits(result: SolveResult | null, view: View, size: Size): { marks: DrawList; labels: LimitLabel[] } {
+export function renderLimits(result: SolveResult | null, view: View, size: Size): { marks: DrawList; labels: LimitLabel[]; hidden: number } {
   const marks: DrawList = { paths: [], dots: [] };
   const labels: LimitLabel[] = [];
-  if (!result) return { marks, labels };
-  const stackAt = new Map<string, number>();
-  result.limits.forEach((limit, i) => {
+  if (!result) return { marks, labels, hidden: 0 };
+  const anchors = result.limits.map((limit) => {
     const [x, y] = toScreen(view, limit.at);
-    marks.dots.push({ x, y, radius: 9, fill: 'rgba(255, 181, 71, 0.18)', stroke: LIMIT_COLOUR, strokeWidth: 2 });
-    const key = `${Math.round(x)},${Math.round(y)}`;
-    const k = stackAt.get(key) ?? 0;
-    stackAt.set(key, k + 1);
-    const preferLeft = x > size.width * 0.6;
-    let lx = preferLeft ? x - 14 - LIMIT_LABEL_WIDTH_PX : x + 14;
-    let ly = y - 18 - LIMIT_LABEL_HEIGHT_PX - k * (LIMIT_LABEL_HEIGHT_PX + 6);
-    lx = Math.min(Math.max(8, lx), Math.max(8, size.width - LIMIT_LABEL_WIDTH_PX - 8));
-    ly = Math.min(Math.max(8, ly), Math.max(8, size.height - LIMIT_LABEL_HEIGHT_PX - 8));
+    marks.dots.push({ x, y, radius: LIMIT_RING_RADIUS_PX, fill: 'rgba(255, 181, 71, 0.18)', stroke: LIMIT_COLOUR, strokeWidth: 2 });
+    return { x, y };
+  });
+  const layout = layoutLimitLabels(anchors, {
+    width: size.width,
+    height: size.height,
+    labelWidth: LIMIT_LABEL_WIDTH_PX,
+    labelHeight: LIMIT_LABEL_HEIGHT_PX,
+    ringRadius: LIMIT_RING_RADIUS_PX + 1,
+    gap: LABEL_GAP_PX,
+    margin: CANVAS_MARGIN_PX,
+  });
+  const unlabelled: number[] = [];
+  result.limits.forEach((limit, i) => {
+    const placed = layout.placements[i];
+    if (!placed) {
+      unlabelled.push(limit.vertex);
+      return;
+    }
+    if (placed.leader) marks.paths.push({ points: [...placed.leader], colour: LIMIT_COLOUR, width: 1, dash: [3, 3], alpha: 0.8 });
     labels.push({
       key: `${limit.status}-${limit.surface}-${limit.vertex}-${i}`,
-      x: lx,
-      y: ly,
+      x: placed.box.x,
+      y: placed.box.y,
       title: `${limit.status} at vertex ${limit.vertex}, ${PLACE[limit.surface]}`,
       numbers: limitNumbers(limit),
       sentence: limit.message,
+      leader: placed.leader,
     });
   });
-  return { marks, labels };
+  if (layout.summary && unlabelled.length > 0) {
+    const n = unlabelled.length;
+    const vertices = [...new Set(unlabelled)].sort((a, b) => a - b);
+    labels.push({
+      key: 'limits-more',
+      x: layout.summary.x,
+      y: layout.summary.y,
+      title: `${n} more limit${n === 1 ? '' : 's'} not labelled here`,
+      numbers: `at vertex ${vertices.join(', ')}`,
+      sentence: 'The canvas has no free room for their callouts; zoom in, or read them in the results beside the canvas.',
+      leader: null,
+    });
+  }
+  return { marks, labels, hidden: layout.hidden };
 }

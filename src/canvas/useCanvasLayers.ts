@@ -163,7 +163,7 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
   // ---- overlay ----
   const limits = computed(() => {
     const s = source();
-    return s.layers.limits && !s.invalid ? renderLimits(s.result, view.value, size.value) : { marks: EMPTY_DRAW_LIST, labels: [] };
+    return s.layers.limits && !s.invalid ? renderLimits(s.result, view.value, size.value) : { marks: EMPTY_DRAW_LIST, labels: [], hidden: 0 };
   });
   const legend = computed(() => {
     const r = source().result;

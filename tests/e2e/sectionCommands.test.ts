@@ -39,7 +39,7 @@ describe('section commands in the editor', () => {
     await page.goto(`${server.url}/sketches/${sketchId}`);
     await page.getByTestId('sketch-canvas').waitFor();
     await expect.poll(() => textOf(page, 'connection-state'), { timeout: 30_000 }).toContain('Live');
-    expect((await textOf(page, 'section-shape')).trim()).toBe('t/c 5 % · ridge 40 % · camber 0 %');
+    expect((await textOf(page, 'section-shape'))?.trim()).toBe('t/c 5 % · ridge 40 % · camber 0 %');
     await page.locator('[data-testid="section-commands"] summary').click();
 
     await page.getByTestId('cmd-tc-input').fill('4');
@@ -50,7 +50,7 @@ describe('section commands in the editor', () => {
     await page.getByTestId('cmd-ridge-input').fill('50');
     await page.getByTestId('cmd-ridge-apply').click();
     await expect.poll(() => page.getByTestId('vertex-x-1').inputValue()).toBe('0.5');
-    expect((await textOf(page, 'section-shape')).trim()).toBe('t/c 4 % · ridge 50 % · camber 0 %');
+    expect((await textOf(page, 'section-shape'))?.trim()).toBe('t/c 4 % · ridge 50 % · camber 0 %');
 
     await page.getByTestId('cmd-factor-input').fill('−2');
     await page.getByTestId('cmd-factor-apply').click();
@@ -63,6 +63,6 @@ describe('section commands in the editor', () => {
     await expect.poll(stored, { timeout: 30_000 }).toEqual([[0, 0], [0.4, 0.02], [1, 0], [0.4, -0.02]]);
     await page.getByTestId('undo').click();
     await expect.poll(stored, { timeout: 30_000 }).toEqual([[0, 0], [0.4, 0.025], [1, 0], [0.4, -0.025]]);
-    expect((await textOf(page, 'section-shape')).trim()).toBe('t/c 5 % · ridge 40 % · camber 0 %');
+    expect((await textOf(page, 'section-shape'))?.trim()).toBe('t/c 5 % · ridge 40 % · camber 0 %');
   });
 });

@@ -100,9 +100,14 @@ describe('readable read-only fields and links (WCAG 2.x contrast, computed in th
   });
 
   it('links on the editor and the sketches table are in the app\'s colours, at 4.5:1 or more', async () => {
-    for (const path of [`/sketches/${sketchId}`, '/']) {
+    for (const [path, ready] of [
+      [`/sketches/${sketchId}`, '[data-testid="sketch-canvas"]'],
+      ['/', '[data-testid^="sketch-row-"]'],
+    ] as const) {
       await page.goto(`${server.url}${path}`);
-      await page.locator('a').first().waitFor();
+      // The page's content is there (not only the header), so its links are.
+      await page.locator(ready).first().waitFor();
+      await expect.poll(async () => (await coloursOf(page, 'a')).length).toBeGreaterThan(2);
       const links = await coloursOf(page, 'a');
       expect(links.length).toBeGreaterThan(2);
       for (const l of links) {

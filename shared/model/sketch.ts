@@ -67,7 +67,7 @@ export type LoadsSettings = z.infer<typeof loadsSettingsSchema>;
 
 /**
  * Most vertices a section may have [M2]: far more than a section needs, and it bounds the
- * quadratic parts (self-intersection check, wave-map crossings) and the cost of one edit.
+ * quadratic part (the self-intersection check) and the cost of one edit.
  * Documents, ops, coordinates files, the solve input and socket selections all use this one.
  */
 export const MAX_SECTION_VERTICES = 2000;

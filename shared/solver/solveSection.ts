@@ -61,7 +61,7 @@ import type {
  *   stream turned by a shock or a fan; no attached matching leaves the status `ok` (the loads
  *   do not depend on it) and says so in `trailingEdge.message` and `warnings`.
  *
- * Cost: O(facets) without the wave map; the wave map is O(waves²) (crossing search).
+ * Cost: O(facets) without the wave map; the wave map is O(L log L) in its L lines (a sweep).
  * Never throws for a parsed input; every number in the result is finite (absent = null).
  *
  * Sources: shock-expansion theory (e.g. Anderson, "Modern Compressible Flow", from memory);

@@ -1,11 +1,14 @@
 import type { XY } from '../model/polygon';
+import { bodyHitTest } from './bodyHitTest';
 import { DEG_PER_RAD, FAN_INTERIOR_RAYS, WAVE_ORIGIN_EPS_CHORDS } from './constants';
+import { crossWaveFamilies } from './crossWaveFamilies';
+import { interactWaves, type FlowState, type LineSeed } from './interactWaves';
 import type { SurfaceMarch } from './marchSurface';
 import type { TailTurn } from './matchTrailingEdge';
 import { machAngle } from './machAngle';
 import { machFromPrandtlMeyer, prandtlMeyer } from './prandtlMeyer';
 import type { SurfaceChain } from './splitSurfaces';
-import type { FanRay, Point, SurfaceName, Wave, WaveEndReason, WaveIntersection } from './types';
+import type { FanRay, Point, SurfaceName, Wave, WaveIntersection } from './types';
 
 /** Everything the wave map needs from a solve. Angles in radians. */
 export interface WaveTraceInput {
@@ -32,8 +35,9 @@ export interface WaveMap {
 }
 
 /**
- * Builds the wave map: every shock, fan, Mach line and the slip line, with directions in body
- * axes, the states on both sides and where each line stops.
+ * Builds the wave map: every shock, fan, Mach line and slip line, with directions in body
+ * axes, the states on both sides, the path each line takes through the field and where the
+ * waves meet.
  *
  * Directions: a wave from the upper surface leans up and aft of the local flow direction ψ
  * (shock at ψ + β, fan rays at ψ_j + μ_j); a lower-surface wave is mirrored (ψ − β, ψ − μ).
@@ -42,100 +46,125 @@ export interface WaveMap {
  * streams (surface `upper` / `lower`, vertex = the tail); the slip line runs along the common
  * flow direction (surface `trailingEdge`).
  *
- * Each line (a fan: each ray) runs from its origin to the field box, or stops where it first
- * meets the body (`body`) or another wave (`wave`). Crossings are taken in order of how far
- * the later-arriving line has travelled, and one counts only if both lines are still running
- * there; each accepted crossing stops both lines and is listed in `intersections` (it marks
- * where an interaction begins; the interaction itself is not computed). A wave's `end` and
- * `endReason` are its line's (a fan's head ray's).
+ * Interactions (`interactWaves`): waves of one stream that meet merge — a fan ray or Mach
+ * line meeting a shock ends there and the shock goes on, bent and weakened (or strengthened)
+ * to the oblique shock between the state ahead and the flow direction behind; two shocks
+ * merge into one and start a slip line. Waves of the two streams cross and go on unchanged
+ * (`crossWaveFamilies`; a weak wave crossing one of the other family keeps its strength to
+ * first order), as do waves crossing a slip line (its refraction is neglected). Lines run to
+ * the field box or the body unless absorbed. Each meeting is listed in `intersections`.
  *
- * Cost: O(L·(L + n)) for L lines and n vertices — quadratic, unlike the O(n) march, which is
- * why `solveSection` can skip it. Edge case: a surface whose march stopped has waves up to
- * the last solved facet only; without a trailing-edge matching there are no tail waves.
+ * Cost: O(L log L) for L lines plus O(log n) per line for the body test (O(n) only for lines
+ * in a concave pocket of the section); see interactWaves. Edge case: a surface whose march
+ * stopped has waves up to the last solved facet only; without a trailing-edge matching there
+ * are no tail waves.
  *
  * Sources: wave geometry of the shock-expansion method (Mach angle μ = asin(1/M), shock angle β
- * from the θ-β-M relation; NACA Report 1135).
+ * from the θ-β-M relation; NACA Report 1135); interactions as in interactWaves.
  */
 export function traceWaves(input: WaveTraceInput): WaveMap {
-  const lines: Line[] = [];
+  const seeds: LineSeed[] = [];
   const waves: Wave[] = [];
-  addSurfaceWaves(input, 'upper', waves, lines);
-  addSurfaceWaves(input, 'lower', waves, lines);
-  if (input.tail) addTailWaves(input, waves, lines);
+  addSurfaceWaves(input, 'upper', waves, seeds);
+  addSurfaceWaves(input, 'lower', waves, seeds);
+  if (input.tail) addTailWaves(input, waves, seeds);
 
   const eps = WAVE_ORIGIN_EPS_CHORDS * input.chord;
-  for (const line of lines) {
-    line.end = boxExit(line, input.box);
-    line.reason = 'field';
-    const hit = bodyHit(line, input.points, eps);
-    if (hit < line.end) {
-      line.end = hit;
-      line.reason = 'body';
+  const body = bodyHitTest(input.points, eps);
+  const traced = interactWaves(seeds, { gamma: input.gamma, box: input.box, eps, body });
+
+  const intersections: WaveIntersection[] = [];
+  const idOf = (line: number) => (waves[(seeds[line] as LineSeed).wave] as Wave).id;
+  for (const m of traced.meetings) {
+    intersections.push({ at: [m.x, m.y], waves: [idOf(m.front), idOf(m.rear)], kind: m.kind, survivor: idOf(m.survivor) });
+  }
+
+  const { coords, start, pAhead, pBehind } = traced;
+  for (let i = 0; i < seeds.length; i++) {
+    const seed = seeds[i] as LineSeed;
+    const w = waves[seed.wave] as Wave;
+    const first = start[i] as number;
+    const points = (start[i + 1] as number) - first;
+    const path: Point[] = new Array(points);
+    path[0] = w.origin;
+    for (let k = 1; k < points; k++) path[k] = [coords[2 * (first + k)] as number, coords[2 * (first + k) + 1] as number];
+    const end = path[points - 1] as Point;
+    if (seed.ray >= 0) {
+      const ray = (w.rays as FanRay[])[seed.ray] as FanRay;
+      ray.end = end;
+      ray.path = path;
+    }
+    if (seed.ray <= 0) {
+      w.end = end;
+      w.endReason = traced.reason[i] as Wave['endReason'];
+      w.path = path;
+    }
+    if (seed.ray < 0) {
+      const from = first - i;
+      const to = from + points - 1;
+      const ahead = Array.from(pAhead.subarray(from, to));
+      const behind = Array.from(pBehind.subarray(from, to));
+      w.pRatioAheadAlong = ahead;
+      w.pRatioBehindAlong = behind;
+      if (w.kind === 'shock') w.pRatioAlong = behind.map((p, k) => p / (ahead[k] as number));
     }
   }
 
-  // Candidate crossings between lines of different waves.
-  const cand: { a: number; b: number; ta: number; tb: number; key: number }[] = [];
-  for (let i = 0; i < lines.length; i++) {
-    const a = lines[i];
-    for (let j = i + 1; j < lines.length; j++) {
-      const b = lines[j];
-      if (a.wave === b.wave) continue;
-      const den = a.dx * b.dy - a.dy * b.dx;
-      if (Math.abs(den) < 1e-14) continue;
-      const wx = b.ox - a.ox;
-      const wy = b.oy - a.oy;
-      const ta = (wx * b.dy - wy * b.dx) / den;
-      const tb = (wx * a.dy - wy * a.dx) / den;
-      if (ta <= eps || tb <= eps || ta > a.end || tb > b.end) continue;
-      cand.push({ a: i, b: j, ta, tb, key: Math.max(ta, tb) });
-    }
+  // Slip lines from merged shocks (straight along the flow behind the merged shock).
+  const slipCount = { upper: 0, lower: 0 };
+  const slipWaves: Wave[] = [];
+  for (const s of traced.slips) {
+    const shockWave = waves[(seeds[s.shock] as LineSeed).wave] as Wave;
+    const surface: SurfaceName = s.family === 1 ? 'upper' : 'lower';
+    slipCount[surface]++;
+    const origin: Point = [s.x, s.y];
+    const state = { mach: 0, pRatio: s.pRatio };
+    const w: Wave = {
+      id: `wave_slip_${surface}_${slipCount[surface]}`,
+      kind: 'slip',
+      surface,
+      vertex: shockWave.vertex,
+      origin,
+      angleDeg: s.direction * DEG_PER_RAD,
+      end: s.end,
+      endReason: s.reason,
+      path: [origin, s.end],
+      upstream: state,
+      downstream: state,
+      pRatioBehind: s.pRatio,
+      deflectionDeg: 0,
+      pRatioAheadAlong: [s.pRatio],
+      pRatioBehindAlong: [s.pRatio],
+    };
+    slipWaves.push(w);
+    waves.push(w);
   }
-  cand.sort((p, q) => p.key - q.key);
-  const intersections: WaveIntersection[] = [];
-  for (const c of cand) {
-    const a = lines[c.a];
-    const b = lines[c.b];
-    if (c.ta > a.end || c.tb > b.end) continue;
-    a.end = c.ta;
-    a.reason = 'wave';
-    b.end = c.tb;
-    b.reason = 'wave';
-    intersections.push({
-      at: [a.ox + c.ta * a.dx, a.oy + c.ta * a.dy],
-      waves: [waves[a.wave].id, waves[b.wave].id],
+
+  // Waves of the two streams cross and go on, and so do waves crossing a slip line.
+  let allCoords = coords;
+  let allStart = start;
+  const families: (1 | -1 | 0)[] = seeds.map((s) => s.family);
+  if (slipWaves.length > 0) {
+    const points = start[seeds.length] as number;
+    allCoords = new Float64Array(coords.length + 4 * slipWaves.length);
+    allCoords.set(coords);
+    allStart = new Int32Array(start.length + slipWaves.length);
+    allStart.set(start);
+    slipWaves.forEach((w, n) => {
+      const k = points + 2 * n;
+      allCoords[2 * k] = w.origin[0];
+      allCoords[2 * k + 1] = w.origin[1];
+      allCoords[2 * k + 2] = w.end[0];
+      allCoords[2 * k + 3] = w.end[1];
+      allStart[seeds.length + n + 1] = k + 2;
+      families.push(0);
     });
   }
-
-  for (const line of lines) {
-    const end: Point = [line.ox + line.end * line.dx, line.oy + line.end * line.dy];
-    const w = waves[line.wave];
-    if (line.ray >= 0) {
-      const ray = (w.rays as FanRay[])[line.ray];
-      ray.end = end;
-    }
-    if (line.ray <= 0) {
-      w.end = end;
-      w.endReason = line.reason;
-    }
-  }
+  const lineId = (line: number) => (line < seeds.length ? idOf(line) : (slipWaves[line - seeds.length] as Wave).id);
+  const crossings = crossWaveFamilies(allCoords, allStart, families, eps);
+  crossings.sort((p, q) => p.x - q.x || p.y - q.y);
+  for (const c of crossings) intersections.push({ at: [c.x, c.y], waves: [lineId(c.a), lineId(c.b)], kind: 'crossed' });
   return { waves, intersections };
-}
-
-/** One straight line of the map: a shock, Mach line, slip line or one fan ray. */
-interface Line {
-  wave: number;
-  /** Fan ray index, or −1 for a single-line wave. */
-  ray: number;
-  /** Input vertex the line starts from (its two sides are skipped in the body test). */
-  vertex: number;
-  ox: number;
-  oy: number;
-  /** Unit direction. */
-  dx: number;
-  dy: number;
-  end: number;
-  reason: WaveEndReason;
 }
 
 interface StreamState {
@@ -146,7 +175,7 @@ interface StreamState {
   psi: number;
 }
 
-function addSurfaceWaves(input: WaveTraceInput, surface: SurfaceName, waves: Wave[], lines: Line[]): void {
+function addSurfaceWaves(input: WaveTraceInput, surface: SurfaceName, waves: Wave[], seeds: LineSeed[]): void {
   const chain = surface === 'upper' ? input.upper : input.lower;
   const march = surface === 'upper' ? input.marchUpper : input.marchLower;
   const sigma = surface === 'upper' ? 1 : -1;
@@ -162,16 +191,26 @@ function addSurfaceWaves(input: WaveTraceInput, surface: SurfaceName, waves: Wav
     const up: StreamState =
       k === 0
         ? free
-        : { mach: march.mach[k - 1], pRatio: march.pRatio[k - 1], nu: march.nu[k - 1], psi: chain.phi[k - 1] };
-    const down: StreamState = { mach: march.mach[k], pRatio: march.pRatio[k], nu: march.nu[k], psi: chain.phi[k] };
-    const vertex = chain.vertices[k];
-    const origin: Point = [chain.xs[k], chain.ys[k]];
+        : {
+            mach: march.mach[k - 1] as number,
+            pRatio: march.pRatio[k - 1] as number,
+            nu: march.nu[k - 1] as number,
+            psi: chain.phi[k - 1] as number,
+          };
+    const down: StreamState = {
+      mach: march.mach[k] as number,
+      pRatio: march.pRatio[k] as number,
+      nu: march.nu[k] as number,
+      psi: chain.phi[k] as number,
+    };
+    const vertex = chain.vertices[k] as number;
+    const origin: Point = [chain.xs[k] as number, chain.ys[k] as number];
     const id = `wave_${surface}_${vertex}`;
     if (kind === 'fan') {
-      addFan(input, waves, lines, id, surface, vertex, origin, sigma, up, down, march.turn[k]);
+      addFan(input, waves, seeds, id, surface, vertex, origin, sigma, up, down, march.turn[k] as number);
     } else {
-      const beta = kind === 'shock' ? march.beta[k] : machAngle(up.mach);
-      addStraight(waves, lines, {
+      const beta = kind === 'shock' ? (march.beta[k] as number) : machAngle(up.mach);
+      addStraight(waves, seeds, {
         id,
         kind: kind === 'shock' ? 'shock' : 'mach',
         surface,
@@ -182,16 +221,18 @@ function addSurfaceWaves(input: WaveTraceInput, surface: SurfaceName, waves: Wav
         up,
         down,
         pRatioBehind: down.pRatio,
-        deflection: kind === 'shock' ? march.turn[k] : 0,
+        deflection: kind === 'shock' ? (march.turn[k] as number) : 0,
+        family: sigma,
       });
     }
   }
 }
 
-function addTailWaves(input: WaveTraceInput, waves: Wave[], lines: Line[]): void {
+function addTailWaves(input: WaveTraceInput, waves: Wave[], seeds: LineSeed[]): void {
   const tail = input.tail as NonNullable<WaveTraceInput['tail']>;
   const vertex = input.tailIndex;
-  const origin: Point = [input.points[vertex][0], input.points[vertex][1]];
+  const tailPoint = input.points[vertex] as XY;
+  const origin: Point = [tailPoint[0], tailPoint[1]];
   const after: Record<SurfaceName, StreamState> = {
     upper: { mach: tail.upper.machAfter, pRatio: tail.upper.pRatioAfter, nu: 0, psi: tail.slip },
     lower: { mach: tail.lower.machAfter, pRatio: tail.lower.pRatioAfter, nu: 0, psi: tail.slip },
@@ -203,15 +244,15 @@ function addTailWaves(input: WaveTraceInput, waves: Wave[], lines: Line[]): void
     const sigma = surface === 'upper' ? 1 : -1;
     const last = march.solved - 1;
     const up: StreamState = {
-      mach: march.mach[last],
-      pRatio: march.pRatio[last],
-      nu: march.nu[last],
-      psi: chain.phi[last],
+      mach: march.mach[last] as number,
+      pRatio: march.pRatio[last] as number,
+      nu: march.nu[last] as number,
+      psi: chain.phi[last] as number,
     };
     const down = after[surface];
     const id = `wave_tail_${surface}`;
     if (turn.kind === 'shock') {
-      addStraight(waves, lines, {
+      addStraight(waves, seeds, {
         id,
         kind: 'shock',
         surface,
@@ -223,13 +264,14 @@ function addTailWaves(input: WaveTraceInput, waves: Wave[], lines: Line[]): void
         down,
         pRatioBehind: down.pRatio,
         deflection: turn.deflection,
+        family: sigma,
       });
     } else if (turn.kind === 'fan') {
       const downFan = { ...down, nu: up.nu - turn.deflection };
-      addFan(input, waves, lines, id, surface, vertex, origin, sigma, up, downFan, turn.deflection);
+      addFan(input, waves, seeds, id, surface, vertex, origin, sigma, up, downFan, turn.deflection);
     }
   }
-  addStraight(waves, lines, {
+  addStraight(waves, seeds, {
     id: 'wave_slip',
     kind: 'slip',
     surface: 'trailingEdge',
@@ -241,6 +283,7 @@ function addTailWaves(input: WaveTraceInput, waves: Wave[], lines: Line[]): void
     down: after.lower,
     pRatioBehind: tail.pRatio,
     deflection: 0,
+    family: 0,
   });
 }
 
@@ -256,9 +299,14 @@ interface StraightWave {
   down: StreamState;
   pRatioBehind: number;
   deflection: number;
+  family: 1 | -1 | 0;
 }
 
-function addStraight(waves: Wave[], lines: Line[], w: StraightWave): void {
+function flow(s: StreamState): FlowState {
+  return { mach: s.mach, pRatio: s.pRatio, psi: s.psi };
+}
+
+function addStraight(waves: Wave[], seeds: LineSeed[], w: StraightWave): void {
   const wave: Wave = {
     id: w.id,
     kind: w.kind,
@@ -268,20 +316,34 @@ function addStraight(waves: Wave[], lines: Line[], w: StraightWave): void {
     angleDeg: w.direction * DEG_PER_RAD,
     end: w.origin,
     endReason: 'field',
+    path: [w.origin],
     upstream: { mach: w.up.mach, pRatio: w.up.pRatio },
     downstream: { mach: w.down.mach, pRatio: w.down.pRatio },
     pRatioBehind: w.pRatioBehind,
     deflectionDeg: w.deflection * DEG_PER_RAD,
   };
   if (w.beta !== undefined) wave.betaDeg = w.beta * DEG_PER_RAD;
-  lines.push(line(waves.length, -1, w.vertex, w.origin, w.direction));
+  const ahead = flow(w.up);
+  seeds.push({
+    wave: waves.length,
+    ray: -1,
+    vertex: w.vertex,
+    family: w.family,
+    shock: w.kind === 'shock',
+    ox: w.origin[0],
+    oy: w.origin[1],
+    direction: w.direction,
+    ahead,
+    // A Mach line is a wave of no strength: the same state on both sides.
+    behind: w.kind === 'mach' ? ahead : flow(w.down),
+  });
   waves.push(wave);
 }
 
 function addFan(
   input: WaveTraceInput,
   waves: Wave[],
-  lines: Line[],
+  seeds: LineSeed[],
   id: string,
   surface: SurfaceName,
   vertex: number,
@@ -299,6 +361,7 @@ function addFan(
   const rays: FanRay[] = [];
   const index = waves.length;
   let mPrev = up.mach;
+  let before: FlowState = flow(up);
   for (let j = 0; j < count; j++) {
     const f = j / (count - 1);
     let m: number;
@@ -316,8 +379,22 @@ function addFan(
     mPrev = m;
     const psi = up.psi - sigma * f * size;
     const dir = psi + sigma * Math.asin(1 / m);
-    rays.push({ angleDeg: dir * DEG_PER_RAD, end: origin, pRatio: p, mach: m });
-    lines.push(line(index, j, vertex, origin, dir));
+    const at: FlowState = { mach: m, pRatio: p, psi };
+    // Ray j carries the change from the state at ray j − 1 to its own (the head ray: none).
+    rays.push({ angleDeg: dir * DEG_PER_RAD, end: origin, pRatio: p, mach: m, path: [origin], pRatioAhead: before.pRatio });
+    seeds.push({
+      wave: index,
+      ray: j,
+      vertex,
+      family: sigma,
+      shock: false,
+      ox: origin[0],
+      oy: origin[1],
+      direction: dir,
+      ahead: before,
+      behind: at,
+    });
+    before = at;
   }
   waves.push({
     id,
@@ -325,68 +402,14 @@ function addFan(
     surface,
     vertex,
     origin,
-    angleDeg: rays[0].angleDeg,
+    angleDeg: (rays[0] as FanRay).angleDeg,
     rays,
     end: origin,
     endReason: 'field',
+    path: [origin],
     upstream: { mach: up.mach, pRatio: up.pRatio },
     downstream: { mach: down.mach, pRatio: down.pRatio },
     pRatioBehind: down.pRatio,
     deflectionDeg: turn * DEG_PER_RAD,
   });
-}
-
-function line(wave: number, ray: number, vertex: number, origin: Point, direction: number): Line {
-  return {
-    wave,
-    ray,
-    vertex,
-    ox: origin[0],
-    oy: origin[1],
-    dx: Math.cos(direction),
-    dy: Math.sin(direction),
-    end: 0,
-    reason: 'field',
-  };
-}
-
-/** Distance along the line to the field box's edge (the origin lies inside the box). */
-function boxExit(l: Line, box: WaveTraceInput['box']): number {
-  let t = Infinity;
-  if (l.dx > 0) t = Math.min(t, (box.maxX - l.ox) / l.dx);
-  else if (l.dx < 0) t = Math.min(t, (box.minX - l.ox) / l.dx);
-  if (l.dy > 0) t = Math.min(t, (box.maxY - l.oy) / l.dy);
-  else if (l.dy < 0) t = Math.min(t, (box.minY - l.oy) / l.dy);
-  return Math.max(0, t);
-}
-
-/**
- * Distance to the first polygon side the line meets, skipping the sides at its own vertex.
- * Each side is taken from its lexicographically smaller end, so the input's vertex order
- * cannot change the rounding.
- */
-function bodyHit(l: Line, points: readonly XY[], eps: number): number {
-  const n = points.length;
-  let best = Infinity;
-  for (let i = 0; i < n; i++) {
-    const j = (i + 1) % n;
-    if (i === l.vertex || j === l.vertex) continue;
-    const pi = points[i];
-    const pj = points[j];
-    const first = pi[0] < pj[0] || (pi[0] === pj[0] && pi[1] < pj[1]);
-    const p = first ? pi : pj;
-    const q = first ? pj : pi;
-    const ax = p[0];
-    const ay = p[1];
-    const ex = q[0] - ax;
-    const ey = q[1] - ay;
-    const den = l.dx * ey - l.dy * ex;
-    if (den === 0) continue;
-    const wx = ax - l.ox;
-    const wy = ay - l.oy;
-    const t = (wx * ey - wy * ex) / den;
-    const u = (wx * l.dy - wy * l.dx) / den;
-    if (t > eps && u >= 0 && u <= 1 && t < best) best = t;
-  }
-  return best;
 }

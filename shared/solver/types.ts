@@ -152,9 +152,14 @@ export interface FanRay {
   /** Ray direction in body axes, degrees from +x toward +y. */
   angleDeg: number;
   end: Point;
-  /** p/p∞ and Mach of the flow at this ray (head ray: upstream state; tail ray: downstream). */
+  /** p/p∞ and Mach of the flow at this ray (head ray: upstream state; tail ray: downstream);
+   *  the flow just aft of the ray, up to the next ray. */
   pRatio: number;
   mach: number;
+  /** The ray's drawn line, origin → end (a ray that meets a shock ends there). */
+  path: Point[];
+  /** p/p∞ just ahead of the ray (the previous ray's pressure; the head ray's own). */
+  pRatioAhead: number;
 }
 
 /** What stopped a wave's line. */
@@ -163,7 +168,8 @@ export type WaveEndReason = 'field' | 'wave' | 'body';
 /** One wave of the wave map. */
 export interface Wave {
   /** `wave_<surface>_<vertex>` for surface waves, `wave_tail_upper` / `wave_tail_lower` /
-   *  `wave_slip` at the trailing edge. */
+   *  `wave_slip` at the trailing edge, `wave_slip_<surface>_<n>` for a slip line that starts
+   *  where two shocks met (`vertex` is then the surviving shock's). */
   id: string;
   kind: 'shock' | 'fan' | 'mach' | 'slip';
   /** The stream the wave stands in; the slip line says `trailingEdge`. */
@@ -181,6 +187,17 @@ export interface Wave {
   /** Where the wave's line (a fan's head ray) stops, and why. */
   end: Point;
   endReason: WaveEndReason;
+  /** The drawn line (a fan's head ray) from `origin` to `end`: a shock bends at every point
+   *  where it absorbs a fan ray or merges with another shock. */
+  path: Point[];
+  /** Shocks only: static pressure ratio across the shock (behind over ahead) on each segment
+   *  of `path` (length = path.length − 1). Below 1 only where absorbed expansions outweigh
+   *  the shock (an isentropic jump; the line is then no longer a shock). */
+  pRatioAlong?: number[];
+  /** p/p∞ ahead of and behind the line on each segment of `path` (not for fans: see their
+   *  rays; a slip line: above and below). */
+  pRatioAheadAlong?: number[];
+  pRatioBehindAlong?: number[];
   /** State ahead of the wave (slip line: the upper stream). */
   upstream: WaveState;
   /** State behind the wave (slip line: the lower stream). */
@@ -191,10 +208,18 @@ export interface Wave {
   deflectionDeg: number;
 }
 
-/** A point where two waves meet (where interaction begins). */
+/**
+ * A point where two waves meet. `absorbed`: a fan ray or Mach line ended on a shock, which
+ * bends there; `merged`: two shocks of one stream became one (a slip line starts there);
+ * `crossed`: waves of the two streams (or a wave and a slip line) crossed and both go on.
+ * `waves[0]` is the one further from the body (for `absorbed`/`merged`), and the wave that
+ * goes on is listed in `survivor` (absent for `crossed`).
+ */
 export interface WaveIntersection {
   at: Point;
   waves: [string, string];
+  kind: 'absorbed' | 'merged' | 'crossed';
+  survivor?: string;
 }
 
 /** The section as the solver sees it. */

@@ -143,7 +143,7 @@ export type WaveHit = { wave: Wave; ray: number | null; distance: number };
 
 /**
  * The wave whose drawn line passes nearest to p within `tolerance`: shocks, Mach and slip
- * lines from origin to end; fans by each ray. `visible` filters by kind (hidden layers are not
+ * lines along their paths; fans by each ray. `visible` filters by kind (hidden layers are not
  * hit).
  */
 export function hitWave(waves: readonly Wave[], p: XY, tolerance: number, visible: (w: Wave) => boolean = () => true, metric?: Metric): WaveHit | null {
@@ -152,14 +152,20 @@ export function hitWave(waves: readonly Wave[], p: XY, tolerance: number, visibl
   const pm = m(p);
   for (const wave of waves) {
     if (!visible(wave)) continue;
+    // Along each drawn path (a result stored before waves had paths: origin → end).
+    const along = (path: readonly XY[] | undefined, end: XY): number => {
+      const pts = path && path.length >= 2 ? path : [wave.origin, end];
+      let d = Infinity;
+      for (let k = 0; k + 1 < pts.length; k++) d = Math.min(d, distanceToSegment(pm, m(pts[k] as XY), m(pts[k + 1] as XY)).distance);
+      return d;
+    };
     if (wave.kind === 'fan' && wave.rays && wave.rays.length > 0) {
-      const origin = m(wave.origin);
       wave.rays.forEach((ray, k) => {
-        const d = distanceToSegment(pm, origin, m(ray.end)).distance;
+        const d = along(ray.path, ray.end);
         if (d <= tolerance && (!best || d < best.distance)) best = { wave, ray: k, distance: d };
       });
     } else {
-      const d = distanceToSegment(pm, m(wave.origin), m(wave.end)).distance;
+      const d = along(wave.path, wave.end);
       if (d <= tolerance && (!best || d < best.distance)) best = { wave, ray: null, distance: d };
     }
   }

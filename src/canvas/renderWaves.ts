@@ -1,4 +1,4 @@
-import type { SolveResult, Wave } from '@shared/solver/types';
+import type { Point, SolveResult, Wave } from '@shared/solver/types';
 import { pressureColour, pressureDomain, type PressureDomain } from './colors';
 import type { DrawList, StrokePath } from './drawPaths';
 import type { LayerSettings } from './layers';
@@ -39,28 +39,59 @@ export function waveVisible(w: Wave, layers: LayerSettings): boolean {
 }
 
 /**
- * The wave map as strokes: each shock, Mach line and slip line from origin to end, each fan
- * as its rays; every line coloured by the pressure behind it (a fan ray by the pressure at
- * that ray); the slip line dashed.
+ * The drawn line of a wave (or of one fan ray): its `path`, or origin → end for a result stored
+ * before waves had paths.
+ */
+export function wavePath(w: Wave, ray?: number): readonly Point[] {
+  const r = ray === undefined ? undefined : w.rays?.[ray];
+  if (r) return r.path ?? [w.origin, r.end];
+  return w.path ?? [w.origin, w.end];
+}
+
+/**
+ * The wave map as strokes: each shock, Mach line and slip line along its path, each fan as
+ * its rays; every line coloured by the pressure behind it (a shock segment by segment, as it
+ * weakens along the way; a fan ray by the pressure at that ray); the slip line dashed.
  */
 export function renderWaves(result: SolveResult | null, view: View, layers: LayerSettings, domain: PressureDomain): DrawList {
   const paths: StrokePath[] = [];
   if (!result) return { paths, dots: [] };
+  const screen = (pts: readonly Point[]): number[] => {
+    const out: number[] = [];
+    for (const p of pts) {
+      const [x, y] = toScreen(view, p);
+      out.push(x, y);
+    }
+    return out;
+  };
   for (const w of result.waves) {
     if (!waveVisible(w, layers)) continue;
-    const [ox, oy] = toScreen(view, w.origin);
     if (w.kind === 'fan' && w.rays && w.rays.length > 0) {
-      for (const ray of w.rays) {
-        const [ex, ey] = toScreen(view, ray.end);
-        paths.push({ points: [ox, oy, ex, ey], colour: pressureColour(ray.pRatio, domain), width: WAVE_WIDTH_PX.fan });
-      }
+      w.rays.forEach((ray, k) => {
+        paths.push({ points: screen(wavePath(w, k)), colour: pressureColour(ray.pRatio, domain), width: WAVE_WIDTH_PX.fan });
+      });
       continue;
     }
-    const [ex, ey] = toScreen(view, w.end);
+    const pts = wavePath(w);
     const colour = pressureColour(w.pRatioBehind, domain);
-    if (w.kind === 'slip') paths.push({ points: [ox, oy, ex, ey], colour, width: WAVE_WIDTH_PX.slip, dash: SLIP_DASH_PX });
-    else if (w.kind === 'mach') paths.push({ points: [ox, oy, ex, ey], colour, width: WAVE_WIDTH_PX.mach, alpha: 0.85 });
-    else paths.push({ points: [ox, oy, ex, ey], colour, width: WAVE_WIDTH_PX.shock });
+    if (w.kind === 'slip') paths.push({ points: screen(pts), colour, width: WAVE_WIDTH_PX.slip, dash: SLIP_DASH_PX });
+    else if (w.kind === 'mach') paths.push({ points: screen(pts), colour, width: WAVE_WIDTH_PX.mach, alpha: 0.85 });
+    else {
+      const behind = w.pRatioBehindAlong;
+      if (!behind || behind.length !== pts.length - 1) {
+        paths.push({ points: screen(pts), colour, width: WAVE_WIDTH_PX.shock });
+        continue;
+      }
+      // One stroke per run of segments of one colour (a shock weakens step by step).
+      const xy = screen(pts);
+      let from = 0;
+      for (let k = 1; k <= behind.length; k++) {
+        const c = pressureColour(behind[from] as number, domain);
+        if (k < behind.length && pressureColour(behind[k] as number, domain) === c) continue;
+        paths.push({ points: xy.slice(2 * from, 2 * k + 2), colour: c, width: WAVE_WIDTH_PX.shock });
+        from = k;
+      }
+    }
   }
   return { paths, dots: [] };
 }

@@ -17,6 +17,7 @@ const KIND: Record<Wave['kind'], string> = {
 
 function place(w: Wave): string {
   if (w.surface === 'trailingEdge') return 'trailing edge';
+  if (w.id.startsWith('wave_slip_')) return `${w.surface} stream, where two shocks merged`;
   if (w.id.startsWith('wave_tail_')) return `trailing edge, ${w.surface} stream`;
   return `${w.surface} surface, vertex ${w.vertex}`;
 }

@@ -15,7 +15,7 @@
  * Targets: 200 facets ≤ 20 µs median (core); envelope ≤ 100 ms; study ≤ 0.5 s in the worker;
  * core cost linear in facets:
  * the marginal column (extra time per extra facet since the previous row) should stay roughly
- * flat, while ns/facet falls as the fixed cost is spread. The wave map is O(lines²) by design.
+ * flat, while ns/facet falls as the fixed cost is spread. The wave map is O(L log L) in its lines.
  *
  * The section is our own: a cambered lens ("Shockwright demo fin", 6 % thick, 1 % camber)
  * with cosine-spaced vertices.

@@ -334,7 +334,12 @@ describe('solveSection properties (fast-check)', () => {
           expectClose(sec.cl, lin.cl, 1e-12 * (1 + Math.abs(lin.cl)));
           expectClose(sec.cd, lin.cd, 1e-12 * (1 + Math.abs(lin.cd)));
           if (Math.abs(alphaDeg) > 0.5) {
-            expect(Math.abs(sec.cm - r.coefficients!.cm)).toBeLessThan(Math.abs(lin.cm - r.coefficients!.cm));
+            // Not strict: at the generator's edge (|α| 4°, 5 % thick) the two errors can cross,
+            // and there they are equal to rounding (seed 866028690: both 0.00488183169934071,
+            // 5e-16 apart). cm is a sum of some 20 facet terms of order |cm| ~ 1e-2, each
+            // rounded to ~1e-18, so a difference below 1e-14 is a tie, not a failure.
+            const tie = 1e-14;
+            expect(Math.abs(sec.cm - r.coefficients!.cm)).toBeLessThanOrEqual(Math.abs(lin.cm - r.coefficients!.cm) + tie);
           }
         },
       ),

@@ -1,6 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { expectClose } from '../../helpers/expectClose';
+import { reached } from '../../helpers/reached';
 import { isSimplePolygon } from '../../../shared/model/polygon';
 import { machAngle } from '../../../shared/solver/machAngle';
 import { solveSection } from '../../../shared/solver/solveSection';
@@ -10,12 +11,12 @@ import { diamond, input, lens } from './sections';
 
 const deg = (r: number) => (r * 180) / Math.PI;
 
-/** All drawn straight pieces: [waveId, origin, end]. */
+/** All drawn straight pieces along the paths: [waveId, from, to]. */
 function segments(r: SolveResult): [string, Point, Point][] {
   const out: [string, Point, Point][] = [];
   for (const w of r.waves) {
-    if (w.rays) for (const ray of w.rays) out.push([w.id, w.origin, ray.end]);
-    else out.push([w.id, w.origin, w.end]);
+    const paths = w.rays ? w.rays.map((ray) => ray.path) : [w.path];
+    for (const p of paths) for (let k = 0; k + 1 < p.length; k++) out.push([w.id, p[k] as Point, p[k + 1] as Point]);
   }
   return out;
 }
@@ -96,7 +97,7 @@ describe('traceWaves (via solveSection)', () => {
     }
   });
 
-  it('[S12] lines end on the field box, the body, or a reported intersection, and stop at their first accepted crossing', () => {
+  it('[S12] lines end on the field box, the body, or a reported meeting where they were absorbed', () => {
     const pts = lens(16, 0.1, 0.03);
     const r = solveSection(input(pts, 2, 3, { fieldExtentChords: 1 }));
     expect(r.intersections.length).toBeGreaterThan(0);
@@ -120,7 +121,8 @@ describe('traceWaves (via solveSection)', () => {
     for (const i of r.intersections) expect(i.waves[0]).not.toBe(i.waves[1]);
   });
 
-  it('[S12] no two drawn lines of different waves cross each other (random sections, fast-check)', () => {
+  it('[S12] drawn lines of different waves cross only where a crossing is reported (random sections, fast-check)', () => {
+    const checked = reached('[S12] wave maps');
     const section = fc
       .tuple(fc.integer({ min: 3, max: 14 }), fc.double({ min: 0.02, max: 0.12, noNaN: true }), fc.double({ min: -0.03, max: 0.03, noNaN: true }))
       .map(([m, t, c]) => lens(m, t, c))
@@ -129,15 +131,20 @@ describe('traceWaves (via solveSection)', () => {
       fc.property(section, fc.double({ min: 1.3, max: 6, noNaN: true }), fc.double({ min: -6, max: 6, noNaN: true }), (pts, mach, alphaDeg) => {
         const r = solveSection(input(pts, mach, alphaDeg));
         const segs = segments(r);
+        const crossed = r.intersections.filter((i) => i.kind === 'crossed');
+        checked.hit();
         for (let i = 0; i < segs.length; i++) {
           for (let j = i + 1; j < segs.length; j++) {
-            if (segs[i][0] === segs[j][0]) continue;
-            expect(crossesInside(segs[i][1], segs[i][2], segs[j][1], segs[j][2])).toBe(false);
+            const [ia, a, b] = segs[i];
+            const [ib, c, d] = segs[j];
+            if (ia === ib || !crossesInside(a, b, c, d)) continue;
+            expect(crossed.some((x) => x.waves.includes(ia) && x.waves.includes(ib)), `${ia} × ${ib}`).toBe(true);
           }
         }
       }),
       { numRuns: 100 },
     );
+    checked.expectAtLeast(95);
   }, 60_000); // generous: this machine is shared, and the check is O(lines²) per run
 
   it('a larger field box lets waves that reach it run further (options.fieldExtentChords)', () => {

@@ -1,4 +1,5 @@
 import type { Facet, SolveResult } from '../solver/types.ts';
+import type { PressureSignature } from '../solver/pressureSignature.ts';
 import { RESULTS_CAUTION } from './caution.ts';
 import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
 import type { Point, SketchDocument } from './sketch.ts';
@@ -63,4 +64,39 @@ export function facetCsv(title: string, result: SolveResult): string {
 /** The document and the full solve result, with the caution, as pretty JSON. */
 export function resultJson(title: string, document: SketchDocument, result: SolveResult): string {
   return `${JSON.stringify({ title, caution: RESULTS_CAUTION, document, result }, null, 2)}\n`;
+}
+
+/**
+ * A text cell for CSV: always quoted, quotes doubled, line breaks kept inside the quotes
+ * (RFC 4180), and a leading =, +, −, @, tab or carriage return neutralised with an apostrophe so
+ * that a spreadsheet never reads someone's title as a formula (common practice, OWASP "CSV
+ * injection").
+ */
+export function csvText(value: string): string {
+  const safe = /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
+  return `"${safe.replace(/"/g, '""')}"`;
+}
+
+/**
+ * The pressure signature as CSV: the sketch and condition (the title as a quoted cell), the
+ * caution, then one row per step edge: x/c from the nose and p/p∞ on each side of it.
+ */
+export function signatureCsv(title: string, result: SolveResult, signature: PressureSignature): string {
+  const c = result.condition;
+  const rows: string[] = [];
+  signature.xOverC.forEach((x, k) => {
+    const before = k > 0 ? signature.p[k - 1] : undefined;
+    const after = k < signature.p.length ? signature.p[k] : undefined;
+    rows.push([x, before === undefined || before === null ? '' : before, after === undefined || after === null ? '' : after].join(','));
+  });
+  return [
+    `sketch,${csvText(title)}`,
+    `condition,"M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}"`,
+    `line,"${signature.distanceChords} chords ${signature.side} the section (y = ${signature.y})"`,
+    `caution,${csvText(RESULTS_CAUTION)}`,
+    '',
+    'x_over_c_from_nose,p_over_pinf_ahead,p_over_pinf_behind',
+    ...rows,
+    '',
+  ].join('\n');
 }

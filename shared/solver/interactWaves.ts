@@ -1,5 +1,8 @@
 import type { BodyHit } from './bodyHitTest';
 import { ZERO_TURN_RAD } from './constants';
+
+/** Read once: an imported binding may be a getter call under some module loaders. */
+const ZERO_TURN = ZERO_TURN_RAD;
 import { obliqueShock } from './obliqueShock';
 import { machFromPrandtlMeyer, prandtlMeyer, prandtlMeyerMax } from './prandtlMeyer';
 import type { WaveEndReason } from './types';
@@ -70,6 +73,10 @@ export interface Interactions {
   start: Int32Array;
   pAhead: Float64Array;
   pBehind: Float64Array;
+  /** On each segment (indexed like pAhead): the line's angle from the flow ahead, σ(dir − ψ)
+   *  (radians; β for a shock), and the Mach number behind it. */
+  angleFromFlow: Float64Array;
+  machBehind: Float64Array;
   reason: WaveEndReason[];
   meetings: WaveMeeting[];
   slips: InteractionSlip[];
@@ -140,6 +147,8 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
   const bendY: number[] = [];
   const bendPA: number[] = [];
   const bendPB: number[] = [];
+  const bendAngle: number[] = [];
+  const bendMach: number[] = [];
   // Events: a meeting of lines i (front) and j (rear), or the end of line i (j = −1); vi, vj
   // are the lines' versions when it was scheduled (a stale event is skipped).
   const evI: number[] = [];
@@ -299,6 +308,8 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
     bendY.push(y);
     bendPA.push(a.pRatio);
     bendPB.push(turned.behind.pRatio);
+    bendAngle.push(family * (turned.direction - a.psi));
+    bendMach.push(turned.behind.mach);
     setSegment(survivor, x, y, turned.direction, -1);
     if (bothShocks) {
       const sx = Math.cos(turned.behind.psi);
@@ -335,6 +346,8 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
   const coords = new Float64Array(2 * total);
   const pAhead = new Float64Array(total - count);
   const pBehind = new Float64Array(total - count);
+  const angleFromFlow = new Float64Array(total - count);
+  const machBehind = new Float64Array(total - count);
   const fill = new Int32Array(count);
   for (let i = 0; i < count; i++) {
     const s = seeds[i] as LineSeed;
@@ -343,6 +356,8 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
     coords[2 * k + 1] = s.oy;
     pAhead[k - i] = s.ahead.pRatio;
     pBehind[k - i] = s.behind.pRatio;
+    angleFromFlow[k - i] = s.family * (s.direction - s.ahead.psi);
+    machBehind[k - i] = s.behind.mach;
     fill[i] = 1;
     const last = (start[i + 1] as number) - 1;
     coords[2 * last] = endXs[i] as number;
@@ -355,9 +370,11 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
     coords[2 * k + 1] = bendY[b] as number;
     pAhead[k - i] = bendPA[b] as number;
     pBehind[k - i] = bendPB[b] as number;
+    angleFromFlow[k - i] = bendAngle[b] as number;
+    machBehind[k - i] = bendMach[b] as number;
     fill[i] = (fill[i] as number) + 1;
   }
-  return { coords, start, pAhead, pBehind, reason, meetings, slips };
+  return { coords, start, pAhead, pBehind, angleFromFlow, machBehind, reason, meetings, slips };
 }
 
 /**
@@ -370,7 +387,7 @@ function turnFlow(a: FlowState, psiBehind: number, sigma: 1 | -1, gamma: number)
   if (!(a.mach > 1)) return null;
   const theta = sigma * (psiBehind - a.psi);
   const muA = Math.asin(1 / a.mach);
-  if (theta > ZERO_TURN_RAD) {
+  if (theta > ZERO_TURN) {
     let s = obliqueShock(a.mach, theta, gamma);
     if (s.status === 'detached') s = obliqueShock(a.mach, s.thetaMax * (1 - 1e-9), gamma);
     if (s.status === 'detached') return null;
@@ -379,7 +396,7 @@ function turnFlow(a: FlowState, psiBehind: number, sigma: 1 | -1, gamma: number)
       behind: { mach: s.mach2, pRatio: a.pRatio * s.pRatio, psi: a.psi + sigma * s.theta },
     };
   }
-  if (theta >= -ZERO_TURN_RAD) return { direction: a.psi + sigma * muA, behind: a };
+  if (theta >= -ZERO_TURN) return { direction: a.psi + sigma * muA, behind: a };
   const nuA = prandtlMeyer(a.mach, gamma);
   const nuB = Math.min(nuA - theta, prandtlMeyerMax(gamma) * (1 - 1e-9));
   const machB = machFromPrandtlMeyer(nuB, gamma, a.mach, nuA);

@@ -87,12 +87,13 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
   const thetaMax: number[] = new Array(m);
   let limit: SurfaceLimit | null = null;
 
+  const zeroTurn = ZERO_TURN_RAD; // read once (an imported binding may be a getter call)
   let prevTheta = 0;
   for (let k = 0; k < m; k++) {
     const d = theta[k] - prevTheta;
     prevTheta = theta[k];
     turn[k] = d;
-    wave[k] = d > ZERO_TURN_RAD ? 'shock' : d < -ZERO_TURN_RAD ? 'fan' : k === 0 ? 'mach' : 'none';
+    wave[k] = d > zeroTurn ? 'shock' : d < -zeroTurn ? 'fan' : k === 0 ? 'mach' : 'none';
   }
 
   let mAhead = machInf;

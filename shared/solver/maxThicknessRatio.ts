@@ -23,8 +23,15 @@ export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower:
   const cx = ex / chord;
   const cy = ey / chord;
   const toChordAxes = (c: Pick<SurfaceChain, 'xs' | 'ys'>) => {
-    const xs = c.xs.map((x, i) => (x - x0) * cx + (c.ys[i] - y0) * cy);
-    const ys = c.xs.map((x, i) => -(x - x0) * cy + (c.ys[i] - y0) * cx);
+    const n = c.xs.length;
+    const xs: number[] = new Array(n);
+    const ys: number[] = new Array(n);
+    for (let i = 0; i < n; i++) {
+      const x = (c.xs[i] as number) - x0;
+      const y = (c.ys[i] as number) - y0;
+      xs[i] = x * cx + y * cy;
+      ys[i] = -x * cy + y * cx;
+    }
     return { xs, ys };
   };
   const u = toChordAxes(upper);

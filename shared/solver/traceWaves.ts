@@ -106,7 +106,11 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
       const behind = Array.from(pBehind.subarray(from, to));
       w.pRatioAheadAlong = ahead;
       w.pRatioBehindAlong = behind;
-      if (w.kind === 'shock') w.pRatioAlong = behind.map((p, k) => p / (ahead[k] as number));
+      if (w.kind === 'shock') {
+        w.pRatioAlong = behind.map((p, k) => p / (ahead[k] as number));
+        w.betaDegAlong = Array.from(traced.angleFromFlow.subarray(from, to), (b) => b * DEG_PER_RAD);
+        w.machBehindAlong = Array.from(traced.machBehind.subarray(from, to));
+      }
     }
   }
 
@@ -360,6 +364,7 @@ function addFan(
   const count = FAN_INTERIOR_RAYS + 2;
   const rays: FanRay[] = [];
   const index = waves.length;
+  const degPerRad = DEG_PER_RAD; // read once (an imported binding may be a getter call)
   let mPrev = up.mach;
   let before: FlowState = flow(up);
   for (let j = 0; j < count; j++) {
@@ -381,7 +386,7 @@ function addFan(
     const dir = psi + sigma * Math.asin(1 / m);
     const at: FlowState = { mach: m, pRatio: p, psi };
     // Ray j carries the change from the state at ray j − 1 to its own (the head ray: none).
-    rays.push({ angleDeg: dir * DEG_PER_RAD, end: origin, pRatio: p, mach: m, path: [origin], pRatioAhead: before.pRatio });
+    rays.push({ angleDeg: dir * degPerRad, end: origin, pRatio: p, mach: m, path: [origin], pRatioAhead: before.pRatio });
     seeds.push({
       wave: index,
       ray: j,
@@ -410,6 +415,6 @@ function addFan(
     upstream: { mach: up.mach, pRatio: up.pRatio },
     downstream: { mach: down.mach, pRatio: down.pRatio },
     pRatioBehind: down.pRatio,
-    deflectionDeg: turn * DEG_PER_RAD,
+    deflectionDeg: turn * degPerRad,
   });
 }

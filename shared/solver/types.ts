@@ -194,6 +194,10 @@ export interface Wave {
    *  of `path` (length = path.length − 1). Below 1 only where absorbed expansions outweigh
    *  the shock (an isentropic jump; the line is then no longer a shock). */
   pRatioAlong?: number[];
+  /** Shocks only: the shock angle β from the flow ahead (degrees) and the Mach number behind,
+   *  on each segment of `path`. */
+  betaDegAlong?: number[];
+  machBehindAlong?: number[];
   /** p/p∞ ahead of and behind the line on each segment of `path` (not for fans: see their
    *  rays; a slip line: above and below). */
   pRatioAheadAlong?: number[];

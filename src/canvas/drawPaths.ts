@@ -44,7 +44,19 @@ export interface GradientBar {
   stops: [number, string][];
 }
 
+/** A filled, axis-aligned rectangle in screen pixels (the pressure field's rows). */
+export interface FillRect {
+  x: number;
+  y: number;
+  w: number;
+  h: number;
+  fill: string;
+}
+
 export interface DrawList {
+  /** Filled rectangles, drawn first, one fill call per colour; `rectAlpha` applies to all. */
+  rects?: FillRect[];
+  rectAlpha?: number;
   paths: StrokePath[];
   dots: Dot[];
   texts?: TextItem[];
@@ -74,6 +86,7 @@ export function drawList(ctx: CanvasRenderingContext2D, list: DrawList): void {
   ctx.save();
   ctx.lineCap = 'round';
   ctx.lineJoin = 'round';
+  if (list.rects && list.rects.length > 0) fillRects(ctx, list.rects, list.rectAlpha ?? 1);
   const ordered = list.unordered ? strokeBatches(ctx, list.paths) : list.paths;
   for (const p of ordered) {
     if (p.points.length < 4) continue;
@@ -120,6 +133,24 @@ export function drawList(ctx: CanvasRenderingContext2D, list: DrawList): void {
     ctx.fillText(t.text, t.x, t.y);
   }
   ctx.restore();
+}
+
+/** Fills rectangles grouped by colour: one path and one fill call per colour. */
+function fillRects(ctx: CanvasRenderingContext2D, rects: readonly FillRect[], alpha: number): void {
+  const groups = new Map<string, FillRect[]>();
+  for (const r of rects) {
+    const group = groups.get(r.fill);
+    if (group) group.push(r);
+    else groups.set(r.fill, [r]);
+  }
+  ctx.globalAlpha = alpha;
+  for (const [fill, group] of groups) {
+    ctx.beginPath();
+    for (const r of group) ctx.rect(r.x, r.y, r.w, r.h);
+    ctx.fillStyle = fill;
+    ctx.fill();
+  }
+  ctx.globalAlpha = 1;
 }
 
 /**

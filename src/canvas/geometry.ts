@@ -139,7 +139,8 @@ export function snapPoint(p: XY, settings: SnapSettings, anchor: XY | null): Poi
   return [p[0], p[1]];
 }
 
-export type WaveHit = { wave: Wave; ray: number | null; distance: number };
+/** The wave under the pointer; `segment`: which segment of its path (or of the ray's). */
+export type WaveHit = { wave: Wave; ray: number | null; distance: number; segment: number };
 
 /**
  * The wave whose drawn line passes nearest to p within `tolerance`: shocks, Mach and slip
@@ -153,20 +154,27 @@ export function hitWave(waves: readonly Wave[], p: XY, tolerance: number, visibl
   for (const wave of waves) {
     if (!visible(wave)) continue;
     // Along each drawn path (a result stored before waves had paths: origin → end).
-    const along = (path: readonly XY[] | undefined, end: XY): number => {
+    const along = (path: readonly XY[] | undefined, end: XY): { d: number; segment: number } => {
       const pts = path && path.length >= 2 ? path : [wave.origin, end];
       let d = Infinity;
-      for (let k = 0; k + 1 < pts.length; k++) d = Math.min(d, distanceToSegment(pm, m(pts[k] as XY), m(pts[k + 1] as XY)).distance);
-      return d;
+      let segment = 0;
+      for (let k = 0; k + 1 < pts.length; k++) {
+        const dk = distanceToSegment(pm, m(pts[k] as XY), m(pts[k + 1] as XY)).distance;
+        if (dk < d) {
+          d = dk;
+          segment = k;
+        }
+      }
+      return { d, segment };
     };
     if (wave.kind === 'fan' && wave.rays && wave.rays.length > 0) {
       wave.rays.forEach((ray, k) => {
-        const d = along(ray.path, ray.end);
-        if (d <= tolerance && (!best || d < best.distance)) best = { wave, ray: k, distance: d };
+        const { d, segment } = along(ray.path, ray.end);
+        if (d <= tolerance && (!best || d < best.distance)) best = { wave, ray: k, distance: d, segment };
       });
     } else {
-      const d = along(wave.path, wave.end);
-      if (d <= tolerance && (!best || d < best.distance)) best = { wave, ray: null, distance: d };
+      const { d, segment } = along(wave.path, wave.end);
+      if (d <= tolerance && (!best || d < best.distance)) best = { wave, ray: null, distance: d, segment };
     }
   }
   return best;

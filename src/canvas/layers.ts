@@ -7,6 +7,10 @@ export interface LayerSettings {
   slipLine: boolean;
   surfaceCp: boolean;
   limits: boolean;
+  /** The uniform regions between the waves, filled by pressure. */
+  pressureField: boolean;
+  /** Where waves meet: absorbed rays, merged shocks, crossings. */
+  meetings: boolean;
 }
 
 export const DEFAULT_LAYERS: LayerSettings = {
@@ -17,6 +21,8 @@ export const DEFAULT_LAYERS: LayerSettings = {
   slipLine: true,
   surfaceCp: true,
   limits: true,
+  pressureField: true,
+  meetings: true,
 };
 
 export const LAYER_LABELS: Record<keyof LayerSettings, string> = {
@@ -27,6 +33,8 @@ export const LAYER_LABELS: Record<keyof LayerSettings, string> = {
   slipLine: 'Slip line',
   surfaceCp: 'Surface Cp shading',
   limits: 'Limit markers',
+  pressureField: 'Pressure field',
+  meetings: 'Wave meetings',
 };
 
 /** How the legend and tooltips state pressure. */

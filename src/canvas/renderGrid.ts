@@ -41,10 +41,27 @@ function label(v: number): string {
  * Heads-up items in screen space: the scale bar (bottom left) and the pressure legend (bottom
  * right). Drawn on the canvas so that a PNG export carries them.
  */
-export function renderHud(view: View, size: Size, legend: LegendModel | null, showGrid: boolean): DrawList {
+export function renderHud(view: View, size: Size, legend: LegendModel | null, showGrid: boolean, styles: readonly LineStyleKey[] = []): DrawList {
   const paths: StrokePath[] = [];
   const texts: TextItem[] = [];
   const bars: DrawList['bars'] = [];
+  const dots: DrawList['dots'] = [];
+  if (styles.length > 0) {
+    // The line-style key, above the pressure legend (bottom right): what each kind of line is.
+    const w = 220;
+    const x = size.width - w - 20;
+    const rowH = 16;
+    const bottom = size.height - (legend ? 86 : 14);
+    const top = bottom - rowH * styles.length - 10;
+    paths.push({ points: [x - 10, top, x + w + 10, top, x + w + 10, bottom, x - 10, bottom], colour: '#2a3c44', width: 1, closed: true, fill: 'rgba(17, 28, 34, 0.9)' });
+    styles.forEach((s, i) => {
+      const y = top + 13 + i * rowH;
+      if (s.dot) dots.push({ x: x + 14, y: y - 4, radius: s.dot.radius, fill: s.dot.fill, stroke: s.dot.stroke, strokeWidth: 1 });
+      else if (s.swatch) paths.push({ points: [x, y - 9, x + 28, y - 9, x + 28, y + 1, x, y + 1], colour: s.swatch, width: 0, closed: true, fill: s.swatch, alpha: s.alpha });
+      else paths.push({ points: [x, y - 4, x + 28, y - 4], colour: s.colour, width: s.width, dash: s.dash, alpha: s.alpha });
+      texts.push({ x: x + 38, y, text: s.label, colour: '#d7e3e6', font: CANVAS_FONT });
+    });
+  }
   if (showGrid) {
     const bar = scaleBar(view);
     const x0 = 16;
@@ -74,5 +91,16 @@ export function renderHud(view: View, size: Size, legend: LegendModel | null, sh
       texts.push({ x: tx, y: y + 26, text: tick.label, colour: '#d7e3e6', font: CANVAS_FONT, align: tick.t === 0 ? 'left' : tick.t === 1 ? 'right' : 'center' });
     }
   }
-  return { paths, dots: [], texts, bars };
+  return { paths, dots, texts, bars };
+}
+
+/** One entry of the line-style key: a stroke sample, a dot or a filled swatch, and its words. */
+export interface LineStyleKey {
+  label: string;
+  colour: string;
+  width: number;
+  dash?: number[];
+  alpha?: number;
+  dot?: { radius: number; fill: string; stroke?: string };
+  swatch?: string;
 }

@@ -95,3 +95,24 @@ export function renderWaves(result: SolveResult | null, view: View, layers: Laye
   }
   return { paths, dots: [] };
 }
+
+/** Meeting marks: light specks where a ray ended on a shock, rings where two shocks merged
+ *  and where waves crossed. Radii in screen pixels. */
+export const MEETING_STYLE = {
+  absorbed: { radius: 1.6, fill: 'rgba(233, 241, 242, 0.55)' },
+  merged: { radius: 3.2, fill: '#ffffff', stroke: '#0c1418' },
+  crossed: { radius: 2.6, fill: '#5fd0c4', stroke: '#0c1418' },
+} as const;
+
+/** Where the waves meet (absorbed rays, merged shocks, crossings), on screen only. */
+export function renderMeetings(result: SolveResult | null, view: View, size: { width: number; height: number }, on: boolean): DrawList {
+  const dots: DrawList['dots'] = [];
+  if (!on || !result) return { paths: [], dots };
+  for (const m of result.intersections) {
+    const [x, y] = toScreen(view, m.at);
+    if (x < -4 || y < -4 || x > size.width + 4 || y > size.height + 4) continue;
+    const style = MEETING_STYLE[m.kind ?? 'absorbed'];
+    dots.push({ x, y, radius: style.radius, fill: style.fill, stroke: 'stroke' in style ? style.stroke : undefined, strokeWidth: 1 });
+  }
+  return { paths: [], dots };
+}

@@ -8,7 +8,8 @@ import { renderGrid } from './renderGrid';
 import { renderLimits } from './renderLimits';
 import { renderReadout } from './renderReadout';
 import { renderSection } from './renderSection';
-import { renderWaves, resultDomain } from './renderWaves';
+import { renderField } from './renderField';
+import { renderMeetings, renderWaves, resultDomain } from './renderWaves';
 import { toScreen, type Size, type View } from './view';
 
 /**
@@ -60,10 +61,15 @@ export const EMPTY_SCENE_CONTENT: SceneContent = { points: [], result: null, sol
 export function sceneLists(state: SceneState, content: SceneContent): DrawList[] {
   const { view, size, layers } = state;
   const domain = resultDomain(content.result);
+  // The pressure field's rows go with the grid (a list fills its rects first, so the grid
+  // lines stay visible over the field); the meeting marks with the waves they mark.
+  const field = renderField(content.result, content.solvedPoints ?? content.points, view, size, layers.pressureField ?? true, domain);
+  const meetings = renderMeetings(content.result, view, size, layers.meetings ?? true);
+  const waves = renderWaves(content.result, view, layers, domain);
   const lists: DrawList[] = [
-    renderGrid(view, size, layers.grid),
+    { ...renderGrid(view, size, layers.grid), rects: field.rects, rectAlpha: field.rectAlpha },
     // Thin lines whose crossings nobody can tell apart: stroked in batches (drawPaths.ts).
-    { ...renderWaves(content.result, view, layers, domain), unordered: true },
+    { ...waves, dots: meetings.dots, unordered: true },
     renderSection(content.points, content.result, view, layers, domain, {
       selection: state.selection,
       invalid: content.invalid,

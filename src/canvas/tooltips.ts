@@ -27,8 +27,11 @@ function pressure(p: number, mode: LegendMode, result: SolveResult): string {
   return `p/p∞ ${formatNumber(p, 4)}`;
 }
 
-/** Hover text for a wave (and, for a fan, the ray under the pointer). */
-export function waveTooltip(wave: Wave, ray: number | null, result: SolveResult, mode: LegendMode): Tooltip {
+/**
+ * Hover text for a wave (and, for a fan, the ray under the pointer). A shock that bends (it
+ * absorbed rays or merged) also says β, M₂ and p₂/p₁ on the `segment` under the pointer.
+ */
+export function waveTooltip(wave: Wave, ray: number | null, result: SolveResult, mode: LegendMode, segment = 0): Tooltip {
   const lines: string[] = [];
   const fanRay = wave.kind === 'fan' && ray !== null && wave.rays ? wave.rays[ray] : null;
   const angle = fanRay ? fanRay.angleDeg : wave.angleDeg;
@@ -43,6 +46,18 @@ export function waveTooltip(wave: Wave, ray: number | null, result: SolveResult,
     lines.push(`M ${formatNumber(wave.upstream.mach, 4)} → ${formatNumber(wave.downstream.mach, 4)}`);
     lines.push(`${pressure(wave.upstream.pRatio, mode, result)} → ${pressure(wave.downstream.pRatio, mode, result).replace(/^(Cp|p\/p∞) /, '')}`);
     if (wave.kind === 'shock') lines.push(`pressure ratio across ${formatNumber(wave.downstream.pRatio / wave.upstream.pRatio, 4)}`);
+    const along = wave.pRatioAlong;
+    if (wave.kind === 'shock' && along && along.length > 1) {
+      const k = Math.min(Math.max(0, segment), along.length - 1);
+      const beta = wave.betaDegAlong?.[k];
+      const m2 = wave.machBehindAlong?.[k];
+      lines.push(
+        `here (part ${k + 1} of ${along.length}): ` +
+          [beta !== undefined ? `β ${formatNumber(beta, 4)}°` : null, m2 !== undefined ? `M₂ ${formatNumber(m2, 4)}` : null, `p₂/p₁ ${formatNumber(along[k] as number, 4)}`]
+            .filter((x) => x !== null)
+            .join(', '),
+      );
+    }
     if (fanRay) lines.push(`this ray: M ${formatNumber(fanRay.mach, 4)}, ${pressure(fanRay.pRatio, mode, result)}`);
   }
   const rayNote = fanRay && wave.rays ? ` (ray ${(ray ?? 0) + 1} of ${wave.rays.length})` : '';

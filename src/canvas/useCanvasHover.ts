@@ -70,7 +70,7 @@ export function useCanvasHover(source: () => HoverSource, canvas: CanvasView, on
     }
     if (result && !s.invalid) {
       const w = hitWave(result.waves, world, tol, (wave) => waveVisible(wave, s.layers), metric);
-      if (w) return setHover(null, null, waveTooltip(w.wave, w.ray, result, s.legendMode), x, y, w.wave.id);
+      if (w) return setHover(null, null, waveTooltip(w.wave, w.ray, result, s.legendMode, w.segment), x, y, w.wave.id);
     }
     setHover(null, null, null, x, y);
   }

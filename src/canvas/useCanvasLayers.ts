@@ -13,7 +13,8 @@ import { renderHud } from './renderGrid';
 import { renderLimits } from './renderLimits';
 import { renderPresence, type PresenceMark } from './renderPresence';
 import { renderReview, type CompareOutlines } from './renderReview';
-import { resultDomain } from './renderWaves';
+import { MEETING_STYLE, SLIP_DASH_PX, WAVE_WIDTH_PX, resultDomain } from './renderWaves';
+import type { LineStyleKey } from './renderGrid';
 import { paintScene, type SceneContent, type SceneState } from './scenePainter';
 import type { PinMarker } from './pins';
 import type { ToolId } from './tools';
@@ -171,7 +172,7 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
   });
   const hudList = computed(() => {
     const l = source().layers;
-    return renderHud(view.value, size.value, l.shocks || l.fans || l.surfaceCp ? legend.value : null, l.grid);
+    return renderHud(view.value, size.value, l.shocks || l.fans || l.surfaceCp || l.pressureField ? legend.value : null, l.grid, source().result ? lineStyleKey(l) : []);
   });
   const reviewList = computed(() => renderReview(source().pins, source().compare, view.value));
   // The result matters only for a highlighted wave: otherwise a new answer (every move of a
@@ -196,6 +197,23 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
 }
 
 const NO_POINTS: readonly Point[] = [];
+
+const KEY_COLOUR = '#d7e3e6';
+
+/** The line-style key for the layers shown (colours there are the pressure scale's). */
+export function lineStyleKey(l: LayerSettings): LineStyleKey[] {
+  const out: LineStyleKey[] = [];
+  if (l.shocks) out.push({ label: 'shock (bends where it absorbs a ray)', colour: KEY_COLOUR, width: WAVE_WIDTH_PX.shock });
+  if (l.fans) out.push({ label: 'expansion fan ray', colour: KEY_COLOUR, width: WAVE_WIDTH_PX.fan });
+  if (l.machLines) out.push({ label: 'Mach line', colour: KEY_COLOUR, width: WAVE_WIDTH_PX.mach, alpha: 0.85 });
+  if (l.slipLine) out.push({ label: 'slip line', colour: KEY_COLOUR, width: WAVE_WIDTH_PX.slip, dash: SLIP_DASH_PX });
+  if (l.meetings) {
+    out.push({ label: 'ray absorbed by a shock', colour: KEY_COLOUR, width: 0, dot: { ...MEETING_STYLE.absorbed } });
+    out.push({ label: 'shocks merged / waves crossed', colour: KEY_COLOUR, width: 0, dot: { ...MEETING_STYLE.merged } });
+  }
+  if (l.pressureField) out.push({ label: 'region filled by its p/p∞', colour: KEY_COLOUR, width: 0, swatch: '#6fa8b8', alpha: 0.5 });
+  return out;
+}
 
 /** A plain copy for postMessage (reactive proxies cannot be cloned). */
 function toRawState(state: SceneState): SceneState {

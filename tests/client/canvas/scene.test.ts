@@ -34,7 +34,7 @@ const state: SceneState = {
 function recorder() {
   const calls: { name: string; args: unknown[]; lineWidth?: number }[] = [];
   const ctx: Record<string, unknown> = { lineWidth: 1 };
-  for (const name of ['save', 'restore', 'beginPath', 'moveTo', 'lineTo', 'closePath', 'fill', 'stroke', 'setLineDash', 'arc', 'fillRect', 'fillText', 'createLinearGradient']) {
+  for (const name of ['save', 'restore', 'beginPath', 'moveTo', 'lineTo', 'closePath', 'fill', 'stroke', 'setLineDash', 'arc', 'fillRect', 'rect', 'fillText', 'createLinearGradient']) {
     ctx[name] = (...args: unknown[]) => {
       calls.push({ name, args, lineWidth: ctx.lineWidth as number });
       if (name === 'createLinearGradient') return { addColorStop: () => {} };

@@ -153,6 +153,11 @@ describe('wave interactions and the far field', () => {
         const theta = sigma * (psi - alphaDeg * DEG);
         // θ-β-M relation (NACA Report 1135), independently of the solver's root.
         expectClose(thetaFromBeta(mach, beta, gamma), theta, 1e-9);
+        // β and M₂ as reported for the segment: M₂ = Mn2 / sin(β − θ), with the normal-shock
+        // Mn2 (NACA Report 1135).
+        expectClose(shock.betaDegAlong![k] as number, beta / DEG, 1e-9);
+        const mn2 = Math.sqrt((mn * mn * (gamma - 1) + 2) / (2 * gamma * mn * mn - (gamma - 1)));
+        expectClose(shock.machBehindAlong![k] as number, mn2 / Math.sin(beta - theta), 1e-9);
         checked.hit();
       }
     }
@@ -267,6 +272,7 @@ describe('wave interactions and the far field', () => {
       }),
       { numRuns: 100 },
     );
-    checked.expectAtLeast(90);
+    // About one case in ten is a thick lens at low Mach whose nose shock detaches: no waves.
+    checked.expectAtLeast(75);
   }, 120_000); // generous: this machine is shared, and the check is O(pieces²) per run
 });

@@ -1,0 +1,97 @@
+/**
+ * The pressure field and the pressure signature (shared/solver/pressureField.ts,
+ * pressureSignature.ts) and the signature CSV. Sections are our own biconvex arcs.
+ */
+import { describe, expect, it } from 'vitest';
+import { expectClose } from '../../helpers/expectClose';
+import { csvText, signatureCsv } from '../../../shared/model/sketchExport';
+import { RESULTS_CAUTION } from '../../../shared/model/caution';
+import { pressureField } from '../../../shared/solver/pressureField';
+import { pressureSignature } from '../../../shared/solver/pressureSignature';
+import { solveSection } from '../../../shared/solver/solveSection';
+import type { Point, Wave } from '../../../shared/solver/types';
+import { input, type Pts } from './sections';
+
+function biconvex(m: number, t: number): Pts {
+  const upper: Pts = [];
+  const lower: Pts = [];
+  for (let i = 0; i <= m; i++) {
+    const x = i / m;
+    const y = 2 * t * x * (1 - x);
+    upper.push([x, y]);
+    lower.push([x, -y]);
+  }
+  return [...upper, ...lower.slice(1, -1).reverse()];
+}
+
+/** p/p∞ behind a shock where its path crosses height y. */
+function shockPressureAt(w: Wave, y: number): number {
+  for (let k = 0; k + 1 < w.path.length; k++) {
+    const a = w.path[k] as Point;
+    const b = w.path[k + 1] as Point;
+    if ((a[1] - y) * (b[1] - y) <= 0) return w.pRatioBehindAlong![k] as number;
+  }
+  throw new Error(`${w.id} does not reach y = ${y}`);
+}
+
+describe('pressure field and signature', () => {
+  const pts = biconvex(20, 0.1);
+  const result = solveSection(input(pts, 2, 0, { fieldExtentChords: 4 }));
+
+  it('pressureField: along y = −0.5 the free stream, a jump at the nose shock to its pressure there, an expansion, and back near 1 past the tail shock', () => {
+    const along = pressureField(result.waves, pts);
+    const row = along(-0.5, -1, 5);
+    expect(row.x).toHaveLength(row.p.length + 1);
+    expect(row.p[0]).toBe(1);
+    const nose = result.waves.find((w) => w.id === 'wave_lower_0')!;
+    expectClose(row.p[1] as number, shockPressureAt(nose, -0.5), 1e-12);
+    const inner = row.p.slice(1, -1) as number[];
+    // Behind the nose shock the rays expand the flow below the free stream before the tail shock.
+    expect(Math.min(...inner)).toBeLessThan(0.8);
+    expectClose(row.p[row.p.length - 1] as number, 1, 0.02);
+    for (let k = 0; k + 1 < row.x.length; k++) expect(row.x[k + 1] as number).toBeGreaterThan(row.x[k] as number);
+  });
+
+  it('pressureField: mirror symmetry at α = 0 (y and −y read the same), null inside the section, the free stream with no waves', () => {
+    const along = pressureField(result.waves, pts);
+    expect(along(0.7, -1, 5)).toEqual(along(-0.7, -1, 5));
+    const through = along(0, -1, 5);
+    const inside = through.p.findIndex((p) => p === null);
+    expect(inside).toBeGreaterThan(0);
+    expectClose(through.x[inside] as number, 0, 1e-12);
+    expectClose(through.x[inside + 1] as number, 1, 1e-12);
+    expect(pressureField([], pts)(3, -1, 5)).toEqual({ x: [-1, 5], p: [1] });
+  });
+
+  it('pressureSignature: the peak falls with distance like the far-field nose shock, and 2 chords below equals the field read directly', () => {
+    const near = pressureSignature(result, 'below', 2)!;
+    const far = pressureSignature(result, 'below', 8)!;
+    const above = pressureSignature(result, 'above', 2)!;
+    expect(near.max - 1).toBeGreaterThan(far.max - 1);
+    // Weak-shock theory (G. B. Whitham, 1974): (Δp)² · distance levels off far away.
+    expect((far.max - 1) ** 2 * 8).toBeGreaterThan(0.5 * (near.max - 1) ** 2 * 2);
+    expectClose(above.max, near.max, 1e-12);
+    const direct = solveSection(input(pts, 2, 0, { fieldExtentChords: 20 }));
+    const nose = direct.waves.find((w) => w.id === 'wave_lower_0')!;
+    // The first step off the free stream is the nose shock's pressure where it crosses the line
+    // (the next steps, behind rays that met the shock further in, may sit a little higher: the
+    // weak reflected wave the interactions neglect).
+    const jump = near.p.find((p) => p !== 1) as number;
+    expectClose(jump, shockPressureAt(nose, near.y), 1e-9);
+    expectClose(near.max, jump, 0.01);
+    expect(near.y).toBeCloseTo(-0.05 - 2, 12);
+  });
+
+  it('signatureCsv quotes the title (quotes doubled, a leading = neutralised) and carries the caution', () => {
+    expect(csvText('HD-7 "Tern", root')).toBe('"HD-7 ""Tern"", root"');
+    expect(csvText('=HYPERLINK("x")')).toBe('"\'=HYPERLINK(""x"")"');
+    const sig = pressureSignature(result, 'below', 2)!;
+    const text = signatureCsv('=cmd|"calc"', result, sig);
+    const lines = text.split('\n');
+    expect(lines[0]).toBe('sketch,"\'=cmd|""calc"""');
+    expect(text).toContain(RESULTS_CAUTION.replace(/"/g, '""'));
+    const header = lines.indexOf('x_over_c_from_nose,p_over_pinf_ahead,p_over_pinf_behind');
+    expect(header).toBeGreaterThan(0);
+    expect(lines.length - header - 2).toBe(sig.xOverC.length);
+  });
+});

@@ -61,15 +61,15 @@ export const EMPTY_SCENE_CONTENT: SceneContent = { points: [], result: null, sol
 export function sceneLists(state: SceneState, content: SceneContent): DrawList[] {
   const { view, size, layers } = state;
   const domain = resultDomain(content.result);
-  // The pressure field's rows go with the grid (a list fills its rects first, so the grid
-  // lines stay visible over the field); the meeting marks with the waves they mark.
+  // The pressure field's rows and the meeting marks go with the waves: a list fills its rects
+  // first (translucent, over the grid's background and lines), then the lines, then the dots.
   const field = renderField(content.result, content.solvedPoints ?? content.points, view, size, layers.pressureField ?? true, domain);
   const meetings = renderMeetings(content.result, view, size, layers.meetings ?? true);
   const waves = renderWaves(content.result, view, layers, domain);
   const lists: DrawList[] = [
-    { ...renderGrid(view, size, layers.grid), rects: field.rects, rectAlpha: field.rectAlpha },
+    renderGrid(view, size, layers.grid),
     // Thin lines whose crossings nobody can tell apart: stroked in batches (drawPaths.ts).
-    { ...waves, dots: meetings.dots, unordered: true },
+    { ...waves, rects: field.rects, rectAlpha: field.rectAlpha, dots: meetings.dots, unordered: true },
     renderSection(content.points, content.result, view, layers, domain, {
       selection: state.selection,
       invalid: content.invalid,

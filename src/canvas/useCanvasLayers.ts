@@ -203,7 +203,7 @@ const KEY_COLOUR = '#d7e3e6';
 /** The line-style key for the layers shown (colours there are the pressure scale's). */
 export function lineStyleKey(l: LayerSettings): LineStyleKey[] {
   const out: LineStyleKey[] = [];
-  if (l.shocks) out.push({ label: 'shock (bends where it absorbs a ray)', colour: KEY_COLOUR, width: WAVE_WIDTH_PX.shock });
+  if (l.shocks) out.push({ label: 'shock', colour: KEY_COLOUR, width: WAVE_WIDTH_PX.shock });
   if (l.fans) out.push({ label: 'expansion fan ray', colour: KEY_COLOUR, width: WAVE_WIDTH_PX.fan });
   if (l.machLines) out.push({ label: 'Mach line', colour: KEY_COLOUR, width: WAVE_WIDTH_PX.mach, alpha: 0.85 });
   if (l.slipLine) out.push({ label: 'slip line', colour: KEY_COLOUR, width: WAVE_WIDTH_PX.slip, dash: SLIP_DASH_PX });

@@ -162,7 +162,7 @@ async function main() {
         const stats = await dragBench(page, server.url, vertices);
         const line = (name: string, v: number[]) =>
           `  ${name.padEnd(34)} p50 ${quantile(v, 0.5).toFixed(1).padStart(5)} ms   p90 ${quantile(v, 0.9).toFixed(1).padStart(5)} ms   p95 ${quantile(v, 0.95).toFixed(1).padStart(5)} ms   max ${(v.at(-1) ?? Number.NaN).toFixed(1).padStart(5)} ms`;
-        console.log(`\nDrag of one vertex of a ${vertices}-vertex section (faceted biconvex, M 2.5, α 3°), ${MOVES} pointer moves ~${Math.round(1000 / MOVE_INTERVAL_MS)}/s, ${stats.waveCount} waves drawn`);
+        console.log(`\nDrag of one vertex of a ${vertices}-vertex section (faceted biconvex, M 2.5, α 3°), ${MOVES} pointer moves ~${Math.round(1000 / MOVE_INTERVAL_MS)}/s, ${stats.waveCount} waves drawn, pressure field and meeting marks on (the default layers)`);
         console.log(`  moves paired with a repaint: ${stats.fromEvent.length} of ${MOVES}`);
         console.log(line('pointer event → wave map drawn', stats.fromEvent));
         console.log(line('our handler → wave map drawn', stats.fromHandler));

@@ -308,7 +308,7 @@ describe('solveSection properties (fast-check)', () => {
     checked.expectAtLeast(300);
   }, 60_000);
 
-  it('[S7] for a section symmetric about its chord line and fore and aft, second-order cl and cd equal the linear ones; only cm and the pressures improve', () => {
+  it('[S7] for a section symmetric about its chord line and fore and aft, second-order cl and cd equal the linear ones', () => {
     // Busemann's θ² terms: upper θ = φ − α, lower θ = α + φ (mirrored facets), so in the normal
     // force they give C2·Σ(θl² − θu²)·dx = 4αC2·Σφ·dx, zero when the slopes are antisymmetric
     // fore and aft; in the axial force C2·Σ(θu² + θl²)·dy, zero for the same reason.
@@ -333,19 +333,56 @@ describe('solveSection properties (fast-check)', () => {
           const sec = r.theories!.secondOrder;
           expectClose(sec.cl, lin.cl, 1e-12 * (1 + Math.abs(lin.cl)));
           expectClose(sec.cd, lin.cd, 1e-12 * (1 + Math.abs(lin.cd)));
-          if (Math.abs(alphaDeg) > 0.5) {
-            // Not strict: at the generator's edge (|α| 4°, 5 % thick) the two errors can cross,
-            // and there they are equal to rounding (seed 866028690: both 0.00488183169934071,
-            // 5e-16 apart). cm is a sum of some 20 facet terms of order |cm| ~ 1e-2, each
-            // rounded to ~1e-18, so a difference below 1e-14 is a tie, not a failure.
-            const tie = 1e-14;
-            expect(Math.abs(sec.cm - r.coefficients!.cm)).toBeLessThanOrEqual(Math.abs(lin.cm - r.coefficients!.cm) + tie);
-          }
         },
       ),
       { numRuns: 200 },
     );
     checked.expectAtLeast(180);
+  }, 60_000);
+
+  it('[S7] for such a section with M∞·θmax ≤ 0.4 and |α| > 0.5°, second-order cm is closer to exact than linear', () => {
+    // cm improves where Busemann's expansion is a good one: it is a series in θ whose second
+    // coefficient grows like M (C2/C1 → (γ+1)M/4), i.e. in the hypersonic similarity parameter
+    // K = M∞·θmax (common practice). With K not small the third-order terms it drops are as
+    // large as the one it adds, and cm, which cancels between the surfaces, can come out closer
+    // in linear theory: seed -1970200818 found such a section (5 % thick, M 3.8) when this was
+    // checked over the whole range above; sampling 25 000 of those sections found none below
+    // K 0.49. So the sections here are thinner and slower, and K is checked.
+    const checked = reached('[S7] symmetric sections, cm compared (K = M∞·θmax ≤ 0.4)');
+    fc.assert(
+      fc.property(
+        fc.uniqueArray(fc.integer({ min: 1, max: 49 }), { minLength: 1, maxLength: 8 }),
+        fc.array(fc.double({ min: 0.8, max: 1, noNaN: true }), { minLength: 8, maxLength: 8 }),
+        fc.double({ min: 0.005, max: 0.02, noNaN: true }),
+        fc.double({ min: 1.5, max: 3.5, noNaN: true }),
+        fc.double({ min: 0.5, max: 3, noNaN: true }),
+        fc.boolean(),
+        (xs, factors, thickness, mach, alphaSize, negative) => {
+          const alphaDeg = negative ? -alphaSize : alphaSize;
+          const front = [...xs].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, thickness * factors[k] * 4 * (i / 100) * (1 - i / 100)]);
+          const mid: [number, number] = [0.5, thickness];
+          const back = [...front].reverse().map(([x, y]): [number, number] => [1 - x, y]);
+          const upper = [...front, mid, ...back];
+          const pts: Pts = [[0, 0], ...upper, [1, 0], ...upper.map(([x, y]): [number, number] => [x, -y]).reverse()];
+          const r = solveSection(input(pts, mach, alphaDeg, { waves: false }));
+          if (r.status !== 'ok') return;
+          const thetaMax = Math.max(...[...r.surfaces.upper, ...r.surfaces.lower].map((f) => Math.abs(f.thetaDeg) * (Math.PI / 180)));
+          if (!(Math.abs(alphaDeg) > 0.5 && mach * thetaMax <= 0.4)) return;
+          checked.hit();
+          const lin = r.theories!.linear;
+          const sec = r.theories!.secondOrder;
+          // Not strict: where the two errors meet they are equal to within the exact solution's
+          // own accuracy (seed 866028690: both 0.00488183169934071, 5e-16 apart). The exact
+          // march solves its shocks and fans to 1e-14 rad (SHOCK_ROOT_TOLERANCE_RAD,
+          // PRANDTL_MEYER_TOLERANCE_RAD) on some 20 facets, so its cm is known to about 1e-13:
+          // a difference below 1e-12 is a tie, not a failure.
+          const tie = 1e-12;
+          expect(Math.abs(sec.cm - r.coefficients!.cm)).toBeLessThanOrEqual(Math.abs(lin.cm - r.coefficients!.cm) + tie);
+        },
+      ),
+      { numRuns: 300 },
+    );
+    checked.expectAtLeast(150);
   }, 60_000);
 });
 

@@ -91,10 +91,6 @@ const SHARED_FORBIDDEN_GLOBALS = [
 // file; each lists the rule groups that still hold for it. Remove the entry in the commit that
 // makes the file comply (lint then keeps it that way). Do not add new entries.
 const TEMPORARY_EXCEPTIONS = [
-  // Being moved to a repository, issue #16 (walkthrough, sketch and user queries).
-  { files: ['server/realtime/index.ts'], rules: { ...restrict(SERVER), 'no-useless-assignment': 'off' } },
-  // Being moved to a repository, issue #16 (the edit log and its transaction).
-  { files: ['server/realtime/editLog.ts'], rules: { ...restrict(SERVER), 'no-restricted-syntax': 'off' } },
   // Being moved to a repository, issue #16 (review status queries).
   { files: ['server/api/review/service.ts'], rules: restrict(SERVER, SERVICES) },
 ];

@@ -143,7 +143,7 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
     devPages: env.NODE_ENV !== 'production',
     mailboxOperators: new Set(env.NODE_ENV === 'production' ? [] : env.MAILBOX_OPERATOR),
     events: new EventEmitter(),
-    edits: createEditQueue(database.db, log),
+    edits: createEditQueue(database.db, { log }),
     heavy: createHeavyWork({ perUser: sizes.heavyPerUser, total: sizes.heavyTotal }),
   };
   const HOUR = 60 * 60 * 1000;

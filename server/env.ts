@@ -65,11 +65,19 @@ const envSchema = z.object({
     .enum(['true', 'false', '0', '1'])
     .optional()
     .transform((v) => (v === undefined ? undefined : v === 'true' || v === '1')),
+  /**
+   * Tests only: the process kills itself (SIGKILL) right after committing an edit whose op id
+   * starts with this, before acking or broadcasting it — the crash the realtime layer must heal.
+   */
+  FAULT_DIE_AFTER_COMMIT: z.string().min(1).optional(),
 });
 
 export type Env = z.infer<typeof envSchema>;
 
 const checkedEnvSchema = envSchema.superRefine((env, ctx) => {
+  if (env.NODE_ENV !== 'test' && env.FAULT_DIE_AFTER_COMMIT !== undefined) {
+    ctx.addIssue({ code: 'custom', path: ['FAULT_DIE_AFTER_COMMIT'], message: 'is for tests only (NODE_ENV=test)' });
+  }
   if (env.NODE_ENV === 'production' && env.MAILBOX_OPERATOR.length > 0) {
     ctx.addIssue({ code: 'custom', path: ['MAILBOX_OPERATOR'], message: 'is for development only; production has no mailbox to read' });
   }

@@ -25,7 +25,11 @@ export async function startServer(
   let listeningUrl = '';
   const built = createApp({ env, database, log, limits: options.limits, mailer: options.mailer, publicUrl: () => listeningUrl });
   const server = createServer(built.app);
-  const io = attachRealtime(server, built.session, built.passportMiddleware, built.context, { adapterPool: database.listenerPool, trustProxy: built.app.get('trust proxy fn') });
+  const io = attachRealtime(server, built.session, built.passportMiddleware, built.context, {
+    adapterPool: database.listenerPool,
+    trustProxy: built.app.get('trust proxy fn'),
+    dieAfterCommit: env.FAULT_DIE_AFTER_COMMIT,
+  });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(env.PORT, env.HOST, () => resolve());

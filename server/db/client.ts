@@ -28,6 +28,17 @@ export const DEFAULT_POOL_MAX = 10;
 export const CONNECT_TIMEOUT_MS = 5_000;
 
 /**
+ * A session that sits in an open transaction this long is ended by PostgreSQL, which releases
+ * its locks. Our transactions do milliseconds of work between statements, so only a hung
+ * process (stopped, swapping, stuck in a loop) ever reaches it: an instance frozen while it
+ * holds a sketch's row lock stops blocking the other instances' editors after this long.
+ */
+export const IDLE_IN_TRANSACTION_TIMEOUT_MS = 5_000;
+
+/** No single statement runs longer than this (a runaway query ends instead of holding locks). */
+export const STATEMENT_TIMEOUT_MS = 60_000;
+
+/**
  * Opens a connection pool and the Drizzle handle over it. Repositories receive `db`.
  *
  * The database may go away at any time (restart, failover, pg_terminate_backend): that is an
@@ -38,7 +49,17 @@ export const CONNECT_TIMEOUT_MS = 5_000;
  */
 export function openDatabase(url: string, options: { max?: number; log?: (line: string) => void } = {}): Database {
   const log = options.log ?? ((l: string) => console.error(l));
-  const pool = new pg.Pool({ connectionString: url, max: options.max ?? DEFAULT_POOL_MAX, connectionTimeoutMillis: CONNECT_TIMEOUT_MS });
+  const pool = new pg.Pool({
+    connectionString: url,
+    max: options.max ?? DEFAULT_POOL_MAX,
+    connectionTimeoutMillis: CONNECT_TIMEOUT_MS,
+    // Session settings sent at connect: they bind every connection of the pool, also the one a
+    // frozen instance holds. Lock waits are bounded per transaction where they matter
+    // (the edit log's row lock); a global lock_timeout would also cut short the migrator's
+    // advisory lock, which legitimately waits for another instance's migrations.
+    idle_in_transaction_session_timeout: IDLE_IN_TRANSACTION_TIMEOUT_MS,
+    statement_timeout: STATEMENT_TIMEOUT_MS,
+  });
   pool.on('connect', (client) => {
     client.on('error', (err) => log(`[db] connection lost: ${errorForLog(err, false)}`));
   });

@@ -81,6 +81,12 @@ export const sketches = pgTable(
     lastSolveStatus: text('last_solve_status'),
     /** The stored (server-computed) result of the last solve. */
     lastResult: jsonb('last_result'),
+    /**
+     * The revision `last_result` and `last_solve_status` were computed on (null: unknown, before
+     * results were tagged). The solve runs after an edit commits, so it may trail `revision`
+     * briefly; a stored result is never replaced by an older one.
+     */
+    resultRevision: integer('result_revision'),
     reviewStatus: reviewStatusEnum('review_status').notNull().default('draft'),
     ...timestamps,
   },

@@ -125,7 +125,7 @@ export async function seedDemoOnce(db: Db): Promise<'seeded' | 'already'> {
     for (const [i, s] of DEMO_SKETCHES.entries()) {
       const author = ids[i % 2]; // the owner and the editor drew them
       const solved = solveDocument(s.document);
-      await tx.insert(sketches).values({ id: newId('sketch'), teamId, title: s.title, document: s.document, createdBy: author, updatedBy: author, lastSolveStatus: solved.status, lastResult: solved.result });
+      await tx.insert(sketches).values({ id: newId('sketch'), teamId, title: s.title, document: s.document, createdBy: author, updatedBy: author, lastSolveStatus: solved.status, lastResult: solved.result, resultRevision: 0 });
     }
     await tx.insert(appMeta).values({ key: 'demo_seeded_at', value: new Date().toISOString() });
   });

@@ -2,11 +2,9 @@ import type { Server as HttpServer, IncomingMessage, ServerResponse } from 'node
 import { Server, type Socket } from 'socket.io';
 import { createAdapter } from '@socket.io/postgres-adapter';
 import type { RequestHandler } from 'express';
-import type pg from 'pg';
-import { eq } from 'drizzle-orm';
+import type { Database } from '../db/client.ts';
 import type { SessionUser } from '../auth/passport.ts';
 import type { AppContext } from '../context.ts';
-import { walkthroughs, users } from '../db/schema.ts';
 import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
 import { normalizeDocument } from '../../shared/model/sketch.ts';
 import {
@@ -16,6 +14,7 @@ import {
   PING_TIMEOUT_MS,
   PEOPLE_REFRESH_MS,
   PROTOCOL_VERSION,
+  REVISION_HEARTBEAT_MS,
   type ClientMessage,
   type ClientToServerEvents,
   type Person,
@@ -23,9 +22,8 @@ import {
   type ServerToClientEvents,
   type WalkthroughState,
 } from '../../shared/protocol/messages.ts';
-import { editsSince } from './editLog.ts';
 import { ACCESS_RECHECK_MS, ACCESS_SWEEP_MS, checkSockets, judge, matches, type AccessFilter, type GuardedSocket, type RoomAccess, type Verdict } from './access.ts';
-import { checkAccess, findSketchState, roleInSketchTeam } from './repository.ts';
+import { checkAccess, editsSince, findSketchState, findWalkthrough, roleInSketchTeam, saveWalkthroughLead, sketchRevisions } from './repository.ts';
 import { originMatches, requestHost, type TrustFn } from '../http/forwarded.ts';
 
 interface SocketData {
@@ -81,9 +79,11 @@ function refuse(res: ServerResponse, status: number, code: string, message: stri
 
 export interface RealtimeOptions {
   /** Pool for the cross-instance adapter; without it rooms live in this process only. */
-  adapterPool?: pg.Pool;
+  adapterPool?: Database['pool'];
   /** The app's compiled TRUST_PROXY rule (`app.get('trust proxy fn')`); default: trust no proxy. */
   trustProxy?: TrustFn;
+  /** Tests only (FAULT_DIE_AFTER_COMMIT): die right after committing an edit whose op id starts with this. */
+  dieAfterCommit?: string;
 }
 
 /**
@@ -128,38 +128,64 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     target.emit('message', msg);
   };
 
+  /** Everyone in the sketch on every instance (waits for each instance the adapter knows). */
   async function peopleIn(sketchId: string): Promise<Person[]> {
+    const local = localPeople(sketchId);
     const sockets = await io.in(room(sketchId)).fetchSockets();
-    return sockets.map((s) => s.data.people?.[sketchId]).filter((p): p is Person => Boolean(p));
+    const people = sockets.map((s) => s.data.people?.[sketchId]).filter((p): p is Person => Boolean(p));
+    const here = new Set(local.map((p) => p.connectionId));
+    remotePeople.set(sketchId, people.filter((p) => !here.has(p.connectionId)));
+    return people;
   }
 
-  async function broadcastPeople(sketchId: string): Promise<void> {
-    try {
-      send(io.to(room(sketchId)), { type: 'people', sketchId, people: await peopleIn(sketchId) });
-    } catch (err) {
-      ctx.log(`[realtime] people list for ${sketchId}: ${(err as Error).message}`);
+  /** The people on this instance, at once. */
+  function localPeople(sketchId: string): Person[] {
+    const ids = io.of('/').adapter.rooms.get(room(sketchId)) ?? new Set<string>();
+    return [...ids].map((id) => io.of('/').sockets.get(id)?.data.people?.[sketchId]).filter((p): p is Person => Boolean(p));
+  }
+
+  /**
+   * The people on other instances as last heard: a join answers with these and this instance's
+   * own at once, instead of waiting for every instance (a dead one holds the answer until the
+   * adapter gives up on it, seconds later); the full list follows as soon as it is in.
+   */
+  const remotePeople = new Map<string, Person[]>();
+  const quickPeople = (sketchId: string): Person[] => [...(remotePeople.get(sketchId) ?? []), ...localPeople(sketchId)];
+
+  /** Sketches whose people list is being gathered, and whether it must be gathered again after. */
+  const gathering = new Map<string, boolean>();
+
+  /**
+   * Sends the sketch's people list to everyone in it, in the background: callers never wait for
+   * the other instances. Calls while one is gathering are folded into one more round after it.
+   */
+  function broadcastPeople(sketchId: string): void {
+    if (gathering.has(sketchId)) {
+      gathering.set(sketchId, true);
+      return;
     }
+    gathering.set(sketchId, false);
+    void (async () => {
+      try {
+        do {
+          gathering.set(sketchId, false);
+          try {
+            send(io.to(room(sketchId)), { type: 'people', sketchId, people: await peopleIn(sketchId) });
+          } catch (err) {
+            ctx.log(`[realtime] people list for ${sketchId}: ${(err as Error).message}`);
+          }
+        } while (gathering.get(sketchId));
+      } finally {
+        gathering.delete(sketchId);
+        if (!io.of('/').adapter.rooms.has(room(sketchId))) remotePeople.delete(sketchId);
+      }
+    })();
   }
 
-  async function walkthroughState(sketchId: string): Promise<WalkthroughState> {
-    const rows = await ctx.db
-      .select({ leadUserId: walkthroughs.leadUserId, leadName: users.name, startedAt: walkthroughs.startedAt })
-      .from(walkthroughs)
-      .innerJoin(users, eq(users.id, walkthroughs.leadUserId))
-      .where(eq(walkthroughs.sketchId, sketchId));
-    const row = rows[0];
-    return row ? { leadUserId: row.leadUserId, leadName: row.leadName, startedAt: row.startedAt.toISOString() } : null;
-  }
+  const walkthroughState = (sketchId: string): Promise<WalkthroughState> => findWalkthrough(ctx.db, sketchId);
 
   async function setWalkthrough(sketchId: string, leadUserId: string | null): Promise<void> {
-    if (leadUserId) {
-      await ctx.db
-        .insert(walkthroughs)
-        .values({ sketchId, leadUserId })
-        .onConflictDoUpdate({ target: walkthroughs.sketchId, set: { leadUserId, startedAt: new Date() } });
-    } else {
-      await ctx.db.delete(walkthroughs).where(eq(walkthroughs.sketchId, sketchId));
-    }
+    await saveWalkthroughLead(ctx.db, sketchId, leadUserId);
     send(io.to(room(sketchId)), { type: 'walkthrough', sketchId, state: await walkthroughState(sketchId) });
   }
 
@@ -201,8 +227,8 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     delete socket.data.people[sketchId];
     await socket.leave(room(sketchId));
     send(socket, { type: 'access', sketchId, role: null, reason });
-    await broadcastPeople(sketchId);
-    await endWalkthroughIfLeadGone(sketchId, socket.data.user.id);
+    broadcastPeople(sketchId);
+    void endWalkthroughIfLeadGone(sketchId, socket.data.user.id).catch((err) => ctx.log(`[realtime] walkthrough end: ${(err as Error).message}`));
   }
 
   /** Applies a verdict for one joined sketch; returns the role the socket may use, or null. */
@@ -223,7 +249,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
       const person = socket.data.people[sketchId];
       if (person) socket.data.people[sketchId] = { ...person, role: verdict.role };
       send(socket, { type: 'access', sketchId, role: verdict.role, reason: `Your role in this team is now ${verdict.role}.` });
-      await broadcastPeople(sketchId);
+      broadcastPeople(sketchId);
     }
     return verdict.role;
   }
@@ -283,11 +309,13 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
         const row = access.role ? await findSketchState(ctx.db, msg.sketchId) : null;
         const role = access.role;
         if (!row || !role) return fail('not_found', 'No such sketch, or you are not a member of its team.');
+        // A stored result behind the document (its instance died before solving): solve it now.
+        if (row.resultRevision === null || row.resultRevision < row.revision) ctx.edits.solveLater(msg.sketchId, row.revision, normalizeDocument(row.document));
         const you: Person = { connectionId: socket.id, userId: user.id, name: user.name, role, colour: personColour(user.id) };
         socket.data.rooms.set(msg.sketchId, { teamId: row.teamId, role, checkedAt: performance.now() });
         socket.data.people[msg.sketchId] = you;
         await socket.join(room(msg.sketchId));
-        const people = await peopleIn(msg.sketchId);
+        const people = quickPeople(msg.sketchId);
         const walkthrough = await walkthroughState(msg.sketchId);
         const replay = msg.lastRevision === undefined ? null : await editsSince(ctx.db, msg.sketchId, msg.lastRevision, row.revision, MAX_REPLAY_EDITS);
         send(socket, { type: 'joined', sketchId: msg.sketchId, title: row.title, document: normalizeDocument(row.document), revision: row.revision, people, walkthrough, you });
@@ -297,27 +325,29 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
           if (replay) send(socket, { type: 'replay', sketchId: msg.sketchId, edits: replay, revision: row.revision });
           else send(socket, { type: 'snapshot', sketchId: msg.sketchId, title: row.title, document: normalizeDocument(row.document), revision: row.revision });
         }
-        send(socket.to(room(msg.sketchId)), { type: 'people', sketchId: msg.sketchId, people });
+        // Everyone (the joiner too) gets the full list once every instance has answered.
+        broadcastPeople(msg.sketchId);
         return;
       }
       case 'leave': {
         await socket.leave(room(msg.sketchId));
         socket.data.rooms.delete(msg.sketchId);
         delete socket.data.people[msg.sketchId];
-        await broadcastPeople(msg.sketchId);
-        await endWalkthroughIfLeadGone(msg.sketchId, user.id);
+        broadcastPeople(msg.sketchId);
+        void endWalkthroughIfLeadGone(msg.sketchId, user.id).catch((err) => ctx.log(`[realtime] walkthrough end: ${(err as Error).message}`));
         return;
       }
       case 'edit': {
         const outcome = await ctx.edits.submit({ sketchId: msg.sketchId, userId: user.id, baseRevision: msg.baseRevision, op: msg.op });
+        if (options.dieAfterCommit && msg.op.opId.startsWith(options.dieAfterCommit)) process.kill(process.pid, 'SIGKILL');
         if (outcome.status === 'rejected') {
           send(socket, { type: 'ack', sketchId: msg.sketchId, opId: msg.op.opId, status: 'rejected', reason: outcome.reason });
           return;
         }
         send(socket, { type: 'ack', sketchId: msg.sketchId, opId: msg.op.opId, status: outcome.status, revision: outcome.revision, op: outcome.op });
-        if (!outcome.duplicate) {
-          send(socket.to(room(msg.sketchId)), { type: 'edit', sketchId: msg.sketchId, revision: outcome.revision, op: outcome.op, userId: user.id });
-        }
+        // A duplicate is broadcast again too: its first broadcast may have died with the instance
+        // that committed it [R7]. Clients ignore revisions they already hold.
+        send(socket.to(room(msg.sketchId)), { type: 'edit', sketchId: msg.sketchId, revision: outcome.revision, op: outcome.op, userId: user.id });
         return;
       }
       case 'resync': {
@@ -383,12 +413,28 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
   // lost with a crashed instance, is corrected within PEOPLE_REFRESH_MS.
   const refresh = setInterval(() => {
     for (const name of io.of('/').adapter.rooms.keys()) {
-      if (name.startsWith('sketch:')) void broadcastPeople(name.slice('sketch:'.length));
+      if (name.startsWith('sketch:')) broadcastPeople(name.slice('sketch:'.length));
     }
   }, PEOPLE_REFRESH_MS);
   refresh.unref();
+
+  // Revision heartbeat [R7]: every instance tells its own sockets each open sketch's latest
+  // revision. A client behind it (an edit whose broadcast died with the instance that
+  // committed it) resyncs after GAP_RESYNC_AFTER_MS, without anyone editing again.
+  const heartbeat = setInterval(() => {
+    const ids = [...io.of('/').adapter.rooms.keys()].filter((name) => name.startsWith('sketch:')).map((name) => name.slice('sketch:'.length));
+    if (ids.length === 0) return;
+    sketchRevisions(ctx.db, ids).then(
+      (revisions) => {
+        for (const [sketchId, revision] of revisions) io.local.to(room(sketchId)).emit('message', { type: 'revision', sketchId, revision });
+      },
+      (err) => ctx.log(`[realtime] revision heartbeat: ${(err as Error).message}`),
+    );
+  }, REVISION_HEARTBEAT_MS);
+  heartbeat.unref();
   const closeIo = io.close.bind(io);
   io.close = (fn) => {
+    clearInterval(heartbeat);
     clearInterval(refresh);
     clearInterval(sweep);
     return closeIo(fn);
@@ -425,7 +471,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
       const left = [...socket.data.rooms.keys()];
       void own.lane.then(async () => {
         for (const sketchId of left) {
-          await broadcastPeople(sketchId);
+          broadcastPeople(sketchId);
           await endWalkthroughIfLeadGone(sketchId, socket.data.user.id).catch(() => {});
         }
       });

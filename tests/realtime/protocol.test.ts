@@ -85,6 +85,13 @@ describe('realtime protocol against one server', () => {
     expect(acks).toHaveLength(2);
     expect(acks[1]).toMatchObject({ status: 'applied', revision: 1 });
     expect(a.engine.revision).toBe(1);
+    // [R7] …and broadcast again: a colleague who missed the first broadcast (it died with the
+    // instance that committed it) catches up; one who has it ignores the repeat.
+    const b = clients[1];
+    const repeats = () => b.received.filter((m) => m.type === 'edit' && m.op.opId === 'op-mach-1').length;
+    await until(() => repeats() === 2, 10_000, 'the repeat reaches b');
+    expect(b.engine.revision).toBe(1);
+    expect(b.engine.pendingCount).toBe(0);
   });
 
   it('[R5][R6] concurrent inserts into the same facet are both kept, and both clients converge', async () => {

@@ -34,8 +34,9 @@ async function drawReport(ctx: AppContext, user: SessionUser, sketchId: string, 
   const row = await findSketch(ctx.db, sketchId);
   if (!row) throw new HttpError(404, 'not_found', 'No such sketch.');
   const document = normalizeDocument(row.document);
-  // A stored result from before the document's current shape (or none) is solved again.
-  const stored = readStoredAnalysis(row.lastResult);
+  // The stored result is used only when it belongs to this very revision (the solve after an
+  // edit may still be running); otherwise the document is solved here.
+  const stored = row.resultRevision === row.revision ? readStoredAnalysis(row.lastResult) : null;
   const points = stored && stored.selectedPointId === document.selectedPointId && stored.points.length === document.designPoints.length ? stored : solveDocument(document).result;
   const analysis = selectedAnalysis(points)!;
   const study = query.study ? await getStudyOfSketch(ctx, user.id, sketchId, query.study) : null;

@@ -30,7 +30,7 @@ export async function listSketches(db: Db, teamId: string) {
 
 export async function findSketch(db: Db, id: string) {
   const rows = await db
-    .select({ ...columns, lastResult: sketches.lastResult })
+    .select({ ...columns, lastResult: sketches.lastResult, resultRevision: sketches.resultRevision })
     .from(sketches)
     .leftJoin(editor, eq(editor.id, sketches.updatedBy))
     .where(eq(sketches.id, id));
@@ -56,6 +56,7 @@ export async function insertSketch(
     updatedBy: row.userId,
     lastSolveStatus: row.lastSolveStatus,
     lastResult: row.lastResult,
+    resultRevision: 0,
   });
 }
 

@@ -2,6 +2,7 @@ import type { AppContext } from '../../context.ts';
 import { HttpError } from '../../http/errors.ts';
 import { authorizeSketch, getSketch } from '../sketches/service.ts';
 import { findSketch } from '../sketches/repository.ts';
+import { solveDocument } from '../sketches/solveDocument.ts';
 import { recordSketchEvent } from '../activity/repository.ts';
 import { newId } from '../../../shared/model/ids.ts';
 import { explainSectionProblem } from '../../../shared/model/ops.ts';
@@ -18,6 +19,7 @@ const toSummary = (r: Omit<Row, 'title' | 'document' | 'result'>): SnapshotSumma
 async function capture(ctx: AppContext, userId: string, sketchId: string, name: string, note: string, kind: 'manual' | 'before_restore' | 'before_import'): Promise<string> {
   const current = await findSketch(ctx.db, sketchId);
   if (!current) throw new HttpError(404, 'not_found', 'No such sketch.');
+  const document = normalizeDocument(current.document);
   const id = await repo.insertSnapshot(ctx.db, {
     sketchId,
     name,
@@ -25,8 +27,9 @@ async function capture(ctx: AppContext, userId: string, sketchId: string, name: 
     kind,
     revision: current.revision,
     title: current.title,
-    document: normalizeDocument(current.document),
-    result: current.lastResult ?? null,
+    document,
+    // The stored result only when it belongs to this revision (the solve after an edit may still run).
+    result: current.resultRevision === current.revision ? (current.lastResult ?? null) : solveDocument(document).result,
     createdBy: userId,
   });
   await recordSketchEvent(ctx.db, { sketchId, actorId: userId, kind: 'snapshot.created', detail: { snapshotId: id, name, kind, revision: current.revision } });

@@ -87,6 +87,12 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
   let gapSince: number | null = null;
   /** The newest revision the server said exists (heartbeat); above ours means we missed edits. */
   let knownRevision = 0;
+  /**
+   * Whether the in-flight edit may have been lost and must go again once the replay or snapshot
+   * is in: after a reconnect, or when the server said it could not process it. A resync for a
+   * gap on a live connection leaves it alone: the server has it and will ack it (once) [R3].
+   */
+  let resendInFlight = false;
 
   function recompute(): void {
     if (!server) {
@@ -227,6 +233,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       }
       if (connected) {
         rejoining = server !== null;
+        resendInFlight = rejoining;
         askedAt = now();
         options.send({ type: 'join', protocol: PROTOCOL_VERSION, sketchId: id, ...(server ? { lastRevision: server.revision } : {}) });
       }
@@ -248,6 +255,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         if (msg.about === 'edit' && msg.code === 'internal' && pending[0]?.sent && sketchId) {
           // Not processed: ask for what we missed; the edit is re-sent after the replay.
           rejoining = true;
+          resendInFlight = true;
           askedAt = now();
           options.send({ type: 'resync', sketchId, lastRevision: server?.revision });
         }
@@ -272,8 +280,9 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
           rejoining = false;
           askedAt = null;
           drainFuture();
-          // Still unconfirmed after the replay: the server never applied it; send it again.
-          if (pending[0]?.sent) sendInFlight(pending[0], false);
+          // Still unconfirmed after the replay of a reconnect: the server never applied it; send it again.
+          if (resendInFlight && pending[0]?.sent) sendInFlight(pending[0], false);
+          resendInFlight = false;
           flush();
           return;
         case 'snapshot': {
@@ -283,7 +292,8 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
           updateGap();
           // We cannot tell which of our edits the snapshot holds: re-send the in-flight one as
           // first sent (same id, same base); the server answers a duplicate with its outcome.
-          if (pending[0]?.sent) sendInFlight(pending[0], true);
+          if (resendInFlight && pending[0]?.sent) sendInFlight(pending[0], true);
+          resendInFlight = false;
           recompute();
           flush();
           options.onChange?.();

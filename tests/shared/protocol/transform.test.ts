@@ -220,6 +220,35 @@ describe('createSyncEngine [R6]', () => {
     expect(sent.filter((m) => m.type === 'resync')).toHaveLength(1);
   });
 
+  it('[R3][R7] a gap resync while an edit is in flight leaves that edit alone (the server has it); a reconnect sends it again', () => {
+    let t = 0;
+    const sent: ClientMessage[] = [];
+    const engine = createSyncEngine({ send: (m) => sent.push(m), now: () => t });
+    engine.connectionOpened();
+    const id = 'sketch_aaaaaaaaaaaaaaaaaaaa';
+    engine.join(id);
+    engine.receive({ type: 'joined', sketchId: id, title: 'T', document: octagon().document, revision: 3, people: [], walkthrough: null, you: { connectionId: 'c', userId: 'u', name: 'N', role: 'editor', colour: '#fff' } });
+    engine.submit({ type: 'setCondition', opId: 'mine', field: 'mach', value: 3 });
+    const edits = () => sent.filter((m) => m.type === 'edit');
+    expect(edits()).toHaveLength(1);
+    // The heartbeat says 5 while our edit waits in the server's queue: a gap, resynced.
+    engine.receive({ type: 'revision', sketchId: id, revision: 5 });
+    t = 2000;
+    engine.tick();
+    expect(sent.filter((m) => m.type === 'resync')).toHaveLength(1);
+    engine.receive({ type: 'replay', sketchId: id, revision: 4, edits: [{ revision: 4, userId: 'x', op: { type: 'rename', opId: 'theirs', title: 'U' } }] });
+    expect(edits()).toHaveLength(1);
+    engine.receive({ type: 'ack', sketchId: id, opId: 'mine', status: 'rebased', revision: 5, op: { type: 'setCondition', opId: 'mine', field: 'mach', value: 3 } });
+    expect(engine.pendingCount).toBe(0);
+    expect(engine.revision).toBe(5);
+    // After a reconnect the in-flight edit may have been lost: it goes again after the replay.
+    engine.submit({ type: 'setCondition', opId: 'again', field: 'mach', value: 3.2 });
+    engine.connectionLost();
+    engine.connectionOpened();
+    engine.receive({ type: 'replay', sketchId: id, revision: 5, edits: [] });
+    expect(edits().map((m) => (m as { op: EditOp }).op.opId)).toEqual(['mine', 'again', 'again']);
+  });
+
   it('reports a remote edit with its author and as it applies on top of the pending edits', () => {
     const seen: { op: EditOp; userId: string | null; local: EditOp | null }[] = [];
     const sent: ClientMessage[] = [];

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { firstItem, itemAt } from '../util/invariant.ts';
 import { newId } from './ids.ts';
 import { textSchema } from './text.ts';
-import { findRepeatedPoint, findSelfIntersection, findSelfIntersectionNear, signedArea } from './polygon.ts';
+import { findRepeatedPoint, findRepeatedPointNear, findSelfIntersection, findSelfIntersectionNear, repeatTolerance, signedArea } from './polygon.ts';
 import {
   conditionSchema,
   designPointIdSchema,
@@ -268,27 +268,27 @@ export function applyOp(doc: SketchDocument, op: SketchOp, options: { trusted?: 
         next[i] = [x, y];
       });
       const verb = op.indices.length === 1 ? `Moving vertex ${op.indices[0]} there` : `Moving those ${op.indices.length} vertices there`;
-      return withSection(doc, next, verb, check, op.indices.flatMap((i) => [i - 1, i]));
+      return withSection(doc, next, verb, check, op.indices.flatMap((i) => [i - 1, i]), op.indices);
     }
     case 'setVertexCoordinate': {
       if (op.index >= n) return { ok: false, reason: `There is no vertex ${op.index}; the section has ${n}.` };
       const next = points.map((p) => [p[0], p[1]] as Point);
       const [x, y] = itemAt(points, op.index);
       next[op.index] = op.axis === 'x' ? [op.value, y] : [x, op.value];
-      return withSection(doc, next, `Setting vertex ${op.index}’s ${op.axis} to ${op.value}`, check, [op.index - 1, op.index]);
+      return withSection(doc, next, `Setting vertex ${op.index}’s ${op.axis} to ${op.value}`, check, [op.index - 1, op.index], [op.index]);
     }
     case 'insertVertex': {
       if (op.index > n) return { ok: false, reason: `A vertex can go at positions 0 to ${n}; got ${op.index}.` };
       if (n + 1 > MAX_SECTION_VERTICES) return { ok: false, reason: `A section has at most ${MAX_SECTION_VERTICES} vertices.` };
       const next = points.map((p) => [p[0], p[1]] as Point);
       next.splice(op.index, 0, [op.at[0], op.at[1]]);
-      return withSection(doc, next, 'A vertex there', check, [op.index - 1, op.index]);
+      return withSection(doc, next, 'A vertex there', check, [op.index - 1, op.index], [op.index]);
     }
     case 'deleteVertex': {
       if (op.index >= n) return { ok: false, reason: `There is no vertex ${op.index}; the section has ${n}.` };
       if (n <= 3) return { ok: false, reason: 'A section needs at least 3 vertices; this one has 3.' };
       const next = points.filter((_, i) => i !== op.index).map((p) => [p[0], p[1]] as Point);
-      return withSection(doc, next, `Deleting vertex ${op.index}`, check, [op.index - 1]);
+      return withSection(doc, next, `Deleting vertex ${op.index}`, check, [op.index - 1], []);
     }
     case 'replaceSection': {
       if (op.points.length < 3) return { ok: false, reason: `A section needs at least 3 vertices; got ${op.points.length}.` };
@@ -550,10 +550,14 @@ function checkedPoints(doc: SketchDocument, designPoints: DesignPoint[], selecte
  * Checks that `points` form a valid section and explains the first problem in terms of the
  * facets a user sees (facet i runs from vertex i to vertex i + 1). Null when valid.
  */
-export function explainSectionProblem(points: readonly Point[], changedEdges?: readonly number[]): string | null {
+export function explainSectionProblem(points: readonly Point[], changedEdges?: readonly number[], changedVertices?: { vertices: readonly number[]; previous: readonly Point[] }): string | null {
   const n = points.length;
   if (n < 3) return `a section needs at least 3 vertices; it would have ${n}`;
-  const repeated = findRepeatedPoint(points);
+  // Likewise only a moved or inserted vertex can sit on another, unless the tolerance grew
+  // with the bounding box (then pairs that were just apart may count as one): O(k·n) instead
+  // of a sort of every vertex (~0.05 ms instead of ~2 ms at 2000 vertices).
+  const nearOnly = changedVertices && changedVertices.vertices.length * 4 < n && repeatTolerance(points) <= repeatTolerance(changedVertices.previous);
+  const repeated = nearOnly ? findRepeatedPointNear(points, changedVertices.vertices) : findRepeatedPoint(points);
   if (repeated) return `vertex ${repeated[1]} would sit exactly on vertex ${repeated[0]}`;
   // Only the changed edges can cross anything when the section was simple before (O(k·n)
   // instead of O(n²): ~0.1 ms instead of ~25 ms at 2000 vertices). Many changed edges: the
@@ -568,8 +572,8 @@ export function explainSectionProblem(points: readonly Point[], changedEdges?: r
  * `changedEdges`: the edges of `points` the op changed; given, only they are tested for
  * crossings, which is exact because the document an op applies to is valid [O2].
  */
-function withSection(doc: SketchDocument, points: Point[], what: string, check = true, changedEdges?: readonly number[]): ApplyOpResult {
-  const problem = check ? explainSectionProblem(points, changedEdges) : null;
+function withSection(doc: SketchDocument, points: Point[], what: string, check = true, changedEdges?: readonly number[], changedVertices?: readonly number[]): ApplyOpResult {
+  const problem = check ? explainSectionProblem(points, changedEdges, changedVertices && { vertices: changedVertices, previous: doc.section.points }) : null;
   if (problem) return { ok: false, reason: `${what} is not allowed: ${problem}. The section must stay a simple polygon.` };
   return { ok: true, doc: { ...doc, section: { ...doc.section, points } } };
 }

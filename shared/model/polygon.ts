@@ -121,6 +121,28 @@ export function findRepeatedPoint(
 ): [number, number] | null {
   const n = points.length;
   if (n < 2) return null;
+  const tol = repeatTolerance(points, relTol);
+  // Vertex indices sorted by x, each with its point, so the scan below reads no index twice.
+  const order = points.map((point, index) => ({ point, index })).sort((a, b) => a.point[0] - b.point[0] || a.index - b.index);
+  let best: [number, number] | null = null;
+  for (let s = 0; s < n; s++) {
+    const { point: [xi, yi], index: i } = itemAt(order, s);
+    for (let t = s + 1; t < n; t++) {
+      const { point: [xj, yj], index: j } = itemAt(order, t);
+      if (xj - xi > tol) break;
+      const dx = xj - xi;
+      const dy = yj - yi;
+      if (Math.sqrt(dx * dx + dy * dy) <= tol) {
+        const pair: [number, number] = i < j ? [i, j] : [j, i];
+        if (!best || pair[1] < best[1] || (pair[1] === best[1] && pair[0] < best[0])) best = pair;
+      }
+    }
+  }
+  return best;
+}
+
+/** The distance under which two vertices of `points` count as one (see findRepeatedPoint). */
+export function repeatTolerance(points: readonly XY[], relTol: number = REPEATED_POINT_TOLERANCE): number {
   let minX = Infinity;
   let maxX = -Infinity;
   let minY = Infinity;
@@ -131,16 +153,26 @@ export function findRepeatedPoint(
     if (y < minY) minY = y;
     if (y > maxY) maxY = y;
   }
-  const tol = relTol * Math.max(maxX - minX, maxY - minY);
-  // Vertex indices sorted by x, each with its point, so the scan below reads no index twice.
-  const order = points.map((point, index) => ({ point, index })).sort((a, b) => a.point[0] - b.point[0] || a.index - b.index);
+  return relTol * Math.max(maxX - minX, maxY - minY);
+}
+
+/**
+ * findRepeatedPoint for a polygon that had no repeated vertex before only the `changed`
+ * vertices moved or were inserted, when the tolerance did not grow: only pairs with a changed
+ * vertex can repeat then, so O(k·n) instead of a sort. Same answer (the first pair).
+ */
+export function findRepeatedPointNear(points: readonly XY[], changed: Iterable<number>, relTol: number = REPEATED_POINT_TOLERANCE): [number, number] | null {
+  const n = points.length;
+  if (n < 2) return null;
+  const tol = repeatTolerance(points, relTol);
   let best: [number, number] | null = null;
-  for (let s = 0; s < n; s++) {
-    const { point: [xi, yi], index: i } = itemAt(order, s);
-    for (let t = s + 1; t < n; t++) {
-      const { point: [xj, yj], index: j } = itemAt(order, t);
-      if (xj - xi > tol) break;
+  for (const raw of new Set(changed)) {
+    const i = ((raw % n) + n) % n;
+    const [xi, yi] = itemAt(points, i);
+    for (const [j, [xj, yj]] of points.entries()) {
+      if (j === i) continue;
       const dx = xj - xi;
+      if (dx > tol || -dx > tol) continue;
       const dy = yj - yi;
       if (Math.sqrt(dx * dx + dy * dy) <= tol) {
         const pair: [number, number] = i < j ? [i, j] : [j, i];

@@ -304,4 +304,47 @@ describe('incremental section check', () => {
     expect(refused).toBeGreaterThan(40);
     expect(reached - refused).toBeGreaterThan(40);
   });
+
+  it('[O2] a vertex moved or inserted onto (or next to) another is refused exactly as the full check decides, with the same message', () => {
+    const cases = reached('[O2] vertex edits next to another vertex');
+    const repeated = reached('[O2] refused as a repeated vertex');
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 12, max: 60 }),
+        fc.nat(),
+        fc.nat(),
+        fc.constantFrom('move', 'insert', 'coordinate'),
+        // Offsets around the other vertex: exactly on it, inside and just outside the tolerance
+        // (1e-9 of the section's size), and plainly apart.
+        fc.constantFrom(0, 3e-10, -8e-10, 2e-9, 1e-3),
+        (n, k, m, kind, offset) => {
+          const start: SketchDocument = { ...doc(), section: { points: wavy(n) } };
+          const i = k % n;
+          const other = start.section.points[(i + 1 + (m % (n - 1))) % n];
+          const at: Point = [other[0] + offset, other[1] - offset];
+          const op: SketchOp =
+            kind === 'move'
+              ? withOpId({ type: 'moveVertices', indices: [i], to: [at] })
+              : kind === 'insert'
+                ? withOpId({ type: 'insertVertex', index: i, at })
+                : withOpId({ type: 'setVertexCoordinate', index: i, axis: 'y', value: other[1] - offset });
+          const fast = applyOp(start, op);
+          const points = start.section.points.map((q) => [q[0], q[1]] as Point);
+          if (op.type === 'moveVertices') points[i] = at;
+          else if (op.type === 'insertVertex') points.splice(i, 0, at);
+          else points[i] = [points[i][0], other[1] - offset];
+          const full = explainSectionProblem(points);
+          cases.hit();
+          if (full?.includes('would sit exactly on')) repeated.hit();
+          expect(fast.ok).toBe(full === null);
+          if (!fast.ok && full) expect(fast.reason).toContain(full);
+          return true;
+        },
+      ),
+      { numRuns: 400 },
+    );
+    cases.expectAtLeast(400);
+    // The repeated-vertex verdict itself is exercised, not only crossings.
+    repeated.expectAtLeast(60);
+  });
 });

@@ -7,7 +7,7 @@ import { sketchEdits, sketches } from '../../server/db/schema.ts';
 import { selectedPoint, type SketchDocument } from '../../shared/model/sketch.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
-import { screenshot, signInDemo, textOf, type BrowserSession } from '../helpers/browser.ts';
+import { screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
 
 /**
  * Two people typing in the same form fields at once (useFieldEdits [F1]–[F5]): nobody's typing
@@ -123,6 +123,30 @@ describe('form fields while a colleague edits (two browsers)', () => {
     await expect.poll(async () => selectedPoint((await stored()).doc).condition.mach, { timeout: 10_000 }).toBe(3.4);
     await expect.poll(() => ines.locator('input#condition-mach').inputValue(), { timeout: 10_000 }).toBe('3.4');
     expect((await stored()).doc.section.points[5]).toEqual([0.25, -0.021]);
+  });
+
+  it('[F3] Mach typed without Enter survives a colleague dragging a vertex on the canvas', async () => {
+    const mach = tomasz.locator('input#condition-mach');
+    await mach.fill('2.9');
+    const yBefore = await value(tomasz, 'vertex-y-3');
+    // Ines drags vertex 3 (the tail) up a little on the canvas meanwhile: one move op on release.
+    const from = await vertexOnScreen(ines, 3);
+    await ines.mouse.move(from.x, from.y);
+    await ines.mouse.down();
+    for (let k = 1; k <= 6; k++) await ines.mouse.move(from.x, from.y - 3 * k);
+    await ines.mouse.up();
+    await saved(ines);
+    await expect.poll(() => value(tomasz, 'vertex-y-3'), { timeout: 10_000 }).not.toBe(yBefore);
+    // Tomasz's typing is still there, untouched and unsent.
+    expect(await mach.inputValue()).toBe('2.9');
+    expect(await tomasz.evaluate(() => document.activeElement?.id)).toBe('condition-mach');
+    expect(selectedPoint((await stored()).doc).condition.mach).toBe(3.4);
+    await screenshot(tomasz, 'fields-mach-kept-while-colleague-drags');
+    const dragged = (await stored()).doc.section.points[3];
+    await mach.press('Enter');
+    await expect.poll(async () => selectedPoint((await stored()).doc).condition.mach, { timeout: 10_000 }).toBe(2.9);
+    expect((await stored()).doc.section.points[3]).toEqual(dragged);
+    await expect.poll(() => ines.locator('input#condition-mach').inputValue(), { timeout: 10_000 }).toBe('2.9');
   });
 
   it('[F3] the same condition field changed by both: a conflict that Use theirs settles without sending anything', async () => {

@@ -83,8 +83,10 @@ export async function checkSockets<S extends GuardedSocket>(db: Db, sockets: rea
   }
   const results = await checkAccess(db, checks);
   const out = new Map<S, SocketVerdict>();
-  results.forEach((result, i) => {
-    const { socket, sketchId } = owners[i];
+  // One result per check, in order: owners[i] made checks[i].
+  owners.forEach(({ socket, sketchId }, i) => {
+    const result = results[i];
+    if (!result) return;
     let verdict = out.get(socket);
     if (!verdict) {
       verdict = { sessionLive: result.sessionLive, rooms: new Map() };

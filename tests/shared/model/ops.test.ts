@@ -320,7 +320,7 @@ describe('incremental section check', () => {
         (n, k, m, kind, offset) => {
           const start: SketchDocument = { ...doc(), section: { points: wavy(n) } };
           const i = k % n;
-          const other = start.section.points[(i + 1 + (m % (n - 1))) % n];
+          const other = itemAt(start.section.points, (i + 1 + (m % (n - 1))) % n);
           const at: Point = [other[0] + offset, other[1] - offset];
           const op: SketchOp =
             kind === 'move'
@@ -332,7 +332,7 @@ describe('incremental section check', () => {
           const points = start.section.points.map((q) => [q[0], q[1]] as Point);
           if (op.type === 'moveVertices') points[i] = at;
           else if (op.type === 'insertVertex') points.splice(i, 0, at);
-          else points[i] = [points[i][0], other[1] - offset];
+          else points[i] = [itemAt(points, i)[0], other[1] - offset];
           const full = explainSectionProblem(points);
           cases.hit();
           if (full?.includes('would sit exactly on')) repeated.hit();

@@ -85,8 +85,13 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
   let askedAt: number | null = null;
   const future = new Map<number, { op: EditOp; own: boolean; userId: string | null }>();
   let gapSince: number | null = null;
-  /** The newest revision the server said exists (heartbeat); above ours means we missed edits. */
-  let knownRevision = 0;
+  /**
+   * A revision the heartbeat said exists while we were behind it, and when it said so. We
+   * resync only if that very revision has not arrived within GAP_RESYNC_AFTER_MS: under a steady
+   * stream of edits a client is always a little behind the newest one, and chasing the newest
+   * would resync it again and again while the broadcasts are simply on their way.
+   */
+  let heartbeat: { revision: number; at: number } | null = null;
   /**
    * Whether the in-flight edit may have been lost and must go again once the replay or snapshot
    * is in: after a reconnect, or when the server said it could not process it. A resync for a
@@ -194,10 +199,11 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
     }
   }
 
-  /** A gap is open while edits wait for an earlier one, or the server said it is further on. */
+  /** A gap is open while edits wait for an earlier one, or a heartbeat's revision has not come. */
   function updateGap(): void {
-    const behind = future.size > 0 || (server !== null && knownRevision > server.revision);
-    gapSince = behind ? (gapSince ?? now()) : null;
+    if (heartbeat && server && server.revision >= heartbeat.revision) heartbeat = null;
+    if (future.size > 0) gapSince ??= now();
+    else gapSince = heartbeat ? heartbeat.at : null;
   }
 
   function adopt(title: string, document: SketchDocument, revision: number): void {
@@ -229,7 +235,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         pending = [];
         local = null;
         future.clear();
-        knownRevision = 0;
+        heartbeat = null;
       }
       if (connected) {
         rejoining = server !== null;
@@ -305,7 +311,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
           return;
         case 'revision':
           // Heartbeat [R7]: behind it, wait GAP_RESYNC_AFTER_MS for broadcasts in flight, then resync.
-          knownRevision = Math.max(knownRevision, msg.revision);
+          if (server && msg.revision > server.revision && !heartbeat) heartbeat = { revision: msg.revision, at: now() };
           updateGap();
           return;
         case 'ack': {
@@ -353,7 +359,9 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         else options.send({ type: 'join', protocol: PROTOCOL_VERSION, sketchId });
       }
       if (gapSince !== null && server && sketchId && connected && now() - gapSince > GAP_RESYNC_AFTER_MS) {
-        gapSince = now();
+        // The heartbeat's target is forgotten: the next heartbeat sets a new one if still behind.
+        heartbeat = null;
+        gapSince = future.size > 0 ? now() : null;
         options.send({ type: 'resync', sketchId, lastRevision: server.revision });
       }
     },

@@ -220,6 +220,30 @@ describe('createSyncEngine [R6]', () => {
     expect(sent.filter((m) => m.type === 'resync')).toHaveLength(1);
   });
 
+  it('[R7] under a steady stream of edits, a client always a little behind the heartbeat never resyncs: only a revision that does not come does', () => {
+    let t = 0;
+    const sent: ClientMessage[] = [];
+    const engine = createSyncEngine({ send: (m) => sent.push(m), now: () => t });
+    engine.connectionOpened();
+    const id = 'sketch_aaaaaaaaaaaaaaaaaaaa';
+    engine.join(id);
+    engine.receive({ type: 'joined', sketchId: id, title: 'T', document: octagon().document, revision: 0, people: [], walkthrough: null, you: { connectionId: 'c', userId: 'u', name: 'N', role: 'editor', colour: '#fff' } });
+    const edit = (revision: number) => engine.receive({ type: 'edit', sketchId: id, revision, userId: 'x', op: { type: 'rename', opId: `r${revision}`, title: `T${revision}` } });
+    // Every 100 ms an edit arrives; the heartbeat (every 2 s) is always two revisions ahead.
+    for (let r = 1; r <= 100; r++) {
+      t = r * 100;
+      edit(r);
+      if (r % 20 === 0) engine.receive({ type: 'revision', sketchId: id, revision: r + 2 });
+      engine.tick();
+    }
+    expect(sent.filter((m) => m.type === 'resync')).toEqual([]);
+    // Revision 101 was committed but never broadcast: the heartbeat's target does not come.
+    engine.receive({ type: 'revision', sketchId: id, revision: 101 });
+    t += 1100;
+    engine.tick();
+    expect(sent.filter((m) => m.type === 'resync')).toEqual([{ type: 'resync', sketchId: id, lastRevision: 100 }]);
+  });
+
   it('[R3][R7] a gap resync while an edit is in flight leaves that edit alone (the server has it); a reconnect sends it again', () => {
     let t = 0;
     const sent: ClientMessage[] = [];

@@ -86,15 +86,6 @@ const SHARED_FORBIDDEN_GLOBALS = [
   'process', 'Buffer', '__dirname', '__filename', 'require', 'module', 'global', 'setImmediate',
 ].map((name) => ({ name, message: 'shared/ runs in the browser and in Node: pass what you need in as a parameter.' }));
 
-// ── Temporary exceptions ─────────────────────────────────────────────────────────────────────
-// Files that break a layer rule today and are being refactored by their owners. One entry per
-// file; each lists the rule groups that still hold for it. Remove the entry in the commit that
-// makes the file comply (lint then keeps it that way). Do not add new entries.
-const TEMPORARY_EXCEPTIONS = [
-  // Being moved to a repository, issue #16 (review status queries).
-  { files: ['server/api/review/service.ts'], rules: restrict(SERVER, SERVICES) },
-];
-
 // ── The config ───────────────────────────────────────────────────────────────────────────────
 
 /** eslint-plugin-vue's layout rules: formatting is not checked (the stack has no formatter). */
@@ -142,5 +133,4 @@ export default defineConfig(
   { files: ['server/api/*/router.ts'], rules: restrict(SERVER, DATA_ACCESS, ROUTERS) },
   { files: ['server/api/*/service.ts'], rules: restrict(SERVER, DATA_ACCESS, SERVICES) },
   { files: ['server/**/repository.ts', 'server/db/**/*.ts'], rules: { ...restrict(SERVER), 'no-restricted-syntax': 'off' } },
-  ...TEMPORARY_EXCEPTIONS,
 );

@@ -94,7 +94,14 @@ const trailingEdgeSchema = z.object({
 
 const waveStateSchema = z.object({ mach: z.number(), pRatio: z.number() });
 
-const fanRaySchema = z.object({ angleDeg: z.number(), end: point, pRatio: z.number(), mach: z.number() });
+const fanRaySchema = z.object({
+  angleDeg: z.number(),
+  end: point,
+  pRatio: z.number(),
+  mach: z.number(),
+  path: z.array(point),
+  pRatioAhead: z.number(),
+});
 
 const waveSchema = z.object({
   id: z.string(),
@@ -107,6 +114,12 @@ const waveSchema = z.object({
   rays: z.array(fanRaySchema).optional(),
   end: point,
   endReason: z.enum(['field', 'wave', 'body']),
+  path: z.array(point),
+  pRatioAlong: z.array(z.number()).optional(),
+  betaDegAlong: z.array(z.number()).optional(),
+  machBehindAlong: z.array(z.number()).optional(),
+  pRatioAheadAlong: z.array(z.number()).optional(),
+  pRatioBehindAlong: z.array(z.number()).optional(),
   upstream: waveStateSchema,
   downstream: waveStateSchema,
   pRatioBehind: z.number(),
@@ -138,7 +151,12 @@ export const solveResultSchema = z.object({
   theories: z.object({ linear: theoryResultSchema, secondOrder: theoryResultSchema }).nullable(),
   trailingEdge: trailingEdgeSchema,
   waves: z.array(waveSchema),
-  intersections: z.array(z.object({ at: point, waves: z.tuple([z.string(), z.string()]) })),
+  intersections: z.array(z.object({
+    at: point,
+    waves: z.tuple([z.string(), z.string()]),
+    kind: z.enum(['absorbed', 'merged', 'crossed']),
+    survivor: z.string().optional(),
+  })),
   warnings: z.array(z.string()),
 }) satisfies z.ZodType<SolveResult>;
 

@@ -1,4 +1,5 @@
-import { caseAt, FIRST_DESIGN_POINT_ID, FIRST_DESIGN_POINT_NAME, type SketchDocument } from '../model/sketch.ts';
+import { storedAnalysisSchema } from '../model/analysis.ts';
+import { caseAt, type SketchDocument } from '../model/sketch.ts';
 import { analyseSketch, type SketchAnalysis } from './analyseSketch.ts';
 
 /**
@@ -50,25 +51,17 @@ export function pointAnalysis(all: DesignPointsAnalysis | null, pointId: string)
   return all?.points.find((p) => p.id === pointId)?.analysis ?? null;
 }
 
-function isAnalysis(raw: unknown): raw is SketchAnalysis {
-  if (!raw || typeof raw !== 'object') return false;
-  const r = raw as Partial<SketchAnalysis>;
-  return typeof r.status === 'string' && 'result' in r;
-}
-
 /**
- * A stored result read back (sketch rows' `last_result`, snapshots): version 2 as is; a bare
- * analysis stored before design points becomes the one point a version 1 document upgrades to;
- * anything else (no result, an older shape) is null.
+ * A stored result read back (sketch rows' `last_result`, snapshots), parsed by
+ * `storedAnalysisSchema` [AN1]: version 2 as is; a bare analysis stored before design points
+ * becomes the one point a version 1 document upgrades to; anything else (no result, a shape
+ * older than both) is null: the editor solves the sketch itself, and the next save stores a
+ * fresh result.
  */
 export function readStoredAnalysis(raw: unknown): DesignPointsAnalysis | null {
-  if (!raw || typeof raw !== 'object') return null;
-  const r = raw as Partial<DesignPointsAnalysis>;
-  if (r.version === 2 && typeof r.selectedPointId === 'string' && Array.isArray(r.points) && r.points.every((p) => p && typeof p.id === 'string' && isAnalysis(p.analysis))) {
-    return raw as DesignPointsAnalysis;
-  }
-  if (isAnalysis(raw)) return { version: 2, selectedPointId: FIRST_DESIGN_POINT_ID, points: [{ id: FIRST_DESIGN_POINT_ID, name: FIRST_DESIGN_POINT_NAME, analysis: raw }] };
-  return null;
+  if (raw === null || raw === undefined) return null;
+  const parsed = storedAnalysisSchema.safeParse(raw);
+  return parsed.success ? parsed.data : null;
 }
 
 /** The selected point's analysis of a stored result (null when there is none in a known shape). */

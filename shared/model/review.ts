@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { loadsSettingsSchema, pointSchema, sectionPointsSchema, sketchDocumentSchema } from './sketch.ts';
 import { textSchema } from './text.ts';
+import { designPointsAnalysisSchema } from './analysis.ts';
 
 /** Where a pin sits: a free point, a facet (by its index) or a wave of the wave map (by its id). */
 export const pinTargetSchema = z.discriminatedUnion('kind', [
@@ -19,11 +20,19 @@ export const replySchema = z.object({ body: bodySchema, mentions: mentionsSchema
 export const pinReplySchema = z.object({ id: z.string(), authorId: z.string().nullable(), authorName: z.string().nullable(), body: z.string(), mentions: z.array(z.string()), createdAt: z.string() });
 export type PinReply = z.infer<typeof pinReplySchema>;
 
+/** A pin's state: open until someone resolves it (reopening makes it open again). */
+export const PIN_STATUSES = ['open', 'resolved'] as const;
+export type PinStatus = (typeof PIN_STATUSES)[number];
+
+/** Why a snapshot was kept: by hand, or automatically before a restore or an import. */
+export const SNAPSHOT_KINDS = ['manual', 'before_restore', 'before_import'] as const;
+export type SnapshotKind = (typeof SNAPSHOT_KINDS)[number];
+
 export const pinSummarySchema = z.object({
   id: z.string(),
   sketchId: z.string(),
   target: pinTargetSchema,
-  status: z.enum(['open', 'resolved']),
+  status: z.enum(PIN_STATUSES),
   authorName: z.string().nullable(),
   firstBody: z.string(),
   replyCount: z.number().int(),
@@ -37,7 +46,7 @@ export const pinDetailSchema = pinSummarySchema.extend({ replies: z.array(pinRep
 export type PinDetail = z.infer<typeof pinDetailSchema>;
 
 export const pinListQuerySchema = z.object({
-  status: z.enum(['open', 'resolved', 'all']).default('all'),
+  status: z.enum([...PIN_STATUSES, 'all']).default('all'),
   limit: z.coerce.number().int().min(1, 'must be at least 1').max(100, 'must be at most 100').default(20),
   offset: z.coerce.number().int().min(0, 'must be at least 0').default(0),
 });
@@ -52,7 +61,7 @@ export const snapshotSummarySchema = z.object({
   sketchId: z.string(),
   name: z.string(),
   note: z.string(),
-  kind: z.enum(['manual', 'before_restore', 'before_import']),
+  kind: z.enum(SNAPSHOT_KINDS),
   revision: z.number().int(),
   createdByName: z.string().nullable(),
   createdAt: z.string(),
@@ -62,7 +71,8 @@ export type SnapshotSummary = z.infer<typeof snapshotSummarySchema>;
 export const snapshotDetailSchema = snapshotSummarySchema.extend({
   title: z.string(),
   document: sketchDocumentSchema,
-  result: z.unknown().nullable(),
+  /** The stored result at that revision, read back through `storedAnalysisSchema` [AN1]. */
+  result: designPointsAnalysisSchema.nullable(),
 });
 export type SnapshotDetail = z.infer<typeof snapshotDetailSchema>;
 

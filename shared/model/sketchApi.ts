@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { pointSchema, sketchDocumentSchema, sketchTitleSchema } from './sketch.ts';
 import { approvalSchema } from './review.ts';
+import { designPointsAnalysisSchema } from './analysis.ts';
 
 /** Shape of one row of the team's sketches table. */
 export const sketchSummarySchema = z.object({
@@ -32,7 +33,8 @@ export const sketchSchema = z.object({
   revision: z.number().int(),
   document: sketchDocumentSchema,
   lastSolveStatus: z.string().nullable(),
-  lastResult: z.unknown().nullable(),
+  /** The server's own solve of this revision, read back through `storedAnalysisSchema` [AN1]. */
+  lastResult: designPointsAnalysisSchema.nullable(),
   createdAt: z.string(),
   updatedAt: z.string(),
   updatedByName: z.string().nullable(),

@@ -5,6 +5,7 @@ import { textSchema } from './text.ts';
 import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
 import { pageOf } from './teams.ts';
 import { designPointIdSchema, FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
+import { ANALYSIS_STATUSES } from './analysis.ts';
 
 /**
  * A study: a sweep of one sketch over Mach × α × flap deflection at one altitude and friction
@@ -114,7 +115,8 @@ export function flapValues(flapDeg: number[], sketchFlapDeg: number | null): (nu
   return flapDeg.length ? sortedUnique(flapDeg) : [sketchFlapDeg];
 }
 
-export const STUDY_STATUSES = ['ok', 'detached', 'subsonic', 'vacuum', 'blunt', 'invalid'] as const;
+/** A study point's status is its analysis' status. */
+export const STUDY_STATUSES = ANALYSIS_STATUSES;
 export type StudyStatus = (typeof STUDY_STATUSES)[number];
 
 /**

@@ -1,5 +1,5 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
-import { readSelectedAnalysis } from '@shared/flight/designPoints';
+import { readSelectedAnalysis, type DesignPointsAnalysis } from '@shared/flight/designPoints';
 import { formatNumber, formatSigned } from '@shared/format/number';
 import type { SnapshotDetail } from '@shared/model/review';
 import type { SketchDocument } from '@shared/model/sketch';
@@ -21,8 +21,8 @@ export interface CompareSide {
   /** When (ISO). */
   at: string;
   document: SketchDocument;
-  /** The stored result, in any shape readStoredAnalysis reads. */
-  result: unknown;
+  /** The stored result (as the API sends it: read through storedAnalysisSchema). */
+  result: DesignPointsAnalysis | null;
 }
 
 export function sideOfSnapshot(s: SnapshotDetail): CompareSide {

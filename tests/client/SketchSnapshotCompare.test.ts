@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { mount } from '@vue/test-utils';
 import { analyseSketch } from '@shared/flight/analyseSketch';
+import { analyseDesignPoints } from '@shared/flight/designPoints';
 import { RESULTS_CAUTION } from '@shared/model/caution';
 import type { SnapshotDetail } from '@shared/model/review';
 import { sketchCase, type SketchDocument } from '@shared/model/sketch';
@@ -28,7 +29,7 @@ function snapshot(id: string, name: string, revision: number, document: SketchDo
     createdAt: '2030-03-04T09:15:00.000Z',
     title: 'Tern fin root',
     document,
-    result: stored ? analyseSketch(sketchCase(document)) : null,
+    result: stored ? analyseDesignPoints(document) : null,
   };
 }
 
@@ -99,7 +100,7 @@ describe('comparing with another sketch of the team', () => {
       revision: 7,
       document,
       lastSolveStatus: 'ok',
-      lastResult: analyseSketch(sketchCase(document)),
+      lastResult: analyseDesignPoints(document),
       createdAt: '2030-03-01T10:00:00.000Z',
       updatedAt: '2030-03-04T09:15:00.000Z',
       updatedByName: 'Tomasz Reyes',

@@ -9,6 +9,7 @@ import { thicknessRatio } from '../../../shared/solver/thicknessRatio.ts';
 import { solveDocument } from './solveDocument.ts';
 import * as repo from './repository.ts';
 import type { AppContext } from '../../context.ts';
+import { readStoredAnalysis } from '../../../shared/flight/designPoints.ts';
 
 /** Role check for a sketch: looks up its team first (404 when it does not exist). */
 export async function authorizeSketch(db: Db, userId: string, sketchId: string, needed: Role, what: string): Promise<{ teamId: string; role: Role }> {
@@ -29,7 +30,7 @@ function toSketch(row: SketchRow): Sketch {
     revision: row.revision,
     document: normalizeDocument(row.document),
     lastSolveStatus: row.lastSolveStatus,
-    lastResult: row.lastResult ?? null,
+    lastResult: readStoredAnalysis(row.lastResult),
     createdAt: row.createdAt.toISOString(),
     updatedAt: row.updatedAt.toISOString(),
     updatedByName: row.updatedByName,

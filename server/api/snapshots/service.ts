@@ -10,6 +10,7 @@ import type { ImportSection, SnapshotDetail, SnapshotSummary } from '../../../sh
 import type { ImportResult, Sketch } from '../../../shared/model/sketchApi.ts';
 import type { EditInput, EditOutcome } from '../../realtime/editLog.ts';
 import * as repo from './repository.ts';
+import { readStoredAnalysis } from '../../../shared/flight/designPoints.ts';
 
 type Row = NonNullable<Awaited<ReturnType<typeof repo.findSnapshot>>>;
 const toSummary = (r: Omit<Row, 'title' | 'document' | 'result'>): SnapshotSummary => ({ ...r, createdAt: r.createdAt.toISOString() });
@@ -68,7 +69,7 @@ export async function getSnapshot(ctx: AppContext, userId: string, snapshotId: s
   if (!row) throw new HttpError(404, 'not_found', 'No such snapshot.');
   await authorizeSketch(ctx.db, userId, row.sketchId, 'viewer', 'see snapshots');
   const { title, document, result, ...rest } = row;
-  return { ...toSummary(rest), title, document: normalizeDocument(document), result: result ?? null };
+  return { ...toSummary(rest), title, document: normalizeDocument(document), result: readStoredAnalysis(result) };
 }
 
 /**

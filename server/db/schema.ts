@@ -13,6 +13,9 @@ import {
   timestamp,
   varchar,
 } from 'drizzle-orm/pg-core';
+import { UNIT_SYSTEMS } from '../../shared/flight/units.ts';
+import { ROLES } from '../../shared/model/roles.ts';
+import { PIN_STATUSES, SNAPSHOT_KINDS } from '../../shared/model/review.ts';
 
 /**
  * The database schema: the source of truth. Properties are camelCase, columns snake_case; every
@@ -27,7 +30,10 @@ const timestamps = {
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 };
 
-export const roleEnum = pgEnum('role', ['owner', 'editor', 'reviewer', 'viewer']);
+// Database enums are built from the shared vocabularies, so a word added to a list reaches the
+// database through a generated migration instead of a second hand-kept copy.
+export const roleEnum = pgEnum('role', ROLES);
+export const unitSystemEnum = pgEnum('unit_system', UNIT_SYSTEMS);
 export const reviewStatusEnum = pgEnum('review_status', ['draft', 'in_review', 'approved']);
 
 export const users = pgTable('users', {
@@ -37,8 +43,8 @@ export const users = pgTable('users', {
   name: text('name').notNull(),
   /** argon2id PHC string. */
   passwordHash: text('password_hash').notNull(),
-  /** Display units for dimensional results: 'si' or 'us' (shared/flight/units.ts). */
-  unitSystem: text('unit_system').notNull().default('si'),
+  /** Display units for dimensional results (shared/flight/units.ts). */
+  unitSystem: unitSystemEnum('unit_system').notNull().default('si'),
   ...timestamps,
 });
 
@@ -256,7 +262,7 @@ export const socketIoAttachments = pgTable('socket_io_attachments', {
   payload: bytea('payload'),
 });
 
-export const pinStatusEnum = pgEnum('pin_status', ['open', 'resolved']);
+export const pinStatusEnum = pgEnum('pin_status', PIN_STATUSES);
 
 /**
  * Review pins: a comment placed on a point, a facet or a wave of a sketch, opening a thread.
@@ -296,7 +302,7 @@ export const pinReplies = pgTable(
   (t) => [index('pin_replies_pin_idx').on(t.pinId, t.createdAt)],
 );
 
-export const snapshotKindEnum = pgEnum('snapshot_kind', ['manual', 'before_restore', 'before_import']);
+export const snapshotKindEnum = pgEnum('snapshot_kind', SNAPSHOT_KINDS);
 
 /** Named, restorable versions of a sketch: title, document and the stored result at a revision. */
 export const snapshots = pgTable(

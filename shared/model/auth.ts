@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { textSchema } from './text.ts';
+import { roleSchema } from './roles.ts';
 
 export const emailSchema = textSchema({ error: 'is required' })
   .trim()
@@ -29,7 +30,7 @@ export type SignUp = z.infer<typeof signUpSchema>;
 /** What GET /api/auth/me answers. */
 export const meSchema = z.object({
   user: z.object({ id: z.string(), email: z.string(), name: z.string() }),
-  teams: z.array(z.object({ teamId: z.string(), teamName: z.string(), role: z.enum(['owner', 'editor', 'reviewer', 'viewer']) })),
+  teams: z.array(z.object({ teamId: z.string(), teamName: z.string(), role: roleSchema })),
   /** Whether the development mailbox exists on this server (not in production). */
   devMailbox: z.boolean().default(false),
   /** Whether this person may read every message of the development mailbox (else only their own). */

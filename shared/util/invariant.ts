@@ -38,3 +38,13 @@ export function cyclicItem<T>(list: ArrayLike<T>, index: number): T {
   const n = list.length;
   return itemAt(list, ((index % n) + n) % n);
 }
+
+/** A tuple of `N` items of type T (N a small literal). */
+export type Tuple<T, N extends number, Acc extends T[] = []> = Acc['length'] extends N ? Acc : Tuple<T, N, [...Acc, T]>;
+
+/** The first `n` items of a list as a tuple, for destructuring; throws when the list is shorter. */
+export function firstItems<T, N extends number>(list: readonly T[], n: N): Tuple<T, N> {
+  if (list.length < n) throw new Error(`Invariant broken: ${n} items needed, the list has ${list.length}`);
+  // Checked just above: the slice has exactly n items.
+  return list.slice(0, n) as Tuple<T, N>;
+}

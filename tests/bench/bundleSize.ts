@@ -30,12 +30,17 @@ export function routeInitialJs(outDir: string, routeSource: string): RouteSize {
   const manifest = JSON.parse(readFileSync(path.join(outDir, '.vite/manifest.json'), 'utf8')) as Record<string, ManifestChunk>;
   const entry = Object.entries(manifest).find(([, c]) => c.isEntry)?.[0];
   if (!entry) throw new Error('The build manifest has no entry chunk.');
-  if (!manifest[routeSource]) throw new Error(`The build manifest has no chunk for ${routeSource}.`);
+  const chunk = (key: string): ManifestChunk => {
+    const c = manifest[key];
+    if (!c) throw new Error(`The build manifest has no chunk for ${key}.`);
+    return c;
+  };
+  chunk(routeSource);
   const seen = new Set<string>();
   const visit = (key: string) => {
     if (seen.has(key)) return;
     seen.add(key);
-    for (const imp of manifest[key].imports ?? []) visit(imp);
+    for (const imp of chunk(key).imports ?? []) visit(imp);
   };
   visit(entry);
   visit(routeSource);
@@ -44,12 +49,12 @@ export function routeInitialJs(outDir: string, routeSource: string): RouteSize {
   const visitLazy = (key: string) => {
     if (lazy.has(key) || initial.has(key)) return;
     lazy.add(key);
-    for (const imp of [...(manifest[key].imports ?? []), ...(manifest[key].dynamicImports ?? [])]) visitLazy(imp);
+    for (const imp of [...(chunk(key).imports ?? []), ...(chunk(key).dynamicImports ?? [])]) visitLazy(imp);
   };
-  for (const dyn of manifest[routeSource].dynamicImports ?? []) visitLazy(dyn);
+  for (const dyn of chunk(routeSource).dynamicImports ?? []) visitLazy(dyn);
   const sizes = (keys: Iterable<string>) =>
     [...keys]
-      .map((key) => manifest[key].file)
+      .map((key) => chunk(key).file)
       .filter((f) => f.endsWith('.js'))
       .map((file) => {
         const buf = readFileSync(path.join(outDir, file));

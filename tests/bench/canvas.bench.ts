@@ -33,6 +33,7 @@ import { openBrowser } from '../helpers/browser.ts';
 import { defaultSketchDocument } from '../../shared/model/sketch.ts';
 import { generateSection } from '../../shared/model/templates.ts';
 import { routeInitialJs } from './bundleSize.ts';
+import { firstItems, itemAt } from '../../shared/util/invariant.ts';
 
 const MOVES = 240;
 /** Section sizes dragged (issue target: p95 ≤ 16 ms on both). */
@@ -42,7 +43,7 @@ const kb = (n: number) => `${(n / 1024).toFixed(1)} KB`;
 
 function quantile(sorted: number[], q: number): number {
   if (sorted.length === 0) return Number.NaN;
-  return sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1))];
+  return itemAt(sorted, Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1)));
 }
 
 /** Creates a faceted biconvex of `vertices` vertices, opens it and drags its mid-chord upper vertex. */
@@ -75,8 +76,8 @@ async function dragBench(page: Page, baseUrl: string, vertices: number) {
   await canvas.waitFor();
   await page.getByTestId('coef-exact-cl').filter({ hasNotText: '—' }).waitFor();
   const box = (await canvas.boundingBox())!;
-  const [scale, originX, originY] = (await canvas.getAttribute('data-view'))!.split(' ').map(Number);
-  const vertex = generated.points[vertices / 4]; // mid-chord on the upper surface
+  const [scale, originX, originY] = firstItems((await canvas.getAttribute('data-view'))!.split(' ').map(Number), 3);
+  const vertex = itemAt(generated.points, vertices / 4); // mid-chord on the upper surface
   const x = box.x + vertex[0] * scale + originX;
   const y = box.y - vertex[1] * scale + originY;
 
@@ -157,7 +158,7 @@ async function main() {
       await page.getByTestId('sign-in-submit').click();
       await page.getByTestId('header-user').waitFor();
 
-      const [l1Before] = loadavg();
+      const [l1Before] = firstItems(loadavg(), 1);
       for (const vertices of SECTION_VERTICES) {
         const stats = await dragBench(page, server.url, vertices);
         const line = (name: string, v: number[]) =>
@@ -175,7 +176,7 @@ async function main() {
         }
         console.log('  (target p95 ≤ 16 ms)');
       }
-      const [l1, l5] = loadavg();
+      const [l1, l5] = firstItems(loadavg(), 2);
       console.log(`\nmachine: ${cpus().length} cores, load average ${l1Before.toFixed(1)} before the drags, ${l1.toFixed(1)} after (1 min), ${l5.toFixed(1)} (5 min) — other work on the machine shows in the p95`);
       if (browser.foreignRequests.length > 0) console.log(`  note: the page tried to reach other hosts: ${browser.foreignRequests.join(', ')}`);
     } finally {

@@ -12,20 +12,21 @@ import { RT_PASSWORD, seedTeam } from '../helpers/realtimeWorld.ts';
 import { prng, signInCookie, simClient, until, type SimClient } from '../helpers/simClient.ts';
 import { startServerProcess } from '../helpers/serverProcess.ts';
 import type { EditOp } from '../../shared/protocol/messages.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 const CLIENTS = Number(process.env.BENCH_CLIENTS ?? 25);
 const RATE_PER_S = Number(process.env.BENCH_RATE ?? 10);
 const DURATION_S = Number(process.env.BENCH_SECONDS ?? 20);
 
 function cpuSeconds(pid: number): number {
-  const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+  const fields = itemAt(readFileSync(`/proc/${pid}/stat`, 'utf8').split(') '), 1).split(' ');
   return (Number(fields[11]) + Number(fields[12])) / 100; // utime + stime, clock ticks at 100 Hz
 }
 function memoryMb(pid: number, key: 'VmRSS' | 'VmHWM'): number {
   const line = readFileSync(`/proc/${pid}/status`, 'utf8').split('\n').find((l) => l.startsWith(key))!;
   return Number(line.split(/\s+/)[1]) / 1024;
 }
-const pct = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
+const pct = (sorted: number[], p: number) => itemAt(sorted, Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length)));
 
 async function main() {
   const cluster = await startThrowawayCluster();
@@ -41,7 +42,7 @@ async function main() {
   const receivedBy = new Map<string, number>();
   const clients: SimClient[] = [];
   for (let i = 0; i < CLIENTS; i++) {
-    const c = simClient(server.url, await signInCookie(server.url, world.users[i % 5].email, RT_PASSWORD));
+    const c = simClient(server.url, await signInCookie(server.url, itemAt(world.users, i % 5).email, RT_PASSWORD));
     c.socket.on('message', (m) => {
       if (m.type === 'edit') {
         const t0 = sentAt.get(m.op.opId);
@@ -71,7 +72,7 @@ async function main() {
       while (Date.now() < stopAt) {
         const pts = c.engine.state!.document.section.points;
         const k = Math.floor(rand() * pts.length);
-        const op: EditOp = { type: 'moveVertices', opId: `b${i}-${n++}`, indices: [k], to: [[pts[k][0] + (rand() - 0.5) * 0.002, pts[k][1] + (rand() - 0.5) * 0.002]] };
+        const op: EditOp = { type: 'moveVertices', opId: `b${i}-${n++}`, indices: [k], to: [[itemAt(pts, k)[0] + (rand() - 0.5) * 0.002, itemAt(pts, k)[1] + (rand() - 0.5) * 0.002]] };
         if (c.engine.submit(op).ok) c.submitted.push(op.opId);
         await new Promise((r) => setTimeout(r, 1000 / RATE_PER_S));
       }

@@ -23,6 +23,7 @@
 import { cpus, loadavg } from 'node:os';
 import type { SolveInput } from '../../shared/model/solveInput';
 import { solveSection } from '../../shared/solver/solveSection';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 function demoSection(facets: number): [number, number][] {
   const m = facets / 2; // facets per surface
@@ -49,7 +50,7 @@ function input(points: [number, number][], mach: number, alphaDeg: number, waves
 
 function quantile(sorted: number[], q: number): number {
   const i = Math.min(sorted.length - 1, Math.max(0, Math.round(q * (sorted.length - 1))));
-  return sorted[i];
+  return itemAt(sorted, i);
 }
 
 /** Per-call times (µs) of `samples` batches of `batch` calls each. */
@@ -125,8 +126,8 @@ const header = [
   'with wave map p95 µs',
   'waves',
 ];
-const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-const fmtRow = (r: string[]) => r.map((c, i) => c.padStart(widths[i])).join('  ');
+const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => itemAt(r, i).length)));
+const fmtRow = (r: string[]) => r.map((c, i) => c.padStart(itemAt(widths, i))).join('  ');
 console.log('Section solve (demo fin, M 2.5, α 3°, γ 1.4)');
 console.log(fmtRow(header));
 for (const r of rows) console.log(fmtRow(r));
@@ -299,7 +300,7 @@ async function chromiumStudy(doc: unknown, definition: unknown, points: number):
       },
       { doc, definition },
     );
-    const cold = times[0];
+    const cold = itemAt(times, 0);
     const warm = times.slice(1).sort((a, b) => a - b);
     const version = browser.version();
     console.log(`Study in headless Chromium ${version}, Web Worker (Vite bundle of src/workers/study.worker.ts), ${points} points`);

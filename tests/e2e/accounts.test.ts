@@ -3,6 +3,7 @@ import type { RunningServer } from '../../server/index.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, type BrowserSession } from '../helpers/browser.ts';
 import { mailMessages } from '../../server/db/schema.ts';
+import { firstItems } from '../../shared/util/invariant.ts';
 
 describe('accounts in Chromium: sign up, confirm, invite, read the mail, accept in a second browser', () => {
   let server: RunningServer;
@@ -15,7 +16,7 @@ describe('accounts in Chromium: sign up, confirm, invite, read the mail, accept 
     // Mara runs this development server: she is its mailbox operator (everyone else reads only their own mail).
     world = await startBrowserWorld({ seed: false, mail: true, browsers: 2, env: { MAILBOX_OPERATOR: 'mara@keelworks.example' } });
     ({ server } = world);
-    [founder, colleague] = world.browsers;
+    [founder, colleague] = firstItems(world.browsers, 2);
   });
   afterAll(async () => world?.close());
 

@@ -7,6 +7,7 @@ import { sketches } from '../../server/db/schema.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
+import { firstItems, itemAt } from '../../shared/util/invariant.ts';
 
 
 
@@ -24,7 +25,7 @@ describe('live collaboration in two browsers', () => {
   beforeAll(async () => {
     world = await startBrowserWorld({ browsers: 2 });
     ({ database, server } = world);
-    [ines, tomasz] = world.browsers;
+    [ines, tomasz] = firstItems(world.browsers, 2);
     const fin = await database.db.query.sketches.findFirst({ where: eq(sketches.title, 'Tern fin root — double wedge, 5% thick, ridge at 40%') });
     sketchId = fin!.id;
   });
@@ -32,7 +33,7 @@ describe('live collaboration in two browsers', () => {
 
   it('both open the same sketch and see each other present', async () => {
     await signInDemo(ines.page, DEMO_PEOPLE[0].email, server.url);
-    await signInDemo(tomasz.page, DEMO_PEOPLE[1].email, server.url);
+    await signInDemo(tomasz.page, itemAt(DEMO_PEOPLE, 1).email, server.url);
     for (const { page } of [ines, tomasz]) {
       await page.goto(`${server.url}/sketches/${sketchId}`);
       await page.getByTestId('sketch-canvas').waitFor();

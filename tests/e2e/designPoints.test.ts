@@ -9,6 +9,7 @@ import { normalizeDocument, selectedPoint } from '../../shared/model/sketch.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, signInDemo, textOf } from '../helpers/browser.ts';
+import { firstItems, itemAt } from '../../shared/util/invariant.ts';
 
 /**
  * Design points with two people in one sketch: Tomasz (editor) adds, renames, edits, selects
@@ -39,7 +40,7 @@ describe('design points, live between two editors and a reviewer', () => {
   beforeAll(async () => {
     world = await startBrowserWorld({ browsers: 3 });
     ({ database, server } = world);
-    [ines, tomasz, priya] = world.browsers.map((b) => b.page);
+    [ines, tomasz, priya] = firstItems(world.browsers.map((b) => b.page), 3);
     const root = await database.db.query.sketches.findFirst({ where: eq(sketches.title, 'Tern fin root — double wedge, 5% thick, ridge at 40%') });
     sketchId = root!.id;
   });
@@ -47,8 +48,8 @@ describe('design points, live between two editors and a reviewer', () => {
 
   it('all three open the fin root live and see its three design points', async () => {
     await signInDemo(ines, DEMO_PEOPLE[0].email, server.url);
-    await signInDemo(tomasz, DEMO_PEOPLE[1].email, server.url);
-    await signInDemo(priya, DEMO_PEOPLE[2].email, server.url);
+    await signInDemo(tomasz, itemAt(DEMO_PEOPLE, 1).email, server.url);
+    await signInDemo(priya, itemAt(DEMO_PEOPLE, 2).email, server.url);
     for (const page of [ines, tomasz, priya]) {
       await page.goto(`${server.url}/sketches/${sketchId}`);
       await page.getByTestId('design-points').waitFor();

@@ -6,6 +6,7 @@ import { DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
 import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { ARTIFACTS_DIR, screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
+import { firstItem, itemAt } from '../../shared/util/invariant.ts';
 
 
 
@@ -20,7 +21,7 @@ describe('sketch editor in Chromium', () => {
   beforeAll(async () => {
     world = await startBrowserWorld();
     ({ server } = world);
-    [browser] = world.browsers;
+    browser = firstItem(world.browsers);
   });
   afterAll(async () => world?.close());
 
@@ -212,7 +213,7 @@ describe('sketch editor in Chromium', () => {
     const { page } = browser;
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.getByTestId('sign-in-email').waitFor();
-    await signInDemo(page, DEMO_PEOPLE[3].email, server.url);
+    await signInDemo(page, itemAt(DEMO_PEOPLE, 3).email, server.url);
     expect(await page.getByTestId('new-sketch').count()).toBe(0);
     expect(await page.locator('[data-testid^="rename-"]').count()).toBe(0);
     expect(await page.locator('[data-testid^="delete-"]').count()).toBe(0);

@@ -8,6 +8,7 @@ import { selectedPoint, type SketchDocument } from '../../shared/model/sketch.ts
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, signInDemo, textOf, type BrowserSession } from '../helpers/browser.ts';
+import { firstItem, itemAt } from '../../shared/util/invariant.ts';
 
 /**
  * Two people typing in the same form fields at once (useFieldEdits [F1]–[F5]): nobody's typing
@@ -35,9 +36,9 @@ describe('form fields while a colleague edits (two browsers)', () => {
   beforeAll(async () => {
     world = await startBrowserWorld({ browsers: 2 });
     ({ database, server } = world);
-    [inesSession] = world.browsers;
-    ines = world.browsers[0].page;
-    tomasz = world.browsers[1].page;
+    inesSession = firstItem(world.browsers);
+    ines = itemAt(world.browsers, 0).page;
+    tomasz = itemAt(world.browsers, 1).page;
     const tip = await database.db.query.sketches.findFirst({ where: eq(sketches.title, 'Tern fin tip — hexagonal, 4% thick') });
     sketchId = tip!.id;
   });
@@ -45,7 +46,7 @@ describe('form fields while a colleague edits (two browsers)', () => {
 
   it('both open the same sketch, live, and see each other', async () => {
     await signInDemo(ines, DEMO_PEOPLE[0].email, server.url);
-    await signInDemo(tomasz, DEMO_PEOPLE[1].email, server.url);
+    await signInDemo(tomasz, itemAt(DEMO_PEOPLE, 1).email, server.url);
     for (const page of [ines, tomasz]) {
       await page.goto(`${server.url}/sketches/${sketchId}`);
       await page.getByTestId('sketch-canvas').waitFor();

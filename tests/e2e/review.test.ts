@@ -9,9 +9,10 @@ import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, signInDemo, textOf, worldOnScreen, type BrowserSession } from '../helpers/browser.ts';
+import { firstItem, firstItems, itemAt } from '../../shared/util/invariant.ts';
 
-const [INES, TOMASZ, PRIYA] = DEMO_PEOPLE;
-const FIN = DEMO_SKETCHES[0];
+const [INES, TOMASZ, PRIYA] = firstItems(DEMO_PEOPLE, 3);
+const FIN = itemAt(DEMO_SKETCHES, 0);
 
 
 
@@ -31,7 +32,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
   beforeAll(async () => {
     world = await startBrowserWorld({ mail: true, browsers: 2 });
     ({ database, server } = world);
-    [reviewer, editor] = world.browsers;
+    [reviewer, editor] = firstItems(world.browsers, 2);
     const fin = await database.db.query.sketches.findFirst({ where: eq(sketches.title, FIN.title) });
     sketchId = fin!.id;
   });
@@ -85,7 +86,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
 
   it('the mentioned editor gets an e-mail with a link to the pin', async () => {
     await expect.poll(async () => (await mailsTo(TOMASZ.email)).length, { timeout: 10_000 }).toBe(1);
-    const [mail] = await mailsTo(TOMASZ.email);
+    const mail = firstItem(await mailsTo(TOMASZ.email));
     expect(mail.subject).toBe(`Priya Vance mentioned you on “${FIN.title}”`);
     const link = /https?:\/\/\S+\?pin=pin_[a-z0-9]{20}/.exec(mail.textBody);
     expect(link).not.toBeNull();
@@ -219,7 +220,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     await page.getByTestId('review-request-send').click();
     await expect.poll(() => page.getByTestId('review-status').getAttribute('data-status')).toBe('in_review');
     await expect.poll(async () => (await mailsTo(PRIYA.email)).map((m) => m.subject)).toEqual([`Ines Marlow asks you to review “${FIN.title}”`]);
-    expect((await mailsTo(PRIYA.email))[0].textBody).toContain('Please check the restored root before we freeze it.');
+    expect(itemAt((await mailsTo(PRIYA.email)), 0).textBody).toContain('Please check the restored root before we freeze it.');
 
     // Ines made the last edit (the restore): approval must come from someone else.
     await page.getByTestId('review-self-hint').waitFor();
@@ -261,7 +262,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     const { page } = editor;
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.getByTestId('sign-in-email').waitFor();
-    await signInDemo(page, DEMO_PEOPLE[3].email, server.url);
+    await signInDemo(page, itemAt(DEMO_PEOPLE, 3).email, server.url);
     await page.getByTestId(`open-${sketchId}`).click();
     await page.getByTestId('sketch-canvas').waitFor();
     expect(await text(page, 'review-status')).toBe('Approved');

@@ -3,6 +3,7 @@ import type { RunningServer } from '../../server/index.ts';
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_TEAM } from '../../server/db/seed.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, type BrowserSession } from '../helpers/browser.ts';
+import { firstItem } from '../../shared/util/invariant.ts';
 
 describe('app shell in Chromium', () => {
   let server: RunningServer;
@@ -13,7 +14,7 @@ describe('app shell in Chromium', () => {
   beforeAll(async () => {
     world = await startBrowserWorld();
     ({ server } = world);
-    [browser] = world.browsers;
+    browser = firstItem(world.browsers);
   });
   afterAll(async () => world?.close());
 

@@ -10,6 +10,7 @@ import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { ARTIFACTS_DIR, screenshot, signInDemo, type BrowserSession } from '../helpers/browser.ts';
 import { pdfPageCount, pdfText, pdfToPng } from '../helpers/pdf.ts';
+import { firstItem } from '../../shared/util/invariant.ts';
 
 const CANARD = DEMO_SKETCHES.find((s) => s.title.startsWith('Tern canard'))!;
 
@@ -25,9 +26,8 @@ describe('studies and the PDF report in Chromium', () => {
   beforeAll(async () => {
     world = await startBrowserWorld();
     ({ database, server } = world);
-    [browser] = world.browsers;
-    const [row] = await database.db.select({ id: sketches.id }).from(sketches).where(eq(sketches.title, CANARD.title));
-    sketchId = row.id;
+    browser = firstItem(world.browsers);
+    sketchId = firstItem(await database.db.select({ id: sketches.id }).from(sketches).where(eq(sketches.title, CANARD.title))).id;
   });
   afterAll(async () => world?.close());
 

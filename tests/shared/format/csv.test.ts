@@ -9,6 +9,7 @@ import { parseSolveInput } from '../../../shared/model/solveInput.ts';
 import { solveSection } from '../../../shared/solver/index.ts';
 import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
 import { reached } from '../../helpers/reached.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 /**
  * A minimal reader of RFC 4180 CSV, as a spreadsheet splits a file: returns the rows of cells as
@@ -89,8 +90,8 @@ describe('[CSV1]–[CSV4] CSV cells safe to open in a spreadsheet (OWASP "CSV In
         const rows = readCsv(`${csvRow([text, n, text])}\n`);
         expect(rows).toHaveLength(1);
         expect(rows[0]).toHaveLength(3);
-        for (const cell of [rows[0][0], rows[0][2]]) expect(runsAsFormula(cell), JSON.stringify(cell)).toBe(false);
-        expect(Number(rows[0][1])).toBe(n + 0);
+        for (const cell of [itemAt(itemAt(rows, 0), 0), itemAt(itemAt(rows, 0), 2)]) expect(runsAsFormula(cell), JSON.stringify(cell)).toBe(false);
+        expect(Number(itemAt(rows, 0)[1])).toBe(n + 0);
         hits.hit();
       }),
       { numRuns: 600 },

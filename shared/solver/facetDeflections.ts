@@ -1,5 +1,6 @@
 import type { SurfaceChain } from './splitSurfaces';
 import type { SurfaceName } from './types';
+import { itemAt } from '../util/invariant.ts';
 
 /**
  * Deflection of each facet from the free stream, radians, + = into the flow (compression).
@@ -22,13 +23,13 @@ export function facetDeflections(
   if (m === 0) return out;
   const turn = chain.turn;
   if (surface === 'upper') {
-    let theta = chain.phi[0] - alpha;
+    let theta = itemAt(chain.phi, 0) - alpha;
     out[0] = theta;
-    for (let k = 1; k < m; k++) out[k] = theta += turn[k];
+    for (let k = 1; k < m; k++) out[k] = theta += itemAt(turn, k);
   } else {
-    let theta = alpha - chain.phi[0];
+    let theta = alpha - itemAt(chain.phi, 0);
     out[0] = theta;
-    for (let k = 1; k < m; k++) out[k] = theta -= turn[k];
+    for (let k = 1; k < m; k++) out[k] = theta -= itemAt(turn, k);
   }
   return out;
 }

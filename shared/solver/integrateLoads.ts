@@ -1,5 +1,6 @@
 import { COEFFICIENT_ZERO } from './constants';
 import type { Coefficients, SurfaceCoefficients } from './types';
+import { itemAt } from '../util/invariant.ts';
 
 /** A surface for load integration: its vertices nose → tail. */
 export interface LoadSurface {
@@ -92,13 +93,13 @@ function surfaceForce(
   const rx = ref[0];
   const ry = ref[1];
   for (let k = 0; k < cp.length; k++) {
-    const dx = xs[k + 1] - xs[k];
-    const dy = ys[k + 1] - ys[k];
+    const dx = itemAt(xs, k + 1) - itemAt(xs, k);
+    const dy = itemAt(ys, k + 1) - itemAt(ys, k);
     // F = −Cp·n·len with n·len = side·(−dy, dx)
-    const px = side * cp[k] * dy;
-    const py = -side * cp[k] * dx;
-    const mx = 0.5 * (xs[k] + xs[k + 1]) - rx;
-    const my = 0.5 * (ys[k] + ys[k + 1]) - ry;
+    const px = side * itemAt(cp, k) * dy;
+    const py = -side * itemAt(cp, k) * dx;
+    const mx = 0.5 * (itemAt(xs, k) + itemAt(xs, k + 1)) - rx;
+    const my = 0.5 * (itemAt(ys, k) + itemAt(ys, k + 1)) - ry;
     fx += px;
     fy += py;
     mz += mx * py - my * px;

@@ -3,6 +3,7 @@ import { obliqueShock } from './obliqueShock';
 import { machParameterAfterExpansion, prandtlMeyer, prandtlMeyerMax } from './prandtlMeyer';
 import { sonicDeflection } from './sonicDeflection';
 import type { FacetWave } from './types';
+import { itemAt } from '../util/invariant.ts';
 
 /** Why a surface march stopped. Angles in radians. */
 export interface SurfaceLimit {
@@ -89,8 +90,9 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
 
   let prevTheta = 0;
   for (let k = 0; k < m; k++) {
-    const d = theta[k] - prevTheta;
-    prevTheta = theta[k];
+    const thetaK = itemAt(theta, k);
+    const d = thetaK - prevTheta;
+    prevTheta = thetaK;
     turn[k] = d;
     wave[k] = d > ZERO_TURN_RAD ? 'shock' : d < -ZERO_TURN_RAD ? 'fan' : k === 0 ? 'mach' : 'none';
   }
@@ -103,7 +105,7 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
   let nuAhead = prandtlMeyer(machInf, gamma);
   let k = 0;
   for (; k < m; k++) {
-    const d = turn[k];
+    const d = itemAt(turn, k);
     const kind = wave[k];
     let b = 0;
     let tMax = 0;

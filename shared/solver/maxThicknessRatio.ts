@@ -1,4 +1,5 @@
 import type { SurfaceChain } from './splitSurfaces';
+import { itemAt } from '../util/invariant.ts';
 
 /**
  * Thickness ratio t/c: the largest distance between the upper and the lower surface measured
@@ -14,17 +15,17 @@ import type { SurfaceChain } from './splitSurfaces';
  * Source: common practice (thickness ratio t/c, measured normal to the chord line).
  */
 export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower: Pick<SurfaceChain, 'xs' | 'ys'>): number {
-  const x0 = upper.xs[0];
-  const y0 = upper.ys[0];
-  const ex = upper.xs[upper.xs.length - 1] - x0;
-  const ey = upper.ys[upper.ys.length - 1] - y0;
+  const x0 = itemAt(upper.xs, 0);
+  const y0 = itemAt(upper.ys, 0);
+  const ex = itemAt(upper.xs, upper.xs.length - 1) - x0;
+  const ey = itemAt(upper.ys, upper.ys.length - 1) - y0;
   const chord = Math.hypot(ex, ey);
   if (!(chord > 0)) return 0;
   const cx = ex / chord;
   const cy = ey / chord;
   const toChordAxes = (c: Pick<SurfaceChain, 'xs' | 'ys'>) => {
-    const xs = c.xs.map((x, i) => (x - x0) * cx + (c.ys[i] - y0) * cy);
-    const ys = c.xs.map((x, i) => -(x - x0) * cy + (c.ys[i] - y0) * cx);
+    const xs = c.xs.map((x, i) => (x - x0) * cx + (itemAt(c.ys, i) - y0) * cy);
+    const ys = c.xs.map((x, i) => -(x - x0) * cy + (itemAt(c.ys, i) - y0) * cx);
     return { xs, ys };
   };
   const u = toChordAxes(upper);
@@ -37,7 +38,7 @@ export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower:
 }
 
 function monotone(xs: readonly number[]): boolean {
-  for (let i = 1; i < xs.length; i++) if (xs[i] < xs[i - 1]) return false;
+  for (let i = 1; i < xs.length; i++) if (itemAt(xs, i) < itemAt(xs, i - 1)) return false;
   return true;
 }
 
@@ -47,19 +48,19 @@ function sweep(a: Pick<SurfaceChain, 'xs' | 'ys'>, b: Pick<SurfaceChain, 'xs' | 
   let j = 0;
   const nb = b.xs.length;
   for (let i = 0; i < a.xs.length; i++) {
-    const x = a.xs[i];
-    while (j < nb - 2 && b.xs[j + 1] < x) j++;
-    const x0 = b.xs[j];
-    const x1 = b.xs[j + 1];
+    const x = itemAt(a.xs, i);
+    while (j < nb - 2 && itemAt(b.xs, j + 1) < x) j++;
+    const x0 = itemAt(b.xs, j);
+    const x1 = itemAt(b.xs, j + 1);
     let yb: number;
     if (x1 > x0) {
       const f = Math.min(1, Math.max(0, (x - x0) / (x1 - x0)));
-      yb = b.ys[j] + f * (b.ys[j + 1] - b.ys[j]);
+      yb = itemAt(b.ys, j) + f * (itemAt(b.ys, j + 1) - itemAt(b.ys, j));
     } else {
       // A vertical step in b: take the side that keeps the thickness smallest.
-      yb = sign > 0 ? Math.max(b.ys[j], b.ys[j + 1]) : Math.min(b.ys[j], b.ys[j + 1]);
+      yb = sign > 0 ? Math.max(itemAt(b.ys, j), itemAt(b.ys, j + 1)) : Math.min(itemAt(b.ys, j), itemAt(b.ys, j + 1));
     }
-    const t = sign * (a.ys[i] - yb);
+    const t = sign * (itemAt(a.ys, i) - yb);
     if (t > best) best = t;
   }
   return best;
@@ -68,7 +69,7 @@ function sweep(a: Pick<SurfaceChain, 'xs' | 'ys'>, b: Pick<SurfaceChain, 'xs' | 
 function extentAtVertices(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower: Pick<SurfaceChain, 'xs' | 'ys'>): number {
   const edges: [number, number, number, number][] = [];
   for (const c of [upper, lower]) {
-    for (let k = 0; k + 1 < c.xs.length; k++) edges.push([c.xs[k], c.ys[k], c.xs[k + 1], c.ys[k + 1]]);
+    for (let k = 0; k + 1 < c.xs.length; k++) edges.push([itemAt(c.xs, k), itemAt(c.ys, k), itemAt(c.xs, k + 1), itemAt(c.ys, k + 1)]);
   }
   let best = 0;
   for (const c of [upper, lower]) {

@@ -33,6 +33,7 @@ import type {
   TheoryResult,
   TrailingEdge,
 } from './types';
+import { itemAt } from '../util/invariant.ts';
 
 /**
  * Solves a polygonal section in a supersonic stream: the exact shock-expansion march over
@@ -74,8 +75,8 @@ export function solveSection(input: SolveInput): SolveResult {
   const alpha = alphaDeg * RAD_PER_DEG;
   const split = splitSurfaces(points);
   const chord = split.chord;
-  const nosePt = points[split.noseIndex];
-  const tailPt = points[split.tailIndex];
+  const nosePt = itemAt(points, split.noseIndex);
+  const tailPt = itemAt(points, split.tailIndex);
   const nose: Point = [nosePt[0], nosePt[1]];
   const tail: Point = [tailPt[0], tailPt[1]];
   const refChord = input.reference?.chord ?? chord;
@@ -173,8 +174,8 @@ export function solveSection(input: SolveInput): SolveResult {
     const lu = facetsU.length - 1;
     const ll = facetsL.length - 1;
     match = matchTrailingEdge(
-      { mach: marchU.mach[lu], pRatio: marchU.pRatio[lu], direction: upperChain.phi[lu], nu: marchU.nu[lu] },
-      { mach: marchL.mach[ll], pRatio: marchL.pRatio[ll], direction: lowerChain.phi[ll], nu: marchL.nu[ll] },
+      { mach: itemAt(marchU.mach, lu), pRatio: itemAt(marchU.pRatio, lu), direction: itemAt(upperChain.phi, lu), nu: marchU.nu[lu] },
+      { mach: itemAt(marchL.mach, ll), pRatio: itemAt(marchL.pRatio, ll), direction: itemAt(lowerChain.phi, ll), nu: marchL.nu[ll] },
       gamma,
     );
     trailingEdge = trailingEdgeResult(match);
@@ -256,7 +257,7 @@ function upperOrLower(name: SurfaceName, upper: SurfaceChain, lower: SurfaceChai
 function theoryCp(theta: readonly number[], c1: number, c2: number): number[] {
   const out: number[] = new Array(theta.length);
   for (let k = 0; k < theta.length; k++) {
-    const t = theta[k];
+    const t = itemAt(theta, k);
     out[k] = c1 * t + c2 * t * t;
   }
   return out;
@@ -287,12 +288,12 @@ function buildFacets(
   const ys = chain.ys;
   const solvedCount = march ? march.solved : 0;
   const vacuumFrom = march && march.limit?.status === 'vacuum' ? march.solved : m;
-  let from: Point = [xs[0], ys[0]];
+  let from: Point = [itemAt(xs, 0), itemAt(ys, 0)];
   for (let k = 0; k < m; k++) {
-    const turn = k === 0 ? theta[0] : theta[k] - theta[k - 1];
-    const to: Point = [xs[k + 1], ys[k + 1]];
+    const turn = k === 0 ? itemAt(theta, 0) : itemAt(theta, k) - itemAt(theta, k - 1);
+    const to: Point = [itemAt(xs, k + 1), itemAt(ys, k + 1)];
     const wave: FacetWave = march
-      ? march.wave[k]
+      ? itemAt(march.wave, k)
       : turn > ZERO_TURN_RAD
         ? 'shock'
         : turn < -ZERO_TURN_RAD
@@ -304,18 +305,18 @@ function buildFacets(
     // object spread measured ~100× slower in this hot loop (V8 loses the fixed object shape).
     let facet: Facet;
     if (march && k < solvedCount) {
-      const mk = march.mach[k];
-      const p = march.pRatio[k];
+      const mk = itemAt(march.mach, k);
+      const p = itemAt(march.pRatio, k);
       const t = t0 / (1 + h * mk * mk);
       const cp = (p - 1) * qScale;
       if (cpOut) cpOut[k] = cp;
       facet = {
-        index: chain.edges[k],
+        index: itemAt(chain.edges, k),
         from,
         to,
-        length: chain.length[k],
-        phiDeg: chain.phi[k] * DEG_PER_RAD,
-        thetaDeg: theta[k] * DEG_PER_RAD,
+        length: itemAt(chain.length, k),
+        phiDeg: itemAt(chain.phi, k) * DEG_PER_RAD,
+        thetaDeg: itemAt(theta, k) * DEG_PER_RAD,
         turnDeg: turn * DEG_PER_RAD,
         wave,
         solved: true,
@@ -323,22 +324,22 @@ function buildFacets(
         pRatio: p,
         tRatio: t,
         rhoRatio: p / t,
-        p0Ratio: march.p0Ratio[k],
+        p0Ratio: itemAt(march.p0Ratio, k),
         cp,
-        cpLinear: cpLin ? cpLin[k] : null,
-        cpSecondOrder: cp2 ? cp2[k] : null,
+        cpLinear: cpLin ? itemAt(cpLin, k) : null,
+        cpSecondOrder: cp2 ? itemAt(cp2, k) : null,
         vacuum: false,
-        xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
+        xMidOverC: (0.5 * (itemAt(xs, k) + itemAt(xs, k + 1)) - noseX) / chord,
       };
     } else if (k >= vacuumFrom) {
       if (cpOut) cpOut[k] = cpVacuum;
       facet = {
-        index: chain.edges[k],
+        index: itemAt(chain.edges, k),
         from,
         to,
-        length: chain.length[k],
-        phiDeg: chain.phi[k] * DEG_PER_RAD,
-        thetaDeg: theta[k] * DEG_PER_RAD,
+        length: itemAt(chain.length, k),
+        phiDeg: itemAt(chain.phi, k) * DEG_PER_RAD,
+        thetaDeg: itemAt(theta, k) * DEG_PER_RAD,
         turnDeg: turn * DEG_PER_RAD,
         wave,
         solved: false,
@@ -348,19 +349,19 @@ function buildFacets(
         rhoRatio: null,
         p0Ratio: null,
         cp: cpVacuum,
-        cpLinear: cpLin ? cpLin[k] : null,
-        cpSecondOrder: cp2 ? cp2[k] : null,
+        cpLinear: cpLin ? itemAt(cpLin, k) : null,
+        cpSecondOrder: cp2 ? itemAt(cp2, k) : null,
         vacuum: true,
-        xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
+        xMidOverC: (0.5 * (itemAt(xs, k) + itemAt(xs, k + 1)) - noseX) / chord,
       };
     } else {
       facet = {
-        index: chain.edges[k],
+        index: itemAt(chain.edges, k),
         from,
         to,
-        length: chain.length[k],
-        phiDeg: chain.phi[k] * DEG_PER_RAD,
-        thetaDeg: theta[k] * DEG_PER_RAD,
+        length: itemAt(chain.length, k),
+        phiDeg: itemAt(chain.phi, k) * DEG_PER_RAD,
+        thetaDeg: itemAt(theta, k) * DEG_PER_RAD,
         turnDeg: turn * DEG_PER_RAD,
         wave,
         solved: false,
@@ -370,10 +371,10 @@ function buildFacets(
         rhoRatio: null,
         p0Ratio: null,
         cp: null,
-        cpLinear: cpLin ? cpLin[k] : null,
-        cpSecondOrder: cp2 ? cp2[k] : null,
+        cpLinear: cpLin ? itemAt(cpLin, k) : null,
+        cpSecondOrder: cp2 ? itemAt(cp2, k) : null,
         vacuum: false,
-        xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
+        xMidOverC: (0.5 * (itemAt(xs, k) + itemAt(xs, k + 1)) - noseX) / chord,
       };
     }
     out[k] = facet;
@@ -446,8 +447,8 @@ function surfaceLimit(
   points: readonly (readonly [number, number])[],
   gamma: number,
 ): SolveLimit {
-  const vertex = chain.vertices[limit.facet];
-  const at: Point = [points[vertex][0], points[vertex][1]];
+  const vertex = itemAt(chain.vertices, limit.facet);
+  const at: Point = [itemAt(points, vertex)[0], itemAt(points, vertex)[1]];
   const atNose = limit.facet === 0;
   const where = atNose ? 'at the nose' : `at vertex ${vertex}`;
   const what = atNose ? 'deflection' : 'turn';
@@ -506,15 +507,15 @@ function bluntLimit(
   end: 'nose' | 'tail',
 ): SolveLimit {
   // The face's vertex of least y is the one the geometry reports as nose/tail.
-  let vertex = tied[0];
-  for (const i of tied) if (points[i][1] < points[vertex][1]) vertex = i;
+  let vertex = itemAt(tied, 0);
+  for (const i of tied) if (itemAt(points, i)[1] < itemAt(points, vertex)[1]) vertex = i;
   const list =
     tied.length === 2 ? `vertices ${tied[0]} and ${tied[1]}` : `vertices ${tied.slice(0, -1).join(', ')} and ${tied[tied.length - 1]}`;
   return {
     status: 'blunt',
     surface: end === 'nose' ? 'leadingEdge' : 'trailingEdge',
     vertex,
-    at: [points[vertex][0], points[vertex][1]],
+    at: [itemAt(points, vertex)[0], itemAt(points, vertex)[1]],
     message:
       `Blunt ${end}: ${list} form a vertical face at the ${end === 'nose' ? 'minimum' : 'maximum'} x; ` +
       `the shock-expansion method needs a single sharp ${end}.`,
@@ -602,20 +603,20 @@ function shockWarnings(
   for (let k = 0; k < march.solved; k++) {
     if (march.wave[k] !== 'shock') continue;
     const name = k === 0 ? 'nose shock' : `shock at vertex ${chain.vertices[k]}`;
-    const turn = march.turn[k];
-    const mAhead = k === 0 ? machInf : march.mach[k - 1];
-    if ((march.thetaMax[k] - turn) * DEG_PER_RAD < NEAR_DETACHMENT_WARNING_DEG) {
-      const f = degreesApart([[turn, march.thetaMax[k]]]);
+    const turn = itemAt(march.turn, k);
+    const mAhead = k === 0 ? machInf : itemAt(march.mach, k - 1);
+    if ((itemAt(march.thetaMax, k) - turn) * DEG_PER_RAD < NEAR_DETACHMENT_WARNING_DEG) {
+      const f = degreesApart([[turn, itemAt(march.thetaMax, k)]]);
       warnings.push(
         `The ${name} on the ${surface} surface is within 1° of detachment: ` +
           `${k === 0 ? 'deflection' : 'turn'} ${f(turn)}° against a maximum of ` +
-          `${f(march.thetaMax[k])}° at ${k === 0 ? 'M' : 'local M'} ${m2(mAhead)}.`,
+          `${f(itemAt(march.thetaMax, k))}° at ${k === 0 ? 'M' : 'local M'} ${m2(mAhead)}.`,
       );
     }
-    if (march.mach[k] < NEAR_SONIC_WARNING_MACH) {
+    if (itemAt(march.mach, k) < NEAR_SONIC_WARNING_MACH) {
       warnings.push(
         `Flow behind the ${name} on the ${surface} surface is barely supersonic ` +
-          `(M ${machNearOne(march.mach[k])}); a slightly larger deflection would make it subsonic.`,
+          `(M ${machNearOne(itemAt(march.mach, k))}); a slightly larger deflection would make it subsonic.`,
       );
     }
   }

@@ -1,6 +1,7 @@
 import { signedArea, type XY } from '../model/polygon';
 import { atanNearZero } from './atanNearZero';
 import { BLUNT_FACE_ANGLE_RAD } from './constants';
+import { itemAt } from '../util/invariant.ts';
 
 /** One surface as a vertex chain from the nose to the tail. Angles in radians. */
 export interface SurfaceChain {
@@ -64,8 +65,7 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
   let minY = Infinity;
   let maxY = -Infinity;
   for (let i = 0; i < n; i++) {
-    const x = points[i][0];
-    const y = points[i][1];
+    const [x, y] = itemAt(points, i);
     if (x < minX) minX = x;
     if (x > maxX) maxX = x;
     if (y < minY) minY = y;
@@ -77,19 +77,19 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
   // extreme vertices of the polygon (the orientation test at the nose relies on it).
   let noseIndex = 0;
   for (let i = 1; i < n; i++) {
-    const p = points[i];
-    const q = points[noseIndex];
+    const p = itemAt(points, i);
+    const q = itemAt(points, noseIndex);
     if (p[0] < q[0] || (p[0] === q[0] && p[1] < q[1])) noseIndex = i;
   }
   let tailIndex = -1;
   for (let i = 0; i < n; i++) {
     if (i === noseIndex) continue;
-    const p = points[i];
+    const p = itemAt(points, i);
     if (tailIndex < 0) {
       tailIndex = i;
       continue;
     }
-    const q = points[tailIndex];
+    const q = itemAt(points, tailIndex);
     if (p[0] > q[0] || (p[0] === q[0] && p[1] < q[1])) tailIndex = i;
   }
   if (tailIndex < 0) tailIndex = (noseIndex + 1) % n;
@@ -125,9 +125,9 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
  */
 function counterClockwise(points: readonly XY[], v: number): boolean {
   const n = points.length;
-  const p = points[(v + n - 1) % n];
-  const c = points[v];
-  const q = points[(v + 1) % n];
+  const p = itemAt(points, (v + n - 1) % n);
+  const c = itemAt(points, v);
+  const q = itemAt(points, (v + 1) % n);
   const cross = (c[0] - p[0]) * (q[1] - c[1]) - (c[1] - p[1]) * (q[0] - c[0]);
   return cross !== 0 ? cross > 0 : signedArea(points) > 0;
 }
@@ -149,13 +149,13 @@ function verticalFace(points: readonly XY[], v: number): number[] | null {
   const n = points.length;
   let first = v;
   let steps = 0;
-  while (steps < n - 1 && vertical(points[(first + n - 1) % n], points[first])) {
+  while (steps < n - 1 && vertical(itemAt(points, (first + n - 1) % n), itemAt(points, first))) {
     first = (first + n - 1) % n;
     steps++;
   }
   const out = [first];
   let i = first;
-  while (out.length < n && vertical(points[i], points[(i + 1) % n])) {
+  while (out.length < n && vertical(itemAt(points, i), itemAt(points, (i + 1) % n))) {
     i = (i + 1) % n;
     out.push(i);
   }
@@ -163,8 +163,8 @@ function verticalFace(points: readonly XY[], v: number): number[] | null {
 }
 
 function lowest(points: readonly XY[], indices: readonly number[]): number {
-  let best = indices[0];
-  for (const i of indices) if (points[i][1] < points[best][1]) best = i;
+  let best = itemAt(indices, 0);
+  for (const i of indices) if (itemAt(points, i)[1] < itemAt(points, best)[1]) best = i;
   return best;
 }
 
@@ -180,8 +180,8 @@ function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1):
   const turn: number[] = new Array(m);
   const length: number[] = new Array(m);
   let i = nose;
-  let x0 = points[i][0];
-  let y0 = points[i][1];
+  let x0 = itemAt(points, i)[0];
+  let y0 = itemAt(points, i)[1];
   vertices[0] = i;
   xs[0] = x0;
   ys[0] = y0;
@@ -192,8 +192,7 @@ function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1):
     let j = i + step;
     if (j === n) j = 0;
     else if (j < 0) j = n - 1;
-    const x1 = points[j][0];
-    const y1 = points[j][1];
+    const [x1, y1] = itemAt(points, j);
     const dx = x1 - x0;
     const dy = y1 - y0;
     edges[k] = step === 1 ? i : j;

@@ -6,6 +6,7 @@ import { machAngle } from './machAngle';
 import { machFromPrandtlMeyer, prandtlMeyer } from './prandtlMeyer';
 import type { SurfaceChain } from './splitSurfaces';
 import type { FanRay, Point, SurfaceName, Wave, WaveEndReason, WaveIntersection } from './types';
+import { itemAt } from '../util/invariant.ts';
 
 /** Everything the wave map needs from a solve. Angles in radians. */
 export interface WaveTraceInput {
@@ -77,9 +78,9 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
   // Candidate crossings between lines of different waves.
   const cand: { a: number; b: number; ta: number; tb: number; key: number }[] = [];
   for (let i = 0; i < lines.length; i++) {
-    const a = lines[i];
+    const a = itemAt(lines, i);
     for (let j = i + 1; j < lines.length; j++) {
-      const b = lines[j];
+      const b = itemAt(lines, j);
       if (a.wave === b.wave) continue;
       const den = a.dx * b.dy - a.dy * b.dx;
       if (Math.abs(den) < 1e-14) continue;
@@ -94,8 +95,8 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
   cand.sort((p, q) => p.key - q.key);
   const intersections: WaveIntersection[] = [];
   for (const c of cand) {
-    const a = lines[c.a];
-    const b = lines[c.b];
+    const a = itemAt(lines, c.a);
+    const b = itemAt(lines, c.b);
     if (c.ta > a.end || c.tb > b.end) continue;
     a.end = c.ta;
     a.reason = 'wave';
@@ -103,15 +104,15 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
     b.reason = 'wave';
     intersections.push({
       at: [a.ox + c.ta * a.dx, a.oy + c.ta * a.dy],
-      waves: [waves[a.wave].id, waves[b.wave].id],
+      waves: [itemAt(waves, a.wave).id, itemAt(waves, b.wave).id],
     });
   }
 
   for (const line of lines) {
     const end: Point = [line.ox + line.end * line.dx, line.oy + line.end * line.dy];
-    const w = waves[line.wave];
+    const w = itemAt(waves, line.wave);
     if (line.ray >= 0) {
-      const ray = (w.rays as FanRay[])[line.ray];
+      const ray = itemAt((w.rays as FanRay[]), line.ray);
       ray.end = end;
     }
     if (line.ray <= 0) {
@@ -162,15 +163,15 @@ function addSurfaceWaves(input: WaveTraceInput, surface: SurfaceName, waves: Wav
     const up: StreamState =
       k === 0
         ? free
-        : { mach: march.mach[k - 1], pRatio: march.pRatio[k - 1], nu: march.nu[k - 1], psi: chain.phi[k - 1] };
-    const down: StreamState = { mach: march.mach[k], pRatio: march.pRatio[k], nu: march.nu[k], psi: chain.phi[k] };
-    const vertex = chain.vertices[k];
-    const origin: Point = [chain.xs[k], chain.ys[k]];
+        : { mach: itemAt(march.mach, k - 1), pRatio: itemAt(march.pRatio, k - 1), nu: itemAt(march.nu, k - 1), psi: itemAt(chain.phi, k - 1) };
+    const down: StreamState = { mach: itemAt(march.mach, k), pRatio: itemAt(march.pRatio, k), nu: itemAt(march.nu, k), psi: itemAt(chain.phi, k) };
+    const vertex = itemAt(chain.vertices, k);
+    const origin: Point = [itemAt(chain.xs, k), itemAt(chain.ys, k)];
     const id = `wave_${surface}_${vertex}`;
     if (kind === 'fan') {
-      addFan(input, waves, lines, id, surface, vertex, origin, sigma, up, down, march.turn[k]);
+      addFan(input, waves, lines, id, surface, vertex, origin, sigma, up, down, itemAt(march.turn, k));
     } else {
-      const beta = kind === 'shock' ? march.beta[k] : machAngle(up.mach);
+      const beta = kind === 'shock' ? itemAt(march.beta, k) : machAngle(up.mach);
       addStraight(waves, lines, {
         id,
         kind: kind === 'shock' ? 'shock' : 'mach',
@@ -182,7 +183,7 @@ function addSurfaceWaves(input: WaveTraceInput, surface: SurfaceName, waves: Wav
         up,
         down,
         pRatioBehind: down.pRatio,
-        deflection: kind === 'shock' ? march.turn[k] : 0,
+        deflection: kind === 'shock' ? itemAt(march.turn, k) : 0,
       });
     }
   }
@@ -191,7 +192,7 @@ function addSurfaceWaves(input: WaveTraceInput, surface: SurfaceName, waves: Wav
 function addTailWaves(input: WaveTraceInput, waves: Wave[], lines: Line[]): void {
   const tail = input.tail as NonNullable<WaveTraceInput['tail']>;
   const vertex = input.tailIndex;
-  const origin: Point = [input.points[vertex][0], input.points[vertex][1]];
+  const origin: Point = [itemAt(input.points, vertex)[0], itemAt(input.points, vertex)[1]];
   const after: Record<SurfaceName, StreamState> = {
     upper: { mach: tail.upper.machAfter, pRatio: tail.upper.pRatioAfter, nu: 0, psi: tail.slip },
     lower: { mach: tail.lower.machAfter, pRatio: tail.lower.pRatioAfter, nu: 0, psi: tail.slip },
@@ -203,10 +204,10 @@ function addTailWaves(input: WaveTraceInput, waves: Wave[], lines: Line[]): void
     const sigma = surface === 'upper' ? 1 : -1;
     const last = march.solved - 1;
     const up: StreamState = {
-      mach: march.mach[last],
-      pRatio: march.pRatio[last],
-      nu: march.nu[last],
-      psi: chain.phi[last],
+      mach: itemAt(march.mach, last),
+      pRatio: itemAt(march.pRatio, last),
+      nu: itemAt(march.nu, last),
+      psi: itemAt(chain.phi, last),
     };
     const down = after[surface];
     const id = `wave_tail_${surface}`;
@@ -325,7 +326,7 @@ function addFan(
     surface,
     vertex,
     origin,
-    angleDeg: rays[0].angleDeg,
+    angleDeg: itemAt(rays, 0).angleDeg,
     rays,
     end: origin,
     endReason: 'field',
@@ -371,8 +372,8 @@ function bodyHit(l: Line, points: readonly XY[], eps: number): number {
   for (let i = 0; i < n; i++) {
     const j = (i + 1) % n;
     if (i === l.vertex || j === l.vertex) continue;
-    const pi = points[i];
-    const pj = points[j];
+    const pi = itemAt(points, i);
+    const pj = itemAt(points, j);
     const first = pi[0] < pj[0] || (pi[0] === pj[0] && pi[1] < pj[1]);
     const p = first ? pi : pj;
     const q = first ? pj : pi;

@@ -13,6 +13,7 @@ import { busemannCoefficients, secondOrderTheoryCp } from '../../../shared/solve
 import { splitSurfaces } from '../../../shared/solver/splitSurfaces';
 import { rad, turnState } from './independentRelations';
 import { diamond, lens } from './sections';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 describe('splitSurfaces', () => {
   it('splitSurfaces finds nose (min x), tail (max x), chord, and the upper chain over the top for either vertex order', () => {
@@ -36,8 +37,8 @@ describe('splitSurfaces', () => {
     const s = splitSurfaces(pts);
     for (const c of [s.upper, s.lower]) {
       for (let k = 0; k < c.phi.length; k++) {
-        expectClose(c.phi[k], Math.atan2(c.ys[k + 1] - c.ys[k], c.xs[k + 1] - c.xs[k]), 1e-15);
-        if (k > 0) expectClose(c.turn[k], c.phi[k] - c.phi[k - 1], 1e-15);
+        expectClose(itemAt(c.phi, k), Math.atan2(itemAt(c.ys, k + 1) - itemAt(c.ys, k), itemAt(c.xs, k + 1) - itemAt(c.xs, k)), 1e-15);
+        if (k > 0) expectClose(itemAt(c.turn, k), itemAt(c.phi, k) - itemAt(c.phi, k - 1), 1e-15);
       }
     }
   });
@@ -55,14 +56,14 @@ describe('facetDeflections', () => {
     const chain = { phi: [0.1, -0.05, -0.2], turn: [0, -0.15, -0.15] };
     const up = facetDeflections(chain, 0.02, 'upper');
     const lo = facetDeflections(chain, 0.02, 'lower');
-    [0.08, -0.07, -0.22].forEach((v, k) => expectClose(up[k], v, 1e-15));
-    [-0.08, 0.07, 0.22].forEach((v, k) => expectClose(lo[k], v, 1e-15));
+    [0.08, -0.07, -0.22].forEach((v, k) => expectClose(itemAt(up, k), v, 1e-15));
+    [-0.08, 0.07, 0.22].forEach((v, k) => expectClose(itemAt(lo, k), v, 1e-15));
   });
 
   it('facetDeflections never jumps by 2π when a facet direction crosses ±π (wrapped turns)', () => {
     const chain = { phi: [0.3, 3.1, -3.1], turn: [0, 2.8, 2 * Math.PI - 6.2] };
     const up = facetDeflections(chain, 0, 'upper');
-    expectClose(up[2] - up[1], 2 * Math.PI - 6.2, 1e-12);
+    expectClose(itemAt(up, 2) - itemAt(up, 1), 2 * Math.PI - 6.2, 1e-12);
   });
 });
 
@@ -80,8 +81,8 @@ describe('marchSurface', () => {
       mach = s.m2;
       p *= s.pRatio;
       prev = t;
-      expectClose(m.mach[k], mach, 1e-9);
-      expectClose(m.pRatio[k], p, 1e-10);
+      expectClose(itemAt(m.mach, k), mach, 1e-9);
+      expectClose(itemAt(m.pRatio, k), p, 1e-10);
     });
   });
 
@@ -110,10 +111,10 @@ describe('marchSurface', () => {
   it('marchSurface along 100 small expansions keeps ν equal to ν∞ plus the total turn (no drift)', () => {
     const theta = Array.from({ length: 100 }, (_, k) => -0.004 * (k + 1));
     const m = marchSurface(theta, 2, 1.4);
-    expectClose(prandtlMeyer(m.mach[99], 1.4), prandtlMeyer(2, 1.4) + 0.4, 1e-13);
+    expectClose(prandtlMeyer(itemAt(m.mach, 99), 1.4), prandtlMeyer(2, 1.4) + 0.4, 1e-13);
     // Isentropic all the way: p/p∞ from the end Mach alone.
     const x = (mm: number) => 1 + 0.2 * mm * mm;
-    expectClose(m.pRatio[99], (x(2) / x(m.mach[99])) ** 3.5, 1e-13);
+    expectClose(itemAt(m.pRatio, 99), (x(2) / x(itemAt(m.mach, 99))) ** 3.5, 1e-13);
   });
 });
 

@@ -11,6 +11,7 @@ import { solveSection } from '../../../shared/solver/solveSection';
 import type { Coefficients, SolveResult } from '../../../shared/solver/types';
 import { badValues, input, type Pts } from './sections';
 import { reached } from '../../helpers/reached';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 /** Star-shaped polygon around the origin: always simple; any shape, any orientation. */
 const starPolygon = fc
@@ -20,7 +21,7 @@ const starPolygon = fc
   })
   .map((raw) => {
     const angles = raw.map(([a], i) => (2 * Math.PI * (i + 0.1 + 0.8 * a)) / raw.length);
-    return raw.map(([, r], i): [number, number] => [r * Math.cos(angles[i]), r * Math.sin(angles[i])]);
+    return raw.map(([, r], i): [number, number] => [r * Math.cos(itemAt(angles, i)), r * Math.sin(itemAt(angles, i))]);
   })
   .filter((p) => isSimplePolygon(p));
 
@@ -47,8 +48,8 @@ const foilSection = (maxThickness: number, maxCamber: number, nose: 'round' | 's
       // deflection small.
       const half = (x: number, f: number) =>
         nose === 'round' ? thickness * f * 2 * Math.sqrt(x * (1 - x)) : thickness * 4 * x * (1 - x);
-      const upper = [...xu].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, c(i / 100) + half(i / 100, tu[k])]);
-      const lower = [...xl].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, c(i / 100) - half(i / 100, tl[k])]);
+      const upper = [...xu].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, c(i / 100) + half(i / 100, itemAt(tu, k))]);
+      const lower = [...xl].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, c(i / 100) - half(i / 100, itemAt(tl, k))]);
       return [[0, 0] as [number, number], ...upper, [1, tailY] as [number, number], ...lower.reverse()];
     })
     .filter((p) => isSimplePolygon(p));
@@ -183,7 +184,7 @@ describe('solveSection properties (fast-check)', () => {
           coefficientsClose(b.theories!.linear, a.theories!.linear, 1e-9);
           coefficientsClose(b.theories!.secondOrder, a.theories!.secondOrder, 1e-9);
           const cps = (r: SolveResult) => [...r.surfaces.upper, ...r.surfaces.lower].map((f) => f.cp!);
-          cps(b).forEach((cp, i) => expectClose(cp, cps(a)[i], 1e-9 * (1 + Math.abs(cp))));
+          cps(b).forEach((cp, i) => expectClose(cp, itemAt(cps(a), i), 1e-9 * (1 + Math.abs(cp))));
         },
       ),
       { numRuns: 300 },
@@ -203,7 +204,7 @@ describe('solveSection properties (fast-check)', () => {
         (xs, factors, thickness, mach, xRef) => {
           // Half-thickness t·4x(1−x) times a factor from 0.8 to 1 per vertex: jagged, with small
           // concave corners, nose slopes up to 11°: attached at M ≥ 1.8 nearly always.
-          const half = [...xs].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, thickness * factors[k] * 4 * (i / 100) * (1 - i / 100)]);
+          const half = [...xs].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, thickness * itemAt(factors, k) * 4 * (i / 100) * (1 - i / 100)]);
           const pts: Pts = [[0, 0], ...half, [1, 0], ...half.map(([x, y]): [number, number] => [x, -y]).reverse()];
           const r = solveSection(input(pts, mach, 0, { momentPoint: [xRef, 0] }));
           if (r.status !== 'ok') return;
@@ -264,11 +265,11 @@ describe('solveSection properties (fast-check)', () => {
           const runs = [at(0.5), at(0.25), at(0.125)];
           checked.hit();
           for (let k = 0; k < runs.length; k++) {
-            const r = runs[k];
+            const r = itemAt(runs, k);
             // Pressures: relative difference about (C2/C1)·|θ| (factor 2 for higher orders) …
             expect(r.cp).toBeLessThan(2 * (c2 / c1) * r.thetaMax);
             // … so it halves with each halving of the section and α (first-order convergence).
-            if (k > 0) expect(r.cp).toBeLessThan(0.6 * runs[k - 1].cp);
+            if (k > 0) expect(r.cp).toBeLessThan(0.6 * itemAt(runs, k - 1).cp);
             // Forces: the difference is bounded by the integrated C2θ² that linear theory drops,
             // which falls like ε² while the forces fall like ε.
             expect(r.force).toBeLessThan(2 * r.dropped);
@@ -321,7 +322,7 @@ describe('solveSection properties (fast-check)', () => {
         fc.double({ min: 2, max: 6, noNaN: true }),
         fc.double({ min: -4, max: 4, noNaN: true }),
         (xs, factors, thickness, mach, alphaDeg) => {
-          const front = [...xs].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, thickness * factors[k] * 4 * (i / 100) * (1 - i / 100)]);
+          const front = [...xs].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, thickness * itemAt(factors, k) * 4 * (i / 100) * (1 - i / 100)]);
           const mid: [number, number] = [0.5, thickness];
           const back = [...front].reverse().map(([x, y]): [number, number] => [1 - x, y]);
           const upper = [...front, mid, ...back];

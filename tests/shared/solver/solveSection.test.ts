@@ -4,6 +4,7 @@ import { solveSection } from '../../../shared/solver/solveSection';
 import type { SolveResult } from '../../../shared/solver/types';
 import { cpFromPressure, fanState, rad, shockState, turnState } from './independentRelations';
 import { badValues, diamond, input, lens, wedgeNose, type Pts } from './sections';
+import { firstItems, itemAt } from '../../../shared/util/invariant.ts';
 
 function ok(r: SolveResult) {
   if (r.status !== 'ok' || !r.coefficients || !r.theories) throw new Error(`status ${r.status}: ${JSON.stringify(r.limits)}`);
@@ -15,7 +16,7 @@ function ok(r: SolveResult) {
  * force sums (the test's own integration, independent of integrateLoads).
  */
 function fourFacetLoads(pts: Pts, cp: { uf: number; ur: number; lf: number; lr: number }, alphaDeg: number, mp: [number, number]) {
-  const [n, u, t, l] = pts;
+  const [n, u, t, l] = firstItems(pts, 4);
   const facets = [
     { a: n, b: u, cp: cp.uf, out: 1 },
     { a: u, b: t, cp: cp.ur, out: 1 },
@@ -58,10 +59,10 @@ describe('solveSection worked cases (checked against the textbook relations solv
     expectClose(c.cd, hand.cd, 1e-10);
     expectClose(c.cd, 0.1 * (cpF - cpR), 1e-10); // cd = t/c·(Cp_front − Cp_rear) for this diamond
     expectClose(c.cm, 0, 1e-14);
-    expectClose(r.surfaces.upper[0].cp as number, cpF, 1e-10);
-    expectClose(r.surfaces.upper[1].cp as number, cpR, 1e-10);
-    expectClose(r.surfaces.upper[0].mach as number, front.m2, 1e-9);
-    expectClose(r.surfaces.upper[1].mach as number, rear.m2, 1e-8);
+    expectClose(itemAt(r.surfaces.upper, 0).cp as number, cpF, 1e-10);
+    expectClose(itemAt(r.surfaces.upper, 1).cp as number, cpR, 1e-10);
+    expectClose(itemAt(r.surfaces.upper, 0).mach as number, front.m2, 1e-9);
+    expectClose(itemAt(r.surfaces.upper, 1).mach as number, rear.m2, 1e-8);
     expect(r.surfaces.upper.map((f) => f.wave)).toEqual(['shock', 'fan']);
   });
 
@@ -86,7 +87,7 @@ describe('solveSection worked cases (checked against the textbook relations solv
     expectClose(c.cd, hand.cd, 1e-10);
     expectClose(c.cm, hand.cm, 1e-10);
     expect(c.cl).toBeGreaterThan(0);
-    expect(r.surfaces.lower[0].cp as number).toBeGreaterThan(r.surfaces.upper[0].cp as number);
+    expect(itemAt(r.surfaces.lower, 0).cp as number).toBeGreaterThan(itemAt(r.surfaces.upper, 0).cp as number);
     expectClose(c.liftToDrag as number, c.cl / c.cd, 1e-12);
     // Linear theory on the same facets: Cp = 2θ/√(M²−1), integrated the same way.
     const b = Math.sqrt(3);
@@ -119,20 +120,20 @@ describe('solveSection worked cases (checked against the textbook relations solv
     const r = solveSection(input(pts, 2.5, -1));
     ok(r);
     const a = rad(-1);
-    const phiU1 = Math.atan2(pts[1][1], pts[1][0]);
-    const phiU2 = Math.atan2(-pts[1][1], 0.5);
-    const phiL1 = Math.atan2(pts[3][1], pts[3][0]);
-    const phiL2 = Math.atan2(-pts[3][1], 0.5);
+    const phiU1 = Math.atan2(itemAt(pts, 1)[1], itemAt(pts, 1)[0]);
+    const phiU2 = Math.atan2(-itemAt(pts, 1)[1], 0.5);
+    const phiL1 = Math.atan2(itemAt(pts, 3)[1], itemAt(pts, 3)[0]);
+    const phiL2 = Math.atan2(-itemAt(pts, 3)[1], 0.5);
     const u1 = turnState(2.5, phiU1 - a, 1.4);
     const u2 = turnState(u1.m2, phiU2 - phiU1, 1.4);
     const l1 = turnState(2.5, a - phiL1, 1.4);
     const l2 = turnState(l1.m2, -(phiL2 - phiL1), 1.4);
-    expectClose(r.surfaces.upper[0].pRatio as number, u1.pRatio, 1e-10);
-    expectClose(r.surfaces.upper[1].pRatio as number, u1.pRatio * u2.pRatio, 1e-10);
-    expectClose(r.surfaces.lower[0].pRatio as number, l1.pRatio, 1e-10);
-    expectClose(r.surfaces.lower[1].pRatio as number, l1.pRatio * l2.pRatio, 1e-10);
-    expectClose(r.surfaces.upper[0].thetaDeg, 6 + 1, 1e-12);
-    expectClose(r.surfaces.lower[0].thetaDeg, 3 - 1, 1e-12);
+    expectClose(itemAt(r.surfaces.upper, 0).pRatio as number, u1.pRatio, 1e-10);
+    expectClose(itemAt(r.surfaces.upper, 1).pRatio as number, u1.pRatio * u2.pRatio, 1e-10);
+    expectClose(itemAt(r.surfaces.lower, 0).pRatio as number, l1.pRatio, 1e-10);
+    expectClose(itemAt(r.surfaces.lower, 1).pRatio as number, l1.pRatio * l2.pRatio, 1e-10);
+    expectClose(itemAt(r.surfaces.upper, 0).thetaDeg, 6 + 1, 1e-12);
+    expectClose(itemAt(r.surfaces.lower, 0).thetaDeg, 3 - 1, 1e-12);
   });
 
   it('facet records: every facet present nose → tail with input edge indices and shared vertex points', () => {
@@ -143,9 +144,9 @@ describe('solveSection worked cases (checked against the textbook relations solv
     const edges = [...r.surfaces.upper, ...r.surfaces.lower].map((f) => f.index).sort((a, b) => a - b);
     expect(edges).toEqual(pts.map((_, i) => i));
     for (const s of [r.surfaces.upper, r.surfaces.lower]) {
-      expect(s[0].from).toEqual(r.geometry.nose);
-      expect(s[s.length - 1].to).toEqual(r.geometry.tail);
-      for (let k = 1; k < s.length; k++) expect(s[k].from).toEqual(s[k - 1].to);
+      expect(itemAt(s, 0).from).toEqual(r.geometry.nose);
+      expect(itemAt(s, s.length - 1).to).toEqual(r.geometry.tail);
+      for (let k = 1; k < s.length; k++) expect(itemAt(s, k).from).toEqual(itemAt(s, k - 1).to);
       for (const f of s) {
         expect(f.to[0]).toBeGreaterThan(f.from[0]);
         expectClose(f.xMidOverC, (f.from[0] + f.to[0]) / 2, 1e-15);
@@ -163,11 +164,11 @@ describe('solveSection worked cases (checked against the textbook relations solv
     ok(r);
     for (const s of [r.surfaces.upper, r.surfaces.lower]) {
       for (let k = 1; k < s.length; k++) {
-        if (s[k].wave === 'fan' || s[k].wave === 'none') expectClose(s[k].p0Ratio!, s[k - 1].p0Ratio!, 1e-15);
-        else expect(s[k].p0Ratio!).toBeLessThan(s[k - 1].p0Ratio!);
+        if (itemAt(s, k).wave === 'fan' || itemAt(s, k).wave === 'none') expectClose(itemAt(s, k).p0Ratio!, itemAt(s, k - 1).p0Ratio!, 1e-15);
+        else expect(itemAt(s, k).p0Ratio!).toBeLessThan(itemAt(s, k - 1).p0Ratio!);
         // T/T∞ = X(M∞)/X(M): the stagnation temperature is the free stream's.
         const x = (m: number) => 1 + 0.2 * m * m;
-        expectClose(s[k].tRatio!, x(3) / x(s[k].mach!), 1e-12);
+        expectClose(itemAt(s, k).tRatio!, x(3) / x(itemAt(s, k).mach!), 1e-12);
       }
     }
   });
@@ -216,7 +217,7 @@ describe('solveSection limits [S6] [S13]', () => {
     const r = solveSection(input(wedgeNose(22.85, 5), 2, 0));
     expect(r.status).toBe('subsonic');
     expect(r.limits).toHaveLength(1);
-    const l = r.limits[0];
+    const l = itemAt(r.limits, 0);
     expect(l.surface).toBe('upper');
     expect(l.machBehind!).toBeLessThan(1);
     expect(l.message).toMatch(/^Flow behind the nose shock on the upper surface is subsonic \(M 0\.\d\d\): deflection 22\.9° lies between the sonic 22\.7° and the maximum 23\.0° at M 2\.00\.$/);
@@ -237,7 +238,7 @@ describe('solveSection limits [S6] [S13]', () => {
     const pts: [number, number][] = [[0, 0], top, tail];
     const r = solveSection(input(pts, 10, 0, { gamma: 5 / 3 }));
     expect(r.status).toBe('vacuum');
-    const l = r.limits[0];
+    const l = itemAt(r.limits, 0);
     expect(l.surface).toBe('upper');
     expect(l.vertex).toBe(1);
     expectClose(l.nuMaxDeg!, 90, 1e-9);
@@ -245,8 +246,8 @@ describe('solveSection limits [S6] [S13]', () => {
     expect(l.message).toMatch(
       /^Expansion at vertex 1 on the upper surface reaches the Prandtl-Meyer limit: turn 30\.0° would need ν \d+\.\d°, beyond the maximum 90\.0° for γ 1\.67; the pressure is zero from there to the trailing edge\.$/,
     );
-    expect(r.surfaces.upper[0].solved).toBe(true);
-    const v = r.surfaces.upper[1];
+    expect(itemAt(r.surfaces.upper, 0).solved).toBe(true);
+    const v = itemAt(r.surfaces.upper, 1);
     expect(v.solved).toBe(false);
     expect(v.vacuum).toBe(true);
     expect(v.pRatio).toBe(0);
@@ -258,19 +259,19 @@ describe('solveSection limits [S6] [S13]', () => {
     // nose → top → tail and (dy, −dx) along nose → tail below.
     const c = r.coefficients!;
     expect(c).not.toBeNull();
-    const cpTop = r.surfaces.upper[0].cp!;
-    const cpLow = r.surfaces.lower[0].cp!;
-    const seg = (a: number[], b: number[], cp: number, side: 1 | -1) => [side * cp * (b[1] - a[1]), -side * cp * (b[0] - a[0])];
-    const f = [seg(pts[0], top, cpTop, 1), seg(top, tail, v.cp!, 1), seg(pts[0], tail, cpLow, -1)].reduce((s, x) => [s[0] + x[0], s[1] + x[1]], [0, 0]);
-    expectClose(c.cl, f[1], 1e-14); // α = 0: lift along +y, over the chord 1
-    expectClose(c.cd, f[0], 1e-14);
+    const cpTop = itemAt(r.surfaces.upper, 0).cp!;
+    const cpLow = itemAt(r.surfaces.lower, 0).cp!;
+    const seg = (a: number[], b: number[], cp: number, side: 1 | -1) => [side * cp * (itemAt(b, 1) - itemAt(a, 1)), -side * cp * (itemAt(b, 0) - itemAt(a, 0))];
+    const f = [seg(itemAt(pts, 0), top, cpTop, 1), seg(top, tail, v.cp!, 1), seg(itemAt(pts, 0), tail, cpLow, -1)].reduce((s, x) => [itemAt(s, 0) + itemAt(x, 0), itemAt(s, 1) + itemAt(x, 1)], [0, 0]);
+    expectClose(c.cl, itemAt(f, 1), 1e-14); // α = 0: lift along +y, over the chord 1
+    expectClose(c.cd, itemAt(f, 0), 1e-14);
   });
 
   it('a vertical nose face is blunt (leading edge), a vertical tail face is blunt (trailing edge); no theory Cp on either', () => {
     const nose = solveSection(input([[0, -0.05], [0, 0.05], [1, 0]], 2, 0));
     expect(nose.status).toBe('blunt');
-    expect(nose.limits[0].surface).toBe('leadingEdge');
-    expect(nose.limits[0].message).toBe(
+    expect(itemAt(nose.limits, 0).surface).toBe('leadingEdge');
+    expect(itemAt(nose.limits, 0).message).toBe(
       'Blunt nose: vertices 0 and 1 form a vertical face at the minimum x; the shock-expansion method needs a single sharp nose.',
     );
     expect(nose.theories).toBeNull();
@@ -282,8 +283,8 @@ describe('solveSection limits [S6] [S13]', () => {
     }
     const tail = solveSection(input([[0, 0], [1, 0.05], [1, -0.05]], 2, 0));
     expect(tail.status).toBe('blunt');
-    expect(tail.limits[0].surface).toBe('trailingEdge');
-    expect(tail.limits[0].vertex).toBe(2); // the face's vertex of least y
+    expect(itemAt(tail.limits, 0).surface).toBe('trailingEdge');
+    expect(itemAt(tail.limits, 0).vertex).toBe(2); // the face's vertex of least y
   });
 
   it('blunt is an angular test: a face within 1e-9 rad of vertical is blunt, a tiny sloped facet is not', () => {
@@ -303,7 +304,7 @@ describe('solveSection limits [S6] [S13]', () => {
     // θmax(M 2) = 22.9735°: 22.99° detaches, and one decimal would print both as 23.0°.
     const r = solveSection(input(wedgeNose(22.99, 5), 2, 0));
     expect(r.status).toBe('detached');
-    const m = r.limits[0].message.match(/deflection (\d+\.\d+)° exceeds the maximum (\d+\.\d+)°/)!;
+    const m = itemAt(r.limits, 0).message.match(/deflection (\d+\.\d+)° exceeds the maximum (\d+\.\d+)°/)!;
     expect(m).not.toBeNull();
     expect(Number(m[1])).toBeGreaterThan(Number(m[2]));
     expect(m[1]).toBe('22.99');
@@ -312,9 +313,9 @@ describe('solveSection limits [S6] [S13]', () => {
     const sonic = (22.7063 + 0.003) as number; // sonic deflection at M 2 ≈ 22.706° (NACA 1135 sonic relation, see obliqueShock tests)
     const s = solveSection(input(wedgeNose(sonic, 5), 2, 0));
     expect(s.status).toBe('subsonic');
-    const mb = s.limits[0].message.match(/subsonic \(M (\d\.\d+)\)/)!;
+    const mb = itemAt(s.limits, 0).message.match(/subsonic \(M (\d\.\d+)\)/)!;
     expect(Number(mb[1])).toBeLessThan(1);
-    const t = s.limits[0].message.match(/deflection (\d+\.\d+)° lies between the sonic (\d+\.\d+)° and the maximum (\d+\.\d+)°/)!;
+    const t = itemAt(s.limits, 0).message.match(/deflection (\d+\.\d+)° lies between the sonic (\d+\.\d+)° and the maximum (\d+\.\d+)°/)!;
     expect(Number(t[2])).toBeLessThan(Number(t[1]));
     expect(Number(t[1])).toBeLessThan(Number(t[3]));
   });
@@ -337,7 +338,7 @@ describe('solveSection reference (what the coefficients are referred to)', () =>
     expectClose(b.coefficients!.cm, a.coefficients!.cm / 1.25 ** 2, 1e-15);
     // x_cp measured from the given leading edge over the given chord
     expectClose(b.coefficients!.xcpOverC!, (a.coefficients!.xcpOverC! + 0.1) / 1.25, 1e-12);
-    expectClose(b.surfaces.upper[0].xMidOverC, (a.surfaces.upper[0].xMidOverC + 0.1) / 1.25, 1e-15);
+    expectClose(itemAt(b.surfaces.upper, 0).xMidOverC, (itemAt(a.surfaces.upper, 0).xMidOverC + 0.1) / 1.25, 1e-15);
     // theories on the same reference
     expectClose(b.theories!.linear.cl, a.theories!.linear.cl / 1.25, 1e-15);
   });

@@ -1,4 +1,5 @@
 import type { IncomingMessage } from 'node:http';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 /** express's compiled `trust proxy` setting: is the hop at `index` a proxy we believe? */
 export type TrustFn = (address: string | undefined, index: number) => boolean;
@@ -11,7 +12,7 @@ export type TrustFn = (address: string | undefined, index: number) => boolean;
 export function requestHost(req: IncomingMessage, trust: TrustFn): string | undefined {
   const forwarded = req.headers['x-forwarded-host'];
   const value = Array.isArray(forwarded) ? forwarded[0] : forwarded;
-  if (value && trust(req.socket.remoteAddress, 0)) return value.split(',')[0].trim();
+  if (value && trust(req.socket.remoteAddress, 0)) return itemAt(value.split(','), 0).trim();
   return req.headers.host;
 }
 

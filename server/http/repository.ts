@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import type { Db } from '../db/client.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 /**
  * The HTTP layer's one table: the rate limiters' hit counters (`rate_limits`), shared by every
@@ -15,7 +16,7 @@ export async function hitRateLimit(db: Db, key: string, windowMs: number): Promi
       hits = case when rate_limits.reset_at <= now() then 1 else rate_limits.hits + 1 end,
       reset_at = case when rate_limits.reset_at <= now() then excluded.reset_at else rate_limits.reset_at end
     returning hits, reset_at`);
-  return { hits: Number(rows[0].hits), resetAt: new Date(rows[0].reset_at) };
+  return { hits: Number(itemAt(rows, 0).hits), resetAt: new Date(itemAt(rows, 0).reset_at) };
 }
 
 /** Takes one hit back (a request that, in the end, does not count). */

@@ -1,6 +1,7 @@
 import type { Db } from '../db/client.ts';
 import type { Role } from '../../shared/model/roles.ts';
 import { checkAccess, type AccessCheck, type AccessResult } from './repository.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 /**
  * A socket's right to a sketch is checked when things happen, not only when it joins [A1–A4 in
@@ -84,7 +85,7 @@ export async function checkSockets<S extends GuardedSocket>(db: Db, sockets: rea
   const results = await checkAccess(db, checks);
   const out = new Map<S, SocketVerdict>();
   results.forEach((result, i) => {
-    const { socket, sketchId } = owners[i];
+    const { socket, sketchId } = itemAt(owners, i); // checkAccess answers each check, in order
     let verdict = out.get(socket);
     if (!verdict) {
       verdict = { sessionLive: result.sessionLive, rooms: new Map() };

@@ -9,6 +9,7 @@ import { normalizeDocument, type SketchDocument } from '../../shared/model/sketc
 import { applyEdit, transformPast, type SketchState } from '../../shared/protocol/transform.ts';
 import type { AppliedEdit, EditOp } from '../../shared/protocol/messages.ts';
 import { solveDocument } from '../api/sketches/solveDocument.ts';
+import { firstItem, itemAt } from '../../shared/util/invariant.ts';
 
 export type EditOutcome =
   | { status: 'applied' | 'rebased'; revision: number; op: EditOp; duplicate: boolean }
@@ -173,7 +174,7 @@ export async function applyEditBatch(db: Db, sketchId: string, items: EditInput[
 
 /** One edit on its own (REST saves, restores, imports). */
 export async function applyEditToSketch(db: Db, input: EditInput): Promise<EditOutcome> {
-  return (await applyEditBatch(db, input.sketchId, [input]))[0];
+  return firstItem(await applyEditBatch(db, input.sketchId, [input])); // one outcome per edit
 }
 
 /**
@@ -201,7 +202,7 @@ export function createEditQueue(db: Db, log: (line: string) => void = () => {}):
   /** One edit in its own transaction. */
   async function applyAlone(b: Waiting): Promise<void> {
     try {
-      b.resolve((await applyEditBatch(db, b.input.sketchId, [b.input]))[0]);
+      b.resolve(itemAt((await applyEditBatch(db, b.input.sketchId, [b.input])), 0));
     } catch (err) {
       if (passing(err)) b.reject(err);
       else refuse(b, err);
@@ -216,12 +217,12 @@ export function createEditQueue(db: Db, log: (line: string) => void = () => {}):
         const batch = q.items.splice(0, MAX_EDIT_BATCH);
         try {
           const outcomes = await applyEditBatch(db, sketchId, batch.map((b) => b.input));
-          batch.forEach((b, i) => b.resolve(outcomes[i]));
+          batch.forEach((b, i) => b.resolve(itemAt(outcomes, i)));
         } catch (err) {
           // [R9] One edit the database refuses must not fail its neighbours: when a batch of
           // several fails for any reason but a lost database or race, each edit is tried on its own.
           if (passing(err)) for (const b of batch) b.reject(err);
-          else if (batch.length === 1) refuse(batch[0], err);
+          else if (batch.length === 1) refuse(itemAt(batch, 0), err);
           else for (const b of batch) await applyAlone(b);
         }
       }

@@ -27,6 +27,7 @@ import { editsSince } from './editLog.ts';
 import { ACCESS_RECHECK_MS, ACCESS_SWEEP_MS, checkSockets, judge, matches, type AccessFilter, type GuardedSocket, type RoomAccess, type Verdict } from './access.ts';
 import { checkAccess, findSketchState, roleInSketchTeam } from './repository.ts';
 import { originMatches, requestHost, type TrustFn } from '../http/forwarded.ts';
+import { firstItem, itemAt } from '../../shared/util/invariant.ts';
 
 interface SocketData {
   user: SessionUser;
@@ -63,7 +64,7 @@ const PERSON_COLOURS = ['#e4572e', '#17bebb', '#ffc914', '#a855f7', '#76b041', '
 export function personColour(userId: string): string {
   let h = 0;
   for (const c of userId) h = (h * 31 + c.charCodeAt(0)) >>> 0;
-  return PERSON_COLOURS[h % PERSON_COLOURS.length];
+  return itemAt(PERSON_COLOURS, h % PERSON_COLOURS.length);
 }
 
 /** Runs an Express middleware on the socket.io handshake request only (not every poll). */
@@ -233,7 +234,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     const access = socket.data.rooms.get(sketchId);
     if (!access) return null;
     if (!fresh && performance.now() - access.checkedAt < ACCESS_RECHECK_MS) return access.role;
-    const [result] = await checkAccess(ctx.db, [{ sessionId: privates.get(socket)!.sessionId, userId: socket.data.user.id, sketchId }]);
+    const result = firstItem(await checkAccess(ctx.db, [{ sessionId: privates.get(socket)!.sessionId, userId: socket.data.user.id, sketchId }]));
     return apply(socket, sketchId, judge(result, access));
   }
 
@@ -278,7 +279,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     switch (msg.type) {
       case 'join': {
         if (msg.protocol !== PROTOCOL_VERSION) return fail('protocol_mismatch', `This page speaks protocol ${msg.protocol}, the server ${PROTOCOL_VERSION}: reload the page.`);
-        const [access] = await checkAccess(ctx.db, [{ sessionId: privates.get(socket)!.sessionId, userId: user.id, sketchId: msg.sketchId }]);
+        const access = firstItem(await checkAccess(ctx.db, [{ sessionId: privates.get(socket)!.sessionId, userId: user.id, sketchId: msg.sketchId }]));
         if (!access.sessionLive) return endSession(socket);
         const row = access.role ? await findSketchState(ctx.db, msg.sketchId) : null;
         const role = access.role;
@@ -404,7 +405,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     socket.on('message', (raw: unknown) => {
       const parsed = clientMessageSchema.safeParse(raw);
       if (!parsed.success) {
-        const issue = parsed.error.issues[0];
+        const issue = itemAt(parsed.error.issues, 0);
         send(socket, { type: 'error', code: 'invalid_message', reason: `The message was refused: ${issue.path.join('.') || 'message'} ${issue.message}.`, about: (raw as { type?: string })?.type });
         return;
       }

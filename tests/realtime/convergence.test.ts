@@ -7,6 +7,7 @@ import { RT_PASSWORD, seedTeam, storedAndReplayed } from '../helpers/realtimeWor
 import { prng, randomEdit, signInCookie, simClient, until, type SimClient } from '../helpers/simClient.ts';
 import type { ServerMessage } from '../../shared/protocol/messages.ts';
 import { startServerProcess, type ServerProcess } from '../helpers/serverProcess.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 /**
  * Runs `clients` simulated editors that each submit a random edit every `everyMs` (on average)
@@ -55,7 +56,7 @@ describe('convergence: 20 clients editing one sketch at once', () => {
     world = await seedTeam(database.db, ['Ann', 'Bo', 'Cato', 'Dee'].map((name) => ({ name, role: 'editor' as const })));
     server = await startServer(testEnv(database.url), { log: () => {} });
     for (let i = 0; i < 20; i++) {
-      const u = world.users[i % 4];
+      const u = itemAt(world.users, i % 4);
       const c = simClient(server.url, await signInCookie(server.url, u.email, RT_PASSWORD));
       clients.push(c);
     }
@@ -113,7 +114,7 @@ describe('a server crash in the middle of editing', () => {
 
   it('clients reconnect, re-send what was pending, converge, and the database holds every acked op', async () => {
     for (let i = 0; i < 6; i++) {
-      clients.push(simClient(proc.url, await signInCookie(proc.url, world.users[i % 2].email, RT_PASSWORD)));
+      clients.push(simClient(proc.url, await signInCookie(proc.url, itemAt(world.users, i % 2).email, RT_PASSWORD)));
     }
     await until(() => clients.every((c) => c.socket.connected), 10_000, 'all connected');
     for (const c of clients) c.engine.join(world.sketchId);
@@ -128,7 +129,7 @@ describe('a server crash in the middle of editing', () => {
     await until(() => clients.every((c) => !c.socket.connected), 30_000, 'every client saw the crash');
     proc = await startServerProcess(database.url, port);
     const ackedBefore = clients.map((c) => c.acks.size);
-    await until(() => clients.every((c, i) => c.acks.size >= ackedBefore[i] + 3), 60_000, 'edits acked after the restart');
+    await until(() => clients.every((c, i) => c.acks.size >= itemAt(ackedBefore, i) + 3), 60_000, 'edits acked after the restart');
     stopEditing = true;
     await editing;
 
@@ -153,13 +154,13 @@ describe('two server instances on one database', () => {
     procs = [await startServerProcess(database.url, await freePort()), await startServerProcess(database.url, await freePort())];
     // The two instances must know each other (adapter heartbeat) before anyone joins: wait
     // until someone joining on the second shows in the people list of a member on the first.
-    const cookies = [await signInCookie(procs[0].url, world.users[0].email, RT_PASSWORD), await signInCookie(procs[1].url, world.users[1].email, RT_PASSWORD)];
-    const watcher = simClient(procs[0].url, cookies[0]);
+    const cookies = [await signInCookie(itemAt(procs, 0).url, itemAt(world.users, 0).email, RT_PASSWORD), await signInCookie(itemAt(procs, 1).url, itemAt(world.users, 1).email, RT_PASSWORD)];
+    const watcher = simClient(itemAt(procs, 0).url, itemAt(cookies, 0));
     watcher.engine.join(world.sketchId);
     await until(() => watcher.engine.state !== null, 30_000, 'watcher joined');
     await until(async () => {
       const from = watcher.received.length;
-      const visitor = simClient(procs[1].url, cookies[1]);
+      const visitor = simClient(itemAt(procs, 1).url, itemAt(cookies, 1));
       try {
         await until(() => visitor.socket.connected, 30_000, 'visitor connected');
         visitor.engine.join(world.sketchId);
@@ -179,8 +180,8 @@ describe('two server instances on one database', () => {
 
   it('edits through both instances reach everyone in one order and converge', async () => {
     for (let i = 0; i < 8; i++) {
-      const proc = procs[i % 2];
-      clients.push(simClient(proc.url, await signInCookie(proc.url, world.users[i % 2].email, RT_PASSWORD)));
+      const proc = itemAt(procs, i % 2);
+      clients.push(simClient(proc.url, await signInCookie(proc.url, itemAt(world.users, i % 2).email, RT_PASSWORD)));
     }
     await until(() => clients.every((c) => c.socket.connected), 10_000, 'all connected');
     for (const c of clients) c.engine.join(world.sketchId);

@@ -10,6 +10,7 @@ import { RT_PASSWORD, seedTeam, storedAndReplayed } from '../helpers/realtimeWor
 import { signInCookie, simClient, until, type SimClient } from '../helpers/simClient.ts';
 import { startServerProcess, type ServerProcess } from '../helpers/serverProcess.ts';
 import { startOwnCluster, type OwnCluster } from '../helpers/ownCluster.ts';
+import { firstItems, itemAt } from '../../shared/util/invariant.ts';
 
 /** GET `path` with `cookie`: status and JSON body (null when the body is not JSON). */
 async function get(url: string, cookie?: string): Promise<{ status: number; body: { error?: { code: string; message: string } } & Record<string, unknown> }> {
@@ -74,7 +75,7 @@ describe('the database drops its connections under two running server instances'
     admin = new pg.Client({ connectionString: inject('pgAdminUrl') });
     await admin.connect();
     for (const [i, server] of [one, two].entries()) {
-      const cookie = await signInCookie(server.url, world.users[i].email, RT_PASSWORD);
+      const cookie = await signInCookie(server.url, itemAt(world.users, i).email, RT_PASSWORD);
       cookies.push(cookie);
       const c = simClient(server.url, cookie);
       clients.push(c);
@@ -97,11 +98,11 @@ describe('the database drops its connections under two running server instances'
       `select count(*) filter (where pg_terminate_backend(pid)) as n from pg_stat_activity where datname = $1 and pid <> pg_backend_pid()`,
       [database.name],
     );
-    return Number(rows[0].n);
+    return Number(itemAt(rows, 0).n);
   }
 
   it(`survives ${DEFAULT_POOL_MAX + 1} rounds of terminated connections: requests, sockets and cross-instance broadcasts work again each time`, async () => {
-    const [ann, bo] = clients;
+    const [ann, bo] = firstItems(clients, 2);
     await untilBroadcastCrosses(ann, bo, 'before');
     // More rounds than the pool has slots: a lost LISTEN client that kept its slot would exhaust
     // the pool before the last round.
@@ -139,7 +140,7 @@ describe('PostgreSQL stops and starts again under a running server', () => {
     world = await seedTeam(seedDb.db, [{ name: 'Cy', role: 'editor' }]);
     await seedDb.close();
     server = await startServerProcess(url, await freePort());
-    cookie = await signInCookie(server.url, world.users[0].email, RT_PASSWORD);
+    cookie = await signInCookie(server.url, itemAt(world.users, 0).email, RT_PASSWORD);
     client = simClient(server.url, cookie);
     await until(() => client.socket.connected, 30_000, 'connect');
     client.engine.join(world.sketchId);
@@ -159,7 +160,7 @@ describe('PostgreSQL stops and starts again under a running server', () => {
     let me = await get(`${server.url}/api/auth/me`, cookie);
     expect(me.status).toBe(503);
     expect(me.body.error).toEqual({ code: 'database_unavailable', message: expect.stringMatching(/database \(PostgreSQL\) is not reachable/) });
-    const signIn = await fetch(`${server.url}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-shockwright-request': '1' }, body: JSON.stringify({ email: world.users[0].email, password: RT_PASSWORD }) });
+    const signIn = await fetch(`${server.url}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-shockwright-request': '1' }, body: JSON.stringify({ email: itemAt(world.users, 0).email, password: RT_PASSWORD }) });
     expect(signIn.status).toBe(503);
     const health = await get(`${server.url}/api/health`);
     expect(health.status).toBe(503);
@@ -175,7 +176,7 @@ describe('PostgreSQL stops and starts again under a running server', () => {
 
     // Back: the same session works again within seconds, and the waiting edit is applied.
     await until(async () => (me = await get(`${server.url}/api/auth/me`, cookie)).status === 200, 30_000, 'the API answers again');
-    expect((me.body as { user: { email: string } }).user.email).toBe(world.users[0].email);
+    expect((me.body as { user: { email: string } }).user.email).toBe(itemAt(world.users, 0).email);
     await until(() => client.engine.pendingCount === 0, 30_000, 'the edit made while away is confirmed');
     expect(selectedPoint(client.engine.state!.document).condition.mach).toBe(3.3);
     expect((await get(`${server.url}/api/health`)).status).toBe(200);

@@ -5,6 +5,7 @@ import { seedDemoOnce, DEMO_PASSWORD, DEMO_PEOPLE } from '../../server/db/seed.t
 import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { testEnv } from '../helpers/app.ts';
 import { sessionCookie } from '../helpers/world.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 
 function attempt(url: string, headers: Record<string, string>, transport: 'websocket' | 'polling'): Promise<{ ok: true; socket: Socket } | { ok: false; message: string }> {
   return new Promise((resolve) => {
@@ -29,7 +30,7 @@ describe('socket.io handshake reuses the Express session', () => {
     const res = await fetch(`${server.url}/api/auth/sign-in`, {
       method: 'POST',
       headers: { 'content-type': 'application/json', 'x-shockwright-request': '1' },
-      body: JSON.stringify({ email: DEMO_PEOPLE[1].email, password: DEMO_PASSWORD }),
+      body: JSON.stringify({ email: itemAt(DEMO_PEOPLE, 1).email, password: DEMO_PASSWORD }),
     });
     cookie = sessionCookie(res.headers.getSetCookie());
   });
@@ -79,7 +80,7 @@ describe('behind a proxy the handshake honours the same forwarded-host rule as R
     const res = await fetch(`${server.url}/api/auth/sign-in`, {
       method: 'POST',
       headers: { 'content-type': 'application/json', 'x-shockwright-request': '1' },
-      body: JSON.stringify({ email: DEMO_PEOPLE[1].email, password: DEMO_PASSWORD }),
+      body: JSON.stringify({ email: itemAt(DEMO_PEOPLE, 1).email, password: DEMO_PASSWORD }),
     });
     return { server, cookie: sessionCookie(res.headers.getSetCookie()) };
   }

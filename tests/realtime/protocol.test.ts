@@ -8,6 +8,7 @@ import { signInCookie, simClient, until, type SimClient } from '../helpers/simCl
 import { PING_INTERVAL_MS, PING_TIMEOUT_MS, PROTOCOL_VERSION, type ServerMessage } from '../../shared/protocol/messages.ts';
 import { spawn } from 'node:child_process';
 import path from 'node:path';
+import { firstItem, firstItems, itemAt } from '../../shared/util/invariant.ts';
 
 const ROOT = path.resolve(import.meta.dirname, '../..');
 
@@ -18,7 +19,7 @@ describe('realtime protocol against one server', () => {
   const clients: SimClient[] = [];
 
   async function client(who: number): Promise<SimClient> {
-    const c = simClient(server.url, await signInCookie(server.url, world.users[who].email, RT_PASSWORD));
+    const c = simClient(server.url, await signInCookie(server.url, itemAt(world.users, who).email, RT_PASSWORD));
     clients.push(c);
     await until(() => c.socket.connected, 5000, 'socket connect');
     return c;
@@ -53,7 +54,7 @@ describe('realtime protocol against one server', () => {
   });
 
   it('joining answers with the document, its revision and the people present', async () => {
-    const a = clients[0];
+    const a = itemAt(clients, 0);
     a.engine.join(world.sketchId);
     const joined = (await a.waitFor((m) => m.type === 'joined')) as Extract<ServerMessage, { type: 'joined' }>;
     expect(joined.revision).toBe(0);
@@ -63,7 +64,7 @@ describe('realtime protocol against one server', () => {
   });
 
   it('[R2] an edit is acked with the next revision and broadcast to the others', async () => {
-    const [a] = clients;
+    const a = firstItem(clients);
     const b = await client(1);
     b.engine.join(world.sketchId);
     await b.waitFor((m) => m.type === 'joined');
@@ -78,7 +79,7 @@ describe('realtime protocol against one server', () => {
   });
 
   it('[R3] a repeated op id is acked again with the first outcome and not applied twice', async () => {
-    const [a] = clients;
+    const a = firstItem(clients);
     a.send({ type: 'edit', sketchId: world.sketchId, baseRevision: 1, op: { type: 'setCondition', opId: 'op-mach-1', field: 'mach', value: 3.2 } });
     await until(() => (a.acks.get('op-mach-1') ?? 0) === 2, 2000, 'second ack');
     const acks = a.received.filter((m) => m.type === 'ack' && m.opId === 'op-mach-1');
@@ -88,10 +89,10 @@ describe('realtime protocol against one server', () => {
   });
 
   it('[R5][R6] concurrent inserts into the same facet are both kept, and both clients converge', async () => {
-    const [a, b] = clients;
+    const [a, b] = firstItems(clients, 2);
     // Vertex 3 → 4 is one facet; both insert into it on revision 1, before either sees the other.
-    const p3 = a.engine.state!.document.section.points[3];
-    const p4 = a.engine.state!.document.section.points[4];
+    const p3 = itemAt(a.engine.state!.document.section.points, 3);
+    const p4 = itemAt(a.engine.state!.document.section.points, 4);
     const mid = (t: number): [number, number] => [p3[0] + (p4[0] - p3[0]) * t, p3[1] + (p4[1] - p3[1]) * t];
     expect(a.engine.submit({ type: 'insertVertex', opId: 'ins-a', index: 4, at: mid(0.3) })).toEqual({ ok: true });
     expect(b.engine.submit({ type: 'insertVertex', opId: 'ins-b', index: 4, at: mid(0.6) })).toEqual({ ok: true });
@@ -116,7 +117,7 @@ describe('realtime protocol against one server', () => {
   });
 
   it('an edit that would break the section is rejected and the document stays as it was', async () => {
-    const [a] = clients;
+    const a = firstItem(clients);
     await until(() => a.engine.revision === 3, 2000, 'a at revision 3');
     const before = a.engine.state!.document.section.points;
     a.send({ type: 'edit', sketchId: world.sketchId, baseRevision: 3, op: { type: 'moveVertices', opId: 'tangle', indices: [4], to: [[0.5, -0.5]] } });
@@ -127,14 +128,14 @@ describe('realtime protocol against one server', () => {
   });
 
   it('[R4] presence is relayed to the others with cursor and selection', async () => {
-    const [a, b] = clients;
+    const [a, b] = firstItems(clients, 2);
     a.send({ type: 'presence', sketchId: world.sketchId, cursor: [0.3, 0.05], selection: [2, 3] });
     const p = (await b.waitFor((m) => m.type === 'presence')) as Extract<ServerMessage, { type: 'presence' }>;
-    expect(p).toMatchObject({ cursor: [0.3, 0.05], selection: [2, 3], userId: world.users[0].id });
+    expect(p).toMatchObject({ cursor: [0.3, 0.05], selection: [2, 3], userId: itemAt(world.users, 0).id });
   });
 
   it('someone who leaves disappears from everyone’s people list', async () => {
-    const [a, , c] = clients;
+    const [a, , c] = firstItems(clients, 3);
     const mark = a.received.length;
     c.close();
     const people = (await a.waitFor((m) => m.type === 'people', 12_000, mark)) as Extract<ServerMessage, { type: 'people' }>;
@@ -142,8 +143,8 @@ describe('realtime protocol against one server', () => {
   });
 
   it('someone whose connection goes silent (a frozen or cut-off machine) disappears within a few seconds', async () => {
-    const [a] = clients;
-    const cookie = await signInCookie(server.url, world.users[2].email, RT_PASSWORD);
+    const a = firstItem(clients);
+    const cookie = await signInCookie(server.url, itemAt(world.users, 2).email, RT_PASSWORD);
     const peer = spawn(process.execPath, ['--import', 'tsx', 'tests/helpers/remoteClient.ts', server.url, cookie, world.sketchId], { cwd: ROOT, stdio: ['ignore', 'pipe', 'inherit'] });
     try {
       await new Promise<void>((resolve, reject) => {
@@ -162,14 +163,14 @@ describe('realtime protocol against one server', () => {
   });
 
   it('a rejoining client gets the edits it missed, in order', async () => {
-    const [a, b] = clients;
+    const [a, b] = firstItems(clients, 2);
     b.socket.disconnect();
     a.engine.submit({ type: 'rename', opId: 'rename-1', title: 'Renamed while Ben was away' });
     await a.waitFor((m) => m.type === 'ack' && m.opId === 'rename-1');
     b.socket.connect();
     const replay = (await b.waitFor((m) => m.type === 'replay')) as Extract<ServerMessage, { type: 'replay' }>;
     expect(replay.edits.map((e) => e.op.type)).toEqual(['rename']);
-    expect(replay.edits[0].userId).toBe(world.users[0].id);
+    expect(itemAt(replay.edits, 0).userId).toBe(itemAt(world.users, 0).id);
     await until(() => b.engine.state?.title === 'Renamed while Ben was away', 2000, 'b sees the new title');
     expect(b.engine.revision).toBe(a.engine.revision);
   });

@@ -1,6 +1,7 @@
 import { interpolateViridis } from 'd3-scale-chromatic';
 import { line } from './pdfText.ts';
 import { formatFixed, formatNumber } from '../../../shared/format/number.ts';
+import { itemAt } from '../../../shared/util/invariant.ts';
 
 /**
  * Vector drawings for the PDF report: line charts (one line per Mach number) and the colour
@@ -147,8 +148,8 @@ export function drawMachKey(doc: PDFKit.PDFDocument, x: number, y: number, w: nu
   const n = machs.length;
   const cell = bw / Math.max(1, n);
   machs.forEach((_, i) => doc.rect(bx + i * cell, y + 1, cell + 0.3, 7).fillColor(machColour(i, n)).fill());
-  line(doc, `M ${fmt(machs[0])}`, bx, y + 10, { size: 6.5, color: INK_SOFT });
-  if (n > 1) line(doc, `M ${fmt(machs[n - 1])}`, bx + bw - 40, y + 10, { size: 6.5, color: INK_SOFT, width: 40, align: 'right' });
+  line(doc, `M ${fmt(itemAt(machs, 0))}`, bx, y + 10, { size: 6.5, color: INK_SOFT });
+  if (n > 1) line(doc, `M ${fmt(itemAt(machs, n - 1))}`, bx + bw - 40, y + 10, { size: 6.5, color: INK_SOFT, width: 40, align: 'right' });
   line(doc, '▲ on the α axis: nose shock detaches', bx + bw + 14, y, { size: 7, color: INK_SOFT });
   line(doc, '○ best L/D of each Mach line', bx + bw + 14, y + 10, { size: 7, color: INK_SOFT });
 }

@@ -13,6 +13,7 @@ import type { SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
 import { line, paragraph, registerFonts, widthOf } from './pdfText.ts';
 import type { ReportData, ReportStudy } from './reportData.ts';
 import { formatNumber } from '../../../shared/format/number.ts';
+import { firstItem, itemAt } from '../../../shared/util/invariant.ts';
 
 /**
  * The PDF report of a sketch, drawn with pdfkit vectors only: title block, caution, the section
@@ -363,7 +364,7 @@ function table(ctx: Ctx, columns: Column[], rows: string[][], opts: { size?: num
     if (i % 2 === 1) doc.rect(M.left, ctx.y - 2, columns.reduce((a, c) => a + c.width, 0), rh).fillColor('#f4f6f5').fill();
     let x = M.left;
     row.forEach((cell, j) => {
-      const c = columns[j];
+      const c = itemAt(columns, j);
       line(doc, cell, x + 3, ctx.y + 1, { size, weight: opts.emphasise?.(i) && j === 0 ? 'bold' : 'regular', color: INK, width: c.width - 6, align: c.align ?? 'left' });
       x += c.width;
     });
@@ -499,8 +500,8 @@ function loadsTables(ctx: Ctx): void {
     let y = startY;
     rows.forEach((row, i) => {
       if (i % 2 === 1) ctx.doc.rect(x, y - 2, half, 15).fillColor('#f4f6f5').fill();
-      line(ctx.doc, row[0], x + 3, y + 1, { size: 8.5, color: INK });
-      line(ctx.doc, row[1], x + 3, y + 1, { size: 8.5, color: INK, width: half - 6, align: 'right' });
+      line(ctx.doc, itemAt(row, 0), x + 3, y + 1, { size: 8.5, color: INK });
+      line(ctx.doc, itemAt(row, 1), x + 3, y + 1, { size: 8.5, color: INK, width: half - 6, align: 'right' });
       y += 15;
     });
     return y;
@@ -758,7 +759,7 @@ function studyPages(ctx: Ctx, study: ReportStudy): void {
   const series = (pick: (r: StudyRow) => [number | null, number | null]) => machs.map((m) => ({ colour: colour(m), points: lineOf(m, pick) }));
   const best = results.summaries.flatMap((s) => s.best.filter((b) => b.flapDeg === flap).map((b) => ({ mach: s.mach, ...b })));
   const detach = results.summaries.flatMap((s) => [s.detachAlphaHighDeg, s.detachAlphaLowDeg].filter((a): a is number => a !== null).map((x) => ({ x, colour: colour(s.mach) })));
-  const alphaRange: [number, number] = [results.alphasDeg[0], results.alphasDeg[results.alphasDeg.length - 1]];
+  const alphaRange: [number, number] = [itemAt(results.alphasDeg, 0), itemAt(results.alphasDeg, results.alphasDeg.length - 1)];
 
   if (flap !== null) ctx.y += paragraph(doc, `Charts at flap deflection δ = ${num(flap)}°.`, M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK_SOFT });
   ctx.y += 4;
@@ -774,7 +775,7 @@ function studyPages(ctx: Ctx, study: ReportStudy): void {
   if (results.flapsDeg[0] !== null && results.flapsDeg.length > 1) {
     // Hinge moment against deflection at the swept α nearest the sketch's own.
     const alpha = sketchCase(data.document).condition.alphaDeg;
-    const a0 = results.alphasDeg.reduce((b, a) => (Math.abs(a - alpha) < Math.abs(b - alpha) ? a : b), results.alphasDeg[0]);
+    const a0 = results.alphasDeg.reduce((b, a) => (Math.abs(a - alpha) < Math.abs(b - alpha) ? a : b), firstItem(results.alphasDeg));
     charts.push({
       title: `Hinge moment ch against δ at α = ${num(a0)}° (exact)`,
       xLabel: 'δ (°, trailing edge down +)',
@@ -786,8 +787,8 @@ function studyPages(ctx: Ctx, study: ReportStudy): void {
   const chH = 196;
   for (let i = 0; i < charts.length; i += 2) {
     ensure(ctx, chH + 8);
-    drawLineChart(doc, M.left, ctx.y, cw, chH, charts[i]);
-    if (charts[i + 1]) drawLineChart(doc, M.left + cw + 18, ctx.y, cw, chH, charts[i + 1]);
+    drawLineChart(doc, M.left, ctx.y, cw, chH, itemAt(charts, i));
+    if (charts[i + 1]) drawLineChart(doc, M.left + cw + 18, ctx.y, cw, chH, itemAt(charts, i + 1));
     ctx.y += chH + 10;
   }
 

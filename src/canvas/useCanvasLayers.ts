@@ -22,7 +22,7 @@ import type { CanvasTools } from './useCanvasTools';
 import type { CanvasView } from './useCanvasView';
 
 /**
- * One Konva layer drawn from draw lists [D2]: a Shape whose config never changes and whose
+ * One Konva layer drawn from draw lists [DR2]: a Shape whose config never changes and whose
  * sceneFunc strokes the current lists, so vue-konva never schedules a draw of its own. The layer
  * is drawn when its lists change. In the template:
  * `<VLayer ref="<refName>"><VShape :config="shape" /></VLayer>`.
@@ -70,7 +70,7 @@ export interface LayerSource {
  *
  * - the **scene** (grid, wave map, section, the tools' marks, limit rings, drag readout) on a
  *   plain `<canvas ref="sceneCanvas">`, painted by the solver worker right after each solve
- *   (scenePainter.ts [D1]); this composable sends it the `SceneState` whenever the view, the
+ *   (scenePainter.ts [DR1]); this composable sends it the `SceneState` whenever the view, the
  *   settings, the selection, the hover or the tools' marks change. Without a worker port the
  *   page paints the same scene from its props.
  * - the **overlay**, one Konva layer: limit labels (Konva Text), people's cursors and the

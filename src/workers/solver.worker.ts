@@ -13,7 +13,7 @@ import type { SolveRequest, SolveResponse, WorkerRequest, WorkerResponse } from 
  * (the solve is scheduled behind the messages already queued), so a fast drag never builds a
  * queue. When the page has transferred the scene canvas, the worker paints the scene right
  * after each solve — the section and its wave map reach the screen together, without the
- * page's main thread [D1] — and again after each scene change from the page.
+ * page's main thread [DR1] — and again after each scene change from the page.
  */
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 

@@ -45,7 +45,7 @@ function recorder() {
 }
 
 describe('scene painter', () => {
-  it('[D1] the scene is grid, wave map, section and marks, with the waves stroked unordered', () => {
+  it('[DR1] the scene is grid, wave map, section and marks, with the waves stroked unordered', () => {
     const result = solve(wedge, 2, 2);
     const lists = sceneLists(state, { points: wedge, result, solvedPoints: wedge, hinge: null, invalid: false });
     expect(lists[1].unordered).toBe(true);
@@ -54,7 +54,7 @@ describe('scene painter', () => {
     expect(lists[2].dots.map((d) => [d.x, d.y])).toEqual(wedge.map((p) => toScreen(state.view, p)));
   });
 
-  it('[D1] the readout is named by vertex and sits beside that vertex of the solved section', () => {
+  it('[DR1] the readout is named by vertex and sits beside that vertex of the solved section', () => {
     const result = solve(wedge, 2, 2);
     const content: SceneContent = { points: wedge, result, solvedPoints: wedge, hinge: null, invalid: false };
     const lists = sceneLists({ ...state, readoutVertex: 1 }, content);
@@ -84,7 +84,7 @@ describe('scene painter', () => {
 });
 
 describe('drawList', () => {
-  it('[D3] lines up to 1.25 px are stroked 1 px wide; wider lines keep their width', () => {
+  it('[DR3] lines up to 1.25 px are stroked 1 px wide; wider lines keep their width', () => {
     const { ctx, calls } = recorder();
     const list: DrawList = {
       paths: [
@@ -98,7 +98,7 @@ describe('drawList', () => {
     expect(calls.filter((c) => c.name === 'stroke').map((c) => c.lineWidth)).toEqual([1, 1.3, 0.9]);
   });
 
-  it('[D3] an unordered list is stroked once per style; filled and closed paths still draw one by one', () => {
+  it('[DR3] an unordered list is stroked once per style; filled and closed paths still draw one by one', () => {
     const { ctx, calls } = recorder();
     const list: DrawList = {
       unordered: true,

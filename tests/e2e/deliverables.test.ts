@@ -12,6 +12,7 @@ import { sketchCase } from '../../shared/model/sketch.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { ARTIFACTS_DIR, screenshot, signInDemo, textOf } from '../helpers/browser.ts';
+import { firstItem, itemAt } from '../../shared/util/invariant.ts';
 
 const root = DEMO_SKETCHES.find((s) => s.title.startsWith('Tern fin root'))!;
 
@@ -35,7 +36,7 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
   afterAll(async () => world?.close());
 
   const download = async (testId: string, name: string) => {
-    const { page } = world.browsers[0];
+    const { page } = firstItem(world.browsers);
     await page.getByTestId('open-export').click();
     const [file] = await Promise.all([page.waitForEvent('download'), page.getByTestId(testId).click()]);
     const target = path.join(ARTIFACTS_DIR, name);
@@ -44,7 +45,7 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
   };
 
   it('exports loads per facet for the shown design point and for all three, with units in the headers', async () => {
-    const { page } = world.browsers[0];
+    const { page } = firstItem(world.browsers);
     await signInDemo(page, DEMO_PEOPLE[0].email, server.url);
     await page.goto(`${server.url}/sketches/${sketchId}`);
     await page.getByTestId('design-points').waitFor();
@@ -66,7 +67,7 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
   });
 
   it('the canvas picture has a caption band with the title, condition, theory and caution', async () => {
-    const { page } = world.browsers[0];
+    const { page } = firstItem(world.browsers);
     const canvasBox = (await page.getByTestId('sketch-canvas').boundingBox())!;
     const png = await download('export-png', 'picture-with-caption.png');
     expect(png.fileName).toMatch(/-wave-map\.png$/);
@@ -78,7 +79,7 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
   });
 
   it('a study at the design point\'s altitude shows lift, drag and moments in N/m and N, and in lbf/ft after the switch to US units', async () => {
-    const { page } = world.browsers[0];
+    const { page } = firstItem(world.browsers);
     await page.goto(`${server.url}/sketches/${sketchId}/studies`);
     await page.getByTestId('study-form').waitFor();
     await page.getByTestId('study-mach-start').fill('2');
@@ -100,10 +101,10 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
   });
 
   it('a mention e-mail\'s link opens the read-only phone view at 390 × 844 with the pin\'s thread, the wave map and the coefficients', async () => {
-    const ines = world.browsers[0].page;
-    const priya = world.browsers[1];
+    const ines = itemAt(world.browsers, 0).page;
+    const priya = itemAt(world.browsers, 1);
     // Ines pins the lower nose shock and mentions Priya (through the API, as the editor's composer does).
-    const priyaRow = await database.db.query.users.findFirst({ where: eq(users.email, DEMO_PEOPLE[2].email) });
+    const priyaRow = await database.db.query.users.findFirst({ where: eq(users.email, itemAt(DEMO_PEOPLE, 2).email) });
     const shock = analyseSketch(sketchCase(root.document)).result!.waves.find((w) => w.id === 'wave_lower_0')!;
     const at = [shock.origin[0] + (shock.end[0] - shock.origin[0]) / 4, shock.origin[1] + (shock.end[1] - shock.origin[1]) / 4];
     const status = await ines.evaluate(
@@ -118,7 +119,7 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
       { sketchId, at, mention: priyaRow!.id },
     );
     expect(status).toBe(201);
-    const mails = async () => (await database.db.select().from(mailMessages)).filter((m) => m.toAddresses.includes(DEMO_PEOPLE[2].email));
+    const mails = async () => (await database.db.select().from(mailMessages)).filter((m) => m.toAddresses.includes(itemAt(DEMO_PEOPLE, 2).email));
     await expect.poll(async () => (await mails()).length, { timeout: 20_000 }).toBe(1);
     const link = /https?:\/\/\S+\?pin=(pin_[a-z0-9]{20})/.exec((await mails())[0]!.textBody)!;
 
@@ -126,7 +127,7 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
     const page = priya.page;
     await page.setViewportSize({ width: 390, height: 844 });
     await page.goto(link[0]);
-    await page.getByTestId('sign-in-email').fill(DEMO_PEOPLE[2].email);
+    await page.getByTestId('sign-in-email').fill(itemAt(DEMO_PEOPLE, 2).email);
     await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
     await page.getByTestId('sign-in-submit').click();
     await page.getByTestId('sketch-phone').waitFor();
@@ -154,7 +155,7 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
   });
 
   it('the sketches table at 390 px: one card per sketch, no sideways scrolling, a tap opens the phone view', async () => {
-    const page = world.browsers[1].page;
+    const page = itemAt(world.browsers, 1).page;
     await page.goto(`${server.url}/`);
     await page.getByTestId('sketch-table').waitFor();
     await page.getByTestId(`card-${sketchId}`).waitFor();

@@ -9,6 +9,7 @@ import { normalizeDocument, type SketchDocument } from '../../shared/model/sketc
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { screenshot, signInDemo, textOf } from '../helpers/browser.ts';
+import { firstItems, itemAt } from '../../shared/util/invariant.ts';
 
 const FIXTURES = path.resolve(import.meta.dirname, '../fixtures/coordinates');
 
@@ -37,7 +38,7 @@ describe('coordinates import: file → preview → confirm → undo', () => {
   beforeAll(async () => {
     world = await startBrowserWorld({ browsers: 2 });
     ({ database, server } = world);
-    [ines, tomasz] = world.browsers.map((b) => b.page);
+    [ines, tomasz] = firstItems(world.browsers.map((b) => b.page), 2);
     const tip = await database.db.query.sketches.findFirst({ where: eq(sketches.title, 'Tern fin tip — hexagonal, 4% thick') });
     sketchId = tip!.id;
     original = normalizeDocument(tip!.document);
@@ -46,7 +47,7 @@ describe('coordinates import: file → preview → confirm → undo', () => {
 
   it('both open the fin tip live', async () => {
     await signInDemo(ines, DEMO_PEOPLE[0].email, server.url);
-    await signInDemo(tomasz, DEMO_PEOPLE[1].email, server.url);
+    await signInDemo(tomasz, itemAt(DEMO_PEOPLE, 1).email, server.url);
     for (const page of [ines, tomasz]) {
       await page.goto(`${server.url}/sketches/${sketchId}`);
       await page.getByTestId('sketch-canvas').waitFor();

@@ -8,6 +8,7 @@ import { sketchCase } from '../../../shared/model/sketch.ts';
 import { expectClose, expectCloseRel, expectPrinted } from '../../helpers/expectClose.ts';
 import { rad, shockState } from '../solver/independentRelations.ts';
 import { CHORD_M, G, P_INF, SPAN_M, handLoads, wedgeDocument } from './wedgeByHand.ts';
+import { firstItem, itemAt } from '../../../shared/util/invariant.ts';
 
 /** Loads per facet against the hand integration of tests/shared/flight/wedgeByHand.ts. */
 describe('facetLoads (loads per facet in physical units)', () => {
@@ -26,7 +27,7 @@ describe('facetLoads (loads per facet in physical units)', () => {
     const byName = (s: string, x: number) => answer.loads.facets.find((f) => f.surface === s && (x < 1 ? f.xMidM < 1 : f.xMidM > 1))!;
     const got = [byName('upper', 0), byName('upper', 2), byName('lower', 0), byName('lower', 2)];
     got.forEach((f, i) => {
-      const h = hand.rows[i];
+      const h = itemAt(hand.rows, i);
       // p∞ is known to 5 figures (±0.5 Pa); the relations to far better.
       expectClose(f.pressurePa!, h.p, 0.5 * (h.p / P_INF) + 0.01);
       expectClose(f.pressureDifferencePa!, h.dp, 0.5 * Math.abs(h.p / P_INF - 1) + 0.01);
@@ -37,7 +38,7 @@ describe('facetLoads (loads per facet in physical units)', () => {
       expectClose(f.momentNMPerM!, h.m, 1);
     });
     // The upper front facet lies along the stream: no pressure difference, no force.
-    expectClose(got[0].pressureDifferencePa!, 0, 1e-6);
+    expectClose(itemAt(got, 0).pressureDifferencePa!, 0, 1e-6);
     // Section totals, per unit span and for the 3 m span.
     const tot = answer.loads.total!;
     expectCloseRel(tot.liftNPerM, hand.lift, 3e-5);
@@ -64,9 +65,9 @@ describe('facetLoads (loads per facet in physical units)', () => {
       const data = lines.filter((l) => l.startsWith('"'));
       expect(data).toHaveLength(5);
       // The name people typed stays one quoted cell with its comma and quotes.
-      expect(data[0].startsWith('"Pull-up, ""max g""","upper",')).toBe(true);
+      expect(itemAt(data, 0).startsWith('"Pull-up, ""max g""","upper",')).toBe(true);
       const parse = (l: string) => l.slice(l.indexOf('",') + 2).split(',');
-      const total = parse(data[4]);
+      const total = parse(itemAt(data, 4));
       const col = (name: string) => cols.indexOf(name) - 1;
       const lift = Number(total[col(units === 'si' ? 'lift_N_per_m' : 'lift_lbf_per_ft')]);
       const liftSpan = Number(total[col(units === 'si' ? 'lift_N' : 'lift_lbf')]);
@@ -76,7 +77,7 @@ describe('facetLoads (loads per facet in physical units)', () => {
       expectCloseRel(lift, units === 'si' ? hand.lift : hand.lift / (lbf / ft), 3e-5);
       expectCloseRel(liftSpan, units === 'si' ? hand.lift * SPAN_M : (hand.lift * SPAN_M) / lbf, 3e-5);
       expectCloseRel(moment, units === 'si' ? hand.moment : hand.moment / lbf, 3e-5);
-      const lowerFront = parse(data[2]);
+      const lowerFront = parse(itemAt(data, 2));
       const p = Number(lowerFront[col(units === 'si' ? 'p_Pa' : 'p_psf')]);
       expectCloseRel(p, units === 'si' ? P_INF * hand.front.pRatio : (P_INF * hand.front.pRatio) / (lbf / ft ** 2), 3e-5);
       expect(text).toContain('Inviscid preliminary estimate');
@@ -85,13 +86,13 @@ describe('facetLoads (loads per facet in physical units)', () => {
 
   it('a design point without an altitude is named with the reason and has no rows; the selected point alone can be exported', () => {
     const doc = wedgeDocument();
-    const second = { ...doc.designPoints[0], id: 'point_bbbbbbbbbbbbbbbbbbbb', name: 'Cruise', condition: { mach: 2.5, alphaDeg: 1, gamma: G, altitudeM: null } };
+    const second = { ...firstItem(doc.designPoints), id: 'point_bbbbbbbbbbbbbbbbbbbb', name: 'Cruise', condition: { mach: 2.5, alphaDeg: 1, gamma: G, altitudeM: null } };
     const two: SketchDocument = { ...doc, designPoints: [...doc.designPoints, second] };
     const all = analyseDesignPoints(two);
     const text = loadsCsv('t', two, all, { units: 'si' });
     expect(text).toMatch(/# Design point,"Cruise",".*no loads: Give an altitude/);
     expect(text.split('\n').filter((l) => l.startsWith('"Cruise"'))).toHaveLength(0);
-    const only = loadsCsv('t', two, all, { units: 'si', pointIds: [doc.designPoints[0].id] });
+    const only = loadsCsv('t', two, all, { units: 'si', pointIds: [itemAt(doc.designPoints, 0).id] });
     expect(only).not.toContain('Cruise');
     expect(only.split('\n').filter((l) => l.startsWith('"Pull-up'))).toHaveLength(5);
   });

@@ -224,8 +224,8 @@ describe('runStudy', () => {
     expectCloseRel(row.momentNMPerM!, hand.moment, 3e-5);
     expect(row.hingeMomentNMPerM).toBeNull();
     const csv = studyCsv({ title: 'wedge', studyName: 'loads', revision: 1, caution: RESULTS_CAUTION }, results).trimEnd().split('\n');
-    const header = csv[4].split(',');
-    const line = csv[6].split(',');
+    const header = itemAt(csv, 4).split(',');
+    const line = itemAt(csv, 6).split(',');
     expectCloseRel(Number(line[header.indexOf('liftN')]), hand.lift * SPAN_M, 3e-5);
     expectCloseRel(Number(line[header.indexOf('momentNM')]), hand.moment * SPAN_M, 3e-5);
   });

@@ -1,5 +1,6 @@
 import { defaultSketchDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
 import { fanState, rad, shockState } from '../solver/independentRelations.ts';
+import { firstItem, itemAt } from '../../../shared/util/invariant.ts';
 
 /**
  * A hand integration of the facet pressures for a double wedge
@@ -28,7 +29,7 @@ export function wedgeDocument(): SketchDocument {
   return {
     ...doc,
     section: { points: [[0, 0], [0.5, T], [1, 0], [0.5, -T]] },
-    designPoints: [{ ...doc.designPoints[0], name: 'Pull-up, "max g"', condition: { mach: 2, alphaDeg: 5, gamma: G, altitudeM: 11_000 } }],
+    designPoints: [{ ...firstItem(doc.designPoints), name: 'Pull-up, "max g"', condition: { mach: 2, alphaDeg: 5, gamma: G, altitudeM: 11_000 } }],
     loads: { chordM: CHORD_M, spanM: SPAN_M, friction: 'none' },
   };
 }
@@ -52,16 +53,16 @@ export function handLoads() {
   let drag = 0;
   let moment = 0; // about the quarter chord (0.5 m, 0), nose up +
   const rows = facets.map((f) => {
-    const dx = f.to[0] - f.from[0];
-    const dy = f.to[1] - f.from[1];
+    const dx = itemAt(f.to, 0) - itemAt(f.from, 0);
+    const dy = itemAt(f.to, 1) - itemAt(f.from, 1);
     // Outward normal × length: (−dy, dx) above, (dy, −dx) below; force = −(p − p∞)·n·L.
     const nx = f.side * -dy;
     const ny = f.side * dx;
     const dp = f.p - P_INF;
     const fx = -dp * nx;
     const fy = -dp * ny;
-    const xm = (f.from[0] + f.to[0]) / 2;
-    const ym = (f.from[1] + f.to[1]) / 2;
+    const xm = (itemAt(f.from, 0) + itemAt(f.to, 0)) / 2;
+    const ym = (itemAt(f.from, 1) + itemAt(f.to, 1)) / 2;
     const m = -((xm - 0.5) * fy - ym * fx);
     lift += fy * Math.cos(a) - fx * Math.sin(a);
     drag += fx * Math.cos(a) + fy * Math.sin(a);

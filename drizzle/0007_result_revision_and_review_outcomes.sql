@@ -1,3 +1,6 @@
+ALTER TABLE "sketches" ADD COLUMN "result_revision" integer;--> statement-breakpoint
+-- Results stored before this column were written in the same transaction as their document.
+UPDATE "sketches" SET "result_revision" = "revision" WHERE "last_result" IS NOT NULL;--> statement-breakpoint
 CREATE TYPE "public"."review_outcome" AS ENUM('approved', 'changes_requested', 'reset');--> statement-breakpoint
 ALTER TYPE "public"."review_status" ADD VALUE 'changes_requested' BEFORE 'approved';--> statement-breakpoint
 CREATE TABLE "review_outcomes" (

@@ -95,8 +95,6 @@ const TEMPORARY_EXCEPTIONS = [
   { files: ['server/realtime/index.ts'], rules: { ...restrict(SERVER), 'no-useless-assignment': 'off' } },
   // Being moved to a repository, issue #16 (the edit log and its transaction).
   { files: ['server/realtime/editLog.ts'], rules: { ...restrict(SERVER), 'no-restricted-syntax': 'off' } },
-  // Being moved to a repository, issue #16 (review status queries).
-  { files: ['server/api/review/service.ts'], rules: restrict(SERVER, SERVICES) },
 ];
 
 // ── The config ───────────────────────────────────────────────────────────────────────────────

@@ -1,4 +1,5 @@
 import {
+  type AnyPgColumn,
   bigserial,
   customType,
   index,
@@ -15,7 +16,7 @@ import {
 } from 'drizzle-orm/pg-core';
 import { UNIT_SYSTEMS } from '../../shared/flight/units.ts';
 import { ROLES } from '../../shared/model/roles.ts';
-import { PIN_STATUSES, SNAPSHOT_KINDS } from '../../shared/model/review.ts';
+import { PIN_STATUSES, REVIEW_OUTCOMES, REVIEW_STATUSES, SNAPSHOT_KINDS } from '../../shared/model/review.ts';
 
 /**
  * The database schema: the source of truth. Properties are camelCase, columns snake_case; every
@@ -34,7 +35,8 @@ const timestamps = {
 // database through a generated migration instead of a second hand-kept copy.
 export const roleEnum = pgEnum('role', ROLES);
 export const unitSystemEnum = pgEnum('unit_system', UNIT_SYSTEMS);
-export const reviewStatusEnum = pgEnum('review_status', ['draft', 'in_review', 'approved']);
+export const reviewStatusEnum = pgEnum('review_status', REVIEW_STATUSES);
+export const reviewOutcomeEnum = pgEnum('review_outcome', REVIEW_OUTCOMES);
 
 export const users = pgTable('users', {
   id: text('id').primaryKey(),
@@ -88,6 +90,11 @@ export const sketches = pgTable(
     /** The stored (server-computed) result of the last solve. */
     lastResult: jsonb('last_result'),
     reviewStatus: reviewStatusEnum('review_status').notNull().default('draft'),
+    /**
+     * The approval in force while the status is approved (a row of review_outcomes, which names
+     * its revision [A1]); null otherwise. "Changed since approval" is revision > its revision.
+     */
+    approvalId: text('approval_id').references((): AnyPgColumn => reviewOutcomes.id, { onDelete: 'set null' }),
     ...timestamps,
   },
   (t) => [index('sketches_team_idx').on(t.teamId)],
@@ -343,6 +350,28 @@ export const sketchEvents = pgTable(
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [index('sketch_events_sketch_idx').on(t.sketchId, t.createdAt)],
+);
+
+/**
+ * The review history of a sketch, kept whole: every approval, request for changes and owner's
+ * reset, each naming the revision it was given to [A1]. The actor's name is copied so the
+ * record still says who when the account is gone.
+ */
+export const reviewOutcomes = pgTable(
+  'review_outcomes',
+  {
+    id: text('id').primaryKey(),
+    sketchId: text('sketch_id')
+      .notNull()
+      .references(() => sketches.id, { onDelete: 'cascade' }),
+    outcome: reviewOutcomeEnum('outcome').notNull(),
+    revision: integer('revision').notNull(),
+    actorId: text('actor_id').references(() => users.id, { onDelete: 'set null' }),
+    actorName: text('actor_name').notNull(),
+    note: text('note').notNull().default(''),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('review_outcomes_sketch_idx').on(t.sketchId, t.createdAt)],
 );
 
 /**

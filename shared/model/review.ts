@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { idSchema } from './ids.ts';
 import { loadsSettingsSchema, pointSchema, sectionPointsSchema, sketchDocumentSchema } from './sketch.ts';
 import { textSchema } from './text.ts';
 import { designPointsAnalysisSchema } from './analysis.ts';
@@ -12,7 +13,7 @@ export const pinTargetSchema = z.discriminatedUnion('kind', [
 export type PinTarget = z.infer<typeof pinTargetSchema>;
 
 const bodySchema = textSchema({ error: 'is required' }).trim().min(1, 'must not be empty').max(5000, 'must be at most 5000 characters');
-const mentionsSchema = z.array(z.string().regex(/^user_[a-z0-9]{20}$/, 'must be user ids')).max(20, 'at most 20 people').default([]);
+const mentionsSchema = z.array(idSchema('user')).max(20, 'at most 20 people').default([]);
 
 export const createPinSchema = z.object({ target: pinTargetSchema, body: bodySchema, mentions: mentionsSchema });
 export const replySchema = z.object({ body: bodySchema, mentions: mentionsSchema });
@@ -77,24 +78,82 @@ export const snapshotDetailSchema = snapshotSummarySchema.extend({
 export type SnapshotDetail = z.infer<typeof snapshotDetailSchema>;
 
 /**
- * An approval names the revision it was given to [A1]: who approved, which revision, when. A
- * sketch whose revision moved past its approved one is "changed since approval" until someone
- * approves again (`reviewState`).
+ * Review statuses as stored (one list for the database enum, the routers and the client):
+ * draft → in review (an editor asked) → approved or changes requested (a reviewer's outcome);
+ * an owner resets to draft.
+ */
+export const REVIEW_STATUSES = ['draft', 'in_review', 'changes_requested', 'approved'] as const;
+export const reviewStatusSchema = z.enum(REVIEW_STATUSES);
+export type ReviewStatus = z.infer<typeof reviewStatusSchema>;
+
+/**
+ * What people read: the stored status, except that an approval whose revision the sketch has
+ * moved past reads "changed since approval" [A2]. Computed by comparing revisions (`reviewState`),
+ * never stored, so every edit path (live, autosave, restore, import) counts without a hook.
+ */
+export const REVIEW_STATES = [...REVIEW_STATUSES, 'changed_since_approval'] as const;
+export const reviewStateSchema = z.enum(REVIEW_STATES);
+export type ReviewState = z.infer<typeof reviewStateSchema>;
+
+/** The words for each state, shared by the editor, the home table and the PDF report. */
+export const REVIEW_STATE_LABEL: Record<ReviewState, string> = {
+  draft: 'Draft',
+  in_review: 'In review',
+  changes_requested: 'Changes requested',
+  approved: 'Approved',
+  changed_since_approval: 'Changed since approval',
+};
+
+/** What a review history entry records: an approval, a request for changes, an owner's reset. */
+export const REVIEW_OUTCOMES = ['approved', 'changes_requested', 'reset'] as const;
+export const reviewOutcomeSchema = z.enum(REVIEW_OUTCOMES);
+export type ReviewOutcome = z.infer<typeof reviewOutcomeSchema>;
+
+/**
+ * An approval names the revision it was given to [A1]: who approved, which revision, when, with
+ * the reviewer's note. `changedSince` is true once the sketch's revision is past it [A2].
  */
 export const approvalSchema = z.object({
   revision: z.number().int(),
   byName: z.string().nullable(),
   at: z.string(),
+  note: z.string().default(''),
+  changedSince: z.boolean().default(false),
 });
 export type Approval = z.infer<typeof approvalSchema>;
 
-export const REVIEW_STATUSES = ['draft', 'in_review', 'approved'] as const;
-export const reviewStatusSchema = z.enum(REVIEW_STATUSES);
-export type ReviewStatus = z.infer<typeof reviewStatusSchema>;
-export const setStatusSchema = z.object({ status: reviewStatusSchema });
+/** The state people read, from the stored status, the approval in force and the sketch's revision [A2]. */
+export function reviewState(status: ReviewStatus, approval: Pick<Approval, 'revision'> | null, revision: number): ReviewState {
+  if (status === 'approved' && approval && revision > approval.revision) return 'changed_since_approval';
+  return status;
+}
+
+const revisionSchema = z.number({ error: 'must be the revision you reviewed' }).int('must be a whole number').min(0, 'must be at least 0');
+const outcomeNoteSchema = textSchema().trim().max(2000, 'must be at most 2000 characters');
+
+/**
+ * A reviewer's outcome names the revision they looked at: the server refuses it when the sketch
+ * has moved on since (nobody approves what they have not seen) [A3].
+ */
+export const approveSchema = z.strictObject({ revision: revisionSchema, note: outcomeNoteSchema.default('') });
+export const requestChangesSchema = z.strictObject({
+  revision: revisionSchema,
+  note: textSchema({ error: 'is required: say what should change' }).trim().min(1, 'must say what should change').max(2000, 'must be at most 2000 characters'),
+});
+
+/** One entry of the review history, newest first: every approval, request for changes and reset. */
+export const reviewHistoryEntrySchema = z.object({
+  id: z.string(),
+  outcome: reviewOutcomeSchema,
+  revision: z.number().int(),
+  byName: z.string().nullable(),
+  note: z.string(),
+  at: z.string(),
+});
+export type ReviewHistoryEntry = z.infer<typeof reviewHistoryEntrySchema>;
 
 export const reviewRequestSchema = z.object({
-  reviewerIds: z.array(z.string().regex(/^user_[a-z0-9]{20}$/, 'must be user ids')).min(1, 'pick at least one reviewer').max(20, 'at most 20 reviewers'),
+  reviewerIds: z.array(idSchema('user')).min(1, 'pick at least one reviewer').max(20, 'at most 20 reviewers'),
   message: textSchema().trim().max(2000, 'must be at most 2000 characters').default(''),
 });
 

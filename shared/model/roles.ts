@@ -14,8 +14,8 @@ export function roleAtLeast(role: Role | null | undefined, needed: Role): boolea
 
 /** What each role may do, in words the 403 page shows. */
 export const ROLE_PURPOSE: Record<Role, string> = {
-  owner: 'manage members and delete sketches',
+  owner: 'manage members, delete sketches and reset reviews',
   editor: 'create and edit sketches',
-  reviewer: 'read sketches and place review pins',
+  reviewer: 'read sketches, place review pins, approve or request changes',
   viewer: 'read sketches',
 };

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { pointSchema, sketchDocumentSchema, sketchTitleSchema } from './sketch.ts';
-import { approvalSchema } from './review.ts';
+import { approvalSchema, reviewStateSchema, reviewStatusSchema } from './review.ts';
 import { designPointsAnalysisSchema } from './analysis.ts';
 
 /** Shape of one row of the team's sketches table. */
@@ -20,9 +20,11 @@ export const sketchSummarySchema = z.object({
   lastSolveStatus: z.string().nullable(),
   updatedAt: z.string(),
   updatedByName: z.string().nullable(),
-  reviewStatus: z.enum(['draft', 'in_review', 'approved']).default('draft'),
-  /** The approval in force (status approved), with the revision it was given to. */
+  reviewStatus: reviewStatusSchema.default('draft'),
+  /** The approval in force (status approved), with the revision it was given to [A1]. */
   approval: approvalSchema.nullable().default(null),
+  /** What people read: the status, or "changed since approval" once the revision moved past the approval [A2]. */
+  reviewState: reviewStateSchema.default('draft'),
 });
 export type SketchSummary = z.infer<typeof sketchSummarySchema>;
 
@@ -38,8 +40,9 @@ export const sketchSchema = z.object({
   createdAt: z.string(),
   updatedAt: z.string(),
   updatedByName: z.string().nullable(),
-  reviewStatus: z.enum(['draft', 'in_review', 'approved']).default('draft'),
+  reviewStatus: reviewStatusSchema.default('draft'),
   approval: approvalSchema.nullable().default(null),
+  reviewState: reviewStateSchema.default('draft'),
 });
 export type Sketch = z.infer<typeof sketchSchema>;
 

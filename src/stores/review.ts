@@ -9,20 +9,24 @@ import { newId } from '@shared/model/ids';
 import { pageOf } from '@shared/model/teams';
 import {
   activityEntrySchema,
+  reviewHistoryEntrySchema,
+  reviewState,
   pinDetailSchema,
   pinSummarySchema,
   snapshotDetailSchema,
   snapshotSummarySchema,
   type PinDetail,
   type PinSummary,
+  type Approval,
   type PinTarget,
+  type ReviewState,
   type ReviewStatus,
   type SnapshotDetail,
 } from '@shared/model/review';
 import type { PinMarker } from '@/canvas/pins';
 import { outlineOnto, type CompareOutlines } from '@/canvas/renderReview';
 
-export const REVIEW_TABS = ['pins', 'snapshots', 'activity'] as const;
+export const REVIEW_TABS = ['pins', 'snapshots', 'activity', 'approvals'] as const;
 export type ReviewTab = (typeof REVIEW_TABS)[number];
 
 /** The canvas shows up to this many pins (the newest); the list pages through all of them. */
@@ -54,6 +58,13 @@ export const useReviewStore = defineStore('review', () => {
   const canvasPins = shallowRef<PinSummary[]>([]);
   const canvasPinTotal = ref(0);
   const reviewStatus = ref<ReviewStatus>('draft');
+  /** The approval in force, with the revision it was given to [A1]. */
+  const approval = shallowRef<Approval | null>(null);
+  /**
+   * What people read [A2]: computed here from the approval and the sketch's revision, so the
+   * header turns to "changed since approval" the moment anyone's edit lands.
+   */
+  const state = computed<ReviewState>(() => reviewState(reviewStatus.value, approval.value, sketch.revision));
 
   const openPinCount = computed(() => canvasPins.value.filter((p) => p.status === 'open').length);
 
@@ -82,7 +93,7 @@ export const useReviewStore = defineStore('review', () => {
     if (!id) return;
     try {
       const s = await api.get(`/api/sketches/${id}`, sketchSchema);
-      if (sketch.sketchId === id) reviewStatus.value = s.reviewStatus;
+      if (sketch.sketchId === id) takeReview(s);
     } catch {
       // Keep the status shown; the next notice tries again.
     }
@@ -99,6 +110,12 @@ export const useReviewStore = defineStore('review', () => {
     canvasPinTotal.value = 0;
     // What the sketch was opened with, until the refresh answers (no flash of a wrong status).
     reviewStatus.value = sketch.reviewStatus;
+    approval.value = sketch.approval;
+  }
+
+  function takeReview(s: { reviewStatus: ReviewStatus; approval: Approval | null }) {
+    reviewStatus.value = s.reviewStatus;
+    approval.value = s.approval;
   }
 
   watch(
@@ -243,19 +260,35 @@ export const useReviewStore = defineStore('review', () => {
     bump('snapshots', 'activity');
   }
 
-  async function setReviewStatus(status: ReviewStatus): Promise<void> {
+  /**
+   * Records an outcome for the revision the person looked at [A3]; the server refuses it (409)
+   * when the sketch has moved on meanwhile. Our own edits are sent first, so they are not lost.
+   */
+  async function approve(revision: number, note: string): Promise<void> {
     const id = requireSketch();
     await sketch.save();
-    const s = await api.put(`/api/sketches/${id}/status`, { status }, sketchSchema);
-    reviewStatus.value = s.reviewStatus;
+    takeReview(await api.post(`/api/sketches/${id}/approvals`, { revision, note }, sketchSchema));
+    bump('status');
+  }
+
+  async function requestChanges(revision: number, note: string): Promise<void> {
+    const id = requireSketch();
+    await sketch.save();
+    takeReview(await api.post(`/api/sketches/${id}/change-requests`, { revision, note }, sketchSchema));
+    bump('status');
+  }
+
+  /** Owners only: back to draft; the history keeps every earlier outcome [A5]. */
+  async function resetReview(): Promise<void> {
+    const id = requireSketch();
+    takeReview(await api.post(`/api/sketches/${id}/review-reset`, {}, sketchSchema));
     bump('status');
   }
 
   async function requestReview(reviewerIds: string[], message: string): Promise<void> {
     const id = requireSketch();
     await sketch.save();
-    const s = await api.post(`/api/sketches/${id}/review-requests`, { reviewerIds, message }, sketchSchema);
-    reviewStatus.value = s.reviewStatus;
+    takeReview(await api.post(`/api/sketches/${id}/review-requests`, { reviewerIds, message }, sketchSchema));
     bump('status');
   }
 
@@ -270,6 +303,8 @@ export const useReviewStore = defineStore('review', () => {
     canvasPins,
     canvasPinTotal,
     reviewStatus,
+    approval,
+    state,
     openPinCount,
     markers,
     refreshCanvasPins,
@@ -288,7 +323,9 @@ export const useReviewStore = defineStore('review', () => {
     saveSnapshot,
     restoreSnapshot,
     importSection,
-    setReviewStatus,
+    approve,
+    requestChanges,
+    resetReview,
     requestReview,
   };
 });
@@ -297,3 +334,4 @@ export const useReviewStore = defineStore('review', () => {
 export const pinPageSchema = pinPage;
 export const snapshotPageSchema = pageOf(snapshotSummarySchema);
 export const activityPageSchema = pageOf(activityEntrySchema);
+export const reviewHistoryPageSchema = pageOf(reviewHistoryEntrySchema);

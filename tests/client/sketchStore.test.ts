@@ -29,6 +29,7 @@ function sketch(document: SketchDocument, revision: number, extra: Partial<Sketc
     updatedByName: 'Ines Marlow',
     reviewStatus: 'draft',
     approval: null,
+    reviewState: 'draft',
     ...extra,
   };
 }

@@ -210,7 +210,7 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     await screenshot(page, 'review-activity');
   });
 
-  it('the owner requests a review; as the last editor she cannot approve, the editor can; the home table shows it', async () => {
+  it('the owner requests a review; as the last editor she cannot approve, the editor approves the revision on screen', async () => {
     const { page } = reviewer;
     await page.getByTestId('open-review-request').click();
     const people = page.getByTestId('review-request-people');
@@ -222,38 +222,84 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     await expect.poll(async () => (await mailsTo(PRIYA.email)).map((m) => m.subject)).toEqual([`Ines Marlow asks you to review “${FIN.title}”`]);
     expect(itemAt((await mailsTo(PRIYA.email)), 0).textBody).toContain('Please check the restored root before we freeze it.');
 
-    // Ines made the last edit (the restore): approval must come from someone else.
+    // Ines made the last edit (the restore): approval must come from someone else [A4].
     await page.getByTestId('review-self-hint').waitFor();
-    await page.getByTestId('review-status').click();
-    const approve = page.locator('.ant-select-item-option', { hasText: 'Approved' });
-    expect(await approve.getAttribute('class')).toContain('ant-select-item-option-disabled');
-    expect(await approve.textContent()).toBe('Approved — not by you: you made the last edit');
+    await page.getByTestId('review-decide').click();
+    const approve = page.getByTestId('review-approve');
+    await approve.waitFor();
+    expect(await approve.getAttribute('aria-disabled')).toBe('true');
+    expect(await approve.textContent()).toBe('Approve — not by you: you made the last edit');
     // The menu has finished opening (its motion classes are gone) before the picture.
     await page.waitForFunction(() => {
-      const menu = document.querySelector('.ant-select-dropdown');
+      const menu = document.querySelector('.ant-dropdown');
       return !!menu && !/-(enter|appear)/.test(menu.className);
     });
     await screenshot(page, 'review-status-self');
     await page.keyboard.press('Escape');
+    await page.getByTestId('review-decide').click();
+    await page.locator('.ant-dropdown').waitFor({ state: 'hidden' });
 
     const other = editor.page;
     await other.reload();
     await other.getByTestId('review-status').waitFor();
     await expect.poll(() => other.getByTestId('review-status').getAttribute('data-status')).toBe('in_review');
-    await other.getByTestId('review-status').click();
-    await other.locator('.ant-select-item-option', { hasText: 'Approved' }).click();
+    const revision = (await database.db.query.sketches.findFirst({ where: eq(sketches.id, sketchId) }))!.revision;
+    await other.getByTestId('review-decide').click();
+    await expect.poll(() => other.getByTestId('review-approve').textContent()).toBe(`Approve revision ${revision}…`);
+    await other.getByTestId('review-approve').click();
+    await other.getByTestId('review-outcome-note').fill('Root loads match the hand integration.');
+    await other.getByTestId('review-outcome-send').click();
     await expect.poll(() => other.getByTestId('review-status').getAttribute('data-status')).toBe('approved');
+    expect(await text(other, 'review-approval')).toBe(`r${revision}`);
+    expect(await other.getByTestId('review-approval').getAttribute('title')).toMatch(new RegExp(`^Approved revision ${revision} by Tomasz Reyes, .+\\.$`));
+    // Ines has the sketch open: the approval reaches her header without a reload.
+    await expect.poll(() => page.getByTestId('review-status').getAttribute('data-status'), { timeout: 20_000 }).toBe('approved');
+    expect(await text(page, 'review-approval')).toBe(`r${revision}`);
+    await screenshot(other, 'review-approved-header');
+  });
 
-    await page.getByTestId('back-home').click();
-    const cell = page.getByTestId(`review-status-${sketchId}`);
-    await expect.poll(() => cell.textContent()).toBe('Approved');
-    // The column's filter: only approved sketches.
-    await page.locator('th', { hasText: 'Review' }).locator('.ant-table-filter-trigger').click();
-    await page.locator('.ant-table-filter-dropdown .ant-dropdown-menu-item', { hasText: 'Approved' }).click();
-    await page.locator('.ant-table-filter-dropdown').getByRole('button', { name: 'OK' }).click();
-    await expect.poll(() => page.locator('[data-testid^="sketch-row-"]').count()).toBe(1);
-    await page.locator('.ant-table-filter-dropdown').waitFor({ state: 'hidden' });
-    await screenshot(page, 'review-home-status');
+  it('an edit after the approval shows "changed since approval" live in both headers and in the home table, until approved again [A2]', async () => {
+    const ines = reviewer.page;
+    const tomasz = editor.page;
+    const approved = (await database.db.query.sketches.findFirst({ where: eq(sketches.id, sketchId) }))!.revision;
+    // Ines changes Mach; Tomasz has the sketch open.
+    await ines.locator('input#condition-mach').fill('2.7');
+    await ines.locator('input#condition-mach').press('Enter');
+    await expect.poll(() => ines.getByTestId('review-status').textContent(), { timeout: 20_000 }).toBe('Changed since approval');
+    await expect.poll(() => tomasz.getByTestId('review-status').textContent(), { timeout: 20_000 }).toBe('Changed since approval');
+    expect(await tomasz.getByTestId('review-status').getAttribute('title')).toMatch(new RegExp(`^Approved revision ${approved} by Tomasz Reyes, .+; changed since \\(now revision ${approved + 1}\\)\\.$`));
+    await screenshot(tomasz, 'review-changed-header');
+
+    await ines.getByTestId('back-home').click();
+    const cell = ines.getByTestId(`review-status-${sketchId}`);
+    await expect.poll(() => cell.textContent()).toBe('Changed since approval');
+    expect(await text(ines, `review-approval-${sketchId}`)).toBe(`r${approved}`);
+    // The column's filter: only sketches changed since their approval.
+    await ines.locator('th', { hasText: 'Review' }).locator('.ant-table-filter-trigger').click();
+    await ines.locator('.ant-table-filter-dropdown .ant-dropdown-menu-item', { hasText: 'Changed since approval' }).click();
+    await ines.locator('.ant-table-filter-dropdown').getByRole('button', { name: 'OK' }).click();
+    await expect.poll(() => ines.locator('[data-testid^="sketch-row-"]').count()).toBe(1);
+    await ines.locator('.ant-table-filter-dropdown').waitFor({ state: 'hidden' });
+    await screenshot(ines, 'review-home-changed');
+
+    // Tomasz looks at the new revision and approves it; the Approvals tab keeps both approvals.
+    await tomasz.getByTestId('review-decide').click();
+    await expect.poll(() => tomasz.getByTestId('review-approve').textContent()).toBe(`Approve revision ${approved + 1}…`);
+    await tomasz.getByTestId('review-approve').click();
+    await tomasz.getByTestId('review-outcome-send').click();
+    await expect.poll(() => tomasz.getByTestId('review-status').textContent()).toBe('Approved');
+    if ((await tomasz.getByTestId('toggle-review').getAttribute('aria-pressed')) !== 'true') await tomasz.getByTestId('toggle-review').click();
+    await tomasz.getByRole('tab', { name: 'Approvals' }).click();
+    const entries = tomasz.getByTestId('review-history-entry');
+    await expect.poll(() => entries.count()).toBe(2);
+    expect(await entries.nth(0).textContent()).toContain(`Approved · revision ${approved + 1} · Tomasz Reyes`);
+    expect(await entries.nth(1).textContent()).toContain(`Approved · revision ${approved} · Tomasz Reyes`);
+    expect(await entries.nth(1).textContent()).toContain('“Root loads match the hand integration.”');
+    await screenshot(tomasz, 'review-approvals-tab');
+    await tomasz.getByTestId('toggle-review').click();
+
+    await ines.reload();
+    await expect.poll(() => ines.getByTestId(`review-status-${sketchId}`).textContent()).toBe('Approved');
     expect(reviewer.foreignRequests).toEqual([]);
     expect(editor.foreignRequests).toEqual([]);
   });

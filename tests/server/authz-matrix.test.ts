@@ -190,7 +190,21 @@ const TABLE: Record<string, Entry> = {
     prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/import`, body: { points: [[0, 0], [0.5, 0.04], [1, 0], [0.5, -0.04]], fileName: 'fin.csv' } }),
   },
   'GET /api/sketches/:sketchId/activity': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/activity` }) },
-  'PUT /api/sketches/:sketchId/status': { need: 'editor', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/status`, body: { status: 'in_review' } }) },
+  // Review outcomes [A5]: reviewers and up record them (at the revision they saw); owners reset.
+  'POST /api/sketches/:sketchId/approvals': {
+    need: 'reviewer',
+    ok: 200,
+    // The fresh sketch's last editor is the owner, who may not approve it [A4].
+    override: { owner: 403 },
+    prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/approvals`, body: { revision: 0 } }),
+  },
+  'POST /api/sketches/:sketchId/change-requests': {
+    need: 'reviewer',
+    ok: 200,
+    prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/change-requests`, body: { revision: 0, note: 'Sharpen the nose.' } }),
+  },
+  'POST /api/sketches/:sketchId/review-reset': { need: 'owner', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/review-reset` }) },
+  'GET /api/sketches/:sketchId/review-history': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/review-history` }) },
   'POST /api/sketches/:sketchId/review-requests': {
     need: 'editor',
     ok: 200,

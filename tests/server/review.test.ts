@@ -100,17 +100,17 @@ describe('review workflow API', () => {
     expect(after.body.items[0]).toMatchObject({ name: 'Before importing tern-root.csv', kind: 'before_import' });
   });
 
-  it('status: the last editor cannot approve their own work; someone else can', async () => {
+  it('[A4] the last editor cannot approve their own work; a reviewer can, naming the revision', async () => {
     // The editor made the last change (the import above).
-    const self = await as('editor').put(`/api/sketches/${sketchId}/status`, { status: 'approved' });
+    const { revision } = (await as('viewer').get(`/api/sketches/${sketchId}`)).body;
+    const self = await as('editor').post(`/api/sketches/${sketchId}/approvals`, { revision });
     expect(self.status).toBe(403);
     expect(self.body.error.code).toBe('self_approval');
-    expect((await as('reviewer').put(`/api/sketches/${sketchId}/status`, { status: 'approved' })).status).toBe(403);
-    const owner = await as('owner').put(`/api/sketches/${sketchId}/status`, { status: 'approved' });
-    expect(owner.status).toBe(200);
-    expect(owner.body.reviewStatus).toBe('approved');
+    const ok = await as('reviewer').post(`/api/sketches/${sketchId}/approvals`, { revision });
+    expect(ok.status).toBe(200);
+    expect(ok.body).toMatchObject({ reviewStatus: 'approved', reviewState: 'approved', approval: { revision, byName: 'Reviewer Person', changedSince: false } });
     const table = await as('viewer').get(`/api/teams/${world.teamId}/sketches`);
-    expect(table.body.find((s: { id: string }) => s.id === sketchId).reviewStatus).toBe('approved');
+    expect(table.body.find((s: { id: string }) => s.id === sketchId)).toMatchObject({ reviewStatus: 'approved', approval: { revision } });
   });
 
   it('a review request mails each reviewer a link and puts the sketch in review; viewers cannot be asked', async () => {
@@ -132,7 +132,7 @@ describe('review workflow API', () => {
     expect(all.status).toBe(200);
     const summaries: string[] = all.body.items.map((i: { summary: string }) => i.summary);
     expect(summaries[0]).toBe('Editor Person asked Reviewer Person, Owner Person to review.');
-    expect(summaries).toContain('Owner Person set the status to approved.');
+    expect(summaries).toContain('Reviewer Person approved revision 3.');
     expect(summaries).toContain('Editor Person imported 4 vertices from tern-root.csv (new revision 3).');
     expect(summaries).toContain('Owner Person restored snapshot “Baseline wedge” (new revision 2).');
     expect(summaries).toContain('Reviewer Person resolved a pin.');

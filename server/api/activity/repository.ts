@@ -14,6 +14,10 @@ export type SketchEventKind =
   | 'snapshot.restored'
   | 'section.imported'
   | 'review.requested'
+  | 'review.approved'
+  | 'review.changes_requested'
+  | 'review.reset'
+  /** Written before outcomes named their revision (kept in old feeds). */
   | 'status.changed';
 
 export async function recordSketchEvent(db: DbLike, event: { sketchId: string; actorId: string | null; kind: SketchEventKind; detail?: Record<string, unknown> }) {

@@ -42,6 +42,12 @@ function describe(row: ActivityRow): string {
       return `${who} imported ${String(d.vertexCount)} vertices from ${String(d.fileName)} (new revision ${String(d.revision)}).`;
     case 'review.requested':
       return `${who} asked ${String(d.reviewerNames)} to review.`;
+    case 'review.approved':
+      return `${who} approved revision ${String(d.revision)}${d.note ? `: “${String(d.note)}”` : '.'}`;
+    case 'review.changes_requested':
+      return `${who} requested changes at revision ${String(d.revision)}: “${String(d.note ?? '')}”`;
+    case 'review.reset':
+      return `${who} reset the review to draft (revision ${String(d.revision)}).`;
     case 'status.changed':
       return `${who} set the status to ${String(d.to).replace('_', ' ')}.`;
     default:

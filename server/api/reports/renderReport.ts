@@ -12,6 +12,7 @@ import { facetLoads } from '../../../shared/flight/facetLoads.ts';
 import type { SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
 import { line, paragraph, registerFonts, widthOf } from './pdfText.ts';
 import type { ReportData, ReportStudy } from './reportData.ts';
+import { drawApprovalRecord } from './pdfApproval.ts';
 import { formatNumber } from '../../../shared/format/number.ts';
 import { firstItem, itemAt } from '../../../shared/util/invariant.ts';
 
@@ -63,6 +64,7 @@ export function renderReport(data: ReportData): Promise<Buffer> {
   const ctx: Ctx = { doc, y: M.top, data };
 
   titleBlock(ctx);
+  ctx.y = drawApprovalRecord(doc, { x: M.left, y: ctx.y, width: CONTENT_W }, data.review, data.revision);
   cautionBox(ctx);
   designPointsTable(ctx);
   waveMapPanel(ctx);

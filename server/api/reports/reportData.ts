@@ -3,6 +3,7 @@ import type { DesignPointsAnalysis } from '../../../shared/flight/designPoints.t
 import type { UnitSystem } from '../../../shared/flight/units.ts';
 import type { SketchDocument } from '../../../shared/model/sketch.ts';
 import type { StudyDefinition, StudyResults } from '../../../shared/model/study.ts';
+import type { ReportReview } from './pdfApproval.ts';
 
 /** Everything one PDF report shows; built by the service, drawn by renderReport (no database). */
 export interface ReportData {
@@ -19,6 +20,8 @@ export interface ReportData {
   /** Every design point's analysis, in the document's order. */
   points: DesignPointsAnalysis;
   study: ReportStudy | null;
+  /** The approval record [A6] (pdfApproval.ts); absent (benches, drawing tests) reads "Not approved". */
+  review?: ReportReview;
 }
 
 export interface ReportStudy {

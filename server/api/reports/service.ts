@@ -13,6 +13,16 @@ import { readStoredAnalysis, selectedAnalysis } from '../../../shared/flight/des
 import { renderReport } from './renderReport.ts';
 import type { ReportData } from './reportData.ts';
 import { findTeamName } from './repository.ts';
+import { reviewOf } from '../sketches/service.ts';
+import { reviewHistoryPage } from '../review/repository.ts';
+import type { ReportReview } from './pdfApproval.ts';
+
+/** The approval record of the report [A6]: the approval in force, or the newest request for changes. */
+async function reportReview(ctx: AppContext, sketchId: string, row: Parameters<typeof reviewOf>[0]): Promise<ReportReview> {
+  const { approval, reviewState } = reviewOf(row);
+  const newest = reviewState === 'changes_requested' ? (await reviewHistoryPage(ctx.db, sketchId, 1, 0)).rows[0] : undefined;
+  return { state: reviewState, approval, changesRequested: newest ? { ...newest, at: newest.at.toISOString() } : null };
+}
 
 /** "HD-7 Tern fin, root" at revision 12 → "HD-7-Tern-fin-root-r12-report.pdf" ([M3]). */
 export function reportFileName(title: string, revision: number): string {
@@ -49,6 +59,7 @@ async function drawReport(ctx: AppContext, user: SessionUser, sketchId: string, 
     document,
     analysis,
     points,
+    review: await reportReview(ctx, sketchId, row),
     study: study && { id: study.id, name: study.name, revision: study.revision, definition: study.definition, results: study.results, createdByName: study.createdByName, createdAt: study.createdAt },
   };
   return { pdf: await renderReport(data), fileName: reportFileName(row.title, row.revision) };

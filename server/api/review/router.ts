@@ -4,17 +4,18 @@ import type { AppContext } from '../../context.ts';
 import { currentUser, requireUser } from '../../auth/guards.ts';
 import { parseOr400 } from '../../http/validate.ts';
 import { pageQuerySchema } from '../../../shared/model/teams.ts';
-import { createPinSchema, createSnapshotSchema, importSectionSchema, pinListQuerySchema, replySchema, reviewRequestSchema, setStatusSchema } from '../../../shared/model/review.ts';
+import { idSchema } from '../../../shared/model/ids.ts';
+import { approveSchema, createPinSchema, createSnapshotSchema, importSectionSchema, pinListQuerySchema, replySchema, requestChangesSchema, reviewRequestSchema } from '../../../shared/model/review.ts';
 import * as pins from '../pins/service.ts';
 import * as snapshots from '../snapshots/service.ts';
 import * as activity from '../activity/service.ts';
 import * as review from './service.ts';
 
-const sketchParams = z.object({ sketchId: z.string().regex(/^sketch_[a-z0-9]{20}$/, 'must be a sketch id') });
-const pinParams = z.object({ pinId: z.string().regex(/^pin_[a-z0-9]{20}$/, 'must be a pin id') });
-const snapshotParams = z.object({ snapshotId: z.string().regex(/^snap_[a-z0-9]{20}$/, 'must be a snapshot id') });
+const sketchParams = z.object({ sketchId: idSchema('sketch') });
+const pinParams = z.object({ pinId: idSchema('pin') });
+const snapshotParams = z.object({ snapshotId: idSchema('snap', 'snapshot') });
 
-/** Review workflow: pins and threads, snapshots, imports, activity, status. Mounted at /api; every route needs a signed-in user. */
+/** Review workflow: pins and threads, snapshots, imports, activity, review requests and outcomes. Mounted at /api; every route needs a signed-in user. */
 export function reviewRouter(ctx: AppContext): Router {
   const router = Router();
 
@@ -68,9 +69,22 @@ export function reviewRouter(ctx: AppContext): Router {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');
     res.json(await activity.listActivity(ctx, currentUser(req).id, sketchId, parseOr400(pageQuerySchema, req.query, 'query')));
   });
-  router.put('/sketches/:sketchId/status', requireUser, async (req, res) => {
+  // Review outcomes [A1]–[A5]: each names the revision it was given to.
+  router.post('/sketches/:sketchId/approvals', requireUser, async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');
-    res.json(await review.setReviewStatus(ctx, currentUser(req), sketchId, parseOr400(setStatusSchema, req.body).status));
+    res.json(await review.approve(ctx, currentUser(req), sketchId, parseOr400(approveSchema, req.body)));
+  });
+  router.post('/sketches/:sketchId/change-requests', requireUser, async (req, res) => {
+    const { sketchId } = parseOr400(sketchParams, req.params, 'params');
+    res.json(await review.requestChanges(ctx, currentUser(req), sketchId, parseOr400(requestChangesSchema, req.body)));
+  });
+  router.post('/sketches/:sketchId/review-reset', requireUser, async (req, res) => {
+    const { sketchId } = parseOr400(sketchParams, req.params, 'params');
+    res.json(await review.resetReview(ctx, currentUser(req), sketchId));
+  });
+  router.get('/sketches/:sketchId/review-history', requireUser, async (req, res) => {
+    const { sketchId } = parseOr400(sketchParams, req.params, 'params');
+    res.json(await review.listReviewHistory(ctx, currentUser(req).id, sketchId, parseOr400(pageQuerySchema, req.query, 'query')));
   });
   router.post('/sketches/:sketchId/review-requests', requireUser, async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');

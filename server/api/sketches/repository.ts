@@ -1,7 +1,7 @@
 import { desc, eq } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { Db } from '../../db/client.ts';
-import { sketches, users } from '../../db/schema.ts';
+import { reviewOutcomes, sketches, users } from '../../db/schema.ts';
 import type { SketchDocument } from '../../../shared/model/sketch.ts';
 
 const editor = alias(users, 'editor');
@@ -14,6 +14,11 @@ const columns = {
   document: sketches.document,
   lastSolveStatus: sketches.lastSolveStatus,
   reviewStatus: sketches.reviewStatus,
+  /** The approval in force [A1] (null unless approved). */
+  approvalRevision: reviewOutcomes.revision,
+  approvalByName: reviewOutcomes.actorName,
+  approvalNote: reviewOutcomes.note,
+  approvalAt: reviewOutcomes.createdAt,
   createdAt: sketches.createdAt,
   updatedAt: sketches.updatedAt,
   updatedByName: editor.name,
@@ -24,6 +29,7 @@ export async function listSketches(db: Db, teamId: string) {
     .select(columns)
     .from(sketches)
     .leftJoin(editor, eq(editor.id, sketches.updatedBy))
+    .leftJoin(reviewOutcomes, eq(reviewOutcomes.id, sketches.approvalId))
     .where(eq(sketches.teamId, teamId))
     .orderBy(desc(sketches.updatedAt));
 }
@@ -33,6 +39,7 @@ export async function findSketch(db: Db, id: string) {
     .select({ ...columns, lastResult: sketches.lastResult })
     .from(sketches)
     .leftJoin(editor, eq(editor.id, sketches.updatedBy))
+    .leftJoin(reviewOutcomes, eq(reviewOutcomes.id, sketches.approvalId))
     .where(eq(sketches.id, id));
   return rows[0] ?? null;
 }

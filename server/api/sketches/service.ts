@@ -4,6 +4,7 @@ import { assertTeamRole } from '../../auth/guards.ts';
 import { newId } from '../../../shared/model/ids.ts';
 import { defaultSketchDocument, normalizeDocument, selectedPoint, type SketchDocument } from '../../../shared/model/sketch.ts';
 import type { Role } from '../../../shared/model/roles.ts';
+import { reviewState } from '../../../shared/model/review.ts';
 import type { Sketch, SketchSummary } from '../../../shared/model/sketchApi.ts';
 import { thicknessRatio } from '../../../shared/solver/thicknessRatio.ts';
 import { solveDocument } from './solveDocument.ts';
@@ -21,6 +22,16 @@ export async function authorizeSketch(db: Db, userId: string, sketchId: string, 
 
 
 type SketchRow = NonNullable<Awaited<ReturnType<typeof repo.findSketch>>>;
+type ReviewColumns = Pick<SketchRow, 'revision' | 'reviewStatus' | 'approvalRevision' | 'approvalByName' | 'approvalNote' | 'approvalAt'>;
+
+/** The review part of a sketch's answer: status, the approval in force [A1] and what people read [A2]. */
+export function reviewOf(row: ReviewColumns): Pick<Sketch, 'reviewStatus' | 'approval' | 'reviewState'> {
+  const approval =
+    row.reviewStatus === 'approved' && row.approvalRevision !== null && row.approvalAt !== null
+      ? { revision: row.approvalRevision, byName: row.approvalByName, at: row.approvalAt.toISOString(), note: row.approvalNote ?? '', changedSince: row.revision > row.approvalRevision }
+      : null;
+  return { reviewStatus: row.reviewStatus, approval, reviewState: reviewState(row.reviewStatus, approval, row.revision) };
+}
 
 function toSketch(row: SketchRow): Sketch {
   return {
@@ -34,8 +45,7 @@ function toSketch(row: SketchRow): Sketch {
     createdAt: row.createdAt.toISOString(),
     updatedAt: row.updatedAt.toISOString(),
     updatedByName: row.updatedByName,
-    reviewStatus: row.reviewStatus,
-    approval: null,
+    ...reviewOf(row),
   };
 }
 
@@ -59,8 +69,7 @@ export async function listTeamSketches(db: Db, userId: string, teamId: string): 
       lastSolveStatus: r.lastSolveStatus,
       updatedAt: r.updatedAt.toISOString(),
       updatedByName: r.updatedByName,
-      reviewStatus: r.reviewStatus,
-      approval: null,
+      ...reviewOf(r),
     };
   });
 }

@@ -248,6 +248,11 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     await expect.poll(() => other.getByTestId('review-approve').textContent()).toBe(`Approve revision ${revision}…`);
     await other.getByTestId('review-approve').click();
     await other.getByTestId('review-outcome-note').fill('Root loads match the hand integration.');
+    await other.waitForFunction(() => {
+      const modal = document.querySelector('.ant-modal');
+      return !!modal && !/-(enter|appear)/.test(modal.className);
+    });
+    await screenshot(other, 'review-outcome-dialog');
     await other.getByTestId('review-outcome-send').click();
     await expect.poll(() => other.getByTestId('review-status').getAttribute('data-status')).toBe('approved');
     expect(await text(other, 'review-approval')).toBe(`r${revision}`);

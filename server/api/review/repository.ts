@@ -1,4 +1,4 @@
-import { count, desc, eq, sql } from 'drizzle-orm';
+import { desc, eq, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client.ts';
 import { reviewOutcomes, sketches } from '../../db/schema.ts';
 import { newId } from '../../../shared/model/ids.ts';
@@ -88,6 +88,6 @@ export async function reviewHistoryPage(db: Db, sketchId: string, limit: number,
     .orderBy(desc(reviewOutcomes.createdAt), desc(sql`${reviewOutcomes.id}`))
     .limit(limit)
     .offset(offset);
-  const [total] = await db.select({ n: count() }).from(reviewOutcomes).where(eq(reviewOutcomes.sketchId, sketchId));
-  return { rows, total: total?.n ?? 0 };
+  const total = await db.$count(reviewOutcomes, eq(reviewOutcomes.sketchId, sketchId));
+  return { rows, total };
 }

@@ -71,6 +71,7 @@ describe('unstorable text at every kind of route: a 400 naming the field, nothin
       select 'sketches' as t, count(*) as n from sketches union all select 'sketch_edits', count(*) from sketch_edits
       union all select 'pins', count(*) from pins union all select 'pin_replies', count(*) from pin_replies
       union all select 'snapshots', count(*) from snapshots union all select 'sketch_events', count(*) from sketch_events
+      union all select 'review_outcomes', count(*) from review_outcomes
       union all select 'studies', count(*) from studies union all select 'teams', count(*) from teams
       union all select 'users', count(*) from users union all select 'sign_ups', count(*) from sign_ups`);
     return Object.fromEntries(r.rows.map((x) => [x.t, Number(x.n)]));
@@ -108,6 +109,8 @@ describe('unstorable text at every kind of route: a 400 naming the field, nothin
       field: /name/,
       call: (bad) => send('post', `/api/sketches/${sketchId}/studies`, editor, { name: bad, definition: { mach: { kind: 'list', values: [2] }, alpha: { startDeg: 0, endDeg: 1, stepDeg: 1 } } }),
     },
+    { route: 'POST approvals (note)', field: /note/, call: (bad) => send('post', `/api/sketches/${sketchId}/approvals`, reviewer, { revision: 0, note: bad }) },
+    { route: 'POST change-requests (note)', field: /note/, call: (bad) => send('post', `/api/sketches/${sketchId}/change-requests`, reviewer, { revision: 0, note: bad }) },
     { route: 'POST review-requests (message)', field: /message/, call: (bad) => send('post', `/api/sketches/${sketchId}/review-requests`, editor, { reviewerIds: [world.users.reviewer.id], message: bad }) },
     { route: 'POST /api/teams (name)', field: /name/, call: (bad) => send('post', '/api/teams', editor, { name: bad }) },
     { route: 'POST sign-up (name)', field: /name/, call: (bad) => request(world.app).post('/api/auth/sign-up').set(CSRF).send({ name: bad, email: 'new@example.test', password: 'a long password', teamName: 'T' }) },

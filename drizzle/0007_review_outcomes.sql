@@ -1,6 +1,3 @@
-ALTER TABLE "sketches" ADD COLUMN "result_revision" integer;--> statement-breakpoint
--- Results stored before this column were written in the same transaction as their document.
-UPDATE "sketches" SET "result_revision" = "revision" WHERE "last_result" IS NOT NULL;--> statement-breakpoint
 CREATE TYPE "public"."review_outcome" AS ENUM('approved', 'changes_requested', 'reset');--> statement-breakpoint
 ALTER TYPE "public"."review_status" ADD VALUE 'changes_requested' BEFORE 'approved';--> statement-breakpoint
 CREATE TABLE "review_outcomes" (
@@ -18,7 +15,8 @@ ALTER TABLE "sketches" ADD COLUMN "approval_id" text;--> statement-breakpoint
 ALTER TABLE "review_outcomes" ADD CONSTRAINT "review_outcomes_sketch_id_sketches_id_fk" FOREIGN KEY ("sketch_id") REFERENCES "public"."sketches"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "review_outcomes" ADD CONSTRAINT "review_outcomes_actor_id_users_id_fk" FOREIGN KEY ("actor_id") REFERENCES "public"."users"("id") ON DELETE set null ON UPDATE no action;--> statement-breakpoint
 CREATE INDEX "review_outcomes_sketch_idx" ON "review_outcomes" USING btree ("sketch_id","created_at");--> statement-breakpoint
-ALTER TABLE "sketches" ADD CONSTRAINT "sketches_approval_id_review_outcomes_id_fk" FOREIGN KEY ("approval_id") REFERENCES "public"."review_outcomes"("id") ON DELETE set null ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "sketches" ADD CONSTRAINT "sketches_approval_id_review_outcomes_id_fk" FOREIGN KEY ("approval_id") REFERENCES "public"."review_outcomes"("id") ON DELETE set null ON UPDATE no action;
+--> statement-breakpoint
 -- Approvals given before an approval named its revision [A1]: rebuilt from the activity feed's
 -- last "status → approved" event, at the revision the sketch had at that moment (the last edit
 -- logged before it), so a sketch edited since reads "changed since approval".

@@ -66,36 +66,27 @@ export function resultJson(title: string, document: SketchDocument, result: Solv
   return `${JSON.stringify({ title, caution: RESULTS_CAUTION, document, result }, null, 2)}\n`;
 }
 
-/**
- * A text cell for CSV: always quoted, quotes doubled, line breaks kept inside the quotes
- * (RFC 4180), and a leading =, +, −, @, tab or carriage return neutralised with an apostrophe so
- * that a spreadsheet never reads someone's title as a formula (common practice, OWASP "CSV
- * injection").
- */
-export function csvText(value: string): string {
-  const safe = /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-  return `"${safe.replace(/"/g, '""')}"`;
-}
+/** Columns of the pressure signature CSV. */
+export const SIGNATURE_CSV_COLUMNS = ['x_over_c_from_nose', 'p_over_pinf_ahead', 'p_over_pinf_behind'] as const;
 
 /**
- * The pressure signature as CSV: the sketch and condition (the title as a quoted cell), the
- * caution, then one row per step edge: x/c from the nose and p/p∞ on each side of it.
+ * The pressure signature as CSV (shared cells, [CSV1]–[CSV4]): notes with the sketch's title
+ * (its own quoted cell), the condition, the line and the caution, then one row per step edge:
+ * x/c from the nose and p/p∞ on each side of it (empty inside the section or past the ends).
  */
 export function signatureCsv(title: string, result: SolveResult, signature: PressureSignature): string {
   const c = result.condition;
   const rows: string[] = [];
   signature.xOverC.forEach((x, k) => {
-    const before = k > 0 ? signature.p[k - 1] : undefined;
-    const after = k < signature.p.length ? signature.p[k] : undefined;
-    rows.push([x, before === undefined || before === null ? '' : before, after === undefined || after === null ? '' : after].join(','));
+    const before = k > 0 ? signature.p[k - 1] : null;
+    const after = k < signature.p.length ? signature.p[k] : null;
+    rows.push(csvRow([x, before ?? null, after ?? null]));
   });
   return [
-    `sketch,${csvText(title)}`,
-    `condition,"M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}"`,
-    `line,"${signature.distanceChords} chords ${signature.side} the section (y = ${signature.y})"`,
-    `caution,${csvText(RESULTS_CAUTION)}`,
-    '',
-    'x_over_c_from_nose,p_over_pinf_ahead,p_over_pinf_behind',
+    csvNote('Shockwright pressure signature:', title),
+    csvNote(`M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}; p/p_inf along y = ${signature.y}, ${signature.distanceChords} chords ${signature.side} the section`),
+    csvNote(RESULTS_CAUTION),
+    csvHeader(SIGNATURE_CSV_COLUMNS),
     ...rows,
     '',
   ].join('\n');

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { expectClose } from '../../helpers/expectClose';
-import { csvText, signatureCsv } from '../../../shared/model/sketchExport';
+import { signatureCsv } from '../../../shared/model/sketchExport';
 import { RESULTS_CAUTION } from '../../../shared/model/caution';
 import { pressureField } from '../../../shared/solver/pressureField';
 import { pressureSignature } from '../../../shared/solver/pressureSignature';
@@ -82,16 +82,15 @@ describe('pressure field and signature', () => {
     expect(near.y).toBeCloseTo(-0.05 - 2, 12);
   });
 
-  it('signatureCsv quotes the title (quotes doubled, a leading = neutralised) and carries the caution', () => {
-    expect(csvText('HD-7 "Tern", root')).toBe('"HD-7 ""Tern"", root"');
-    expect(csvText('=HYPERLINK("x")')).toBe('"\'=HYPERLINK(""x"")"');
+  it('signatureCsv: the title in its own quoted, neutralised cell [CSV1][CSV2][CSV4], bare numbers [CSV3], the caution, one row per step edge', () => {
     const sig = pressureSignature(result, 'below', 2)!;
-    const text = signatureCsv('=cmd|"calc"', result, sig);
+    const text = signatureCsv('=cmd|"calc"\nnext', result, sig);
     const lines = text.split('\n');
-    expect(lines[0]).toBe('sketch,"\'=cmd|""calc"""');
-    expect(text).toContain(RESULTS_CAUTION.replace(/"/g, '""'));
+    expect(lines[0]).toBe('# Shockwright pressure signature:,"\'=cmd|""calc"" next"');
+    expect(text).toContain(RESULTS_CAUTION);
     const header = lines.indexOf('x_over_c_from_nose,p_over_pinf_ahead,p_over_pinf_behind');
     expect(header).toBeGreaterThan(0);
     expect(lines.length - header - 2).toBe(sig.xOverC.length);
+    expect(lines[header + 1]).toMatch(/^-?[\d.e-]+,,1$/);
   });
 });

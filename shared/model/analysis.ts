@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import type { DesignPointsAnalysis } from '../flight/designPoints.ts';
 import type { SketchAnalysis } from '../flight/analyseSketch.ts';
-import type { SolveResult, SolveStatus } from '../solver/types.ts';
+import type { SolveResult, SolveStatus, Wave } from '../solver/types.ts';
 import { FIRST_DESIGN_POINT_ID, FIRST_DESIGN_POINT_NAME } from './sketch.ts';
 
 /**
@@ -99,8 +99,8 @@ const fanRaySchema = z.object({
   end: point,
   pRatio: z.number(),
   mach: z.number(),
-  path: z.array(point),
-  pRatioAhead: z.number(),
+  path: z.array(point).optional(),
+  pRatioAhead: z.number().optional(),
 });
 
 const waveSchema = z.object({
@@ -114,17 +114,25 @@ const waveSchema = z.object({
   rays: z.array(fanRaySchema).optional(),
   end: point,
   endReason: z.enum(['field', 'wave', 'body']),
-  path: z.array(point),
+  upstream: waveStateSchema,
+  downstream: waveStateSchema,
+  pRatioBehind: z.number(),
+  deflectionDeg: z.number(),
+  path: z.array(point).optional(),
   pRatioAlong: z.array(z.number()).optional(),
   betaDegAlong: z.array(z.number()).optional(),
   machBehindAlong: z.array(z.number()).optional(),
   pRatioAheadAlong: z.array(z.number()).optional(),
   pRatioBehindAlong: z.array(z.number()).optional(),
-  upstream: waveStateSchema,
-  downstream: waveStateSchema,
-  pRatioBehind: z.number(),
-  deflectionDeg: z.number(),
-});
+}).transform(
+  // A result stored before waves had paths reads back with the straight line it was drawn
+  // with (origin → end) and each fan ray's pressure ahead taken as its own.
+  ({ path, rays, ...w }): Wave => ({
+    ...w,
+    path: path ?? [w.origin, w.end],
+    ...(rays ? { rays: rays.map((r) => ({ ...r, path: r.path ?? [w.origin, r.end], pRatioAhead: r.pRatioAhead ?? r.pRatio })) } : {}),
+  }),
+);
 
 const sectionGeometrySchema = z.object({
   chord: z.number(),
@@ -151,12 +159,16 @@ export const solveResultSchema = z.object({
   theories: z.object({ linear: theoryResultSchema, secondOrder: theoryResultSchema }).nullable(),
   trailingEdge: trailingEdgeSchema,
   waves: z.array(waveSchema),
-  intersections: z.array(z.object({
-    at: point,
-    waves: z.tuple([z.string(), z.string()]),
-    kind: z.enum(['absorbed', 'merged', 'crossed']),
-    survivor: z.string().optional(),
-  })),
+  // `kind` and `survivor` came with the wave interactions; an older stored meeting stopped both
+  // lines there, which reads back as `crossed` (neither went on as the other).
+  intersections: z.array(
+    z.object({
+      at: point,
+      waves: z.tuple([z.string(), z.string()]),
+      kind: z.enum(['absorbed', 'merged', 'crossed']).default('crossed'),
+      survivor: z.string().optional(),
+    }),
+  ),
   warnings: z.array(z.string()),
 }) satisfies z.ZodType<SolveResult>;
 

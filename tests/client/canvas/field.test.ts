@@ -29,7 +29,7 @@ const result = solveSection(parsed.value);
 const view = { scale: 400, originX: 150, originY: 300 };
 const size = { width: 900, height: 600 };
 
-describe('pressure field layer, meeting marks and the line-style key', () => {
+describe('[DR4] pressure field layer, meeting marks and the line-style key', () => {
   it('fills the regions between the waves row by row with the colour of their p/p∞; nothing when the layer is off', () => {
     const domain = resultDomain(result);
     const list = renderField(result, pts, view, size, true, domain);

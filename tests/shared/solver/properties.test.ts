@@ -360,7 +360,7 @@ describe('solveSection properties (fast-check)', () => {
         fc.boolean(),
         (xs, factors, thickness, mach, alphaSize, negative) => {
           const alphaDeg = negative ? -alphaSize : alphaSize;
-          const front = [...xs].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, thickness * factors[k] * 4 * (i / 100) * (1 - i / 100)]);
+          const front = [...xs].sort((a, b) => a - b).map((i, k): [number, number] => [i / 100, thickness * itemAt(factors, k) * 4 * (i / 100) * (1 - i / 100)]);
           const mid: [number, number] = [0.5, thickness];
           const back = [...front].reverse().map(([x, y]): [number, number] => [1 - x, y]);
           const upper = [...front, mid, ...back];

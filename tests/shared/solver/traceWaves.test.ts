@@ -2,6 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { expectClose } from '../../helpers/expectClose';
 import { reached } from '../../helpers/reached';
+import { itemAt } from '../../../shared/util/invariant';
 import { isSimplePolygon } from '../../../shared/model/polygon';
 import { machAngle } from '../../../shared/solver/machAngle';
 import { solveSection } from '../../../shared/solver/solveSection';
@@ -57,16 +58,16 @@ describe('traceWaves (via solveSection)', () => {
     expect(fan.origin).toEqual([0.5, 0.05]);
     const rays = fan.rays!;
     expect(rays).toHaveLength(5);
-    expectClose(rays[0].angleDeg, deg(eps + machAngle(front.m2)), 1e-8);
-    const m2 = r.surfaces.upper[1].mach!;
-    expectClose(rays[4].angleDeg, deg(-eps + machAngle(m2)), 1e-8);
+    expectClose(itemAt(rays, 0).angleDeg, deg(eps + machAngle(front.m2)), 1e-8);
+    const m2 = itemAt(r.surfaces.upper, 1).mach!;
+    expectClose(itemAt(rays, 4).angleDeg, deg(-eps + machAngle(m2)), 1e-8);
     for (let k = 1; k < rays.length; k++) {
-      expect(rays[k].pRatio).toBeLessThan(rays[k - 1].pRatio);
-      expect(rays[k].mach).toBeGreaterThan(rays[k - 1].mach);
-      expect(rays[k].angleDeg).toBeLessThan(rays[k - 1].angleDeg);
+      expect(itemAt(rays, k).pRatio).toBeLessThan(itemAt(rays, k - 1).pRatio);
+      expect(itemAt(rays, k).mach).toBeGreaterThan(itemAt(rays, k - 1).mach);
+      expect(itemAt(rays, k).angleDeg).toBeLessThan(itemAt(rays, k - 1).angleDeg);
     }
     expectClose(fan.deflectionDeg, -2 * deg(eps), 1e-9);
-    expectClose(rays[4].pRatio, fan.pRatioBehind, 1e-15);
+    expectClose(itemAt(rays, 4).pRatio, fan.pRatioBehind, 1e-15);
 
     expect(byId(r, 'wave_tail_upper').kind).toBe('shock');
     expectClose(byId(r, 'wave_slip').angleDeg, 0, 1e-12);
@@ -90,7 +91,7 @@ describe('traceWaves (via solveSection)', () => {
       if (w.kind === 'slip') continue;
       const facets = w.surface === 'upper' ? r.surfaces.upper : r.surfaces.lower;
       const k = facets.findIndex((f) => f.from[0] === w.origin[0] && f.from[1] === w.origin[1]);
-      const psiDeg = w.id.startsWith('wave_tail') ? facets.at(-1)!.phiDeg : k <= 0 ? 4 : facets[k - 1].phiDeg;
+      const psiDeg = w.id.startsWith('wave_tail') ? facets.at(-1)!.phiDeg : k <= 0 ? 4 : itemAt(facets, k - 1).phiDeg;
       const lean = w.angleDeg - psiDeg;
       if (w.surface === 'upper') expect(lean).toBeGreaterThan(0);
       else expect(lean).toBeLessThan(0);
@@ -135,8 +136,8 @@ describe('traceWaves (via solveSection)', () => {
         checked.hit();
         for (let i = 0; i < segs.length; i++) {
           for (let j = i + 1; j < segs.length; j++) {
-            const [ia, a, b] = segs[i];
-            const [ib, c, d] = segs[j];
+            const [ia, a, b] = itemAt(segs, i);
+            const [ib, c, d] = itemAt(segs, j);
             if (ia === ib || !crossesInside(a, b, c, d)) continue;
             expect(crossed.some((x) => x.waves.includes(ia) && x.waves.includes(ib)), `${ia} × ${ib}`).toBe(true);
           }

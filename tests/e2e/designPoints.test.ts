@@ -27,7 +27,7 @@ describe('design points, live between two editors and a reviewer', () => {
 
   const stored = async () => {
     const row = await database.db.query.sketches.findFirst({ where: eq(sketches.id, sketchId) });
-    return { doc: normalizeDocument(row!.document), revision: row!.revision, result: readStoredAnalysis(row!.lastResult) };
+    return { doc: normalizeDocument(row!.document), revision: row!.revision, resultRevision: row!.resultRevision, result: readStoredAnalysis(row!.lastResult) };
   };
   /** The points' names in list order (a name being typed shows its field's value). */
   const pointNames = (page: Page) =>
@@ -77,6 +77,9 @@ describe('design points, live between two editors and a reviewer', () => {
     // Stored: the document and the server's own solve of every point.
     await expect.poll(async () => (await stored()).doc.designPoints.map((p) => p.name), { timeout: 20_000 }).toEqual(['Burnout', 'Dash', 'Max q', 'Pull-up']);
     await expect.poll(async () => selectedPoint((await stored()).doc).condition.mach, { timeout: 20_000 }).toBe(3.4);
+    // The server solves after the edit is committed and stores the result tagged with the
+    // revision it belongs to [E1]: wait for the result to catch up with the document.
+    await expect.poll(async () => { const s = await stored(); return s.resultRevision === s.revision; }, { timeout: 30_000 }).toBe(true);
     const { doc, result } = await stored();
     expect(result?.points.map((p) => p.name)).toEqual(['Burnout', 'Dash', 'Max q', 'Pull-up']);
     expect(result?.selectedPointId).toBe(doc.selectedPointId);

@@ -17,12 +17,7 @@ import { markOwned } from './leftovers.ts';
 import { checkInterrupted, handleInterruptions, Interrupted, interruption, runStep, signalExitCode } from './runControl.ts';
 import { startThrowawayCluster, type ThrowawayCluster } from './throwawayCluster.ts';
 import { CHROMIUM_PATH, ensureSystemPackages } from './system.ts';
-
-interface VitestJson {
-  numPassedTests: number;
-  numFailedTests: number;
-  testResults: { name: string; status: string; message?: string; assertionResults: unknown[] }[];
-}
+import { parseVitestJson, tallyVitest } from './vitestTally.ts';
 
 const bin = (name: string) => path.join(REPO_ROOT, 'node_modules/.bin', name);
 
@@ -85,7 +80,7 @@ async function main(): Promise<number> {
 
     step('Test suites (vitest)');
     const jsonFile = path.join(work, 'vitest.json');
-    await run(bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${jsonFile}`, ...extraArgs], {
+    const vitestOk = await run(bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${jsonFile}`, ...extraArgs], {
       ...process.env,
       TMPDIR: testTmp,
       TEST_PG_ADMIN_URL: cluster.adminUrl,
@@ -94,16 +89,11 @@ async function main(): Promise<number> {
       CHROMIUM_PATH,
     });
     if (existsSync(jsonFile)) {
-      const report = JSON.parse(readFileSync(jsonFile, 'utf8')) as VitestJson;
-      passed += report.numPassedTests;
-      failed += report.numFailedTests;
-      // A file that fails to load has no tests to count; it still counts as a failure.
-      for (const file of report.testResults) {
-        if (file.status === 'failed' && file.assertionResults.length === 0) {
-          failed += 1;
-          console.error(`Suite failed to run: ${path.relative(REPO_ROOT, file.name)}: ${file.message ?? ''}`);
-        }
-      }
+      // Hooks, files that fail to load and unhandled errors count too (server/lifecycle/vitestTally.ts).
+      const tally = tallyVitest(parseVitestJson(readFileSync(jsonFile, 'utf8'), jsonFile), vitestOk, (f) => path.relative(REPO_ROOT, f));
+      passed += tally.passed;
+      failed += tally.failed;
+      for (const problem of tally.problems) console.error(problem);
     } else {
       console.error('vitest produced no report.');
       failed += 1;

@@ -30,14 +30,153 @@ export type PressureAlong = (y: number, xMin: number, xMax: number) => PressureP
  * bent shock and just ahead of the next ray differ slightly; the profile takes the one behind
  * the nearer wave upstream, so each step sits on a wave.
  *
- * Cost: O(S) to build and O(S + c log c) per line for S path segments and c crossings. Edge
- * case: a result with no waves gives the free stream outside the section.
+ * Cost: O(S) to build and O(S + c log c) per line for S path segments and c crossings (many
+ * lines at once: `pressureRows`). Edge case: a result with no waves gives the free stream
+ * outside the section.
  *
  * Sources: the uniform regions between waves of the shock-expansion method (NACA Report 1135
  * for the states); the crossing count of a point-in-polygon test (common practice).
  */
 export function pressureField(waves: readonly Wave[], outline: readonly (readonly [number, number])[]): PressureAlong {
-  // Flat segment table: x0, y0, x1, y1, pressure on the left (looking along +x), on the right.
+  const table = segmentTable(waves, outline);
+  return (y, xMin, xMax) => profileAcross(table, y, xMin, xMax);
+}
+
+/**
+ * The same profiles as `pressureField(waves, outline)(y, xMin, xMax)` for each y of `ys`, equal
+ * to them value for value, in the order of `ys` (collected from `pressureSteps`).
+ */
+export function pressureRows(waves: readonly Wave[], outline: readonly (readonly [number, number])[], ys: readonly number[], xMin: number, xMax: number): PressureProfile[] {
+  const out: PressureProfile[] = ys.map(() => ({ x: [xMin], p: [] }));
+  pressureSteps(waves, outline, ys, xMin, xMax, (row, _x0, x1, p) => {
+    const profile = out[row] as PressureProfile;
+    profile.x.push(x1);
+    profile.p.push(p);
+  });
+  return out;
+}
+
+/**
+ * Called for each step of a row, left to right: the row's index in `ys`, where the step starts
+ * and ends, and its p/p∞ (null inside the section). Consecutive steps of a row differ in p.
+ */
+export type PressureStep = (row: number, x0: number, x1: number, p: number | null) => void;
+
+/**
+ * The steps of `pressureField(waves, outline)` along many horizontal lines at once (the
+ * pressure field's rows on the canvas), handed to `step` one by one, lowest row first, without
+ * building a profile per row.
+ *
+ * A scanline: the rows are read from the lowest up, keeping the segments that cross the
+ * current row (y0 ≤ y < y1, as `pressureField` counts them) in order of where they cross it.
+ * From one row to the next the segments still crossing keep their order except where two pass
+ * each other (re-sorted by insertion, nearly free), and the few that start are sorted and
+ * merged in. Ties in x are ordered by table position, as `pressureField`'s stable sort does, so
+ * the steps are exactly `pressureField`'s. Cost: O(S log S) to order the S segments by height,
+ * then about O(c) per row for c crossings (instead of O(S + c log c) per row).
+ */
+export function pressureSteps(waves: readonly Wave[], outline: readonly (readonly [number, number])[], ys: readonly number[], xMin: number, xMax: number, step: PressureStep): void {
+  const { seg, count } = segmentTable(waves, outline);
+  const rowOrder = Array.from({ length: ys.length }, (_, i) => i).sort((i, j) => (ys[i] as number) - (ys[j] as number));
+  const low = new Float64Array(count);
+  const high = new Float64Array(count);
+  for (let i = 0; i < count; i++) {
+    const y0 = seg[SEG_STRIDE * i + 1] as number;
+    const y1 = seg[SEG_STRIDE * i + 3] as number;
+    low[i] = Math.min(y0, y1);
+    high[i] = Math.max(y0, y1);
+  }
+  const byLow = Array.from({ length: count }, (_, i) => i).sort((i, j) => (low[i] as number) - (low[j] as number));
+  // The crossings of the current row in order (segment, x); the next row re-sorts the ones
+  // still crossing into `kept…` and the ones starting into `enter…`, and merges both back.
+  const order = new Int32Array(count);
+  const cx = new Float64Array(count);
+  const keptOrder = new Int32Array(count);
+  const keptX = new Float64Array(count);
+  const enter = new Int32Array(count);
+  const enterX = new Float64Array(count);
+  let n = 0;
+  let next = 0; // the next segment of byLow to enter
+  for (const r of rowOrder) {
+    const y = ys[r] as number;
+    // The segments still crossing, with their x on this row, re-sorted by insertion.
+    let kept = 0;
+    for (let k = 0; k < n; k++) {
+      const i = order[k] as number;
+      if (!(y < (high[i] as number))) continue;
+      const x = crossX(seg, i, y);
+      let j = kept - 1;
+      while (j >= 0 && before(x, i, keptX[j] as number, keptOrder[j] as number)) {
+        keptOrder[j + 1] = keptOrder[j] as number;
+        keptX[j + 1] = keptX[j] as number;
+        j -= 1;
+      }
+      keptOrder[j + 1] = i;
+      keptX[j + 1] = x;
+      kept += 1;
+    }
+    // The segments starting at or below this row and still crossing it, sorted by insertion.
+    let entering = 0;
+    while (next < count && (low[byLow[next] as number] as number) <= y) {
+      const i = byLow[next] as number;
+      next += 1;
+      if (!(y < (high[i] as number))) continue;
+      const x = crossX(seg, i, y);
+      let j = entering - 1;
+      while (j >= 0 && before(x, i, enterX[j] as number, enter[j] as number)) {
+        enter[j + 1] = enter[j] as number;
+        enterX[j + 1] = enterX[j] as number;
+        j -= 1;
+      }
+      enter[j + 1] = i;
+      enterX[j + 1] = x;
+      entering += 1;
+    }
+    // Both merged into `order`: this row's crossings in order.
+    n = kept + entering;
+    let a = 0;
+    let b = 0;
+    for (let k = 0; k < n; k++) {
+      if (a < kept && (b >= entering || before(keptX[a] as number, keptOrder[a] as number, enterX[b] as number, enter[b] as number))) {
+        order[k] = keptOrder[a] as number;
+        cx[k] = keptX[a] as number;
+        a += 1;
+      } else {
+        order[k] = enter[b] as number;
+        cx[k] = enterX[b] as number;
+        b += 1;
+      }
+    }
+    stepsOfSorted(seg, order, cx, n, xMin, xMax, r, step);
+  }
+}
+
+/** Where segment `i` crosses the line at height y (y0 ≤ y < y1 or y1 ≤ y < y0). */
+function crossX(seg: readonly number[], i: number, y: number): number {
+  const o = SEG_STRIDE * i;
+  const x0 = seg[o] as number;
+  const y0 = seg[o + 1] as number;
+  return x0 + (((seg[o + 2] as number) - x0) * (y - y0)) / ((seg[o + 3] as number) - y0);
+}
+
+/** Crossing (xa, segment a) comes before (xb, b): by x, then by table position. */
+function before(xa: number, a: number, xb: number, b: number): boolean {
+  return xa < xb || (xa === xb && a < b);
+}
+
+/**
+ * Every wave and outline segment in one flat table, SEG_STRIDE numbers each: x0, y0, x1, y1,
+ * the pressure on the −x side and on the +x side, and the kind (0 = wave, 1 = outline). The
+ * waves come first, in the order of the result, then the outline's edges.
+ */
+interface SegmentTable {
+  seg: number[];
+  count: number;
+}
+
+const SEG_STRIDE = 7;
+
+function segmentTable(waves: readonly Wave[], outline: readonly (readonly [number, number])[]): SegmentTable {
   const seg: number[] = [];
   const add = (a: Point, b: Point, family: 1 | -1, pAhead: number, pBehind: number): void => {
     if (a[1] === b[1]) return; // parallel to every row: never crossed
@@ -46,7 +185,7 @@ export function pressureField(waves: readonly Wave[], outline: readonly (readonl
     const leftOfSegmentAhead = family === 1;
     const rises = b[1] > a[1];
     const minusXIsAhead = rises === leftOfSegmentAhead;
-    seg.push(a[0], a[1], b[0], b[1], minusXIsAhead ? pAhead : pBehind, minusXIsAhead ? pBehind : pAhead);
+    seg.push(a[0], a[1], b[0], b[1], minusXIsAhead ? pAhead : pBehind, minusXIsAhead ? pBehind : pAhead, 0);
   };
   for (const w of waves) {
     if (w.kind === 'slip' || w.surface === 'trailingEdge') continue;
@@ -66,71 +205,86 @@ export function pressureField(waves: readonly Wave[], outline: readonly (readonl
       add(path[k] as Point, path[k + 1] as Point, family, ahead, behind);
     }
   }
-  const n = seg.length / 6;
-  const body = outline.map((p) => [p[0], p[1]] as const);
+  // The outline (closed) marks the inside; its horizontal edges are never crossed.
+  for (let i = 0; i < outline.length; i++) {
+    const a = outline[i] as readonly [number, number];
+    const b = outline[(i + 1) % outline.length] as readonly [number, number];
+    if (a[1] === b[1]) continue;
+    seg.push(a[0], a[1], b[0], b[1], 0, 0, 1);
+  }
+  return { seg, count: seg.length / SEG_STRIDE };
+}
 
-  return (y, xMin, xMax) => {
-    // Crossings: x, kind (0 = wave, 1 = outline), pressure left, pressure right.
-    const cx: number[] = [];
-    const kind: number[] = [];
-    const left: number[] = [];
-    const right: number[] = [];
-    for (let i = 0; i < n; i++) {
-      const o = 6 * i;
-      const y0 = seg[o + 1] as number;
-      const y1 = seg[o + 3] as number;
-      // Half-open in y, so a row through a path's vertex counts one of its two segments.
-      if (!((y0 <= y && y < y1) || (y1 <= y && y < y0))) continue;
-      const x0 = seg[o] as number;
-      const x = x0 + (((seg[o + 2] as number) - x0) * (y - y0)) / (y1 - y0);
-      cx.push(x);
-      kind.push(0);
-      left.push(seg[o + 4] as number);
-      right.push(seg[o + 5] as number);
-    }
-    for (let i = 0; i < body.length; i++) {
-      const a = body[i] as readonly [number, number];
-      const b = body[(i + 1) % body.length] as readonly [number, number];
-      if (!((a[1] <= y && y < b[1]) || (b[1] <= y && y < a[1]))) continue;
-      cx.push(a[0] + ((b[0] - a[0]) * (y - a[1])) / (b[1] - a[1]));
-      kind.push(1);
-      left.push(0);
-      right.push(0);
-    }
-    const order = cx.map((_, i) => i).sort((i, j) => (cx[i] as number) - (cx[j] as number));
-    const x: number[] = [xMin];
-    const p: (number | null)[] = [];
-    let inside = false;
-    let prev = -1; // index of the previous crossing
-    let last = xMin;
-    const stateBetween = (next: number): number | null => {
-      if (inside) return null;
-      if (prev >= 0 && kind[prev] === 0) return right[prev] as number;
-      if (next >= 0 && kind[next] === 0) return left[next] as number;
-      return 1;
-    };
-    for (let k = 0; k <= order.length; k++) {
-      const i = k < order.length ? (order[k] as number) : -1;
-      const at = i >= 0 ? Math.min(Math.max(cx[i] as number, xMin), xMax) : xMax;
-      if (at > last) {
-        const value = stateBetween(i);
-        const lastP = p[p.length - 1];
-        if (p.length > 0 && lastP === value) x[x.length - 1] = at;
-        else {
-          x.push(at);
-          p.push(value);
-        }
-        last = at;
+/** The profile along y = const, from every segment of the table. */
+function profileAcross(table: SegmentTable, y: number, xMin: number, xMax: number): PressureProfile {
+  const { seg, count } = table;
+  const crossing: number[] = [];
+  const cx: number[] = [];
+  for (let i = 0; i < count; i++) {
+    const o = SEG_STRIDE * i;
+    const y0 = seg[o + 1] as number;
+    const y1 = seg[o + 3] as number;
+    // Half-open in y, so a row through a path's vertex counts one of its two segments.
+    if (!((y0 <= y && y < y1) || (y1 <= y && y < y0))) continue;
+    const x0 = seg[o] as number;
+    crossing.push(i);
+    cx.push(x0 + (((seg[o + 2] as number) - x0) * (y - y0)) / (y1 - y0));
+  }
+  // A stable sort: crossings at the same x keep the table's order.
+  const order = cx.map((_, k) => k).sort((a, b) => (cx[a] as number) - (cx[b] as number));
+  const x: number[] = [xMin];
+  const p: (number | null)[] = [];
+  stepsOfSorted(
+    seg,
+    order.map((k) => crossing[k] as number),
+    order.map((k) => cx[k] as number),
+    order.length,
+    xMin,
+    xMax,
+    0,
+    (_row, _x0, x1, value) => {
+      x.push(x1);
+      p.push(value);
+    },
+  );
+  return { x, p };
+}
+
+/**
+ * The steps along a line from its first `n` crossings in order of x: `order` holds their
+ * segments (table indices) and `cx` where each crosses the line. Steps of equal p are joined;
+ * crossings outside [xMin, xMax] count at its ends.
+ */
+function stepsOfSorted(seg: readonly number[], order: ArrayLike<number>, cx: ArrayLike<number>, n: number, xMin: number, xMax: number, row: number, step: PressureStep): void {
+  let inside = false;
+  let prev = -1; // table offset of the previous crossing's segment
+  let last = xMin;
+  // The step being built (emitted when the next one differs in p).
+  let open = false;
+  let from = xMin;
+  let to = xMin;
+  let value: number | null = null;
+  for (let k = 0; k <= n; k++) {
+    const o = k < n ? SEG_STRIDE * (order[k] as number) : -1;
+    const at = o >= 0 ? Math.min(Math.max(cx[k] as number, xMin), xMax) : xMax;
+    if (at > last) {
+      // Behind the previous wave; after leaving the section or before any wave, ahead of the next.
+      const here = inside ? null : prev >= 0 && seg[prev + 6] === 0 ? (seg[prev + 5] as number) : o >= 0 && seg[o + 6] === 0 ? (seg[o + 4] as number) : 1;
+      if (open && here === value) to = at;
+      else {
+        if (open) step(row, from, to, value);
+        open = true;
+        from = last;
+        to = at;
+        value = here;
       }
-      if (i >= 0) {
-        if (kind[i] === 1) inside = !inside;
-        prev = i;
-      }
+      last = at;
     }
-    if (p.length === 0) {
-      x.push(xMax);
-      p.push(stateBetween(-1));
+    if (o >= 0) {
+      if (seg[o + 6] === 1) inside = !inside;
+      prev = o;
     }
-    return { x, p };
-  };
+  }
+  if (open) step(row, from, to, value);
+  else step(row, xMin, xMax, inside ? null : prev >= 0 && seg[prev + 6] === 0 ? (seg[prev + 5] as number) : 1);
 }

@@ -25,7 +25,7 @@ export const HOVER = '#ffffff';
 export const PRESSURE_SCALE_START = 0.4;
 
 /** Steps of the colour table: finer than the eye can tell apart on a thin line. */
-const COLOUR_STEPS = 256;
+export const PRESSURE_COLOUR_STEPS = 256;
 let table: string[] | null = null;
 
 /**
@@ -34,8 +34,27 @@ let table: string[] | null = null;
  */
 export function pressureColourAt(t: number): string {
   const c = Math.min(1, Math.max(0, Number.isFinite(t) ? t : 0.5));
-  table ??= Array.from({ length: COLOUR_STEPS }, (_, i) => interpolateViridis(PRESSURE_SCALE_START + ((1 - PRESSURE_SCALE_START) * i) / (COLOUR_STEPS - 1)));
-  return table[Math.round(c * (COLOUR_STEPS - 1))];
+  table ??= Array.from({ length: PRESSURE_COLOUR_STEPS }, (_, i) => interpolateViridis(PRESSURE_SCALE_START + ((1 - PRESSURE_SCALE_START) * i) / (PRESSURE_COLOUR_STEPS - 1)));
+  return table[Math.round(c * (PRESSURE_COLOUR_STEPS - 1))];
+}
+
+let words: Uint32Array | null = null;
+
+/**
+ * The pressure scale's 256 colours as opaque RGBA pixels: each entry is the 32-bit word whose
+ * bytes in memory are R, G, B, 255 on this machine (for a Uint32Array view of ImageData).
+ */
+export function pressureColourWords(): Uint32Array {
+  if (words) return words;
+  pressureColourAt(0);
+  const out = new Uint32Array(PRESSURE_COLOUR_STEPS);
+  const bytes = new Uint8Array(out.buffer);
+  (table as string[]).forEach((c, i) => {
+    const [r, g, b] = parseColour(c);
+    bytes.set([r, g, b, 255], 4 * i);
+  });
+  words = out;
+  return out;
 }
 
 /**

@@ -44,19 +44,25 @@ export interface GradientBar {
   stops: [number, string][];
 }
 
-/** A filled, axis-aligned rectangle in screen pixels (the pressure field's rows). */
-export interface FillRect {
+/**
+ * A picture of `rows` rows of `rowHeight` screen pixels, one pixel wide per column (the
+ * pressure field): `pixels` holds RGBA bytes (4 per column, row by row), 0 = not filled. Drawn
+ * at (x, y), `height` pixels tall (the last row may be cut), with `alpha` over everything.
+ */
+export interface RowImage {
   x: number;
   y: number;
-  w: number;
-  h: number;
-  fill: string;
+  width: number;
+  height: number;
+  rows: number;
+  rowHeight: number;
+  alpha: number;
+  pixels: Uint8ClampedArray<ArrayBuffer>;
 }
 
 export interface DrawList {
-  /** Filled rectangles, drawn first, one fill call per colour; `rectAlpha` applies to all. */
-  rects?: FillRect[];
-  rectAlpha?: number;
+  /** A row picture drawn first, in one call (the pressure field). */
+  image?: RowImage;
   paths: StrokePath[];
   dots: Dot[];
   texts?: TextItem[];
@@ -86,7 +92,7 @@ export function drawList(ctx: CanvasRenderingContext2D, list: DrawList): void {
   ctx.save();
   ctx.lineCap = 'round';
   ctx.lineJoin = 'round';
-  if (list.rects && list.rects.length > 0) fillRects(ctx, list.rects, list.rectAlpha ?? 1);
+  if (list.image) drawRowImage(ctx, list.image);
   const ordered = list.unordered ? strokeBatches(ctx, list.paths) : list.paths;
   for (const p of ordered) {
     if (p.points.length < 4) continue;
@@ -135,22 +141,39 @@ export function drawList(ctx: CanvasRenderingContext2D, list: DrawList): void {
   ctx.restore();
 }
 
-/** Fills rectangles grouped by colour: one path and one fill call per colour. */
-function fillRects(ctx: CanvasRenderingContext2D, rects: readonly FillRect[], alpha: number): void {
-  const groups = new Map<string, FillRect[]>();
-  for (const r of rects) {
-    const group = groups.get(r.fill);
-    if (group) group.push(r);
-    else groups.set(r.fill, [r]);
+/** A scratch canvas the row pictures are put on before being drawn scaled (reused). */
+let scratch: { canvas: OffscreenCanvas | HTMLCanvasElement; ctx: OffscreenCanvasRenderingContext2D | CanvasRenderingContext2D } | null = null;
+
+function scratchContext(width: number, height: number) {
+  if (!scratch) {
+    const canvas = typeof OffscreenCanvas !== 'undefined' ? new OffscreenCanvas(width, height) : typeof document !== 'undefined' ? document.createElement('canvas') : null;
+    const ctx = canvas?.getContext('2d') as OffscreenCanvasRenderingContext2D | CanvasRenderingContext2D | null | undefined;
+    if (!canvas || !ctx) return null;
+    scratch = { canvas, ctx };
   }
-  ctx.globalAlpha = alpha;
-  for (const [fill, group] of groups) {
-    ctx.beginPath();
-    for (const r of group) ctx.rect(r.x, r.y, r.w, r.h);
-    ctx.fillStyle = fill;
-    ctx.fill();
-  }
-  ctx.globalAlpha = 1;
+  if (scratch.canvas.width < width) scratch.canvas.width = width;
+  if (scratch.canvas.height < height) scratch.canvas.height = height;
+  return scratch;
+}
+
+/**
+ * Draws a row picture: its pixels are put on a scratch canvas one pixel per row and drawn
+ * stretched to the rows' height without smoothing — one image draw, where filling the same
+ * rows as rectangles costs the software rasteriser several times more (README [DR3]).
+ */
+function drawRowImage(ctx: CanvasRenderingContext2D, image: RowImage): void {
+  if (image.width <= 0 || image.rows <= 0 || typeof ImageData === 'undefined') return;
+  const s = scratchContext(image.width, image.rows);
+  if (!s) return;
+  s.ctx.putImageData(new ImageData(image.pixels, image.width, image.rows), 0, 0);
+  ctx.save();
+  ctx.beginPath();
+  ctx.rect(image.x, image.y, image.width, image.height);
+  ctx.clip();
+  ctx.globalAlpha = image.alpha;
+  ctx.imageSmoothingEnabled = false;
+  ctx.drawImage(s.canvas, 0, 0, image.width, image.rows, image.x, image.y, image.width, image.rows * image.rowHeight);
+  ctx.restore();
 }
 
 /**

@@ -8,11 +8,13 @@
  * With the worker painting, also until the drawing was rasterised (the canvas hands its pixels
  * to the compositor then), and, for a move whose own request was solved and painted, where the
  * time went: from the handler to the worker starting on it (the page's work, the copy, and
- * waiting behind an earlier solve), the solve, the draw calls, and the raster.
+ * waiting behind an earlier solve), the solve, building the draw lists, the draw calls, and
+ * the raster.
  */
 interface Breakdown {
   toWorker: number[];
   solve: number[];
+  lists: number[];
   paint: number[];
   raster: number[];
 }
@@ -52,10 +54,10 @@ export function noteSent(seq: number): void {
  * The wave map was drawn from the answer to request `seq`, at `at` (this page's clock; now by
  * default). The worker says how long it solved and painted.
  */
-export function notePaint(seq: number, at: number = performance.now(), worker?: { solveMs: number; paintMs: number; rasterMs: number }): void {
+export function notePaint(seq: number, at: number = performance.now(), worker?: { solveMs: number; listsMs: number; paintMs: number; rasterMs: number }): void {
   if (!benchEnabled() || pending.length === 0) return;
   const out = (g.__shockwrightPaintLatencies ??= { fromEvent: [], fromHandler: [] });
-  const breakdown = (out.breakdown ??= { toWorker: [], solve: [], paint: [], raster: [] });
+  const breakdown = (out.breakdown ??= { toWorker: [], solve: [], lists: [], paint: [], raster: [] });
   const rasterised = (out.rasterised ??= []);
   const r = requests.get(seq);
   while (pending.length > 0 && pending[0].seq <= seq) {
@@ -64,8 +66,9 @@ export function notePaint(seq: number, at: number = performance.now(), worker?: 
     out.fromHandler.push(at - p.handlerTime);
     if (worker) rasterised.push(at + worker.rasterMs - p.eventTime);
     if (p.seq === seq && r && worker) {
-      breakdown.toWorker.push(at - worker.paintMs - worker.solveMs - p.handlerTime);
+      breakdown.toWorker.push(at - worker.paintMs - worker.listsMs - worker.solveMs - p.handlerTime);
       breakdown.solve.push(worker.solveMs);
+      breakdown.lists.push(worker.listsMs);
       breakdown.paint.push(worker.paintMs);
       breakdown.raster.push(worker.rasterMs);
     }

@@ -1,7 +1,7 @@
 import type { SolveResult } from '@shared/solver/types';
-import { pressureField, type PressureAlong } from '@shared/solver/pressureField';
-import { pressureColour, type PressureDomain } from './colors';
-import type { DrawList, FillRect } from './drawPaths';
+import { pressureSteps } from '@shared/solver/pressureField';
+import { PRESSURE_COLOUR_STEPS, pressureColourWords, type PressureDomain } from './colors';
+import type { DrawList } from './drawPaths';
 import { toScreen, toWorld, type Size, type View } from './view';
 
 /** Height of one row of the pressure field, screen pixels (the fill is a stack of rows). */
@@ -9,9 +9,9 @@ export const FIELD_ROW_PX = 3;
 /** Opacity of the field fill: the grid and the waves stay readable through it. */
 export const FIELD_ALPHA = 0.3;
 
-/** The last result's field function, kept so that a repaint with the same result (a pan, a
- *  hover) does not rebuild it. */
-let cached: { result: SolveResult; outline: readonly (readonly [number, number])[]; along: PressureAlong; box: Box } | null = null;
+/** The last field drawn and what it was drawn from, so that a repaint of the same result in
+ *  the same view (a hover, a selection) reuses it. */
+let cached: { result: SolveResult; outline: readonly (readonly [number, number])[]; view: View; size: Size; domain: PressureDomain; list: DrawList } | null = null;
 
 interface Box {
   minX: number;
@@ -20,61 +20,77 @@ interface Box {
   maxY: number;
 }
 
+const EMPTY: DrawList = { paths: [], dots: [] };
+
 /**
  * The pressure field: the uniform regions between the waves filled by p/p∞ on the wave map's
  * colour scale, inside the field box the waves ran to (the extent of their paths), as rows of
  * FIELD_ROW_PX pixels. The free stream (p/p∞ = 1) and the section's inside stay unfilled.
- * Adjacent intervals of one colour are merged, and rectangles of one colour are filled in one
- * call (drawPaths), so a row costs a few fills however many waves it crosses.
+ * The rows are read together (`pressureSteps`, a scanline) straight into a picture of one pixel
+ * per column and row (`RowImage`), drawn stretched in one call: no rectangle per step.
  */
 export function renderField(result: SolveResult | null, outline: readonly (readonly [number, number])[], view: View, size: Size, on: boolean, domain: PressureDomain): DrawList {
-  if (!on || !result || result.waves.length === 0 || outline.length < 3) return { paths: [], dots: [] };
-  if (!cached || cached.result !== result || cached.outline !== outline) {
-    cached = { result, outline, along: pressureField(result.waves, outline), box: waveBox(result) };
-  }
-  const { along, box } = cached;
-  const rects: FillRect[] = [];
+  if (!on || !result || result.waves.length === 0 || outline.length < 3) return EMPTY;
+  const c = cached;
+  if (c && c.result === result && c.outline === outline && sameView(c.view, view) && c.size.width === size.width && c.size.height === size.height && c.domain.min === domain.min && c.domain.max === domain.max) return c.list;
+  const list = fieldRows(result, outline, view, size, domain);
+  cached = { result, outline, view: { ...view }, size: { ...size }, domain: { ...domain }, list };
+  return list;
+}
+
+function sameView(a: View, b: View): boolean {
+  return a.scale === b.scale && a.originX === b.originX && a.originY === b.originY && (a.exaggeration ?? 1) === (b.exaggeration ?? 1);
+}
+
+function fieldRows(result: SolveResult, outline: readonly (readonly [number, number])[], view: View, size: Size, domain: PressureDomain): DrawList {
+  const box = waveBox(result);
   const [sx0, sTop] = toScreen(view, [box.minX, box.maxY]);
   const [sx1, sBottom] = toScreen(view, [box.maxX, box.minY]);
   const left = Math.max(0, Math.min(sx0, sx1));
   const right = Math.min(size.width, Math.max(sx0, sx1));
   const top = Math.max(0, Math.floor(Math.min(sTop, sBottom)));
   const bottom = Math.min(size.height, Math.ceil(Math.max(sTop, sBottom)));
-  if (!(right > left) || !(bottom > top)) return { paths: [], dots: [] };
+  if (!(right > left) || !(bottom > top)) return EMPTY;
   const xMin = toWorld(view, [left, 0])[0];
   const xMax = toWorld(view, [right, 0])[0];
-  for (let sy = top; sy < bottom; sy += FIELD_ROW_PX) {
-    const h = Math.min(FIELD_ROW_PX, bottom - sy);
-    const y = toWorld(view, [0, sy + h / 2])[1];
-    const row = along(y, xMin, xMax);
-    let runStart = -1;
-    let runColour = '';
-    let runEnd = 0;
-    const flush = () => {
-      if (runStart >= 0 && runEnd > runStart) rects.push({ x: runStart, y: sy, w: runEnd - runStart, h, fill: runColour });
-      runStart = -1;
-    };
-    for (let k = 0; k < row.p.length; k++) {
-      const p = row.p[k];
-      const a = toScreen(view, [row.x[k] as number, y])[0];
-      const b = toScreen(view, [row.x[k + 1] as number, y])[0];
-      if (p === null || p === undefined || p === 1) {
-        flush();
-        continue;
-      }
-      const colour = pressureColour(p, domain);
-      if (runStart >= 0 && colour === runColour) {
-        runEnd = b;
-        continue;
-      }
-      flush();
-      runStart = a;
-      runEnd = b;
-      runColour = colour;
+  const ys: number[] = [];
+  for (let sy = top; sy < bottom; sy += FIELD_ROW_PX) ys.push(toWorld(view, [0, sy + Math.min(FIELD_ROW_PX, bottom - sy) / 2])[1]);
+  // One pixel per column and per row; a step [x0, x1) fills the columns whose centres it holds.
+  const imageX = Math.floor(left);
+  const width = Math.ceil(right) - imageX;
+  const pixels = new Uint8ClampedArray(width * ys.length * 4);
+  const words = new Uint32Array(pixels.buffer);
+  const colourWords = pressureColourWords();
+  const { scale, originX } = view;
+  // A step's colour is its place on the scale (as pressureColour, without a string per step).
+  const lo = Math.log(domain.min);
+  const span = Math.log(domain.max) - lo;
+  const last = PRESSURE_COLOUR_STEPS - 1;
+  const column = (x: number) => Math.min(width, Math.max(0, Math.round(x * scale + originX) - imageX));
+  // Steps of one colour next to each other on a row are filled as one run (steps are contiguous).
+  let runRow = -1;
+  let runIndex = -1; // -1: not filled
+  let runFrom = 0;
+  let runTo = 0;
+  const flush = () => {
+    if (runIndex < 0) return;
+    const start = runRow * width;
+    words.fill(colourWords[runIndex] as number, start + column(runFrom), start + column(runTo));
+  };
+  pressureSteps(result.waves, outline, ys, xMin, xMax, (row, x0, x1, p) => {
+    const index = p === null || p === 1 ? -1 : p > 0 ? Math.round(Math.min(1, Math.max(0, span > 0 ? (Math.log(p) - lo) / span : 0.5)) * last) : 0;
+    if (row === runRow && index === runIndex) {
+      runTo = x1;
+      return;
     }
     flush();
-  }
-  return { rects, rectAlpha: FIELD_ALPHA, paths: [], dots: [] };
+    runRow = row;
+    runIndex = index;
+    runFrom = x0;
+    runTo = x1;
+  });
+  flush();
+  return { image: { x: imageX, y: top, width, height: bottom - top, rows: ys.length, rowHeight: FIELD_ROW_PX, alpha: FIELD_ALPHA, pixels }, paths: [], dots: [] };
 }
 
 /** The field box: the extent of the waves' paths (they end on it). */

@@ -61,15 +61,15 @@ export const EMPTY_SCENE_CONTENT: SceneContent = { points: [], result: null, sol
 export function sceneLists(state: SceneState, content: SceneContent): DrawList[] {
   const { view, size, layers } = state;
   const domain = resultDomain(content.result);
-  // The pressure field's rows and the meeting marks go with the waves: a list fills its rects
-  // first (translucent, over the grid's background and lines), then the lines, then the dots.
+  // The pressure field's rows and the meeting marks go with the waves: a list draws its row
+  // picture first (translucent, over the grid's background and lines), then the lines, then the dots.
   const field = renderField(content.result, content.solvedPoints ?? content.points, view, size, layers.pressureField ?? true, domain);
   const meetings = renderMeetings(content.result, view, size, layers.meetings ?? true);
   const waves = renderWaves(content.result, view, layers, domain);
   const lists: DrawList[] = [
     renderGrid(view, size, layers.grid),
     // Thin lines whose crossings nobody can tell apart: stroked in batches (drawPaths.ts).
-    { ...waves, rects: field.rects, rectAlpha: field.rectAlpha, dots: meetings.dots, unordered: true },
+    { ...waves, image: field.image, dots: meetings.dots, unordered: true },
     renderSection(content.points, content.result, view, layers, domain, {
       selection: state.selection,
       invalid: content.invalid,
@@ -89,11 +89,16 @@ export function sceneLists(state: SceneState, content: SceneContent): DrawList[]
 
 /** Paints the scene on a 2D context whose canvas is `size × pixelRatio` device pixels. */
 export function paintScene(ctx: CanvasRenderingContext2D | OffscreenCanvasRenderingContext2D, state: SceneState, content: SceneContent): void {
+  paintLists(ctx, state, sceneLists(state, content));
+}
+
+/** Paints draw lists built by `sceneLists` (the worker times the two steps apart for the bench). */
+export function paintLists(ctx: CanvasRenderingContext2D | OffscreenCanvasRenderingContext2D, state: Pick<SceneState, 'pixelRatio'>, lists: readonly DrawList[]): void {
   const c = ctx as CanvasRenderingContext2D;
   c.setTransform(1, 0, 0, 1, 0, 0);
   c.clearRect(0, 0, c.canvas.width, c.canvas.height);
   c.setTransform(state.pixelRatio, 0, 0, state.pixelRatio, 0, 0);
-  for (const list of sceneLists(state, content)) drawList(c, list);
+  for (const list of lists) drawList(c, list);
 }
 
 /** The tools' transient drawing: the marquee, the draw tool's open path, the insert ghost. */

@@ -1,7 +1,7 @@
 /// <reference lib="webworker" />
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
 import { analyseDesignPoints, selectedAnalysis } from '@shared/flight/designPoints';
-import { EMPTY_SCENE_CONTENT, paintScene, type SceneContent, type SceneState } from '@/canvas/scenePainter';
+import { EMPTY_SCENE_CONTENT, paintLists, paintScene, sceneLists, type SceneContent, type SceneState } from '@/canvas/scenePainter';
 import type { SolveRequest, SolveResponse, WorkerRequest, WorkerResponse } from './solverProtocol';
 
 /**
@@ -129,7 +129,9 @@ function paint(solveMs = 0) {
   const h = Math.max(1, Math.round(scene.size.height * scene.pixelRatio));
   if (canvas.width !== w) canvas.width = w;
   if (canvas.height !== h) canvas.height = h;
-  paintScene(context, scene, content);
+  const lists = sceneLists(scene, content);
+  const listed = performance.now();
+  paintLists(context, scene, lists);
   if (bench && contentSeq > 0) {
     const drawn = performance.now();
     const seq = contentSeq;
@@ -137,7 +139,7 @@ function paint(solveMs = 0) {
     const after = new MessageChannel();
     after.port1.onmessage = () => {
       const rasterised = performance.now();
-      post({ type: 'painted', seq, at: performance.timeOrigin + drawn, solveMs, paintMs: drawn - t0, rasterMs: rasterised - drawn });
+      post({ type: 'painted', seq, at: performance.timeOrigin + drawn, solveMs, listsMs: listed - t0, paintMs: drawn - listed, rasterMs: rasterised - drawn });
     };
     after.port2.postMessage(null);
   }

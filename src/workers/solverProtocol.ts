@@ -44,7 +44,8 @@ export type WorkerResponse =
   | SolveResponse
   /**
    * Bench only: the scene with the answer to `seq` was drawn at `at` (ms since the epoch) after
-   * solving and drawing for these times, and rasterised `rasterMs` later.
+   * solving, building the draw lists and making the draw calls for these times, and rasterised
+   * `rasterMs` later.
    */
-  | { type: 'painted'; seq: number; at: number; solveMs: number; paintMs: number; rasterMs: number }
+  | { type: 'painted'; seq: number; at: number; solveMs: number; listsMs: number; paintMs: number; rasterMs: number }
   | { type: 'picture'; id: number; bitmap: ImageBitmap | null };

@@ -1,4 +1,4 @@
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import type { Point } from '@shared/model/sketch';
 import { parseSolveInput } from '@shared/model/solveInput';
 import { solveSection } from '@shared/solver';
@@ -8,6 +8,7 @@ import { lineStyleKey } from '@/canvas/useCanvasLayers';
 import { DEFAULT_LAYERS } from '@/canvas/layers';
 import { toScreen, toWorld } from '@/canvas/view';
 import { pressureColour } from '@/canvas/colors';
+import { drawList } from '@/canvas/drawPaths';
 import { pressureField } from '@shared/solver/pressureField';
 
 function biconvex(m: number, t: number): Point[] {
@@ -27,23 +28,71 @@ const parsed = parseSolveInput({ section: { points: pts }, flow: { mach: 2, alph
 if (!parsed.ok) throw new Error('bad input');
 const result = solveSection(parsed.value);
 const view = { scale: 400, originX: 150, originY: 300 };
+const rgbHex = (rgba: number[]) => `#${rgba.slice(0, 3).map((v) => v.toString(16).padStart(2, '0')).join('')}`;
 const size = { width: 900, height: 600 };
 
 describe('[DR4] pressure field layer, meeting marks and the line-style key', () => {
   it('fills the regions between the waves row by row with the colour of their p/p∞; nothing when the layer is off', () => {
     const domain = resultDomain(result);
-    const list = renderField(result, pts, view, size, true, domain);
-    expect(list.rects!.length).toBeGreaterThan(50);
-    expect(list.rectAlpha).toBeGreaterThan(0);
-    // A rectangle's colour is the pressure the field gives at its middle.
+    const image = renderField(result, pts, view, size, true, domain).image!;
+    expect(image.rows).toBe(Math.ceil(image.height / FIELD_ROW_PX));
+    expect(image.rowHeight).toBe(FIELD_ROW_PX);
+    expect(image.alpha).toBeGreaterThan(0);
+    expect(image.pixels).toHaveLength(image.width * image.rows * 4);
+    // Every pixel, filled or not, is what the field gives at its centre: the colour of p/p∞
+    // there, or nothing in the free stream and inside the section.
     const along = pressureField(result.waves, pts);
-    for (const r of list.rects!.slice(0, 40)) {
-      expect(r.h).toBeLessThanOrEqual(FIELD_ROW_PX);
-      const [x, y] = toWorld(view, [r.x + r.w / 2, r.y + r.h / 2]);
-      const row = along(y, x - 1e-9, x + 1e-9);
-      expect(pressureColour(row.p[0] as number, domain)).toBe(r.fill);
+    let filled = 0;
+    let empty = 0;
+    for (let row = 0; row < image.rows; row += 7) {
+      const sy = image.y + row * FIELD_ROW_PX + Math.min(FIELD_ROW_PX, image.y + image.height - (image.y + row * FIELD_ROW_PX)) / 2;
+      for (let col = 0; col < image.width; col += 5) {
+        const [x, y] = toWorld(view, [image.x + col + 0.5, sy]);
+        const p = along(y, x - 1e-9, x + 1e-9).p[0];
+        const o = 4 * (row * image.width + col);
+        const rgba = [...image.pixels.slice(o, o + 4)];
+        if (p === null || p === 1) {
+          expect(rgba).toEqual([0, 0, 0, 0]);
+          empty++;
+        } else {
+          expect(rgbHex(rgba)).toBe(pressureColour(p as number, domain));
+          filled++;
+        }
+      }
     }
-    expect(renderField(result, pts, view, size, false, domain).rects ?? []).toHaveLength(0);
+    expect(filled).toBeGreaterThan(500);
+    expect(empty).toBeGreaterThan(100);
+    expect(renderField(result, pts, view, size, false, domain).image).toBeUndefined();
+  });
+
+  it('the row picture is drawn in one stretched, unsmoothed image draw inside the field box', () => {
+    const image = renderField(result, pts, view, size, true, resultDomain(result)).image!;
+    const calls: string[] = [];
+    const ctx = new Proxy({} as Record<string | symbol, unknown>, {
+      get: (target, key) => (key in target ? target[key] : (...args: unknown[]) => calls.push(`${String(key)}(${args.filter((a) => typeof a === 'number').join(',')})`)),
+      set: (target, key, value) => {
+        target[key] = value;
+        return true;
+      },
+    });
+    // The scratch canvas the rows are put on (a worker's OffscreenCanvas) and ImageData, stubbed.
+    const putPixels: Uint8ClampedArray[] = [];
+    vi.stubGlobal('ImageData', class {
+      constructor(readonly data: Uint8ClampedArray, readonly width: number, readonly height: number) {}
+    });
+    vi.stubGlobal('OffscreenCanvas', class {
+      constructor(public width: number, public height: number) {}
+      getContext() {
+        return { putImageData: (d: ImageData) => putPixels.push(d.data) };
+      }
+    });
+    drawList(ctx as unknown as CanvasRenderingContext2D, { image, paths: [], dots: [] });
+    vi.unstubAllGlobals();
+    expect(putPixels).toHaveLength(1);
+    expect(putPixels[0]).toBe(image.pixels);
+    expect(calls).toContain(`rect(${image.x},${image.y},${image.width},${image.height})`);
+    expect(calls).toContain(`drawImage(0,0,${image.width},${image.rows},${image.x},${image.y},${image.width},${image.rows * FIELD_ROW_PX})`);
+    expect(ctx.imageSmoothingEnabled).toBe(false);
   });
 
   it('marks every meeting on screen; the key lists only the layers shown', () => {

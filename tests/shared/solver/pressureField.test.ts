@@ -2,15 +2,17 @@
  * The pressure field and the pressure signature (shared/solver/pressureField.ts,
  * pressureSignature.ts) and the signature CSV. Sections are our own biconvex arcs.
  */
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { reached } from '../../helpers/reached';
 import { expectClose } from '../../helpers/expectClose';
 import { signatureCsv } from '../../../shared/model/sketchExport';
 import { RESULTS_CAUTION } from '../../../shared/model/caution';
-import { pressureField } from '../../../shared/solver/pressureField';
+import { pressureField, pressureRows } from '../../../shared/solver/pressureField';
 import { pressureSignature } from '../../../shared/solver/pressureSignature';
 import { solveSection } from '../../../shared/solver/solveSection';
 import type { Point, Wave } from '../../../shared/solver/types';
-import { input, type Pts } from './sections';
+import { input, lens, type Pts } from './sections';
 
 function biconvex(m: number, t: number): Pts {
   const upper: Pts = [];
@@ -61,6 +63,41 @@ describe('pressure field and signature', () => {
     expectClose(through.x[inside] as number, 0, 1e-12);
     expectClose(through.x[inside + 1] as number, 1, 1e-12);
     expect(pressureField([], pts)(3, -1, 5)).toEqual({ x: [-1, 5], p: [1] });
+  });
+
+  it('pressureRows (the scanline) gives exactly pressureField row by row: rows through path vertices, at the field\'s edges, in any order, and beyond the waves', () => {
+    const along = pressureField(result.waves, pts);
+    const vertexYs = result.waves.flatMap((w) => [...w.path, ...(w.rays ?? []).flatMap((r) => r.path)].map((p) => p[1]));
+    const ys = [...vertexYs.slice(0, 60), 0, 0.1, -0.1, 7, -7, ...Array.from({ length: 80 }, (_, i) => 2.5 - (5 * i) / 79)];
+    expect(pressureRows(result.waves, pts, ys, -1, 5)).toEqual(ys.map((y) => along(y, -1, 5)));
+    // A window narrower than the waves (crossings outside it count at its ends), and none at all.
+    expect(pressureRows(result.waves, pts, ys, 0.3, 0.6)).toEqual(ys.map((y) => along(y, 0.3, 0.6)));
+    expect(pressureRows(result.waves, pts, [], -1, 5)).toEqual([]);
+    expect(pressureRows([], pts, [3, 0], -1, 5)).toEqual([pressureField([], pts)(3, -1, 5), pressureField([], pts)(0, -1, 5)]);
+  });
+
+  it('pressureRows equals pressureField on cambered lenses at any Mach and incidence (property)', () => {
+    const checked = reached('scanline rows equal to single rows');
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 3, max: 40 }),
+        fc.double({ min: 0.02, max: 0.12, noNaN: true }),
+        fc.double({ min: -0.03, max: 0.03, noNaN: true }),
+        fc.double({ min: 1.4, max: 5, noNaN: true }),
+        fc.double({ min: -6, max: 6, noNaN: true }),
+        (m, t, camber, mach, alphaDeg) => {
+          const section = lens(m, t, camber);
+          const solved = solveSection(input(section, mach, alphaDeg, { fieldExtentChords: 2 }));
+          if (solved.waves.length === 0) return;
+          const along = pressureField(solved.waves, section);
+          const ys = Array.from({ length: 61 }, (_, i) => 1.5 - (3 * i) / 60);
+          checked.hit();
+          expect(pressureRows(solved.waves, section, ys, -0.5, 3)).toEqual(ys.map((y) => along(y, -0.5, 3)));
+        },
+      ),
+      { numRuns: 40 },
+    );
+    checked.expectAtLeast(30);
   });
 
   it('pressureSignature: the peak falls with distance like the far-field nose shock, and 2 chords below equals the field read directly', () => {

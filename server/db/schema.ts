@@ -15,8 +15,11 @@ import {
   varchar,
 } from 'drizzle-orm/pg-core';
 import { UNIT_SYSTEMS } from '../../shared/flight/units.ts';
+import { ANALYSIS_STATUSES } from '../../shared/model/analysis.ts';
 import { ROLES } from '../../shared/model/roles.ts';
-import { PIN_STATUSES, REVIEW_OUTCOMES, REVIEW_STATUSES, SNAPSHOT_KINDS } from '../../shared/model/review.ts';
+import { PIN_STATUSES, REVIEW_OUTCOMES, REVIEW_STATUSES, SKETCH_EVENT_KINDS, SNAPSHOT_KINDS } from '../../shared/model/review.ts';
+import { AUDIT_ACTIONS } from '../../shared/model/teams.ts';
+import { EDIT_STATUSES } from '../../shared/protocol/messages.ts';
 
 /**
  * The database schema: the source of truth. Properties are camelCase, columns snake_case; every
@@ -37,6 +40,10 @@ export const roleEnum = pgEnum('role', ROLES);
 export const unitSystemEnum = pgEnum('unit_system', UNIT_SYSTEMS);
 export const reviewStatusEnum = pgEnum('review_status', REVIEW_STATUSES);
 export const reviewOutcomeEnum = pgEnum('review_outcome', REVIEW_OUTCOMES);
+export const analysisStatusEnum = pgEnum('analysis_status', ANALYSIS_STATUSES);
+export const auditActionEnum = pgEnum('audit_action', AUDIT_ACTIONS);
+export const editStatusEnum = pgEnum('edit_status', EDIT_STATUSES);
+export const sketchEventKindEnum = pgEnum('sketch_event_kind', SKETCH_EVENT_KINDS);
 
 export const users = pgTable('users', {
   id: text('id').primaryKey(),
@@ -85,8 +92,8 @@ export const sketches = pgTable(
     revision: integer('revision').notNull().default(0),
     createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
     updatedBy: text('updated_by').references(() => users.id, { onDelete: 'set null' }),
-    /** Status of the last server solve (ok, detached, …), null before the first solve. */
-    lastSolveStatus: text('last_solve_status'),
+    /** Status of the last server solve (`ANALYSIS_STATUSES`: ok, detached, …, invalid), null before the first solve. */
+    lastSolveStatus: analysisStatusEnum('last_solve_status'),
     /** The stored (server-computed) result of the last solve. */
     lastResult: jsonb('last_result'),
     /**
@@ -190,8 +197,8 @@ export const auditEvents = pgTable(
       .notNull()
       .references(() => teams.id, { onDelete: 'cascade' }),
     actorId: text('actor_id').references(() => users.id, { onDelete: 'set null' }),
-    /** member.invited, invitation.revoked, invitation.accepted, member.role_changed, member.removed, team.created */
-    action: text('action').notNull(),
+    /** What happened (`AUDIT_ACTIONS`: team.created, member.invited, invitation.revoked, …). */
+    action: auditActionEnum('action').notNull(),
     targetUserId: text('target_user_id').references(() => users.id, { onDelete: 'set null' }),
     targetEmail: text('target_email'),
     detail: jsonb('detail').notNull().default({}),
@@ -250,7 +257,8 @@ export const sketchEdits = pgTable(
     userId: text('user_id').references(() => users.id, { onDelete: 'set null' }),
     /** The op as applied (after rebasing), or as received when rejected. */
     op: jsonb('op').notNull(),
-    status: text('status').notNull(),
+    /** `EDIT_STATUSES`: applied, rebased or rejected. */
+    status: editStatusEnum('status').notNull(),
     reason: text('reason'),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
@@ -351,7 +359,8 @@ export const sketchEvents = pgTable(
       .notNull()
       .references(() => sketches.id, { onDelete: 'cascade' }),
     actorId: text('actor_id').references(() => users.id, { onDelete: 'set null' }),
-    kind: text('kind').notNull(),
+    /** `SKETCH_EVENT_KINDS`: pin.created, snapshot.restored, review.approved, … */
+    kind: sketchEventKindEnum('kind').notNull(),
     detail: jsonb('detail').notNull().default({}),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },

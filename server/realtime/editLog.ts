@@ -5,12 +5,12 @@ import { newId } from '../../shared/model/ids.ts';
 import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
 import { normalizeDocument, type SketchDocument } from '../../shared/model/sketch.ts';
 import { applyEdit, transformPast, type SketchState } from '../../shared/protocol/transform.ts';
-import type { EditOp } from '../../shared/protocol/messages.ts';
+import type { EditOp, EditStatus } from '../../shared/protocol/messages.ts';
 import { editSketchAtomically, type BatchWrite, type EditLogRow, type LockedSketch } from './repository.ts';
 import { createSolveQueue, type SolveQueue } from './solveQueue.ts';
 
 export type EditOutcome =
-  | { status: 'applied' | 'rebased'; revision: number; op: EditOp; duplicate: boolean }
+  | { status: Exclude<EditStatus, 'rejected'>; revision: number; op: EditOp; duplicate: boolean }
   | { status: 'rejected'; reason: string; duplicate: boolean };
 
 export interface EditInput {
@@ -47,7 +47,7 @@ export async function planBatch(
       e.op_id,
       e.status === 'rejected'
         ? { status: 'rejected', reason: e.reason ?? 'Rejected earlier.', duplicate: true }
-        : { status: e.status as 'applied' | 'rebased', revision: e.revision!, op: e.op, duplicate: true },
+        : { status: e.status, revision: e.revision!, op: e.op, duplicate: true },
     );
   }
   const roles = new Map<string, Role>(Object.entries(locked.roles));

@@ -2,7 +2,8 @@ import { and, asc, eq, gt, inArray, lte, sql } from 'drizzle-orm';
 import type { Db, Tx } from '../db/client.ts';
 import { sketchEdits, sketches, users, walkthroughs } from '../db/schema.ts';
 import type { Role } from '../../shared/model/roles.ts';
-import type { AppliedEdit, EditOp, WalkthroughState } from '../../shared/protocol/messages.ts';
+import type { AnalysisStatus } from '../../shared/model/analysis.ts';
+import type { AppliedEdit, EditOp, EditStatus, WalkthroughState } from '../../shared/protocol/messages.ts';
 import { findRole } from '../api/auth/repository.ts';
 
 /** What one open socket claims: its session, its user and (optionally) a sketch it is in. */
@@ -67,7 +68,7 @@ export const EDIT_LOCK_TIMEOUT_MS = 7_000;
 /** An earlier outcome of an op id (a re-sent op is answered with it [R3]). */
 export interface SeenEdit {
   op_id: string;
-  status: string;
+  status: EditStatus;
   revision: number | null;
   op: EditOp;
   reason: string | null;
@@ -91,7 +92,7 @@ export interface EditLogRow {
   revision: number | null;
   userId: string;
   op: EditOp;
-  status: string;
+  status: EditStatus;
   reason: string | null;
 }
 
@@ -150,7 +151,7 @@ export async function editSketchAtomically<T>(
 async function writeBatch(tx: Tx, sketchId: string, write: BatchWrite): Promise<void> {
   const logRows = sql`select r.id, ${sketchId}::text, r.op_id, r.revision, r.user_id, r.op, r.status, r.reason
       from jsonb_to_recordset(${JSON.stringify(write.rows.map((r) => ({ id: r.id, op_id: r.opId, revision: r.revision, user_id: r.userId, op: r.op, status: r.status, reason: r.reason })))}::jsonb)
-        as r(id text, op_id text, revision int, user_id text, op jsonb, status text, reason text)`;
+        as r(id text, op_id text, revision int, user_id text, op jsonb, status edit_status, reason text)`;
   if (write.sketch) {
     // One statement writes the document and every log row.
     await tx.execute(sql`
@@ -172,7 +173,7 @@ async function writeBatch(tx: Tx, sketchId: string, write: BatchWrite): Promise<
  * Stores the server's solve of revision `revision`, unless a result of a newer revision is
  * already there (solves of one sketch may finish out of order across instances). True when stored.
  */
-export async function storeAnalysis(db: Db, sketchId: string, revision: number, status: string, resultJson: string): Promise<boolean> {
+export async function storeAnalysis(db: Db, sketchId: string, revision: number, status: AnalysisStatus, resultJson: string): Promise<boolean> {
   const { rowCount } = await db.execute(sql`
     update sketches set last_solve_status = ${status}, last_result = ${resultJson}::jsonb, result_revision = ${revision}
      where id = ${sketchId} and coalesce(result_revision, -1) < ${revision}`);

@@ -1,5 +1,6 @@
 import { Worker } from 'node:worker_threads';
 import type { Db } from '../db/client.ts';
+import type { AnalysisStatus } from '../../shared/model/analysis.ts';
 import type { SketchDocument } from '../../shared/model/sketch.ts';
 import { solveDocument } from '../api/sketches/solveDocument.ts';
 import { storeAnalysis } from './repository.ts';
@@ -24,7 +25,7 @@ export interface SolveQueue {
 
 export const SOLVE_MIN_INTERVAL_MS = 250;
 
-export type Solver = (document: SketchDocument) => Promise<{ status: string; resultJson: string }>;
+export type Solver = (document: SketchDocument) => Promise<{ status: AnalysisStatus; resultJson: string }>;
 
 export function createSolveQueue(db: Db, log: (line: string) => void, solve: Solver = solveInWorker): SolveQueue {
   const sketches = new Map<string, { running: boolean; waiting: { revision: number; document: SketchDocument } | null; lastStart: number; newest: number }>();
@@ -84,7 +85,7 @@ export function createSolveQueue(db: Db, log: (line: string) => void, solve: Sol
 let worker: Worker | null = null;
 let workerBroken = false;
 let nextId = 1;
-const pending = new Map<number, { resolve: (a: { status: string; resultJson: string }) => void; reject: (e: Error) => void }>();
+const pending = new Map<number, { resolve: (a: { status: AnalysisStatus; resultJson: string }) => void; reject: (e: Error) => void }>();
 
 function startWorker(): Worker {
   // The server runs TypeScript through tsx; the worker registers it before loading its module.
@@ -121,7 +122,7 @@ export const solveInWorker: Solver = async (document) => {
   return new Promise((resolve, reject) => {
     pending.set(id, { resolve, reject });
     worker!.postMessage(request);
-  }).catch(() => solveInline(document)) as Promise<{ status: string; resultJson: string }>;
+  }).catch(() => solveInline(document)) as Promise<{ status: AnalysisStatus; resultJson: string }>;
 };
 
 /** The same solve on the calling thread. */

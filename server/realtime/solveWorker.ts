@@ -5,13 +5,14 @@
  */
 import { parentPort } from 'node:worker_threads';
 import { solveDocument } from '../api/sketches/solveDocument.ts';
+import type { AnalysisStatus } from '../../shared/model/analysis.ts';
 import type { SketchDocument } from '../../shared/model/sketch.ts';
 
 export interface SolveRequest {
   id: number;
   document: SketchDocument;
 }
-export type SolveAnswer = { id: number; ok: true; status: string; resultJson: string } | { id: number; ok: false; message: string };
+export type SolveAnswer = { id: number; ok: true; status: AnalysisStatus; resultJson: string } | { id: number; ok: false; message: string };
 
 parentPort!.on('message', (req: SolveRequest) => {
   let answer: SolveAnswer;

@@ -21,6 +21,7 @@ import { FIRST_DESIGN_POINT_ID, FIRST_DESIGN_POINT_NAME } from './sketch.ts';
 export const SOLVE_STATUSES = ['ok', 'detached', 'subsonic', 'vacuum', 'blunt'] as const satisfies readonly SolveStatus[];
 /** An analysis' status: the solver's, or `invalid` when the sketch could not be solved at all. */
 export const ANALYSIS_STATUSES = [...SOLVE_STATUSES, 'invalid'] as const;
+export const analysisStatusSchema = z.enum(ANALYSIS_STATUSES);
 export type AnalysisStatus = (typeof ANALYSIS_STATUSES)[number];
 
 const point = z.tuple([z.number(), z.number()]);
@@ -233,7 +234,7 @@ const loadsResultSchema = z.object({
 
 /** One design point's analysis (`SketchAnalysis`, shared/flight/analyseSketch.ts). */
 export const sketchAnalysisSchema = z.object({
-  status: z.enum(ANALYSIS_STATUSES),
+  status: analysisStatusSchema,
   problem: z.string().nullable(),
   result: solveResultSchema.nullable(),
   solvedPoints: z.array(point),

@@ -166,9 +166,33 @@ export const importSectionSchema = z.strictObject({
 });
 export type ImportSection = z.infer<typeof importSectionSchema>;
 
+/**
+ * What the activity feed records besides edits (`sketch_events.kind`; one list for the database
+ * enum, the writers, the feed's sentences and the client's marks). `status.changed` is only read:
+ * it was written before review outcomes named their revision, and old feeds keep it.
+ */
+export const SKETCH_EVENT_KINDS = [
+  'pin.created',
+  'pin.replied',
+  'pin.resolved',
+  'pin.reopened',
+  'snapshot.created',
+  'snapshot.restored',
+  'section.imported',
+  'review.requested',
+  'review.approved',
+  'review.changes_requested',
+  'review.reset',
+  'status.changed',
+] as const;
+export type SketchEventKind = (typeof SKETCH_EVENT_KINDS)[number];
+/** An activity feed entry's kind: a run of edits (read from the edit log), or a sketch event. */
+export const ACTIVITY_KINDS = ['edits', ...SKETCH_EVENT_KINDS] as const;
+export type ActivityKind = (typeof ACTIVITY_KINDS)[number];
+
 export const activityEntrySchema = z.object({
   id: z.string(),
-  kind: z.string(),
+  kind: z.enum(ACTIVITY_KINDS),
   actorName: z.string().nullable(),
   /** One plain sentence ("Ines made 12 edits: moved vertices, set Mach"). */
   summary: z.string(),

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { pointSchema, sketchDocumentSchema, sketchTitleSchema } from './sketch.ts';
 import { approvalSchema, reviewStateSchema, reviewStatusSchema } from './review.ts';
-import { designPointsAnalysisSchema } from './analysis.ts';
+import { analysisStatusSchema, designPointsAnalysisSchema } from './analysis.ts';
 
 /** Shape of one row of the team's sketches table. */
 export const sketchSummarySchema = z.object({
@@ -17,7 +17,7 @@ export const sketchSummarySchema = z.object({
   /** How many design points the sketch holds, and the name of the selected one (whose Mach and α these are). */
   designPointCount: z.number().int().default(1),
   selectedPointName: z.string().default(''),
-  lastSolveStatus: z.string().nullable(),
+  lastSolveStatus: analysisStatusSchema.nullable(),
   updatedAt: z.string(),
   updatedByName: z.string().nullable(),
   reviewStatus: reviewStatusSchema.default('draft'),
@@ -34,7 +34,7 @@ export const sketchSchema = z.object({
   title: z.string(),
   revision: z.number().int(),
   document: sketchDocumentSchema,
-  lastSolveStatus: z.string().nullable(),
+  lastSolveStatus: analysisStatusSchema.nullable(),
   /** The server's own solve of this revision, read back through `storedAnalysisSchema` [AN1]. */
   lastResult: designPointsAnalysisSchema.nullable(),
   createdAt: z.string(),

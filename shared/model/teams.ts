@@ -48,9 +48,24 @@ export const invitationPreviewSchema = z.object({
 });
 export type InvitationPreview = z.infer<typeof invitationPreviewSchema>;
 
+/**
+ * What the audit trail records (`audit_events.action`; one list for the database enum, the
+ * writers and the members page's sentences). Every name ever written is here.
+ */
+export const AUDIT_ACTIONS = [
+  'team.created',
+  'member.invited',
+  'invitation.revoked',
+  'invitation.accepted',
+  'member.role_changed',
+  'member.removed',
+  'member.left',
+] as const;
+export type AuditAction = (typeof AUDIT_ACTIONS)[number];
+
 export const auditEntrySchema = z.object({
   id: z.string(),
-  action: z.string(),
+  action: z.enum(AUDIT_ACTIONS),
   actorName: z.string().nullable(),
   targetEmail: z.string().nullable(),
   detail: z.record(z.string(), z.unknown()),

@@ -30,6 +30,14 @@ export const PROTOCOL_VERSION = 3;
 export const NOTICE_TOPICS = ['pins', 'snapshots', 'status', 'activity', 'studies'] as const;
 export type NoticeTopic = (typeof NOTICE_TOPICS)[number];
 
+/**
+ * What became of an edit the server received [M1]: applied on the base it named, rebased over
+ * edits that landed first, or rejected with a reason. The `ack` message and the edit log
+ * (`sketch_edits.status`) use this list.
+ */
+export const EDIT_STATUSES = ['applied', 'rebased', 'rejected'] as const;
+export type EditStatus = (typeof EDIT_STATUSES)[number];
+
 const sketchIdSchema = idSchema('sketch');
 const revisionSchema = z.number().int().min(0);
 
@@ -124,7 +132,7 @@ export type ServerMessage =
   | { type: 'replay'; sketchId: string; edits: AppliedEdit[]; revision: number }
   /** The whole state, when the log cannot bridge the gap (or after a REST save). */
   | { type: 'snapshot'; sketchId: string; title: string; document: z.infer<typeof sketchDocumentSchema>; revision: number }
-  | { type: 'ack'; sketchId: string; opId: string; status: 'applied' | 'rebased'; revision: number; op: EditOp }
+  | { type: 'ack'; sketchId: string; opId: string; status: Exclude<EditStatus, 'rejected'>; revision: number; op: EditOp }
   | { type: 'ack'; sketchId: string; opId: string; status: 'rejected'; reason: string }
   | ({ type: 'edit'; sketchId: string } & AppliedEdit)
   | { type: 'presence'; sketchId: string; connectionId: string; userId: string; cursor: [number, number] | null; selection: number[] }

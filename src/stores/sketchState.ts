@@ -44,7 +44,7 @@ export function createSketchState() {
     updatedByName: ref<string | null>(null),
     /** What the server analysed and stored (the authoritative result), and the revision it belongs to. */
     serverAnalysis: shallowRef<SketchAnalysis | null>(null),
-    serverStatus: ref<string | null>(null),
+    serverStatus: ref<Sketch['lastSolveStatus']>(null),
     /** Review status and approval as loaded with the sketch (the review store keeps them current). */
     reviewStatus: ref<Sketch['reviewStatus']>('draft'),
     approval: shallowRef<Sketch['approval']>(null),

@@ -2,23 +2,9 @@ import { sql } from 'drizzle-orm';
 import type { Db } from '../../db/client.ts';
 import { sketchEvents } from '../../db/schema.ts';
 import { newId } from '../../../shared/model/ids.ts';
+import type { ActivityKind, SketchEventKind } from '../../../shared/model/review.ts';
 
 type DbLike = Pick<Db, 'insert' | 'execute'>;
-
-export type SketchEventKind =
-  | 'pin.created'
-  | 'pin.replied'
-  | 'pin.resolved'
-  | 'pin.reopened'
-  | 'snapshot.created'
-  | 'snapshot.restored'
-  | 'section.imported'
-  | 'review.requested'
-  | 'review.approved'
-  | 'review.changes_requested'
-  | 'review.reset'
-  /** Written before outcomes named their revision (kept in old feeds). */
-  | 'status.changed';
 
 export async function recordSketchEvent(db: DbLike, event: { sketchId: string; actorId: string | null; kind: SketchEventKind; detail?: Record<string, unknown> }) {
   await db.insert(sketchEvents).values({ id: newId('act'), sketchId: event.sketchId, actorId: event.actorId, kind: event.kind, detail: event.detail ?? {} });
@@ -26,7 +12,7 @@ export async function recordSketchEvent(db: DbLike, event: { sketchId: string; a
 
 export interface ActivityRow extends Record<string, unknown> {
   id: string;
-  kind: string;
+  kind: ActivityKind;
   actor_name: string | null;
   at: Date;
   detail: Record<string, unknown>;
@@ -72,7 +58,7 @@ function feedQuery(sketchId: string, limit: number, offset: number) {
     ), feed as (
       select id, kind, actor_id, at, detail, first_revision, last_revision, edit_count, op_types from grouped
       union all
-      select id, kind, actor_id, created_at, detail, null, null, null, null from sketch_events where sketch_id = ${sketchId}
+      select id, kind::text, actor_id, created_at, detail, null, null, null, null from sketch_events where sketch_id = ${sketchId}
     )
     select f.id, f.kind, u.name as actor_name, f.at, f.detail, f.first_revision, f.last_revision, f.edit_count, f.op_types,
            count(*) over () as total

@@ -50,8 +50,6 @@ function describe(row: ActivityRow): string {
       return `${who} reset the review to draft (revision ${String(d.revision)}).`;
     case 'status.changed':
       return `${who} set the status to ${String(d.to).replace('_', ' ')}.`;
-    default:
-      return `${who}: ${row.kind}`;
   }
 }
 

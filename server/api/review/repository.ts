@@ -2,8 +2,8 @@ import { desc, eq, sql } from 'drizzle-orm';
 import type { Db } from '../../db/client.ts';
 import { reviewOutcomes, sketches } from '../../db/schema.ts';
 import { newId } from '../../../shared/model/ids.ts';
-import type { ReviewOutcome, ReviewStatus } from '../../../shared/model/review.ts';
-import { recordSketchEvent, type SketchEventKind } from '../activity/repository.ts';
+import type { ReviewOutcome, ReviewStatus, SketchEventKind } from '../../../shared/model/review.ts';
+import { recordSketchEvent } from '../activity/repository.ts';
 
 /** What the review rules look at, read under the sketch's row lock. */
 export interface ReviewSubject {

@@ -2,6 +2,7 @@ import { desc, eq } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { Db } from '../../db/client.ts';
 import { reviewOutcomes, sketches, users } from '../../db/schema.ts';
+import type { AnalysisStatus } from '../../../shared/model/analysis.ts';
 import type { SketchDocument } from '../../../shared/model/sketch.ts';
 
 const editor = alias(users, 'editor');
@@ -52,7 +53,7 @@ export async function findSketchTeam(db: Db, id: string): Promise<string | null>
 
 export async function insertSketch(
   db: Db,
-  row: { id: string; teamId: string; title: string; document: SketchDocument; userId: string; lastSolveStatus: string | null; lastResult: unknown },
+  row: { id: string; teamId: string; title: string; document: SketchDocument; userId: string; lastSolveStatus: AnalysisStatus | null; lastResult: unknown },
 ) {
   await db.insert(sketches).values({
     id: row.id,

@@ -1,3 +1,4 @@
+import type { AnalysisStatus } from '../../../shared/model/analysis.ts';
 import type { SketchDocument } from '../../../shared/model/sketch.ts';
 import { analyseDesignPoints, selectedAnalysis, type DesignPointsAnalysis } from '../../../shared/flight/designPoints.ts';
 
@@ -9,7 +10,7 @@ export const STORED_WAVES_MAX_FACETS = 400;
  * wave map. Its analysis is what the sketch stores (the browser's live solve is only a preview);
  * the status is the selected point's. Pure and synchronous: called once per batch of edits.
  */
-export function solveDocument(document: SketchDocument): { status: string; result: DesignPointsAnalysis } {
+export function solveDocument(document: SketchDocument): { status: AnalysisStatus; result: DesignPointsAnalysis } {
   const all = analyseDesignPoints(document, { waves: document.section.points.length <= STORED_WAVES_MAX_FACETS });
   return { status: selectedAnalysis(all)?.status ?? 'invalid', result: all };
 }

@@ -3,6 +3,7 @@ import type { Db, DbOrTx, Tx } from '../../db/client.ts';
 import { auditEvents, invitations, memberships, teams, users } from '../../db/schema.ts';
 import { newId } from '../../../shared/model/ids.ts';
 import type { Role } from '../../../shared/model/roles.ts';
+import type { AuditAction } from '../../../shared/model/teams.ts';
 import { createUser } from '../auth/repository.ts';
 
 
@@ -106,7 +107,7 @@ export async function revokeInvitation(db: DbOrTx, id: string) {
 
 export async function recordAudit(
   db: DbOrTx,
-  event: { teamId: string; actorId: string | null; action: string; targetUserId?: string | null; targetEmail?: string | null; detail?: Record<string, unknown> },
+  event: { teamId: string; actorId: string | null; action: AuditAction; targetUserId?: string | null; targetEmail?: string | null; detail?: Record<string, unknown> },
 ) {
   await db.insert(auditEvents).values({
     id: newId('audit'),

@@ -5,7 +5,7 @@ import { hashToken, INVITATION_TTL_MS, newToken } from '../../auth/tokens.ts';
 import { invitationMail } from '../../mail/templates.ts';
 import { findUserByEmail, findUserById } from '../auth/repository.ts';
 import type { Role } from '../../../shared/model/roles.ts';
-import type { AuditEntry, InvitationPreview, Member, PendingInvitation } from '../../../shared/model/teams.ts';
+import type { AuditAction, AuditEntry, InvitationPreview, Member, PendingInvitation } from '../../../shared/model/teams.ts';
 import * as repo from './repository.ts';
 import { errorForLog } from '../../log.ts';
 
@@ -145,7 +145,7 @@ export async function acceptInvitation(
   return { userId: result.userId, email: inv.email };
 }
 
-const ACTION_WORDS: Record<string, (e: { actorName: string | null; targetEmail: string | null; detail: Record<string, unknown> }) => string> = {
+const ACTION_WORDS: Record<AuditAction, (e: { actorName: string | null; targetEmail: string | null; detail: Record<string, unknown> }) => string> = {
   'team.created': (e) => `${e.actorName ?? 'Someone'} created the team.`,
   'member.invited': (e) => `${e.actorName ?? 'Someone'} invited ${e.targetEmail} as ${String(e.detail.role)}.`,
   'invitation.revoked': (e) =>
@@ -161,7 +161,6 @@ export async function listAudit(ctx: AppContext, actorId: string, teamId: string
   const { rows, total } = await repo.listAudit(ctx.db, teamId, page);
   const items: AuditEntry[] = rows.map((r) => {
     const detail = (r.detail ?? {}) as Record<string, unknown>;
-    const words = ACTION_WORDS[r.action];
     return {
       id: r.id,
       action: r.action,
@@ -169,7 +168,7 @@ export async function listAudit(ctx: AppContext, actorId: string, teamId: string
       targetEmail: r.targetEmail,
       detail,
       createdAt: r.createdAt.toISOString(),
-      summary: words ? words({ actorName: r.actorName, targetEmail: r.targetEmail, detail }) : r.action,
+      summary: ACTION_WORDS[r.action]({ actorName: r.actorName, targetEmail: r.targetEmail, detail }),
     };
   });
   return { items, total, ...page };

@@ -58,9 +58,16 @@ export function pressureRows(waves: readonly Wave[], outline: readonly (readonly
 
 /**
  * Called for each step of a row, left to right: the row's index in `ys`, where the step starts
- * and ends, and its p/p∞ (null inside the section). Consecutive steps of a row differ in p.
+ * and ends, its p/p∞ (null inside the section) and the class of that p (`PressureClass`; −1
+ * inside the section). Consecutive steps of a row differ in p, not always in class.
  */
-export type PressureStep = (row: number, x0: number, x1: number, p: number | null) => void;
+export type PressureStep = (row: number, x0: number, x1: number, p: number | null, pClass: number) => void;
+
+/**
+ * A caller's class of a pressure ratio (an integer, e.g. its colour on a scale), worked out
+ * once per wave segment side rather than once per step: many steps share one wave's pressure.
+ */
+export type PressureClass = (p: number) => number;
 
 /**
  * The steps of `pressureField(waves, outline)` along many horizontal lines at once (the
@@ -75,8 +82,17 @@ export type PressureStep = (row: number, x0: number, x1: number, p: number | nul
  * the steps are exactly `pressureField`'s. Cost: O(S log S) to order the S segments by height,
  * then about O(c) per row for c crossings (instead of O(S + c log c) per row).
  */
-export function pressureSteps(waves: readonly Wave[], outline: readonly (readonly [number, number])[], ys: readonly number[], xMin: number, xMax: number, step: PressureStep): void {
-  const { seg, count } = segmentTable(waves, outline);
+export function pressureSteps(
+  waves: readonly Wave[],
+  outline: readonly (readonly [number, number])[],
+  ys: readonly number[],
+  xMin: number,
+  xMax: number,
+  step: PressureStep,
+  classOf: PressureClass = noClass,
+): void {
+  const table = segmentTable(waves, outline, classOf);
+  const { seg, count } = table;
   const rowOrder = Array.from({ length: ys.length }, (_, i) => i).sort((i, j) => (ys[i] as number) - (ys[j] as number));
   const low = new Float64Array(count);
   const high = new Float64Array(count);
@@ -147,7 +163,7 @@ export function pressureSteps(waves: readonly Wave[], outline: readonly (readonl
         b += 1;
       }
     }
-    stepsOfSorted(seg, order, cx, n, xMin, xMax, r, step);
+    stepsOfSorted(table, order, cx, n, xMin, xMax, r, step);
   }
 }
 
@@ -166,17 +182,21 @@ function before(xa: number, a: number, xb: number, b: number): boolean {
 
 /**
  * Every wave and outline segment in one flat table, SEG_STRIDE numbers each: x0, y0, x1, y1,
- * the pressure on the −x side and on the +x side, and the kind (0 = wave, 1 = outline). The
- * waves come first, in the order of the result, then the outline's edges.
+ * the pressure on the −x side and on the +x side, the kind (0 = wave, 1 = outline), and the
+ * caller's class of each of the two pressures (`PressureClass`). The waves come first, in the
+ * order of the result, then the outline's edges.
  */
 interface SegmentTable {
   seg: number[];
   count: number;
+  freeStreamClass: number;
 }
 
-const SEG_STRIDE = 7;
+const noClass: PressureClass = () => 0;
 
-function segmentTable(waves: readonly Wave[], outline: readonly (readonly [number, number])[]): SegmentTable {
+const SEG_STRIDE = 9;
+
+function segmentTable(waves: readonly Wave[], outline: readonly (readonly [number, number])[], classOf: PressureClass = noClass): SegmentTable {
   const seg: number[] = [];
   const add = (a: Point, b: Point, family: 1 | -1, pAhead: number, pBehind: number): void => {
     if (a[1] === b[1]) return; // parallel to every row: never crossed
@@ -185,7 +205,9 @@ function segmentTable(waves: readonly Wave[], outline: readonly (readonly [numbe
     const leftOfSegmentAhead = family === 1;
     const rises = b[1] > a[1];
     const minusXIsAhead = rises === leftOfSegmentAhead;
-    seg.push(a[0], a[1], b[0], b[1], minusXIsAhead ? pAhead : pBehind, minusXIsAhead ? pBehind : pAhead, 0);
+    const pLeft = minusXIsAhead ? pAhead : pBehind;
+    const pRight = minusXIsAhead ? pBehind : pAhead;
+    seg.push(a[0], a[1], b[0], b[1], pLeft, pRight, 0, classOf(pLeft), classOf(pRight));
   };
   for (const w of waves) {
     if (w.kind === 'slip' || w.surface === 'trailingEdge') continue;
@@ -210,9 +232,9 @@ function segmentTable(waves: readonly Wave[], outline: readonly (readonly [numbe
     const a = outline[i] as readonly [number, number];
     const b = outline[(i + 1) % outline.length] as readonly [number, number];
     if (a[1] === b[1]) continue;
-    seg.push(a[0], a[1], b[0], b[1], 0, 0, 1);
+    seg.push(a[0], a[1], b[0], b[1], 0, 0, 1, 0, 0);
   }
-  return { seg, count: seg.length / SEG_STRIDE };
+  return { seg, count: seg.length / SEG_STRIDE, freeStreamClass: classOf(1) };
 }
 
 /** The profile along y = const, from every segment of the table. */
@@ -235,7 +257,7 @@ function profileAcross(table: SegmentTable, y: number, xMin: number, xMax: numbe
   const x: number[] = [xMin];
   const p: (number | null)[] = [];
   stepsOfSorted(
-    seg,
+    table,
     order.map((k) => crossing[k] as number),
     order.map((k) => cx[k] as number),
     order.length,
@@ -255,28 +277,34 @@ function profileAcross(table: SegmentTable, y: number, xMin: number, xMax: numbe
  * segments (table indices) and `cx` where each crosses the line. Steps of equal p are joined;
  * crossings outside [xMin, xMax] count at its ends.
  */
-function stepsOfSorted(seg: readonly number[], order: ArrayLike<number>, cx: ArrayLike<number>, n: number, xMin: number, xMax: number, row: number, step: PressureStep): void {
+function stepsOfSorted(table: SegmentTable, order: ArrayLike<number>, cx: ArrayLike<number>, n: number, xMin: number, xMax: number, row: number, step: PressureStep): void {
+  const { seg, freeStreamClass } = table;
   let inside = false;
   let prev = -1; // table offset of the previous crossing's segment
   let last = xMin;
-  // The step being built (emitted when the next one differs in p).
+  // The step being built (handed on when the next one differs in p): its p is read from the
+  // table at `slot` (with its class 3 further on), or is the free stream (FREE) or the inside (INSIDE).
   let open = false;
   let from = xMin;
   let to = xMin;
+  let slot = FREE;
   let value: number | null = null;
+  const emit = () => step(row, from, to, value, slot === INSIDE ? -1 : slot === FREE ? freeStreamClass : (seg[slot + 3] as number));
   for (let k = 0; k <= n; k++) {
     const o = k < n ? SEG_STRIDE * (order[k] as number) : -1;
     const at = o >= 0 ? Math.min(Math.max(cx[k] as number, xMin), xMax) : xMax;
     if (at > last) {
       // Behind the previous wave; after leaving the section or before any wave, ahead of the next.
-      const here = inside ? null : prev >= 0 && seg[prev + 6] === 0 ? (seg[prev + 5] as number) : o >= 0 && seg[o + 6] === 0 ? (seg[o + 4] as number) : 1;
-      if (open && here === value) to = at;
+      const here = inside ? INSIDE : prev >= 0 && seg[prev + 6] === 0 ? prev + 5 : o >= 0 && seg[o + 6] === 0 ? o + 4 : FREE;
+      const hereValue = here === INSIDE ? null : here === FREE ? 1 : (seg[here] as number);
+      if (open && hereValue === value) to = at;
       else {
-        if (open) step(row, from, to, value);
+        if (open) emit();
         open = true;
         from = last;
         to = at;
-        value = here;
+        slot = here;
+        value = hereValue;
       }
       last = at;
     }
@@ -285,6 +313,15 @@ function stepsOfSorted(seg: readonly number[], order: ArrayLike<number>, cx: Arr
       prev = o;
     }
   }
-  if (open) step(row, from, to, value);
-  else step(row, xMin, xMax, inside ? null : prev >= 0 && seg[prev + 6] === 0 ? (seg[prev + 5] as number) : 1);
+  if (!open) {
+    from = xMin;
+    to = xMax;
+    slot = inside ? INSIDE : prev >= 0 && seg[prev + 6] === 0 ? prev + 5 : FREE;
+    value = slot === INSIDE ? null : slot === FREE ? 1 : (seg[slot] as number);
+  }
+  emit();
 }
+
+/** `stepsOfSorted`'s slots for the free stream and the inside of the section. */
+const FREE = -1;
+const INSIDE = -2;

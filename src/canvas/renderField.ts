@@ -62,33 +62,44 @@ function fieldRows(result: SolveResult, outline: readonly (readonly [number, num
   const words = new Uint32Array(pixels.buffer);
   const colourWords = pressureColourWords();
   const { scale, originX } = view;
-  // A step's colour is its place on the scale (as pressureColour, without a string per step).
+  // A pressure's colour is its place on the scale (as pressureColour, without a string), worked
+  // out once per wave side (pressureSteps' classes); the free stream is not filled (−1).
   const lo = Math.log(domain.min);
   const span = Math.log(domain.max) - lo;
   const last = PRESSURE_COLOUR_STEPS - 1;
+  const colourIndex = (p: number) => (p === 1 ? -1 : p > 0 ? Math.round(Math.min(1, Math.max(0, span > 0 ? (Math.log(p) - lo) / span : 0.5)) * last) : 0);
   const column = (x: number) => Math.min(width, Math.max(0, Math.round(x * scale + originX) - imageX));
   // Steps of one colour next to each other on a row are filled as one run (steps are contiguous).
   let runRow = -1;
-  let runIndex = -1; // -1: not filled
+  let runIndex = -1; // −1: not filled
   let runFrom = 0;
   let runTo = 0;
   const flush = () => {
     if (runIndex < 0) return;
     const start = runRow * width;
-    words.fill(colourWords[runIndex] as number, start + column(runFrom), start + column(runTo));
+    const word = colourWords[runIndex] as number;
+    // A plain loop: most runs are a few pixels long, shorter than a fill call's overhead.
+    for (let i = start + column(runFrom), end = start + column(runTo); i < end; i++) words[i] = word;
   };
-  pressureSteps(result.waves, outline, ys, xMin, xMax, (row, x0, x1, p) => {
-    const index = p === null || p === 1 ? -1 : p > 0 ? Math.round(Math.min(1, Math.max(0, span > 0 ? (Math.log(p) - lo) / span : 0.5)) * last) : 0;
-    if (row === runRow && index === runIndex) {
+  pressureSteps(
+    result.waves,
+    outline,
+    ys,
+    xMin,
+    xMax,
+    (row, x0, x1, _p, index) => {
+      if (row === runRow && index === runIndex) {
+        runTo = x1;
+        return;
+      }
+      flush();
+      runRow = row;
+      runIndex = index;
+      runFrom = x0;
       runTo = x1;
-      return;
-    }
-    flush();
-    runRow = row;
-    runIndex = index;
-    runFrom = x0;
-    runTo = x1;
-  });
+    },
+    colourIndex,
+  );
   flush();
   return { image: { x: imageX, y: top, width, height: bottom - top, rows: ys.length, rowHeight: FIELD_ROW_PX, alpha: FIELD_ALPHA, pixels }, paths: [], dots: [] };
 }

@@ -8,7 +8,7 @@ import { reached } from '../../helpers/reached';
 import { expectClose } from '../../helpers/expectClose';
 import { signatureCsv } from '../../../shared/model/sketchExport';
 import { RESULTS_CAUTION } from '../../../shared/model/caution';
-import { pressureField, pressureRows } from '../../../shared/solver/pressureField';
+import { pressureField, pressureRows, pressureSteps } from '../../../shared/solver/pressureField';
 import { pressureSignature } from '../../../shared/solver/pressureSignature';
 import { solveSection } from '../../../shared/solver/solveSection';
 import type { Point, Wave } from '../../../shared/solver/types';
@@ -74,6 +74,30 @@ describe('pressure field and signature', () => {
     expect(pressureRows(result.waves, pts, ys, 0.3, 0.6)).toEqual(ys.map((y) => along(y, 0.3, 0.6)));
     expect(pressureRows(result.waves, pts, [], -1, 5)).toEqual([]);
     expect(pressureRows([], pts, [3, 0], -1, 5)).toEqual([pressureField([], pts)(3, -1, 5), pressureField([], pts)(0, -1, 5)]);
+  });
+
+  it('pressureSteps: each step carries the caller\'s class of its p (−1 inside the section), worked out per wave side, not per step', () => {
+    const ys = Array.from({ length: 41 }, (_, i) => 1 - i / 20);
+    const classed: number[] = [];
+    const classOf = (p: number) => {
+      classed.push(p);
+      return Math.round(100 * Math.log(p));
+    };
+    let steps = 0;
+    let insideSteps = 0;
+    pressureSteps(result.waves, pts, ys, -1, 5, (_row, x0, x1, p, pClass) => {
+      steps++;
+      expect(x1).toBeGreaterThan(x0);
+      if (p === null) {
+        insideSteps++;
+        expect(pClass).toBe(-1);
+      } else expect(pClass).toBe(Math.round(100 * Math.log(p)));
+    }, classOf);
+    expect(insideSteps).toBeGreaterThan(0);
+    // The classes come from the wave segments' two sides and the free stream, far fewer than the steps.
+    expect(classed.length).toBeLessThan(steps);
+    // Without a class function every class is 0 outside the section.
+    pressureSteps(result.waves, pts, [0.3], -1, 5, (_row, _x0, _x1, p, pClass) => expect(pClass).toBe(p === null ? -1 : 0));
   });
 
   it('pressureRows equals pressureField on cambered lenses at any Mach and incidence (property)', () => {

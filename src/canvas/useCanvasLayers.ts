@@ -66,6 +66,75 @@ export interface LayerSource {
   scenePort: ScenePort | null;
 }
 
+/** The canvas's props as `useCanvasLayers` reads them (optional ones may be absent). */
+export type LayerProps = Omit<LayerSource, 'hinge' | 'pins' | 'compare' | 'presence' | 'highlight' | 'scenePort'> & {
+  hinge?: Point | null;
+  pins?: readonly PinMarker[];
+  compare?: CompareOutlines | null;
+  presence?: readonly PresenceMark[];
+  highlight?: Highlight | null;
+  scenePort?: ScenePort | null;
+};
+
+/**
+ * The layers' source read lazily from the canvas's (reactive) props: each field is a getter, so
+ * a computed that reads `pins` depends on `pins` alone. Built as a plain object of all the props
+ * at once, every computed here would depend on every prop — the shown points change with each
+ * move of a drag, and the overlay would be redrawn with each move [DR2].
+ */
+export function layerSourceOf(props: LayerProps): LayerSource {
+  return {
+    get points() {
+      return props.points;
+    },
+    get result() {
+      return props.result;
+    },
+    get solvedPoints() {
+      return props.solvedPoints;
+    },
+    get hinge() {
+      return props.hinge ?? null;
+    },
+    get resultSeq() {
+      return props.resultSeq;
+    },
+    get invalid() {
+      return props.invalid;
+    },
+    get selection() {
+      return props.selection;
+    },
+    get tool() {
+      return props.tool;
+    },
+    get layers() {
+      return props.layers;
+    },
+    get legendMode() {
+      return props.legendMode;
+    },
+    get pins() {
+      return props.pins ?? NO_PINS;
+    },
+    get compare() {
+      return props.compare ?? null;
+    },
+    get presence() {
+      return props.presence ?? NO_PRESENCE;
+    },
+    get highlight() {
+      return props.highlight ?? null;
+    },
+    get scenePort() {
+      return props.scenePort ?? null;
+    },
+  };
+}
+
+const NO_PINS: readonly PinMarker[] = [];
+const NO_PRESENCE: readonly PresenceMark[] = [];
+
 /**
  * The canvas's two surfaces, bottom to top:
  *
@@ -76,6 +145,9 @@ export interface LayerSource {
  *   page paints the same scene from its props.
  * - the **overlay**, one Konva layer: limit labels (Konva Text), people's cursors and the
  *   walkthrough highlight, review pins and compared outlines, and the HUD (scale bar, legend).
+ *
+ * `source` should read its fields lazily (`layerSourceOf`), so that each part depends only on
+ * what it reads.
  */
 export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, hover: CanvasHover, tools: CanvasTools) {
   const { view, size } = canvas;

@@ -2,6 +2,7 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
 import { analyseDesignPoints, selectedAnalysis } from '@shared/flight/designPoints';
 import { EMPTY_SCENE_CONTENT, paintLists, paintScene, sceneLists, type SceneContent, type SceneState } from '@/canvas/scenePainter';
+import { answerPacer } from './answerPacer';
 import type { SolveRequest, SolveResponse, WorkerRequest, WorkerResponse } from './solverProtocol';
 
 /**
@@ -27,16 +28,9 @@ let content: SceneContent = EMPTY_SCENE_CONTENT;
 /** The last answer that could be solved: its waves stay on screen while a drag passes through a crossing. */
 let lastGood: SketchAnalysis | null = null;
 let contentSeq = 0;
-/**
- * While solves follow each other closely (a drag), answers go to the page at most this often,
- * the newest one each time: the page's panels refresh when the pointer pauses anyway, and each
- * answer costs the page's main thread a structured clone of the whole analysis. The scene is
- * painted here after every solve regardless. The last answer of a burst always arrives.
- */
+/** Answers to the page: thinned outside a drag, held until the pointer pauses during one (answerPacer.ts). */
 const ANSWER_INTERVAL_MS = 80;
-let lastAnswerAt = -Infinity;
-let heldAnswer: SolveResponse | null = null;
-let answerTimer: ReturnType<typeof setTimeout> | null = null;
+const answers = answerPacer<SolveResponse>((answer) => post(answer), ANSWER_INTERVAL_MS);
 /** How long the last solve took (bench timing). */
 let lastSolveMs = 0;
 
@@ -99,26 +93,8 @@ function solve(request: SolveRequest) {
   }
   contentSeq = request.seq;
   paint(lastSolveMs);
-  answerPage(answer);
-}
-
-function answerPage(answer: SolveResponse) {
-  const wait = lastAnswerAt + ANSWER_INTERVAL_MS - performance.now();
-  if (wait <= 0 && !answerTimer) {
-    sendAnswer(answer);
-    return;
-  }
-  heldAnswer = answer;
-  answerTimer ??= setTimeout(() => {
-    answerTimer = null;
-    if (heldAnswer) sendAnswer(heldAnswer);
-  }, Math.max(0, wait));
-}
-
-function sendAnswer(answer: SolveResponse) {
-  heldAnswer = null;
-  lastAnswerAt = performance.now();
-  post(answer);
+  // A drag's preview (only the selected point solved) waits for the pointer to pause.
+  answers.offer(answer, request.selectedOnly === true);
 }
 
 /** Paints the scene; `solveMs` is the solve it follows (0 for a scene change). */

@@ -13,7 +13,10 @@ export interface SolveRequest {
   type: 'solve';
   seq: number;
   document: SketchDocument;
-  /** Solve only the selected design point (a drag's preview); the release solves them all. */
+  /**
+   * Solve only the selected design point (a drag's preview); the release solves them all. The
+   * scene is painted at once; the answer waits until the pointer pauses (answerPacer.ts).
+   */
   selectedOnly?: boolean;
   /** The scene state of the same moment, when it changed. */
   scene?: SceneState;

@@ -8,16 +8,18 @@
  *    the solver worker's script are listed apart, and the total with the worker is printed.
  * 2. Starts a throwaway PostgreSQL cluster and the server in-process, signs the demo owner in
  *    in headless Chromium, and for sections of 64 and 200 vertices (faceted biconvex) drags one
- *    vertex with the select tool: 240 pointer moves at about 60 per second. The page records,
+ *    vertex with the select tool: 240 pointer moves with 16 ms between them (the rate reached,
+ *    lower on a loaded machine, is printed). The page records,
  *    for each move, the time until the scene (wave map and section) was drawn from a solve that
  *    includes that move (src/canvas/paintTiming.ts; the solver worker paints it and reports its
  *    times on its own clock, brought onto the page's), and this prints p50/p90/p95/max (target
  *    p95 ≤ 16 ms): from the event's timestamp (includes Chromium's input queueing), from our
  *    handler's start (the editor's own share), and until the drawing was rasterised (the
- *    compositor's share after that is not visible to a page). Then where the time went, and
- *    the machine's load average: the machine is shared and its load shows in the tails.
+ *    compositor's share after that is not visible to a page). Then where the time went, the
+ *    CPU time Chromium's processes used per move (from /proc: it hardly depends on the load),
+ *    and the machine's load average: the machine is shared and its load shows in the tails.
  */
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import path from 'node:path';
 import { build } from 'vite';
@@ -40,6 +42,59 @@ const MOVES = 240;
 const SECTION_VERTICES = [64, 200];
 const MOVE_INTERVAL_MS = 16;
 const kb = (n: number) => `${(n / 1024).toFixed(1)} KB`;
+
+/** Clock ticks per second of /proc's CPU times (Linux's USER_HZ, 100 on every common build). */
+const PROC_TICKS_PER_S = 100;
+
+/**
+ * CPU time in ms used so far by each thread of Chromium's processes started under this one,
+ * keyed "process type/thread name" (threads of one name added up: the page's main thread is
+ * renderer/chromium, the solver worker renderer/DedicatedWorker, the software compositor
+ * gpu-process/VizCompositorTh…), from /proc (Linux); null elsewhere. Unlike the latencies it
+ * hardly depends on how busy the machine is, so it shows the work a drag costs on a shared
+ * machine, and where.
+ */
+function chromiumThreadCpuMs(): Map<string, number> | null {
+  const stat = (file: string) => {
+    const text = readFileSync(file, 'utf8');
+    // pid (comm) state ppid … utime stime: fields after the closing parenthesis.
+    const close = text.lastIndexOf(')');
+    const rest = text.slice(close + 2).split(' ');
+    return { comm: text.slice(text.indexOf('(') + 1, close), ppid: Number(rest[1]), ms: ((Number(rest[11]) + Number(rest[12])) * 1000) / PROC_TICKS_PER_S };
+  };
+  try {
+    const procs = new Map<number, { ppid: number; comm: string }>();
+    for (const name of readdirSync('/proc')) {
+      if (!/^\d+$/.test(name)) continue;
+      try {
+        procs.set(Number(name), stat(`/proc/${name}/stat`));
+      } catch {
+        // ended meanwhile
+      }
+    }
+    const ours = (pid: number): boolean => {
+      for (let p = procs.get(pid)?.ppid, hops = 0; p !== undefined && p > 1 && hops < 20; p = procs.get(p)?.ppid, hops++) if (p === process.pid) return true;
+      return false;
+    };
+    const out = new Map<string, number>();
+    for (const [pid, p] of procs) {
+      if (!/chrom/i.test(p.comm) || !ours(pid)) continue;
+      try {
+        const type = /--type=([a-z-]+)/.exec(readFileSync(`/proc/${pid}/cmdline`, 'utf8'))?.[1] ?? 'browser';
+        for (const tid of readdirSync(`/proc/${pid}/task`)) {
+          const t = stat(`/proc/${pid}/task/${tid}/stat`);
+          const key = `${type}/${t.comm}`;
+          out.set(key, (out.get(key) ?? 0) + t.ms);
+        }
+      } catch {
+        // ended meanwhile
+      }
+    }
+    return out;
+  } catch {
+    return null;
+  }
+}
 
 function quantile(sorted: number[], q: number): number {
   if (sorted.length === 0) return Number.NaN;
@@ -97,12 +152,16 @@ async function dragBench(page: Page, baseUrl: string, vertices: number) {
 
   await page.mouse.move(x, y);
   await page.mouse.down();
+  const cpuBefore = chromiumThreadCpuMs();
+  const startedAt = performance.now();
   for (let i = 1; i <= MOVES; i++) {
     // Up and down by up to 40 px so the section stays valid while the wave map changes.
     const dy = 40 * Math.sin((i / MOVES) * Math.PI * 4);
     await page.mouse.move(x + (i % 3), y - dy);
     await page.waitForTimeout(MOVE_INTERVAL_MS);
   }
+  const dragMs = performance.now() - startedAt;
+  const cpuAfter = chromiumThreadCpuMs();
   await page.waitForTimeout(200);
   await page.mouse.up();
   const record = await page.evaluate(
@@ -115,6 +174,11 @@ async function dragBench(page: Page, baseUrl: string, vertices: number) {
     waveCount: waveCount ?? '?',
     breakdown: record?.breakdown ?? null,
     rasterised: [...(record?.rasterised ?? [])].sort((a, b) => a - b),
+    cpuPerMove:
+      cpuBefore && cpuAfter
+        ? [...cpuAfter].map(([thread, ms]) => [thread, (ms - (cpuBefore.get(thread) ?? 0)) / MOVES] as const).sort((a, b) => b[1] - a[1])
+        : null,
+    movesPerS: (MOVES * 1000) / dragMs,
   };
 }
 
@@ -163,8 +227,13 @@ async function main() {
         const stats = await dragBench(page, server.url, vertices);
         const line = (name: string, v: number[]) =>
           `  ${name.padEnd(34)} p50 ${quantile(v, 0.5).toFixed(1).padStart(5)} ms   p90 ${quantile(v, 0.9).toFixed(1).padStart(5)} ms   p95 ${quantile(v, 0.95).toFixed(1).padStart(5)} ms   max ${(v.at(-1) ?? Number.NaN).toFixed(1).padStart(5)} ms`;
-        console.log(`\nDrag of one vertex of a ${vertices}-vertex section (faceted biconvex, M 2.5, α 3°), ${MOVES} pointer moves ~${Math.round(1000 / MOVE_INTERVAL_MS)}/s, ${stats.waveCount} waves drawn, pressure field and meeting marks on (the default layers)`);
-        console.log(`  moves paired with a repaint: ${stats.fromEvent.length} of ${MOVES}`);
+        console.log(`\nDrag of one vertex of a ${vertices}-vertex section (faceted biconvex, M 2.5, α 3°), ${MOVES} pointer moves ${MOVE_INTERVAL_MS} ms apart, ${stats.waveCount} waves drawn, pressure field and meeting marks on (the default layers)`);
+        console.log(`  moves paired with a repaint: ${stats.fromEvent.length} of ${MOVES} (sent at ${stats.movesPerS.toFixed(0)}/s)`);
+        if (stats.cpuPerMove) {
+          const total = stats.cpuPerMove.reduce((sum, [, ms]) => sum + ms, 0);
+          const top = stats.cpuPerMove.filter(([, ms]) => ms >= 0.5).map(([thread, ms]) => `${thread} ${ms.toFixed(1)}`);
+          console.log(`  Chromium CPU per pointer move (hardly depends on the machine's load): ${total.toFixed(1)} ms — ${top.join(', ')}`);
+        }
         console.log(line('pointer event → wave map drawn', stats.fromEvent));
         console.log(line('our handler → wave map drawn', stats.fromHandler));
         if (stats.rasterised.length > 0) console.log(line('pointer event → wave map rasterised', stats.rasterised));

@@ -88,10 +88,16 @@ export interface ScaleBar {
   label: string;
 }
 
-/** A scale bar of the longest nice length (1, 2 or 5 × 10^k chords) at most `targetPixels` long. */
-export function scaleBar(view: View, targetPixels = 100): ScaleBar {
-  const length = niceStepBelow(targetPixels / view.scale);
-  const pixels = length * view.scale;
+/**
+ * A scale bar of the longest nice length (1, 2 or 5 × 10^k chords) at most `targetPixels` long.
+ * `chord` is the section's reference chord in drawing units: 1 for a section drawn to unit
+ * chord, the chord in metres for one imported at its physical size — the bar counts chords
+ * either way, like cl, cm and x/c.
+ */
+export function scaleBar(view: View, chord = 1, targetPixels = 100): ScaleBar {
+  const unit = chord > 0 && Number.isFinite(chord) ? chord : 1;
+  const length = niceStepBelow(targetPixels / (view.scale * unit));
+  const pixels = length * unit * view.scale;
   return { length, pixels, label: `${formatLength(length)} c` };
 }
 

@@ -41,7 +41,7 @@ function label(v: number): string {
  * Heads-up items in screen space: the scale bar (bottom left) and the pressure legend (bottom
  * right). Drawn on the canvas so that a PNG export carries them.
  */
-export function renderHud(view: View, size: Size, legend: LegendModel | null, showGrid: boolean, styles: readonly LineStyleKey[] = []): DrawList {
+export function renderHud(view: View, size: Size, legend: LegendModel | null, showGrid: boolean, styles: readonly LineStyleKey[] = [], chord = 1): DrawList {
   const paths: StrokePath[] = [];
   const texts: TextItem[] = [];
   const bars: DrawList['bars'] = [];
@@ -63,7 +63,7 @@ export function renderHud(view: View, size: Size, legend: LegendModel | null, sh
     });
   }
   if (showGrid) {
-    const bar = scaleBar(view);
+    const bar = scaleBar(view, chord);
     const x0 = 16;
     const y0 = size.height - 28;
     paths.push({ points: [x0, y0 - 8, 8 + x0 + bar.pixels + 8, y0 - 8, 8 + x0 + bar.pixels + 8, y0 + 10, x0, y0 + 10], colour: 'rgba(17, 28, 34, 0.85)', width: 0, closed: true, fill: 'rgba(17, 28, 34, 0.85)' });

@@ -242,9 +242,12 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
     const r = source().result;
     return r ? legendModel(domain.value, source().legendMode, r.condition.mach, r.condition.gamma) : null;
   });
+  // The chord the coefficients are referenced to, in drawing units (not 1 after an import at
+  // physical size): the scale bar counts chords of it.
+  const referenceChord = computed(() => source().result?.geometry.reference.chord ?? 1);
   const hudList = computed(() => {
     const l = source().layers;
-    return renderHud(view.value, size.value, l.shocks || l.fans || l.surfaceCp || l.pressureField ? legend.value : null, l.grid, source().result ? lineStyleKey(l) : []);
+    return renderHud(view.value, size.value, l.shocks || l.fans || l.surfaceCp || l.pressureField ? legend.value : null, l.grid, source().result ? lineStyleKey(l) : [], referenceChord.value);
   });
   const reviewList = computed(() => renderReview(source().pins, source().compare, view.value));
   // The result matters only for a highlighted wave: otherwise a new answer (every move of a

@@ -194,7 +194,17 @@ describe('grid', () => {
   });
 
   it('the scale bar is a nice length at most the target width', () => {
-    const bar = scaleBar({ scale: 400, originX: 0, originY: 0 }, 100);
+    const bar = scaleBar({ scale: 400, originX: 0, originY: 0 }, 1, 100);
     expect(bar).toEqual({ length: 0.2, pixels: 80, label: '0.2 c' });
+  });
+
+  it('the scale bar counts chords of a section drawn at its physical size', () => {
+    // A 0.32 m chord imported in metres, 1250 px per metre: one chord is 400 px on screen,
+    // so the bar is the same 0.2 c, 80 px long, as for the unit-chord drawing above; a shorter
+    // target gives the next nice length down.
+    const bar = scaleBar({ scale: 1250, originX: 0, originY: 0 }, 0.32, 100);
+    expect(bar.label).toBe('0.2 c');
+    expectClose(bar.pixels, 80, 1e-9);
+    expect(scaleBar({ scale: 1250, originX: 0, originY: 0 }, 0.32, 62.5).label).toBe('0.1 c');
   });
 });

@@ -19,9 +19,11 @@ import { idSchema } from '../model/ids.ts';
  */
 /**
  * 2: single-field ops (setVertexCoordinate, setField). 3: sketch documents hold design points
- * (document version 2) and the design point ops.
+ * (document version 2) and the design point ops. 4: `replaceSection` may carry `loadsChordM`
+ * (a coordinates import at physical size, one undo step), and the server sends the revision
+ * heartbeat [R7]. A page still speaking an older protocol is told to reload.
  */
-export const PROTOCOL_VERSION = 3;
+export const PROTOCOL_VERSION = 4;
 
 /**
  * What a `notice` says changed on a sketch (clients refetch that list) [M1]: the server's

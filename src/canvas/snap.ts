@@ -1,4 +1,5 @@
 import type { SnapSettings } from './geometry';
+import { formatNumber } from '@shared/format/number';
 import { niceStep, niceStepBelow } from './grid';
 import { scaleY, type View } from './view';
 
@@ -44,7 +45,19 @@ export function snapSteps(snap: CanvasSnap, view: View, section: SnapScale | nul
   return { stepX, stepY };
 }
 
-/** "0.001 c" or "x 0.01 c, y 0.001 c" for the toolbar. */
-export function stepsLabel(steps: Pick<SnapSettings, 'stepX' | 'stepY'>): string {
-  return steps.stepX === steps.stepY ? `${steps.stepX} c` : `x ${steps.stepX} c, y ${steps.stepY} c`;
+/**
+ * "0.001 c" or "x 0.01 c, y 0.001 c" for the toolbar. The steps are in drawing units; `chord`
+ * is the section's reference chord in those units (1 unless the section was imported at its
+ * physical size, when the drawing is in metres), so the label always counts chords.
+ */
+export function stepsLabel(steps: Pick<SnapSettings, 'stepX' | 'stepY'>, chord = 1): string {
+  const x = inChords(steps.stepX, chord);
+  const y = inChords(steps.stepY, chord);
+  return x === y ? `${x} c` : `x ${x} c, y ${y} c`;
+}
+
+/** A length in drawing units as chords, to 3 significant figures (exact for a unit chord). */
+export function inChords(length: number, chord = 1): string {
+  const unit = chord > 0 && Number.isFinite(chord) ? chord : 1;
+  return unit === 1 ? String(length) : formatNumber(length / unit, 3);
 }

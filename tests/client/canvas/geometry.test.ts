@@ -14,7 +14,7 @@ import {
 } from '@/canvas/geometry';
 import { boundsOf, fitView, isotropic, panBy, toScreen, toWorld, withExaggeration, zoomAt, MAX_SCALE } from '@/canvas/view';
 import { gridLines, niceStep, niceStepBelow, scaleBar } from '@/canvas/grid';
-import { snapSteps } from '@/canvas/snap';
+import { snapSteps, stepsLabel } from '@/canvas/snap';
 import { facetAt, vertexAt } from '@/canvas/tools/types';
 import { expectClose } from '../../helpers/expectClose';
 
@@ -123,6 +123,13 @@ describe('snap steps follow the zoom and the thickness', () => {
   it('zooming in makes the steps finer; a fixed step applies to both axes', () => {
     expect(snapSteps(auto, { scale: 20_000, originX: 0, originY: 0 }, wedge5)).toEqual({ stepX: 0.0002, stepY: 0.0002 });
     expect(snapSteps({ ...auto, gridStep: 0.05 }, { scale: 576, originX: 0, originY: 0 }, wedge5)).toEqual({ stepX: 0.05, stepY: 0.05 });
+  });
+
+  it('the label counts chords, also for a section drawn at its physical size', () => {
+    expect(stepsLabel({ stepX: 0.01, stepY: 0.001 })).toBe('x 0.01 c, y 0.001 c');
+    expect(stepsLabel({ stepX: 0.0002, stepY: 0.0002 })).toBe('0.0002 c');
+    // A 0.32 m chord drawn in metres: 0.002 m is 0.00625 c, 0.0002 m is 0.000625 c.
+    expect(stepsLabel({ stepX: 0.002, stepY: 0.0002 }, 0.32)).toBe('x 0.00625 c, y 0.000625 c');
   });
 
   it('a thinner section gets a finer y step; a vertical exaggeration refines y by the zoom', () => {

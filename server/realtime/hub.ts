@@ -3,6 +3,7 @@ import type { SessionUser } from '../auth/passport.ts';
 import type { AppContext } from '../context.ts';
 import type { ClientToServerEvents, Person, ServerMessage, ServerToClientEvents } from '../../shared/protocol/messages.ts';
 import type { AccessFilter, RoomAccess } from './access.ts';
+import { errorForLog } from '../log.ts';
 
 /** What a socket carries (travels to other instances in fetchSockets answers: nothing secret). */
 export interface SocketData {
@@ -38,4 +39,4 @@ export function send(target: { emit: IoSocket['emit'] } | ReturnType<IoServer['t
 }
 
 /** A failed background task is logged, never thrown at the process. */
-export const logged = (hub: Hub, what: string) => (err: unknown) => hub.ctx.log(`[realtime] ${what}: ${(err as Error).message}`);
+export const logged = (hub: Hub, what: string) => (err: unknown) => hub.ctx.log(`[realtime] ${what}: ${errorForLog(err, false)}`);

@@ -14,6 +14,7 @@ import { createAccessGuard, guardHandshake } from './connection.ts';
 import { createPresence, personColour } from './presence.ts';
 import { createEditChannel } from './edits.ts';
 import { createWalkthroughs } from './walkthrough.ts';
+import { errorForLog } from '../log.ts';
 
 /** Messages that get a fresh database check; the frequent others reuse one younger than ACCESS_RECHECK_MS. */
 const CHECKED_NOW = new Set<ClientMessage['type']>(['resync', 'walkthroughStart', 'walkthroughStop', 'walkthroughHandOver']);
@@ -44,7 +45,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     connectionStateRecovery: undefined,
   });
   if (options.adapterPool) {
-    io.adapter(createAdapter(options.adapterPool, { errorHandler: (err) => ctx.log(`[realtime] adapter: ${err.message}`), heartbeatInterval: 1000, heartbeatTimeout: 4000 }));
+    io.adapter(createAdapter(options.adapterPool, { errorHandler: (err) => ctx.log(`[realtime] adapter: ${errorForLog(err, false)}`), heartbeatInterval: 1000, heartbeatTimeout: 4000 }));
   }
   guardHandshake(io, session, passportMiddleware, options.trustProxy ?? (() => false));
 
@@ -134,7 +135,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
         return;
       }
       void access.inLane(socket, () => handle(socket, parsed.data)).catch((err) => {
-        ctx.log(`[realtime] ${parsed.data.type} failed: ${(err as Error).stack ?? err}`);
+        ctx.log(`[realtime] ${parsed.data.type} failed: ${errorForLog(err)}`);
         if (parsed.data.type === 'edit') {
           // Not acked: the client keeps the op pending and re-sends it (same id) after a resync.
           send(socket, { type: 'error', code: 'internal', reason: 'The server could not process that edit; it will be retried.', about: 'edit' });

@@ -1,5 +1,6 @@
 import { PEOPLE_REFRESH_MS, type Person } from '../../shared/protocol/messages.ts';
 import { localSketches, room, send, type Hub, type IoSocket } from './hub.ts';
+import { errorForLog } from '../log.ts';
 
 /** Eight colours that stay distinct on the canvas background; a person keeps theirs everywhere. */
 const PERSON_COLOURS = ['#e4572e', '#17bebb', '#ffc914', '#a855f7', '#76b041', '#f472b6', '#3b82f6', '#f97316'];
@@ -62,7 +63,7 @@ export function createPresence(hub: Hub): Presence {
           try {
             send(io.to(room(sketchId)), { type: 'people', sketchId, people: await peopleIn(sketchId) });
           } catch (err) {
-            ctx.log(`[realtime] people list for ${sketchId}: ${(err as Error).message}`);
+            ctx.log(`[realtime] people list for ${sketchId}: ${errorForLog(err, false)}`);
           }
         } while (gathering.get(sketchId));
       } finally {

@@ -5,6 +5,7 @@ import type { SketchDocument } from '../../shared/model/sketch.ts';
 import { solveDocument } from '../api/sketches/solveDocument.ts';
 import { storeAnalysis } from './repository.ts';
 import type { SolveAnswer, SolveRequest } from './solveWorker.ts';
+import { errorForLog } from '../log.ts';
 
 /**
  * The server's solve of each sketch, run after its edits commit — never inside the row lock,
@@ -52,7 +53,7 @@ export function createSolveQueue(db: Db, log: (line: string) => void, solve: Sol
         await storeAnalysis(db, sketchId, job.revision, solved.status, solved.resultJson);
       } catch (err) {
         // The next edit (or a join) schedules it again; the result stays tagged with its older revision.
-        log(`[realtime] solve of ${sketchId} at revision ${job.revision} failed: ${(err as Error).message}`);
+        log(`[realtime] solve of ${sketchId} at revision ${job.revision} failed: ${errorForLog(err, false)}`);
       }
     }
     entry.running = false;

@@ -6,6 +6,7 @@ import { recordSketchEvent } from '../activity/repository.ts';
 import { noticeMail } from '../../mail/templates.ts';
 import type { PinDetail, PinSummary, PinTarget } from '../../../shared/model/review.ts';
 import * as repo from './repository.ts';
+import { errorForLog } from '../../log.ts';
 
 function excerpt(body: string): string {
   const one = body.replace(/\s+/g, ' ').trim();
@@ -58,7 +59,7 @@ async function notifyMentions(ctx: AppContext, mentioned: Mentioned, input: { sk
       paragraphs: [`On the sketch “${sketch?.title ?? ''}”:`, `“${excerpt(input.body)}”`],
       action: { label: 'Open the pin', url },
     });
-    await ctx.mailer.send(person.email, mail).catch((err) => ctx.log(`[mail] mention to ${person.email} failed: ${(err as Error).message}`));
+    await ctx.mailer.send(person.email, mail).catch((err) => ctx.log(`[mail] mention to user ${person.id} failed: ${errorForLog(err, false)}`));
   }
 }
 

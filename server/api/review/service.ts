@@ -8,6 +8,7 @@ import { noticeMail } from '../../mail/templates.ts';
 import { roleAtLeast } from '../../../shared/model/roles.ts';
 import type { ReviewHistoryEntry, ReviewOutcome, ReviewStatus } from '../../../shared/model/review.ts';
 import { markInReview, recordOutcome, reviewHistoryPage, type ReviewSubject } from './repository.ts';
+import { errorForLog } from '../../log.ts';
 
 type Actor = { id: string; name: string };
 
@@ -81,7 +82,7 @@ export async function requestReview(ctx: AppContext, user: Actor, sketchId: stri
       paragraphs: [`${user.name} asks you to review the sketch “${sketch?.title ?? ''}” (revision ${sketch?.revision ?? '?'}).`, ...(input.message ? [`“${input.message}”`] : [])],
       action: { label: 'Open the sketch', url },
     });
-    await ctx.mailer.send(p.email, mail).catch((err) => ctx.log(`[mail] review request to ${p.email} failed: ${(err as Error).message}`));
+    await ctx.mailer.send(p.email, mail).catch((err) => ctx.log(`[mail] review request to user ${p.id} failed: ${errorForLog(err, false)}`));
   }
   await markInReview(ctx.db, sketchId, { actorId: user.id, detail: { reviewerIds: people.map((p) => p.id), reviewerNames: people.map((p) => p.name).join(', ') } });
   ctx.events.emit('sketchNotice', sketchId, 'status');

@@ -3,6 +3,7 @@ import { requireUser } from '../../auth/guards.ts';
 import { HttpError } from '../../http/errors.ts';
 import { parseSolveInput } from '../../../shared/model/solveInput.ts';
 import { solveSection } from '../../../shared/solver/index.ts';
+import { errorForLog } from '../../log.ts';
 
 /**
  * POST /api/solve: the solver as a service for signed-in users (scripts, other tools). Input is
@@ -20,7 +21,7 @@ export function solveRouter(log: (line: string) => void): Router {
       res.json(solveSection(parsed.value));
     } catch (err) {
       // The solver throws only for programmer errors; report it as such, not as a 500.
-      log(`[solve] solver failed on valid input: ${(err as Error).stack}`);
+      log(`[solve] solver failed on valid input: ${errorForLog(err)}`);
       throw new HttpError(422, 'solver_failed', 'The solver could not handle this input; it has been logged for the developers.');
     }
   });

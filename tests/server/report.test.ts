@@ -42,7 +42,10 @@ describe('the section report (PDF)', () => {
       expect(text).toContain('linear (Ackeret)');
       expect(text).toContain('second-order (Busemann)');
       expect(text).toContain('Per facet (selected design point)');
-      expect(text).toMatch(units === 'si' ? /upper 1 0\.2 [−\d.]+° fan [\d.]+ [\d.]+ [−\d.]+ [−\d.]+ [−\d.]+ [\d,.]+ Pa [−\d,.]+ N\/m/ : /upper 1 0\.2 [−\d.]+° fan [\d.]+ [\d.]+ [−\d.]+ [−\d.]+ [−\d.]+ [\d,.]+ lbf\/ft² [−\d,.]+ lbf\/ft/);
+      // Facet 0 is the edge from vertex 0 (the nose) to vertex 1, as in the loads CSV.
+      expect(text).toMatch(units === 'si' ? /upper 0 0\.2 [−\d.]+° fan [\d.]+ [\d.]+ [−\d.]+ [−\d.]+ [−\d.]+ [\d,.]+ Pa [−\d,.]+ N\/m/ : /upper 0 0\.2 [−\d.]+° fan [\d.]+ [\d.]+ [−\d.]+ [−\d.]+ [−\d.]+ [\d,.]+ lbf\/ft² [−\d,.]+ lbf\/ft/);
+      // The lower surface's first facet from the nose is the closing edge, vertex 3 → 0 (the CSV's lower,3).
+      expect(text).toMatch(/lower 3 0\.2 [−\d.]+° shock/);
       expect(text).toContain('Section coordinates as drawn (4 vertices)');
       expect(text).toMatch(units === 'si' ? /0 0 0 0 ?m 0 ?m/ : /0 0 0 0 ?ft 0 ?ft/); // pdftotext may drop the space before a short unit
       // The scale bar names a chord fraction and its length on the 0.32 m chord.

@@ -651,10 +651,10 @@ function facetTable(ctx: Ctx): void {
   const loads = facetLoads(data.analysis, data.document.loads);
   const byFacet = new Map(loads.ok ? loads.loads.facets.map((f) => [`${f.surface}|${f.facet}`, f]) : []);
   const rows = (['upper', 'lower'] as const).flatMap((surface) =>
-    r.surfaces[surface].map((f, i) => {
+    r.surfaces[surface].map((f) => {
       const l = byFacet.get(`${surface}|${f.index}`);
       return [
-        `${surface} ${i + 1}`,
+        `${surface} ${f.index}`,
         num(f.xMidOverC, 3),
         deg(f.thetaDeg),
         f.vacuum ? 'vacuum' : f.wave,
@@ -682,8 +682,8 @@ function facetTable(ctx: Ctx): void {
     { label: '(p − p∞)·length', width: CONTENT_W - 440, align: 'right' },
   ], rows, { size: 7, rowHeight: 11.5 });
   const note = loads.ok
-    ? `Facets numbered nose → tail on each surface. θ: deflection from the free stream (+ into the flow); wave at the facet's leading vertex. p and (p − p∞)·length per unit span (positive pressing on the facet) at the condition's altitude on the ${qty(data.document.loads.chordM, 'length', u)} chord; the Export menu's “Loads per facet (CSV)” has the forces and moments in both axes.`
-    : `Facets numbered nose → tail on each surface. No pressures in ${u === 'si' ? 'Pa' : 'lbf/ft²'}: ${loads.reason}`;
+    ? `Facet i is the edge from vertex i to i + 1 of the coordinates table, as on the canvas and in every CSV export; rows run nose → tail on each surface. θ: deflection from the free stream (+ into the flow); wave at the facet's leading vertex. p and (p − p∞)·length per unit span (positive pressing on the facet) at the condition's altitude on the ${qty(data.document.loads.chordM, 'length', u)} chord; the Export menu's “Loads per facet (CSV)” has the forces and moments in both axes.`
+    : `Facet i is the edge from vertex i to i + 1 of the coordinates table; rows run nose → tail on each surface. No pressures in ${u === 'si' ? 'Pa' : 'lbf/ft²'}: ${loads.reason}`;
   ctx.y += paragraph(ctx.doc, note, M.left, ctx.y - 4, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;
 }
 

@@ -8,8 +8,9 @@ import { HttpError } from './errors.ts';
  * included). A request over either bound is refused at once with 429 and a sentence saying
  * which bound and what to do — never queued, so refused work costs nothing.
  *
- * A slot is held from the start of the work until it settles, whether or not the person is still
- * waiting for the answer (closing the tab does not free a slot while its work still runs).
+ * A slot is held from the start of the work until it settles. A study whose request is closed
+ * (the tab closed, the request cancelled) stops at its next slice and settles, freeing its slot;
+ * a report is short and runs to its end.
  */
 export interface HeavyWorkLimits {
   /** Heavy requests one person may have running at once. */

@@ -1,8 +1,8 @@
 /**
  * Heavy work is bounded per person and per instance [H1] (server/http/heavyWork.ts): four
  * maximal studies running at once leave /api/health answering, and with the four slots taken a
- * fifth heavy request — or a person's third — is refused at once with a 429 that says why. No
- * timing is asserted.
+ * fifth heavy request — or a person's third — is refused at once with a 429 that says why; a
+ * study whose request is closed stops and frees its slot. No timing is asserted.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
@@ -81,6 +81,32 @@ describe('[H1] heavy work bounded per person and per instance', () => {
     expect(list.body.items.map((s: { name: string }) => s.name).sort()).toEqual(['A1', 'A2', 'B1', 'B2']);
     const elsewhere = await request(world.app).get(`/api/sketches/${outsiderSketch}/studies`).set('Cookie', outsider);
     expect(elsewhere.body.items.map((s: { name: string }) => s.name)).toEqual(['C2']);
+  });
+
+  it('a study whose request is closed stops, saves nothing and frees its slot', async () => {
+    const heavy = world.built.context.heavy;
+    const before = await request(world.app).get(`/api/sketches/${sketchId}/studies`).set('Cookie', editor);
+    // The person closes the tab while a maximal study runs (the request is aborted mid-way).
+    const closing = study(editor, sketchId, 'Closed tab');
+    const settled = closing.then(
+      () => 'answered',
+      () => 'aborted',
+    );
+    await expect.poll(() => heavy.running(), { timeout: 60_000 }).toBe(1);
+    closing.abort();
+    expect(await settled).toBe('aborted');
+    // The study stops at its next slice instead of running its 20,000 points to the end.
+    await expect.poll(() => heavy.running(), { timeout: 60_000 }).toBe(0);
+    const after = await request(world.app).get(`/api/sketches/${sketchId}/studies`).set('Cookie', editor);
+    expect(after.body.total).toBe(before.body.total);
+    expect(after.body.items.map((s: { name: string }) => s.name)).not.toContain('Closed tab');
+    // Both of the person's slots are free: two studies may start again.
+    let release!: () => void;
+    const held = new Promise<void>((r) => (release = r));
+    const two = [heavy.run(world.users.editor.id, 'held work', () => held), heavy.run(world.users.editor.id, 'held work', () => held)];
+    expect(heavy.running()).toBe(2);
+    release();
+    await Promise.all(two);
   });
 
   it('a refused or failed heavy request frees its slot: an invalid study and a report of an unknown study leave nothing running', async () => {

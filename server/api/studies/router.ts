@@ -21,7 +21,13 @@ export function studiesRouter(ctx: AppContext): Router {
   router.post('/sketches/:sketchId/studies', requireUser, async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');
     const body = parseOr400(createStudySchema, req.body);
-    res.status(201).json(await service.createStudy(ctx, currentUser(req).id, sketchId, body));
+    // Someone who closes the tab or cancels the request no longer waits for the study: it stops
+    // at its next slice, saves nothing and frees its heavy slot [H1].
+    const closed = new AbortController();
+    res.on('close', () => {
+      if (!res.writableFinished) closed.abort();
+    });
+    res.status(201).json(await service.createStudy(ctx, currentUser(req).id, sketchId, body, closed.signal));
   });
   router.get('/studies/:studyId', requireUser, async (req, res) => {
     const { studyId } = parseOr400(studyParams, req.params, 'params');

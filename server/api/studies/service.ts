@@ -17,13 +17,13 @@ export const STUDY_SLICE_MS = 25;
  * and is tied to the revision it was computed on. The work is done in slices of
  * STUDY_SLICE_MS between which the event loop serves other requests.
  */
-export async function createStudy(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy): Promise<StudyDetail> {
+export async function createStudy(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy, signal?: AbortSignal): Promise<StudyDetail> {
   await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'run and save studies');
   // [H1] one of the person's (and the instance's) few heavy slots, for the run and the save.
-  return ctx.heavy.run(userId, 'this study', () => computeAndSave(ctx, userId, sketchId, input));
+  return ctx.heavy.run(userId, 'this study', () => computeAndSave(ctx, userId, sketchId, input, signal));
 }
 
-async function computeAndSave(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy): Promise<StudyDetail> {
+async function computeAndSave(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy, signal?: AbortSignal): Promise<StudyDetail> {
   const sketch = await findSketch(ctx.db, sketchId);
   if (!sketch) throw new HttpError(404, 'not_found', 'No such sketch.');
   const document = normalizeDocument(sketch.document);
@@ -31,9 +31,14 @@ async function computeAndSave(ctx: AppContext, userId: string, sketchId: string,
   if (pointId !== undefined && !findDesignPoint(document, pointId)) {
     throw new HttpError(400, 'invalid_study', 'definition.designPointId: that design point is not in the sketch (perhaps someone removed it).');
   }
-  const outcome = await runStudySliced(sketchCase(document, pointId), input.definition, { pause: () => new Promise((r) => setImmediate(r)), sliceMs: STUDY_SLICE_MS });
+  const outcome = await runStudySliced(sketchCase(document, pointId), input.definition, {
+    pause: () => new Promise((r) => setImmediate(r)),
+    sliceMs: STUDY_SLICE_MS,
+    isCancelled: () => signal?.aborted ?? false,
+  });
   if (outcome.status === 'invalid') throw new HttpError(400, 'invalid_study', outcome.reason);
-  if (outcome.status === 'cancelled') throw new HttpError(500, 'study_cancelled', 'The study stopped before it finished.');
+  // Only a closed request cancels a study; nobody is left to read the answer.
+  if (outcome.status === 'cancelled') throw new HttpError(409, 'study_cancelled', `The study was cancelled after ${outcome.done} of ${outcome.total} points: the request was closed. Nothing was saved.`);
   const id = newId('study');
   await repo.insertStudy(ctx.db, {
     id,

@@ -56,7 +56,8 @@ scope.onmessage = (event: MessageEvent<WorkerRequest>) => {
       break;
     case 'canvas':
       canvas = msg.canvas;
-      context = canvas.getContext('2d');
+      // Opaque: the grid list paints the whole background, and the compositor then need not blend it.
+      context = canvas.getContext('2d', { alpha: false });
       bench = msg.bench;
       paint();
       break;

@@ -28,12 +28,17 @@ const EMPTY: DrawList = { paths: [], dots: [] };
  * FIELD_ROW_PX pixels. The free stream (p/p∞ = 1) and the section's inside stay unfilled.
  * The rows are read together (`pressureSteps`, a scanline) straight into a picture of one pixel
  * per column and row (`RowImage`), drawn stretched in one call: no rectangle per step.
+ *
+ * The list is meant to be drawn at once (as the scene painter does): the next call that builds
+ * a field for other inputs writes its picture into the same pixel buffer when the sizes match,
+ * so that a drag does not allocate (and the garbage collector sweep) a buffer of the canvas's
+ * size per move.
  */
 export function renderField(result: SolveResult | null, outline: readonly (readonly [number, number])[], view: View, size: Size, on: boolean, domain: PressureDomain): DrawList {
   if (!on || !result || result.waves.length === 0 || outline.length < 3) return EMPTY;
   const c = cached;
   if (c && c.result === result && c.outline === outline && sameView(c.view, view) && c.size.width === size.width && c.size.height === size.height && c.domain.min === domain.min && c.domain.max === domain.max) return c.list;
-  const list = fieldRows(result, outline, view, size, domain);
+  const list = fieldRows(result, outline, view, size, domain, c?.list.image?.pixels ?? null);
   cached = { result, outline, view: { ...view }, size: { ...size }, domain: { ...domain }, list };
   return list;
 }
@@ -42,7 +47,7 @@ function sameView(a: View, b: View): boolean {
   return a.scale === b.scale && a.originX === b.originX && a.originY === b.originY && (a.exaggeration ?? 1) === (b.exaggeration ?? 1);
 }
 
-function fieldRows(result: SolveResult, outline: readonly (readonly [number, number])[], view: View, size: Size, domain: PressureDomain): DrawList {
+function fieldRows(result: SolveResult, outline: readonly (readonly [number, number])[], view: View, size: Size, domain: PressureDomain, spare: Uint8ClampedArray<ArrayBuffer> | null): DrawList {
   const box = waveBox(result);
   const [sx0, sTop] = toScreen(view, [box.minX, box.maxY]);
   const [sx1, sBottom] = toScreen(view, [box.maxX, box.minY]);
@@ -58,7 +63,8 @@ function fieldRows(result: SolveResult, outline: readonly (readonly [number, num
   // One pixel per column and per row; a step [x0, x1) fills the columns whose centres it holds.
   const imageX = Math.floor(left);
   const width = Math.ceil(right) - imageX;
-  const pixels = new Uint8ClampedArray(width * ys.length * 4);
+  const length = width * ys.length * 4;
+  const pixels = spare && spare.length === length ? spare.fill(0) : new Uint8ClampedArray(length);
   const words = new Uint32Array(pixels.buffer);
   const colourWords = pressureColourWords();
   const { scale, originX } = view;

@@ -65,6 +65,25 @@ describe('[DR4] pressure field layer, meeting marks and the line-style key', () 
     expect(renderField(result, pts, view, size, false, domain).image).toBeUndefined();
   });
 
+  it('a field built after another of the same size is written into its pixel buffer from scratch: nothing of the earlier one stays', () => {
+    const parsedOther = parseSolveInput({ section: { points: pts }, flow: { mach: 3, alphaDeg: -3 } });
+    if (!parsedOther.ok) throw new Error('bad input');
+    const other = solveSection(parsedOther.value);
+    const domain = resultDomain(result);
+    // A canvas size of its own: the first picture gets a buffer of its own, a reference.
+    const size2 = { width: 880, height: 560 };
+    const first = renderField(other, pts, view, size2, true, domain).image!;
+    const firstPixels = first.pixels.slice();
+    const between = renderField(result, pts, view, size2, true, domain).image!;
+    // The same buffer (no new one per move of a drag), now holding the other field.
+    expect(between.pixels).toBe(first.pixels);
+    const differing = (a: Uint8ClampedArray, b: Uint8ClampedArray) => a.reduce((n, v, i) => n + (v === b[i] ? 0 : 1), 0);
+    expect(differing(between.pixels, firstPixels)).toBeGreaterThan(1000);
+    const again = renderField(other, pts, view, size2, true, domain).image!;
+    expect(again.pixels).toHaveLength(firstPixels.length);
+    expect(differing(again.pixels, firstPixels)).toBe(0);
+  });
+
   it('the row picture is drawn in one stretched, unsmoothed image draw inside the field box', () => {
     const image = renderField(result, pts, view, size, true, resultDomain(result)).image!;
     const calls: string[] = [];

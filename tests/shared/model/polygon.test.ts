@@ -1,9 +1,12 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { reached } from '../../helpers/reached';
 import { expectClose } from '../../helpers/expectClose';
 import {
   allCollinear,
   findRepeatedPoint,
   findSelfIntersection,
+  findSelfIntersectionNear,
   isSimplePolygon,
   signedArea,
   type XY,
@@ -51,6 +54,46 @@ describe('findSelfIntersection', () => {
   it('findSelfIntersection catches a vertex touching a non-adjacent side', () => {
     const touching: XY[] = [[0, 0], [2, 0], [2, 2], [1, 0], [0, 2]];
     expect(findSelfIntersection(touching)).not.toBeNull();
+  });
+});
+
+describe('findSelfIntersection: the sweep gives the full pairwise scan\'s answer', () => {
+  const everyEdge = (points: readonly XY[]) => points.map((_, i) => i);
+
+  it('on random polygons of a small integer grid (exact touches, shared lines, folds, crossings): the same pair or null as the scan (property)', () => {
+    const checked = reached('sweep against the pairwise scan');
+    let crossed = 0;
+    fc.assert(
+      fc.property(fc.array(fc.tuple(fc.integer({ min: 0, max: 6 }), fc.integer({ min: 0, max: 6 })), { minLength: 3, maxLength: 24 }), (raw) => {
+        const points = raw as XY[];
+        const full = findSelfIntersectionNear(points, everyEdge(points));
+        checked.hit();
+        if (full) crossed++;
+        expect(findSelfIntersection(points)).toEqual(full);
+      }),
+      { numRuns: 400 },
+    );
+    checked.expectAtLeast(400);
+    // Both outcomes were exercised.
+    expect(crossed).toBeGreaterThan(50);
+    expect(crossed).toBeLessThan(400);
+  });
+
+  it('a faceted lens of 400 vertices is simple; dent one vertex through the other surface and the first crossing pair is the scan\'s', () => {
+    const m = 200;
+    const upper: XY[] = [];
+    const lower: XY[] = [];
+    for (let i = 0; i <= m; i++) {
+      const x = i / m;
+      upper.push([x, 0.12 * x * (1 - x)]);
+      lower.push([x, -0.12 * x * (1 - x)]);
+    }
+    const lens = [...upper, ...lower.slice(1, -1).reverse()];
+    expect(findSelfIntersection(lens)).toBeNull();
+    const dented = lens.map((p, i) => (i === 60 ? ([p[0], -0.05] as XY) : p));
+    const full = findSelfIntersectionNear(dented, everyEdge(dented));
+    expect(full).not.toBeNull();
+    expect(findSelfIntersection(dented)).toEqual(full);
   });
 });
 

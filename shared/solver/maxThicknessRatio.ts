@@ -1,3 +1,4 @@
+import { firstItem, itemAt, lastItem, present } from '../util/invariant.ts';
 import type { SurfaceChain } from './splitSurfaces';
 
 /**
@@ -14,23 +15,23 @@ import type { SurfaceChain } from './splitSurfaces';
  * Source: common practice (thickness ratio t/c, measured normal to the chord line).
  */
 export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower: Pick<SurfaceChain, 'xs' | 'ys'>): number {
-  const x0 = upper.xs[0];
-  const y0 = upper.ys[0];
-  const ex = upper.xs[upper.xs.length - 1] - x0;
-  const ey = upper.ys[upper.ys.length - 1] - y0;
+  // A chain runs nose → tail with at least one facet, so both ends exist.
+  const x0 = firstItem(upper.xs);
+  const y0 = firstItem(upper.ys);
+  const ex = lastItem(upper.xs) - x0;
+  const ey = lastItem(upper.ys) - y0;
   const chord = Math.hypot(ex, ey);
   if (!(chord > 0)) return 0;
   const cx = ex / chord;
   const cy = ey / chord;
   const toChordAxes = (c: Pick<SurfaceChain, 'xs' | 'ys'>) => {
-    const n = c.xs.length;
-    const xs: number[] = new Array(n);
-    const ys: number[] = new Array(n);
-    for (let i = 0; i < n; i++) {
-      const x = (c.xs[i] as number) - x0;
-      const y = (c.ys[i] as number) - y0;
-      xs[i] = x * cx + y * cy;
-      ys[i] = -x * cy + y * cx;
+    const xs: number[] = [];
+    const ys: number[] = [];
+    for (let i = 0; i < c.xs.length; i++) {
+      const x = present(c.xs[i], i, c.xs) - x0;
+      const y = present(c.ys[i], i, c.ys) - y0;
+      xs.push(x * cx + y * cy);
+      ys.push(-x * cy + y * cx);
     }
     return { xs, ys };
   };
@@ -44,7 +45,11 @@ export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower:
 }
 
 function monotone(xs: readonly number[]): boolean {
-  for (let i = 1; i < xs.length; i++) if (xs[i] < xs[i - 1]) return false;
+  let before = -Infinity;
+  for (const x of xs) {
+    if (x < before) return false;
+    before = x;
+  }
   return true;
 }
 
@@ -53,20 +58,23 @@ function sweep(a: Pick<SurfaceChain, 'xs' | 'ys'>, b: Pick<SurfaceChain, 'xs' | 
   let best = -Infinity;
   let j = 0;
   const nb = b.xs.length;
+  // j stays below nb − 1, so b's segment j → j + 1 exists (a chain has at least two vertices).
   for (let i = 0; i < a.xs.length; i++) {
-    const x = a.xs[i];
-    while (j < nb - 2 && b.xs[j + 1] < x) j++;
-    const x0 = b.xs[j];
-    const x1 = b.xs[j + 1];
+    const x = present(a.xs[i], i, a.xs);
+    while (j < nb - 2 && present(b.xs[j + 1], j + 1, b.xs) < x) j++;
+    const x0 = present(b.xs[j], j, b.xs);
+    const x1 = present(b.xs[j + 1], j + 1, b.xs);
+    const y0 = present(b.ys[j], j, b.ys);
+    const y1 = present(b.ys[j + 1], j + 1, b.ys);
     let yb: number;
     if (x1 > x0) {
       const f = Math.min(1, Math.max(0, (x - x0) / (x1 - x0)));
-      yb = b.ys[j] + f * (b.ys[j + 1] - b.ys[j]);
+      yb = y0 + f * (y1 - y0);
     } else {
       // A vertical step in b: take the side that keeps the thickness smallest.
-      yb = sign > 0 ? Math.max(b.ys[j], b.ys[j + 1]) : Math.min(b.ys[j], b.ys[j + 1]);
+      yb = sign > 0 ? Math.max(y0, y1) : Math.min(y0, y1);
     }
-    const t = sign * (a.ys[i] - yb);
+    const t = sign * (present(a.ys[i], i, a.ys) - yb);
     if (t > best) best = t;
   }
   return best;
@@ -75,7 +83,7 @@ function sweep(a: Pick<SurfaceChain, 'xs' | 'ys'>, b: Pick<SurfaceChain, 'xs' | 
 function extentAtVertices(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower: Pick<SurfaceChain, 'xs' | 'ys'>): number {
   const edges: [number, number, number, number][] = [];
   for (const c of [upper, lower]) {
-    for (let k = 0; k + 1 < c.xs.length; k++) edges.push([c.xs[k], c.ys[k], c.xs[k + 1], c.ys[k + 1]]);
+    for (let k = 0; k + 1 < c.xs.length; k++) edges.push([itemAt(c.xs, k), itemAt(c.ys, k), itemAt(c.xs, k + 1), itemAt(c.ys, k + 1)]);
   }
   let best = 0;
   for (const c of [upper, lower]) {

@@ -1,4 +1,5 @@
 import type { SolveInput } from '../model/solveInput';
+import { firstItem, firstItems, itemAt, lastItem, present } from '../util/invariant.ts';
 import {
   COEFFICIENT_ZERO,
   DEG_PER_RAD,
@@ -74,8 +75,8 @@ export function solveSection(input: SolveInput): SolveResult {
   const alpha = alphaDeg * RAD_PER_DEG;
   const split = splitSurfaces(points);
   const chord = split.chord;
-  const nosePt = points[split.noseIndex];
-  const tailPt = points[split.tailIndex];
+  const nosePt = itemAt(points, split.noseIndex);
+  const tailPt = itemAt(points, split.tailIndex);
   const nose: Point = [nosePt[0], nosePt[1]];
   const tail: Point = [tailPt[0], tailPt[1]];
   const refChord = input.reference?.chord ?? chord;
@@ -170,13 +171,7 @@ export function solveSection(input: SolveInput): SolveResult {
   let match: TailMatch | null = null;
   let trailingEdge: TrailingEdge;
   if (ok) {
-    const lu = facetsU.length - 1;
-    const ll = facetsL.length - 1;
-    match = matchTrailingEdge(
-      { mach: marchU.mach[lu], pRatio: marchU.pRatio[lu], direction: upperChain.phi[lu], nu: marchU.nu[lu] },
-      { mach: marchL.mach[ll], pRatio: marchL.pRatio[ll], direction: lowerChain.phi[ll], nu: marchL.nu[ll] },
-      gamma,
-    );
+    match = matchTrailingEdge(streamAtTail(marchU, upperChain), streamAtTail(marchL, lowerChain), gamma);
     trailingEdge = trailingEdgeResult(match);
     if (trailingEdge.message) warnings.push(trailingEdge.message);
   } else if (status === 'vacuum') {
@@ -194,7 +189,7 @@ export function solveSection(input: SolveInput): SolveResult {
       warnings.push(
         `The exact coefficients include zero pressure (p = 0, Cp = ${ctx.cpVacuum.toPrecision(4)}) on ` +
           `${count === 1 ? 'the last facet' : `the last ${count} facets`} of the ${name} surface, from vertex ` +
-          `${upperOrLower(name, upperChain, lowerChain).vertices[march.solved]}, where the expansion reaches the Prandtl-Meyer limit: the theory's limiting value, not a measured one.`,
+          `${itemAt(upperOrLower(name, upperChain, lowerChain).vertices, march.solved)}, where the expansion reaches the Prandtl-Meyer limit: the theory's limiting value, not a measured one.`,
       );
     }
   }
@@ -252,14 +247,15 @@ function upperOrLower(name: SurfaceName, upper: SurfaceChain, lower: SurfaceChai
   return name === 'upper' ? upper : lower;
 }
 
+/** The stream on a surface's last facet (every facet solved): what the trailing edge matches. */
+function streamAtTail(march: SurfaceMarch, chain: SurfaceChain): { mach: number; pRatio: number; direction: number; nu: number } {
+  const last = chain.phi.length - 1;
+  return { mach: itemAt(march.mach, last), pRatio: itemAt(march.pRatio, last), direction: itemAt(chain.phi, last), nu: itemAt(march.nu, last) };
+}
+
 /** Pressure coefficients c1·θ + c2·θ² per facet (c2 = 0: linear theory). */
 function theoryCp(theta: readonly number[], c1: number, c2: number): number[] {
-  const out: number[] = new Array(theta.length);
-  for (let k = 0; k < theta.length; k++) {
-    const t = theta[k];
-    out[k] = c1 * t + c2 * t * t;
-  }
-  return out;
+  return theta.map((t) => c1 * t + c2 * t * t);
 }
 
 /**
@@ -291,12 +287,25 @@ function buildFacets(
   const ys = chain.ys;
   const solvedCount = march ? march.solved : 0;
   const vacuumFrom = march && march.limit?.status === 'vacuum' ? march.solved : m;
-  let from: Point = [xs[0], ys[0]];
+  let from: Point = [firstItem(xs), firstItem(ys)];
+  let thetaBefore = 0; // the free stream's: the first facet's turn is its deflection
   for (let k = 0; k < m; k++) {
-    const turn = k === 0 ? theta[0] : theta[k] - theta[k - 1];
-    const to: Point = [xs[k + 1], ys[k + 1]];
+    // Facet k of the chain runs from vertex k to vertex k + 1; theta, the march and the
+    // chain's per-facet lists all have one entry per facet, so k indexes each of them.
+    const thetaK = present(theta[k], k, theta);
+    const turn = thetaK - thetaBefore;
+    thetaBefore = thetaK;
+    const to: Point = [present(xs[k + 1], k + 1, xs), present(ys[k + 1], k + 1, ys)];
+    const index = present(chain.edges[k], k, chain.edges);
+    const length = present(chain.length[k], k, chain.length);
+    const phiDeg = present(chain.phi[k], k, chain.phi) * degPerRad;
+    const thetaDeg = thetaK * degPerRad;
+    const turnDeg = turn * degPerRad;
+    const cpLinear = cpLin ? present(cpLin[k], k, cpLin) : null;
+    const cpSecondOrder = cp2 ? present(cp2[k], k, cp2) : null;
+    const xMidOverC = (0.5 * (from[0] + to[0]) - noseX) / chord;
     const wave: FacetWave = march
-      ? march.wave[k]
+      ? present(march.wave[k], k, march.wave)
       : turn > zeroTurn
         ? 'shock'
         : turn < -zeroTurn
@@ -308,42 +317,42 @@ function buildFacets(
     // object spread measured ~100× slower in this hot loop (V8 loses the fixed object shape).
     let facet: Facet;
     if (march && k < solvedCount) {
-      const mk = march.mach[k];
-      const p = march.pRatio[k];
+      const mk = present(march.mach[k], k, march.mach);
+      const p = present(march.pRatio[k], k, march.pRatio);
       const t = t0 / (1 + h * mk * mk);
       const cp = (p - 1) * qScale;
       if (cpOut) cpOut[k] = cp;
       facet = {
-        index: chain.edges[k],
+        index,
         from,
         to,
-        length: chain.length[k],
-        phiDeg: chain.phi[k] * degPerRad,
-        thetaDeg: theta[k] * degPerRad,
-        turnDeg: turn * degPerRad,
+        length,
+        phiDeg,
+        thetaDeg,
+        turnDeg,
         wave,
         solved: true,
         mach: mk,
         pRatio: p,
         tRatio: t,
         rhoRatio: p / t,
-        p0Ratio: march.p0Ratio[k],
+        p0Ratio: present(march.p0Ratio[k], k, march.p0Ratio),
         cp,
-        cpLinear: cpLin ? cpLin[k] : null,
-        cpSecondOrder: cp2 ? cp2[k] : null,
+        cpLinear,
+        cpSecondOrder,
         vacuum: false,
-        xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
+        xMidOverC,
       };
     } else if (k >= vacuumFrom) {
       if (cpOut) cpOut[k] = cpVacuum;
       facet = {
-        index: chain.edges[k],
+        index,
         from,
         to,
-        length: chain.length[k],
-        phiDeg: chain.phi[k] * degPerRad,
-        thetaDeg: theta[k] * degPerRad,
-        turnDeg: turn * degPerRad,
+        length,
+        phiDeg,
+        thetaDeg,
+        turnDeg,
         wave,
         solved: false,
         mach: null,
@@ -352,20 +361,20 @@ function buildFacets(
         rhoRatio: null,
         p0Ratio: null,
         cp: cpVacuum,
-        cpLinear: cpLin ? cpLin[k] : null,
-        cpSecondOrder: cp2 ? cp2[k] : null,
+        cpLinear,
+        cpSecondOrder,
         vacuum: true,
-        xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
+        xMidOverC,
       };
     } else {
       facet = {
-        index: chain.edges[k],
+        index,
         from,
         to,
-        length: chain.length[k],
-        phiDeg: chain.phi[k] * degPerRad,
-        thetaDeg: theta[k] * degPerRad,
-        turnDeg: turn * degPerRad,
+        length,
+        phiDeg,
+        thetaDeg,
+        turnDeg,
         wave,
         solved: false,
         mach: null,
@@ -374,10 +383,10 @@ function buildFacets(
         rhoRatio: null,
         p0Ratio: null,
         cp: null,
-        cpLinear: cpLin ? cpLin[k] : null,
-        cpSecondOrder: cp2 ? cp2[k] : null,
+        cpLinear,
+        cpSecondOrder,
         vacuum: false,
-        xMidOverC: (0.5 * (xs[k] + xs[k + 1]) - noseX) / chord,
+        xMidOverC,
       };
     }
     out[k] = facet;
@@ -450,8 +459,9 @@ function surfaceLimit(
   points: readonly (readonly [number, number])[],
   gamma: number,
 ): SolveLimit {
-  const vertex = chain.vertices[limit.facet];
-  const at: Point = [points[vertex][0], points[vertex][1]];
+  const vertex = itemAt(chain.vertices, limit.facet);
+  const [x, y] = itemAt(points, vertex);
+  const at: Point = [x, y];
   const atNose = limit.facet === 0;
   const where = atNose ? 'at the nose' : `at vertex ${vertex}`;
   const what = atNose ? 'deflection' : 'turn';
@@ -510,15 +520,23 @@ function bluntLimit(
   end: 'nose' | 'tail',
 ): SolveLimit {
   // The face's vertex of least y is the one the geometry reports as nose/tail.
-  let vertex = tied[0];
-  for (const i of tied) if (points[i][1] < points[vertex][1]) vertex = i;
-  const list =
-    tied.length === 2 ? `vertices ${tied[0]} and ${tied[1]}` : `vertices ${tied.slice(0, -1).join(', ')} and ${tied[tied.length - 1]}`;
+  // A vertical face has at least two vertices.
+  let vertex = firstItem(tied);
+  let at = itemAt(points, vertex);
+  for (const i of tied) {
+    const p = itemAt(points, i);
+    if (p[1] < at[1]) {
+      vertex = i;
+      at = p;
+    }
+  }
+  const [a, b] = firstItems(tied, 2);
+  const list = tied.length === 2 ? `vertices ${a} and ${b}` : `vertices ${tied.slice(0, -1).join(', ')} and ${lastItem(tied)}`;
   return {
     status: 'blunt',
     surface: end === 'nose' ? 'leadingEdge' : 'trailingEdge',
     vertex,
-    at: [points[vertex][0], points[vertex][1]],
+    at: [at[0], at[1]],
     message:
       `Blunt ${end}: ${list} form a vertical face at the ${end === 'nose' ? 'minimum' : 'maximum'} x; ` +
       `the shock-expansion method needs a single sharp ${end}.`,
@@ -605,21 +623,24 @@ function shockWarnings(
 ): void {
   for (let k = 0; k < march.solved; k++) {
     if (march.wave[k] !== 'shock') continue;
-    const name = k === 0 ? 'nose shock' : `shock at vertex ${chain.vertices[k]}`;
-    const turn = march.turn[k];
-    const mAhead = k === 0 ? machInf : march.mach[k - 1];
-    if ((march.thetaMax[k] - turn) * DEG_PER_RAD < NEAR_DETACHMENT_WARNING_DEG) {
-      const f = degreesApart([[turn, march.thetaMax[k]]]);
+    // k < solved: facet k and the one before it carry a state.
+    const name = k === 0 ? 'nose shock' : `shock at vertex ${itemAt(chain.vertices, k)}`;
+    const turn = itemAt(march.turn, k);
+    const thetaMax = itemAt(march.thetaMax, k);
+    const machBehind = itemAt(march.mach, k);
+    const mAhead = k === 0 ? machInf : itemAt(march.mach, k - 1);
+    if ((thetaMax - turn) * DEG_PER_RAD < NEAR_DETACHMENT_WARNING_DEG) {
+      const f = degreesApart([[turn, thetaMax]]);
       warnings.push(
         `The ${name} on the ${surface} surface is within 1° of detachment: ` +
           `${k === 0 ? 'deflection' : 'turn'} ${f(turn)}° against a maximum of ` +
-          `${f(march.thetaMax[k])}° at ${k === 0 ? 'M' : 'local M'} ${m2(mAhead)}.`,
+          `${f(thetaMax)}° at ${k === 0 ? 'M' : 'local M'} ${m2(mAhead)}.`,
       );
     }
-    if (march.mach[k] < NEAR_SONIC_WARNING_MACH) {
+    if (machBehind < NEAR_SONIC_WARNING_MACH) {
       warnings.push(
         `Flow behind the ${name} on the ${surface} surface is barely supersonic ` +
-          `(M ${machNearOne(march.mach[k])}); a slightly larger deflection would make it subsonic.`,
+          `(M ${machNearOne(machBehind)}); a slightly larger deflection would make it subsonic.`,
       );
     }
   }

@@ -1,3 +1,4 @@
+import { firstItem, lastItem, present } from '../util/invariant.ts';
 import type { XY } from '../model/polygon';
 
 /**
@@ -28,27 +29,25 @@ export type BodyHit = (ox: number, oy: number, dx: number, dy: number, skipVerte
  * line-segment intersection by cross products (common practice).
  */
 export function bodyHitTest(points: readonly XY[], eps: number): BodyHit {
-  const n = points.length;
-  const order = Array.from({ length: n }, (_, i) => i);
-  const px = (i: number) => (points[i] as XY)[0];
-  const py = (i: number) => (points[i] as XY)[1];
-  order.sort((a, b) => px(a) - px(b) || py(a) - py(b));
-  const cross = (o: number, a: number, b: number) => (px(a) - px(o)) * (py(b) - py(o)) - (py(a) - py(o)) * (px(b) - px(o));
-  const lowerHull: number[] = [];
-  for (const i of order) {
-    while (lowerHull.length >= 2 && cross(lowerHull[lowerHull.length - 2] as number, lowerHull[lowerHull.length - 1] as number, i) <= 0) lowerHull.pop();
-    lowerHull.push(i);
-  }
-  const upperHull: number[] = [];
-  for (const i of order) {
-    while (upperHull.length >= 2 && cross(upperHull[upperHull.length - 2] as number, upperHull[upperHull.length - 1] as number, i) >= 0) upperHull.pop();
-    upperHull.push(i);
-  }
-  const chain = (idx: number[]) => ({ xs: idx.map(px), ys: idx.map(py) });
-  const up = chain(upperHull);
-  const lo = chain(lowerHull);
-  const minX = px(order[0] as number);
-  const maxX = px(order[n - 1] as number);
+  // The vertices in order of x, then y (Andrew's order), as records: the sort and the hull
+  // read their coordinates without indexing into the outline.
+  const sorted = points.map(([x, y]) => ({ x, y })).sort((a, b) => a.x - b.x || a.y - b.y);
+  const cross = (o: Vertex, a: Vertex, b: Vertex) => (a.x - o.x) * (b.y - o.y) - (a.y - o.y) * (b.x - o.x);
+  // One chain of the hull: a vertex stays while the chain turns counter-clockwise (side +1,
+  // the lower chain) or clockwise (−1, the upper chain) at the last vertex kept.
+  const hullChain = (side: 1 | -1): Vertex[] => {
+    const out: Vertex[] = [];
+    for (const v of sorted) {
+      for (let h = out.length; h >= 2 && side * cross(present(out[h - 2], h - 2, out), present(out[h - 1], h - 1, out), v) <= 0; h--) out.pop();
+      out.push(v);
+    }
+    return out;
+  };
+  const chain = (vs: Vertex[]) => ({ xs: vs.map((v) => v.x), ys: vs.map((v) => v.y) });
+  const up = chain(hullChain(-1));
+  const lo = chain(hullChain(1));
+  const minX = firstItem(sorted).x;
+  const maxX = lastItem(sorted).x;
 
   /** Index of the hull segment whose x-span holds x (the one to its right at a vertex). */
   const segmentAt = (xs: number[], x: number): number => {
@@ -56,17 +55,17 @@ export function bodyHitTest(points: readonly XY[], eps: number): BodyHit {
     let hi = xs.length - 1;
     while (hi - lo2 > 1) {
       const mid = (lo2 + hi) >> 1;
-      if ((xs[mid] as number) <= x) lo2 = mid;
+      if (present(xs[mid], mid, xs) <= x) lo2 = mid;
       else hi = mid;
     }
     return lo2;
   };
   const clearOf = (c: { xs: number[]; ys: number[] }, sign: 1 | -1, ox: number, oy: number, dx: number, dy: number): boolean => {
     const k = segmentAt(c.xs, ox);
-    const x0 = c.xs[k] as number;
-    const x1 = c.xs[k + 1] as number;
-    const y0 = c.ys[k] as number;
-    const y1 = c.ys[k + 1] as number;
+    const x0 = present(c.xs[k], k, c.xs);
+    const x1 = present(c.xs[k + 1], k + 1, c.xs);
+    const y0 = present(c.ys[k], k, c.ys);
+    const y1 = present(c.ys[k + 1], k + 1, c.ys);
     if (!(x1 > x0)) return false;
     const slope = (y1 - y0) / (x1 - x0);
     const yHull = y0 + slope * (ox - x0);
@@ -80,24 +79,43 @@ export function bodyHitTest(points: readonly XY[], eps: number): BodyHit {
       if (ox >= minX && (clearOf(up, 1, ox, oy, dx, dy) || clearOf(lo, -1, ox, oy, dx, dy))) return Infinity;
     }
     let best = Infinity;
-    for (let i = 0; i < n; i++) {
-      const j = i + 1 === n ? 0 : i + 1;
-      if (i === skipVertex || j === skipVertex) continue;
-      const pi = points[i] as XY;
-      const pj = points[j] as XY;
-      const first = pi[0] < pj[0] || (pi[0] === pj[0] && pi[1] < pj[1]);
-      const p = first ? pi : pj;
-      const q = first ? pj : pi;
-      const ex = q[0] - p[0];
-      const ey = q[1] - p[1];
-      const den = dx * ey - dy * ex;
-      if (den === 0) continue;
-      const wx = p[0] - ox;
-      const wy = p[1] - oy;
-      const t = (wx * ey - wy * ex) / den;
-      const u = (wx * dy - wy * dx) / den;
-      if (t > eps && u >= 0 && u <= 1 && t < best) best = t;
+    // Side i runs from vertex i to vertex j = i + 1, the closing side from the last vertex to 0.
+    let i = points.length - 1;
+    let pi = lastItem(points);
+    let j = 0;
+    for (const pj of points) {
+      if (i !== skipVertex && j !== skipVertex) {
+        const t = sideHit(pi, pj, ox, oy, dx, dy);
+        if (t > eps && t < best) best = t;
+      }
+      i = j++;
+      pi = pj;
     }
     return best;
   };
+}
+
+interface Vertex {
+  x: number;
+  y: number;
+}
+
+/**
+ * Distance along the line from (ox, oy) in the direction (dx, dy) to where it crosses the side
+ * a–b (ends included), or −Infinity when it does not. The side is taken from its
+ * lexicographically smaller end, so that the input's vertex order cannot change the rounding.
+ */
+function sideHit(a: XY, b: XY, ox: number, oy: number, dx: number, dy: number): number {
+  const first = a[0] < b[0] || (a[0] === b[0] && a[1] < b[1]);
+  const p = first ? a : b;
+  const q = first ? b : a;
+  const ex = q[0] - p[0];
+  const ey = q[1] - p[1];
+  const den = dx * ey - dy * ex;
+  if (den === 0) return -Infinity;
+  const wx = p[0] - ox;
+  const wy = p[1] - oy;
+  const t = (wx * ey - wy * ex) / den;
+  const u = (wx * dy - wy * dx) / den;
+  return u >= 0 && u <= 1 ? t : -Infinity;
 }

@@ -1,3 +1,5 @@
+import { present } from '../util/invariant.ts';
+
 /** A crossing of two drawn lines: the point and the two line indices. */
 export interface LineCrossing {
   x: number;
@@ -37,8 +39,10 @@ export function crossWaveFamilies(coords: Float64Array, start: Int32Array, famil
   for (let i = 0; i < lineCount; i++) {
     const f = families[i];
     if (f === 0) continue;
-    for (let k = start[i] as number; k < (start[i + 1] as number); k++) {
-      const y = coords[2 * k + 1] as number;
+    // start has lineCount + 1 entries: line i's points are start[i] … start[i + 1] − 1.
+    const end = present(start[i + 1], i + 1, start);
+    for (let k = present(start[i], i, start); k < end; k++) {
+      const y = present(coords[2 * k + 1], 2 * k + 1, coords);
       if (f === 1 && y < bandLo) bandLo = y;
       if (f === -1 && y > bandHi) bandHi = y;
     }
@@ -51,19 +55,21 @@ export function crossWaveFamilies(coords: Float64Array, start: Int32Array, famil
     x0: number;
     x1: number;
   }
-  const parts: Part[][] = [[], []];
+  const ups: Part[] = [];
+  const downs: Part[] = [];
   let minX = Infinity;
   let maxX = -Infinity;
   if (bandLo < bandHi) {
     for (let i = 0; i < lineCount; i++) {
       const f = families[i];
       if (f === 0) continue;
-      const first = start[i] as number;
-      for (let k = first; k + 1 < (start[i + 1] as number); k++) {
-        const ax = coords[2 * k] as number;
-        const ay = coords[2 * k + 1] as number;
-        const bx = coords[2 * k + 2] as number;
-        const by = coords[2 * k + 3] as number;
+      const first = present(start[i], i, start);
+      const end = present(start[i + 1], i + 1, start);
+      for (let k = first; k + 1 < end; k++) {
+        const ax = present(coords[2 * k], 2 * k, coords);
+        const ay = present(coords[2 * k + 1], 2 * k + 1, coords);
+        const bx = present(coords[2 * k + 2], 2 * k + 2, coords);
+        const by = present(coords[2 * k + 3], 2 * k + 3, coords);
         let t0 = 0;
         let t1 = 1;
         const ey = by - ay;
@@ -80,14 +86,12 @@ export function crossWaveFamilies(coords: Float64Array, start: Int32Array, famil
         const xb = ax + t1 * (bx - ax);
         const x0 = Math.min(xa, xb);
         const x1 = Math.max(xa, xb);
-        (parts[f === 1 ? 0 : 1] as Part[]).push({ line: i, seg: k - first, x0, x1 });
+        (f === 1 ? ups : downs).push({ line: i, seg: k - first, x0, x1 });
         if (x0 < minX) minX = x0;
         if (x1 > maxX) maxX = x1;
       }
     }
   }
-  const ups = parts[0] as Part[];
-  const downs = parts[1] as Part[];
   if (ups.length > 0 && downs.length > 0) {
     const slabs = Math.max(1, Math.min(4096, Math.ceil(Math.sqrt(ups.length + downs.length))));
     const width = (maxX - minX) / slabs || 1;
@@ -98,16 +102,16 @@ export function crossWaveFamilies(coords: Float64Array, start: Int32Array, famil
       [1, downs],
     ] as const) {
       for (let n = 0; n < list.length; n++) {
-        const part = list[n] as Part;
-        for (let s = slabOf(part.x0); s <= slabOf(part.x1); s++) (bins[s] as [number[], number[]])[side].push(n);
+        const part = present(list[n], n, list);
+        for (let s = slabOf(part.x0); s <= slabOf(part.x1); s++) present(bins[s], s, bins)[side].push(n);
       }
     }
     for (let s = 0; s < slabs; s++) {
-      const [us, ds] = bins[s] as [number[], number[]];
+      const [us, ds] = present(bins[s], s, bins);
       for (const u of us) {
-        const pu = ups[u] as Part;
+        const pu = present(ups[u], u, ups);
         for (const d of ds) {
-          const pd = downs[d] as Part;
+          const pd = present(downs[d], d, downs);
           const hit = segmentCrossing(coords, start, pu.line, pu.seg, pd.line, pd.seg, eps);
           if (hit && slabOf(hit[0]) === s) out.push({ x: hit[0], y: hit[1], a: pu.line, b: pd.line, segA: pu.seg, segB: pd.seg });
         }
@@ -118,10 +122,10 @@ export function crossWaveFamilies(coords: Float64Array, start: Int32Array, famil
   // Slip lines against every wave segment.
   for (let i = 0; i < lineCount; i++) {
     if (families[i] !== 0) continue;
-    const slipSegments = (start[i + 1] as number) - (start[i] as number) - 1;
+    const slipSegments = present(start[i + 1], i + 1, start) - present(start[i], i, start) - 1;
     for (let j = 0; j < lineCount; j++) {
       if (families[j] === 0 && j <= i) continue; // each pair of slip lines once
-      const segments = (start[j + 1] as number) - (start[j] as number) - 1;
+      const segments = present(start[j + 1], j + 1, start) - present(start[j], j, start) - 1;
       for (let k = 0; k < segments; k++) {
         for (let m = 0; m < slipSegments; m++) {
           const hit = segmentCrossing(coords, start, j, k, i, m, eps);
@@ -135,16 +139,16 @@ export function crossWaveFamilies(coords: Float64Array, start: Int32Array, famil
 
 /** The crossing point of segment sa of line a and segment sb of line b, if inside both. */
 function segmentCrossing(coords: Float64Array, start: Int32Array, a: number, sa: number, b: number, sb: number, eps: number): [number, number] | null {
-  const ka = 2 * ((start[a] as number) + sa);
-  const kb = 2 * ((start[b] as number) + sb);
-  const ax = coords[ka] as number;
-  const ay = coords[ka + 1] as number;
-  const ex = (coords[ka + 2] as number) - ax;
-  const ey = (coords[ka + 3] as number) - ay;
-  const bx = coords[kb] as number;
-  const by = coords[kb + 1] as number;
-  const fx = (coords[kb + 2] as number) - bx;
-  const fy = (coords[kb + 3] as number) - by;
+  const ka = 2 * (present(start[a], a, start) + sa);
+  const kb = 2 * (present(start[b], b, start) + sb);
+  const ax = present(coords[ka], ka, coords);
+  const ay = present(coords[ka + 1], ka + 1, coords);
+  const ex = present(coords[ka + 2], ka + 2, coords) - ax;
+  const ey = present(coords[ka + 3], ka + 3, coords) - ay;
+  const bx = present(coords[kb], kb, coords);
+  const by = present(coords[kb + 1], kb + 1, coords);
+  const fx = present(coords[kb + 2], kb + 2, coords) - bx;
+  const fy = present(coords[kb + 3], kb + 3, coords) - by;
   const den = ex * fy - ey * fx;
   if (den === 0) return null;
   const wx = bx - ax;

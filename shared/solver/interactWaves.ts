@@ -1,3 +1,4 @@
+import { present } from '../util/invariant.ts';
 import type { BodyHit } from './bodyHitTest';
 import { ZERO_TURN_RAD } from './constants';
 
@@ -178,19 +179,19 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
     }
   }
   const sweepKey = (i: number, x: number, y: number): number => {
-    const f = (seeds[i] as LineSeed).family === 1 ? 0 : 1;
-    return x * (axisX[f] as number) + y * (axisY[f] as number);
+    const f = present(seeds[i], i, seeds).family === 1 ? 0 : 1;
+    return x * present(axisX[f], f, axisX) + y * present(axisY[f], f, axisY);
   };
   const headsOn = (i: number): boolean => {
-    const f = (seeds[i] as LineSeed).family === 1 ? 0 : 1;
-    return (dx[i] as number) * (axisX[f] as number) + (dy[i] as number) * (axisY[f] as number) > 1e-9;
+    const f = present(seeds[i], i, seeds).family === 1 ? 0 : 1;
+    return present(dx[i], i, dx) * present(axisX[f], f, axisX) + present(dy[i], i, dy) * present(axisY[f], f, axisY) > 1e-9;
   };
   const addEvent = (key: number, i: number, j: number, x: number, y: number): void => {
     heapPush(heap, key, evI.length);
     evI.push(i);
     evJ.push(j);
-    evVi.push(version[i] as number);
-    evVj.push(j >= 0 ? (version[j] as number) : 0);
+    evVi.push(present(version[i], i, version));
+    evVj.push(j >= 0 ? present(version[j], j, version) : 0);
     evX.push(x);
     evY.push(y);
   };
@@ -218,25 +219,25 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
   };
   const schedulePair = (f: number, r: number): void => {
     if (f < 0 || r < 0) return;
-    if ((seeds[f] as LineSeed).wave === (seeds[r] as LineSeed).wave) return; // one fan's rays fan out
-    const fdx = dx[f] as number;
-    const fdy = dy[f] as number;
-    const rdx = dx[r] as number;
-    const rdy = dy[r] as number;
+    if (present(seeds[f], f, seeds).wave === present(seeds[r], r, seeds).wave) return; // one fan's rays fan out
+    const fdx = present(dx[f], f, dx);
+    const fdy = present(dy[f], f, dy);
+    const rdx = present(dx[r], r, dx);
+    const rdy = present(dy[r], r, dy);
     const den = fdx * rdy - fdy * rdx;
     if (Math.abs(den) < 1e-14) return;
-    const wx = (ox[r] as number) - (ox[f] as number);
-    const wy = (oy[r] as number) - (oy[f] as number);
+    const wx = present(ox[r], r, ox) - present(ox[f], f, ox);
+    const wy = present(oy[r], r, oy) - present(oy[f], f, oy);
     const tf = (wx * rdy - wy * rdx) / den;
     const tr = (wx * fdy - wy * fdx) / den;
-    if (!(tf > eps && tr > eps && tf <= (end[f] as number) && tr <= (end[r] as number))) return;
-    const x = (ox[f] as number) + tf * fdx;
-    const y = (oy[f] as number) + tf * fdy;
+    if (!(tf > eps && tr > eps && tf <= present(end[f], f, end) && tr <= present(end[r], r, end))) return;
+    const x = present(ox[f], f, ox) + tf * fdx;
+    const y = present(oy[f], f, oy) + tf * fdy;
     addEvent(sweepKey(f, x, y), f, r, x, y);
   };
   const unlink = (i: number): void => {
-    const p = prev[i] as number;
-    const q = next[i] as number;
+    const p = present(prev[i], i, prev);
+    const q = present(next[i], i, next);
     if (p >= 0) next[p] = q;
     if (q >= 0) prev[q] = p;
     prev[i] = -1;
@@ -245,7 +246,7 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
   };
 
   for (let i = 0; i < count; i++) {
-    const s = seeds[i] as LineSeed;
+    const s = present(seeds[i], i, seeds);
     ahead[i] = s.ahead;
     behind[i] = s.behind;
     shock[i] = s.shock ? 1 : 0;
@@ -255,7 +256,7 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
   for (const family of [1, -1] as const) {
     let last = -1;
     for (let i = 0; i < count; i++) {
-      if ((seeds[i] as LineSeed).family !== family || !headsOn(i)) continue;
+      if (present(seeds[i], i, seeds).family !== family || !headsOn(i)) continue;
       alive[i] = 1;
       if (last >= 0) {
         next[last] = i;
@@ -266,14 +267,14 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
   }
   for (let i = 0; i < count; i++) {
     if (!alive[i]) continue;
-    addEvent(sweepKey(i, endXs[i] as number, endYs[i] as number), i, -1, 0, 0);
-    schedulePair(i, next[i] as number);
+    addEvent(sweepKey(i, present(endXs[i], i, endXs), present(endYs[i], i, endYs)), i, -1, 0, 0);
+    schedulePair(i, present(next[i], i, next));
   }
 
   while (heap.keys.length > 0) {
     const e = heapPop(heap);
-    const i = evI[e] as number;
-    const j = evJ[e] as number;
+    const i = present(evI[e], e, evI);
+    const j = present(evJ[e], e, evJ);
     if (!alive[i] || version[i] !== evVi[e]) continue;
     if (j < 0) {
       alive[i] = 0;
@@ -281,8 +282,8 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
       continue;
     }
     if (!alive[j] || version[j] !== evVj[e] || next[i] !== j) continue;
-    const x = evX[e] as number;
-    const y = evY[e] as number;
+    const x = present(evX[e], e, evX);
+    const y = present(evY[e], e, evY);
     const bothShocks = shock[i] === 1 && shock[j] === 1;
     const survivor = shock[i] === 1 || shock[j] === 0 ? i : j;
     const gone = survivor === i ? j : i;
@@ -291,9 +292,10 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
     meetings.push({ x, y, front: i, rear: j, kind: bothShocks ? 'merged' : 'absorbed', survivor });
     if (shock[survivor] !== 1) continue; // two weak lines: the front one goes on unchanged
 
-    const family = (seeds[survivor] as LineSeed).family as 1 | -1;
-    const a = ahead[i] as FlowState;
-    const turned = turnFlow(a, (behind[j] as FlowState).psi, family, gamma);
+    const family = present(seeds[survivor], survivor, seeds).family;
+    if (family === 0) throw new Error('Invariant broken: a slip line never enters the sweep');
+    const a = present(ahead[i], i, ahead);
+    const turned = turnFlow(a, present(behind[j], j, behind).psi, family, gamma);
     if (!turned) {
       stop(survivor, x, y);
       unlink(survivor);
@@ -301,8 +303,8 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
     }
     ahead[survivor] = a;
     behind[survivor] = turned.behind;
-    version[survivor] = (version[survivor] as number) + 1;
-    bends[survivor] = (bends[survivor] as number) + 1;
+    version[survivor] = present(version[survivor], survivor, version) + 1;
+    bends[survivor] = present(bends[survivor], survivor, bends) + 1;
     bendLine.push(survivor);
     bendX.push(x);
     bendY.push(y);
@@ -334,15 +336,15 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
       unlink(survivor);
       continue;
     }
-    addEvent(sweepKey(survivor, endXs[survivor] as number, endYs[survivor] as number), survivor, -1, 0, 0);
-    schedulePair(prev[survivor] as number, survivor);
-    schedulePair(survivor, next[survivor] as number);
+    addEvent(sweepKey(survivor, present(endXs[survivor], survivor, endXs), present(endYs[survivor], survivor, endYs)), survivor, -1, 0, 0);
+    schedulePair(present(prev[survivor], survivor, prev), survivor);
+    schedulePair(survivor, present(next[survivor], survivor, next));
   }
 
   // Flatten: origin, bends, end for every line.
   const start = new Int32Array(count + 1);
-  for (let i = 0; i < count; i++) start[i + 1] = (start[i] as number) + 2 + (bends[i] as number);
-  const total = start[count] as number;
+  for (let i = 0; i < count; i++) start[i + 1] = present(start[i], i, start) + 2 + present(bends[i], i, bends);
+  const total = present(start[count], count, start);
   const coords = new Float64Array(2 * total);
   const pAhead = new Float64Array(total - count);
   const pBehind = new Float64Array(total - count);
@@ -350,8 +352,8 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
   const machBehind = new Float64Array(total - count);
   const fill = new Int32Array(count);
   for (let i = 0; i < count; i++) {
-    const s = seeds[i] as LineSeed;
-    const k = start[i] as number;
+    const s = present(seeds[i], i, seeds);
+    const k = present(start[i], i, start);
     coords[2 * k] = s.ox;
     coords[2 * k + 1] = s.oy;
     pAhead[k - i] = s.ahead.pRatio;
@@ -359,20 +361,20 @@ export function interactWaves(seeds: readonly LineSeed[], ctx: InteractionContex
     angleFromFlow[k - i] = s.family * (s.direction - s.ahead.psi);
     machBehind[k - i] = s.behind.mach;
     fill[i] = 1;
-    const last = (start[i + 1] as number) - 1;
-    coords[2 * last] = endXs[i] as number;
-    coords[2 * last + 1] = endYs[i] as number;
+    const last = present(start[i + 1], i + 1, start) - 1;
+    coords[2 * last] = present(endXs[i], i, endXs);
+    coords[2 * last + 1] = present(endYs[i], i, endYs);
   }
   for (let b = 0; b < bendLine.length; b++) {
-    const i = bendLine[b] as number;
-    const k = (start[i] as number) + (fill[i] as number);
-    coords[2 * k] = bendX[b] as number;
-    coords[2 * k + 1] = bendY[b] as number;
-    pAhead[k - i] = bendPA[b] as number;
-    pBehind[k - i] = bendPB[b] as number;
-    angleFromFlow[k - i] = bendAngle[b] as number;
-    machBehind[k - i] = bendMach[b] as number;
-    fill[i] = (fill[i] as number) + 1;
+    const i = present(bendLine[b], b, bendLine);
+    const k = present(start[i], i, start) + present(fill[i], i, fill);
+    coords[2 * k] = present(bendX[b], b, bendX);
+    coords[2 * k + 1] = present(bendY[b], b, bendY);
+    pAhead[k - i] = present(bendPA[b], b, bendPA);
+    pBehind[k - i] = present(bendPB[b], b, bendPB);
+    angleFromFlow[k - i] = present(bendAngle[b], b, bendAngle);
+    machBehind[k - i] = present(bendMach[b], b, bendMach);
+    fill[i] = present(fill[i], i, fill) + 1;
   }
   return { coords, start, pAhead, pBehind, angleFromFlow, machBehind, reason, meetings, slips };
 }
@@ -432,10 +434,10 @@ function heapPush(h: EventHeap, key: number, item: number): void {
   items.push(item);
   while (k > 0) {
     const p = (k - 1) >> 1;
-    const pk = keys[p] as number;
+    const pk = present(keys[p], p, keys);
     if (pk <= key) break;
     keys[k] = pk;
-    items[k] = items[p] as number;
+    items[k] = present(items[p], p, items);
     k = p;
   }
   keys[k] = key;
@@ -445,20 +447,21 @@ function heapPush(h: EventHeap, key: number, item: number): void {
 /** Removes and returns the item of least key (the heap must not be empty). */
 function heapPop(h: EventHeap): number {
   const { keys, items } = h;
-  const top = items[0] as number;
-  const lastKey = keys.pop() as number;
-  const lastItem = items.pop() as number;
+  const top = present(items[0], 0, items);
+  const lastKey = keys.pop();
+  const lastItem = items.pop();
+  if (lastKey === undefined || lastItem === undefined) throw new Error('Invariant broken: heapPop on an empty heap');
   const n = keys.length;
   if (n === 0) return top;
   let k = 0;
   for (;;) {
     let c = 2 * k + 1;
     if (c >= n) break;
-    if (c + 1 < n && (keys[c + 1] as number) < (keys[c] as number)) c++;
-    const ck = keys[c] as number;
+    if (c + 1 < n && present(keys[c + 1], c + 1, keys) < present(keys[c], c, keys)) c++;
+    const ck = present(keys[c], c, keys);
     if (ck >= lastKey) break;
     keys[k] = ck;
-    items[k] = items[c] as number;
+    items[k] = present(items[c], c, items);
     k = c;
   }
   keys[k] = lastKey;

@@ -1,3 +1,4 @@
+import { present } from '../util/invariant.ts';
 import type { Point, Wave } from './types';
 
 /**
@@ -49,7 +50,7 @@ export function pressureField(waves: readonly Wave[], outline: readonly (readonl
 export function pressureRows(waves: readonly Wave[], outline: readonly (readonly [number, number])[], ys: readonly number[], xMin: number, xMax: number): PressureProfile[] {
   const out: PressureProfile[] = ys.map(() => ({ x: [xMin], p: [] }));
   pressureSteps(waves, outline, ys, xMin, xMax, (row, _x0, x1, p) => {
-    const profile = out[row] as PressureProfile;
+    const profile = present(out[row], row, out);
     profile.x.push(x1);
     profile.p.push(p);
   });
@@ -93,16 +94,16 @@ export function pressureSteps(
 ): void {
   const table = segmentTable(waves, outline, classOf);
   const { seg, count } = table;
-  const rowOrder = Array.from({ length: ys.length }, (_, i) => i).sort((i, j) => (ys[i] as number) - (ys[j] as number));
+  const rowOrder = Array.from({ length: ys.length }, (_, i) => i).sort((i, j) => present(ys[i], i, ys) - present(ys[j], j, ys));
   const low = new Float64Array(count);
   const high = new Float64Array(count);
   for (let i = 0; i < count; i++) {
-    const y0 = seg[SEG_STRIDE * i + 1] as number;
-    const y1 = seg[SEG_STRIDE * i + 3] as number;
+    const y0 = present(seg[SEG_STRIDE * i + 1], SEG_STRIDE * i + 1, seg);
+    const y1 = present(seg[SEG_STRIDE * i + 3], SEG_STRIDE * i + 3, seg);
     low[i] = Math.min(y0, y1);
     high[i] = Math.max(y0, y1);
   }
-  const byLow = Array.from({ length: count }, (_, i) => i).sort((i, j) => (low[i] as number) - (low[j] as number));
+  const byLow = Array.from({ length: count }, (_, i) => i).sort((i, j) => present(low[i], i, low) - present(low[j], j, low));
   // The crossings of the current row in order (segment, x); the next row re-sorts the ones
   // still crossing into `kept…` and the ones starting into `enter…`, and merges both back.
   const order = new Int32Array(count);
@@ -114,17 +115,17 @@ export function pressureSteps(
   let n = 0;
   let next = 0; // the next segment of byLow to enter
   for (const r of rowOrder) {
-    const y = ys[r] as number;
+    const y = present(ys[r], r, ys);
     // The segments still crossing, with their x on this row, re-sorted by insertion.
     let kept = 0;
     for (let k = 0; k < n; k++) {
-      const i = order[k] as number;
-      if (!(y < (high[i] as number))) continue;
+      const i = present(order[k], k, order);
+      if (!(y < present(high[i], i, high))) continue;
       const x = crossX(seg, i, y);
       let j = kept - 1;
-      while (j >= 0 && before(x, i, keptX[j] as number, keptOrder[j] as number)) {
-        keptOrder[j + 1] = keptOrder[j] as number;
-        keptX[j + 1] = keptX[j] as number;
+      while (j >= 0 && before(x, i, present(keptX[j], j, keptX), present(keptOrder[j], j, keptOrder))) {
+        keptOrder[j + 1] = present(keptOrder[j], j, keptOrder);
+        keptX[j + 1] = present(keptX[j], j, keptX);
         j -= 1;
       }
       keptOrder[j + 1] = i;
@@ -133,15 +134,16 @@ export function pressureSteps(
     }
     // The segments starting at or below this row and still crossing it, sorted by insertion.
     let entering = 0;
-    while (next < count && (low[byLow[next] as number] as number) <= y) {
-      const i = byLow[next] as number;
+    while (next < count) {
+      const i = present(byLow[next], next, byLow);
+      if (!(present(low[i], i, low) <= y)) break;
       next += 1;
-      if (!(y < (high[i] as number))) continue;
+      if (!(y < present(high[i], i, high))) continue;
       const x = crossX(seg, i, y);
       let j = entering - 1;
-      while (j >= 0 && before(x, i, enterX[j] as number, enter[j] as number)) {
-        enter[j + 1] = enter[j] as number;
-        enterX[j + 1] = enterX[j] as number;
+      while (j >= 0 && before(x, i, present(enterX[j], j, enterX), present(enter[j], j, enter))) {
+        enter[j + 1] = present(enter[j], j, enter);
+        enterX[j + 1] = present(enterX[j], j, enterX);
         j -= 1;
       }
       enter[j + 1] = i;
@@ -153,13 +155,13 @@ export function pressureSteps(
     let a = 0;
     let b = 0;
     for (let k = 0; k < n; k++) {
-      if (a < kept && (b >= entering || before(keptX[a] as number, keptOrder[a] as number, enterX[b] as number, enter[b] as number))) {
-        order[k] = keptOrder[a] as number;
-        cx[k] = keptX[a] as number;
+      if (a < kept && (b >= entering || before(present(keptX[a], a, keptX), present(keptOrder[a], a, keptOrder), present(enterX[b], b, enterX), present(enter[b], b, enter)))) {
+        order[k] = present(keptOrder[a], a, keptOrder);
+        cx[k] = present(keptX[a], a, keptX);
         a += 1;
       } else {
-        order[k] = enter[b] as number;
-        cx[k] = enterX[b] as number;
+        order[k] = present(enter[b], b, enter);
+        cx[k] = present(enterX[b], b, enterX);
         b += 1;
       }
     }
@@ -170,9 +172,9 @@ export function pressureSteps(
 /** Where segment `i` crosses the line at height y (y0 ≤ y < y1 or y1 ≤ y < y0). */
 function crossX(seg: readonly number[], i: number, y: number): number {
   const o = SEG_STRIDE * i;
-  const x0 = seg[o] as number;
-  const y0 = seg[o + 1] as number;
-  return x0 + (((seg[o + 2] as number) - x0) * (y - y0)) / ((seg[o + 3] as number) - y0);
+  const x0 = present(seg[o], o, seg);
+  const y0 = present(seg[o + 1], o + 1, seg);
+  return x0 + ((present(seg[o + 2], o + 2, seg) - x0) * (y - y0)) / (present(seg[o + 3], o + 3, seg) - y0);
 }
 
 /** Crossing (xa, segment a) comes before (xb, b): by x, then by table position. */
@@ -216,7 +218,7 @@ function segmentTable(waves: readonly Wave[], outline: readonly (readonly [numbe
       for (const ray of w.rays) {
         const path = ray.path ?? [w.origin, ray.end];
         const ahead = ray.pRatioAhead ?? ray.pRatio;
-        for (let k = 0; k + 1 < path.length; k++) add(path[k] as Point, path[k + 1] as Point, family, ahead, ray.pRatio);
+        for (let k = 0; k + 1 < path.length; k++) add(present(path[k], k, path), present(path[k + 1], k + 1, path), family, ahead, ray.pRatio);
       }
       continue;
     }
@@ -224,13 +226,14 @@ function segmentTable(waves: readonly Wave[], outline: readonly (readonly [numbe
     for (let k = 0; k + 1 < path.length; k++) {
       const ahead = w.pRatioAheadAlong?.[k] ?? w.upstream.pRatio;
       const behind = w.pRatioBehindAlong?.[k] ?? w.downstream.pRatio;
-      add(path[k] as Point, path[k + 1] as Point, family, ahead, behind);
+      add(present(path[k], k, path), present(path[k + 1], k + 1, path), family, ahead, behind);
     }
   }
   // The outline (closed) marks the inside; its horizontal edges are never crossed.
   for (let i = 0; i < outline.length; i++) {
-    const a = outline[i] as readonly [number, number];
-    const b = outline[(i + 1) % outline.length] as readonly [number, number];
+    const j = i + 1 === outline.length ? 0 : i + 1; // the closing edge runs back to vertex 0
+    const a = present(outline[i], i, outline);
+    const b = present(outline[j], j, outline);
     if (a[1] === b[1]) continue;
     seg.push(a[0], a[1], b[0], b[1], 0, 0, 1, 0, 0);
   }
@@ -244,22 +247,22 @@ function profileAcross(table: SegmentTable, y: number, xMin: number, xMax: numbe
   const cx: number[] = [];
   for (let i = 0; i < count; i++) {
     const o = SEG_STRIDE * i;
-    const y0 = seg[o + 1] as number;
-    const y1 = seg[o + 3] as number;
+    const y0 = present(seg[o + 1], o + 1, seg);
+    const y1 = present(seg[o + 3], o + 3, seg);
     // Half-open in y, so a row through a path's vertex counts one of its two segments.
     if (!((y0 <= y && y < y1) || (y1 <= y && y < y0))) continue;
-    const x0 = seg[o] as number;
+    const x0 = present(seg[o], o, seg);
     crossing.push(i);
-    cx.push(x0 + (((seg[o + 2] as number) - x0) * (y - y0)) / (y1 - y0));
+    cx.push(x0 + ((present(seg[o + 2], o + 2, seg) - x0) * (y - y0)) / (y1 - y0));
   }
   // A stable sort: crossings at the same x keep the table's order.
-  const order = cx.map((_, k) => k).sort((a, b) => (cx[a] as number) - (cx[b] as number));
+  const order = cx.map((_, k) => k).sort((a, b) => present(cx[a], a, cx) - present(cx[b], b, cx));
   const x: number[] = [xMin];
   const p: (number | null)[] = [];
   stepsOfSorted(
     table,
-    order.map((k) => crossing[k] as number),
-    order.map((k) => cx[k] as number),
+    order.map((k) => present(crossing[k], k, crossing)),
+    order.map((k) => present(cx[k], k, cx)),
     order.length,
     xMin,
     xMax,
@@ -289,14 +292,14 @@ function stepsOfSorted(table: SegmentTable, order: ArrayLike<number>, cx: ArrayL
   let to = xMin;
   let slot = FREE;
   let value: number | null = null;
-  const emit = () => step(row, from, to, value, slot === INSIDE ? -1 : slot === FREE ? freeStreamClass : (seg[slot + 3] as number));
+  const emit = () => step(row, from, to, value, slot === INSIDE ? -1 : slot === FREE ? freeStreamClass : present(seg[slot + 3], slot + 3, seg));
   for (let k = 0; k <= n; k++) {
-    const o = k < n ? SEG_STRIDE * (order[k] as number) : -1;
-    const at = o >= 0 ? Math.min(Math.max(cx[k] as number, xMin), xMax) : xMax;
+    const o = k < n ? SEG_STRIDE * present(order[k], k, order) : -1;
+    const at = o >= 0 ? Math.min(Math.max(present(cx[k], k, cx), xMin), xMax) : xMax;
     if (at > last) {
       // Behind the previous wave; after leaving the section or before any wave, ahead of the next.
       const here = inside ? INSIDE : prev >= 0 && seg[prev + 6] === 0 ? prev + 5 : o >= 0 && seg[o + 6] === 0 ? o + 4 : FREE;
-      const hereValue = here === INSIDE ? null : here === FREE ? 1 : (seg[here] as number);
+      const hereValue = here === INSIDE ? null : here === FREE ? 1 : present(seg[here], here, seg);
       if (open && hereValue === value) to = at;
       else {
         if (open) emit();
@@ -317,7 +320,7 @@ function stepsOfSorted(table: SegmentTable, order: ArrayLike<number>, cx: ArrayL
     from = xMin;
     to = xMax;
     slot = inside ? INSIDE : prev >= 0 && seg[prev + 6] === 0 ? prev + 5 : FREE;
-    value = slot === INSIDE ? null : slot === FREE ? 1 : (seg[slot] as number);
+    value = slot === INSIDE ? null : slot === FREE ? 1 : present(seg[slot], slot, seg);
   }
   emit();
 }

@@ -1,3 +1,4 @@
+import { firstItem, itemAt, lastItem } from '../util/invariant.ts';
 import { FIELD_EXTENT_CHORDS_DEFAULT } from './constants';
 import { pressureField } from './pressureField';
 import { solveSection } from './solveSection';
@@ -43,7 +44,7 @@ export function pressureSignature(result: SolveResult, side: 'below' | 'above', 
   // The outline as solved: nose → tail over the top, then back under the bottom.
   const points: Point[] = [first.from];
   for (const f of upper) points.push(f.to);
-  for (let k = lower.length - 1; k > 0; k--) points.push((lower[k] as (typeof lower)[number]).from);
+  for (const f of lower.slice(1).reverse()) points.push(f.from);
   let minX = Infinity;
   let maxX = -Infinity;
   let minY = Infinity;
@@ -102,19 +103,22 @@ function trimmed(profile: { x: number[]; p: (number | null)[] }, margin: number)
     last = k;
   }
   if (first < 0) return profile;
-  const from = Math.max(x[0] as number, (x[first] as number) - margin);
-  const to = Math.min(x[x.length - 1] as number, (x[last + 1] as number) + margin);
+  // x has one more entry than p (step k runs from x[k] to x[k + 1]) and first ≤ last < p.length.
+  const xFirst = itemAt(x, first);
+  const xEnd = itemAt(x, last + 1);
+  const from = Math.max(firstItem(x), xFirst - margin);
+  const to = Math.min(lastItem(x), xEnd + margin);
   const outX: number[] = [from];
   const outP: (number | null)[] = [];
-  if ((x[first] as number) > from) {
-    outX.push(x[first] as number);
+  if (xFirst > from) {
+    outX.push(xFirst);
     outP.push(1);
   }
   for (let k = first; k <= last; k++) {
-    outX.push(x[k + 1] as number);
-    outP.push(p[k] as number | null);
+    outX.push(itemAt(x, k + 1));
+    outP.push(itemAt(p, k));
   }
-  if (to > (x[last + 1] as number)) {
+  if (to > xEnd) {
     outX.push(to);
     outP.push(1);
   }

@@ -1,4 +1,5 @@
 import type { XY } from '../model/polygon';
+import { firstItem, invariant, itemAt, present } from '../util/invariant.ts';
 import { bodyHitTest } from './bodyHitTest';
 import { DEG_PER_RAD, FAN_INTERIOR_RAYS, WAVE_ORIGIN_EPS_CHORDS } from './constants';
 import { crossWaveFamilies } from './crossWaveFamilies';
@@ -67,36 +68,45 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
   const waves: Wave[] = [];
   addSurfaceWaves(input, 'upper', waves, seeds);
   addSurfaceWaves(input, 'lower', waves, seeds);
-  if (input.tail) addTailWaves(input, waves, seeds);
+  if (input.tail) addTailWaves(input, input.tail, waves, seeds);
 
   const eps = WAVE_ORIGIN_EPS_CHORDS * input.chord;
   const body = bodyHitTest(input.points, eps);
   const traced = interactWaves(seeds, { gamma: input.gamma, box: input.box, eps, body });
 
   const intersections: WaveIntersection[] = [];
-  const idOf = (line: number) => (waves[(seeds[line] as LineSeed).wave] as Wave).id;
+  // Every seed names the wave it was made for (an index into waves).
+  const waveOfLine = (line: number): Wave => {
+    const seed = present(seeds[line], line, seeds);
+    return present(waves[seed.wave], seed.wave, waves);
+  };
+  const idOf = (line: number) => waveOfLine(line).id;
   for (const m of traced.meetings) {
     intersections.push({ at: [m.x, m.y], waves: [idOf(m.front), idOf(m.rear)], kind: m.kind, survivor: idOf(m.survivor) });
   }
 
   const { coords, start, pAhead, pBehind } = traced;
   for (let i = 0; i < seeds.length; i++) {
-    const seed = seeds[i] as LineSeed;
-    const w = waves[seed.wave] as Wave;
-    const first = start[i] as number;
-    const points = (start[i + 1] as number) - first;
+    const seed = present(seeds[i], i, seeds);
+    const w = present(waves[seed.wave], seed.wave, waves);
+    const first = present(start[i], i, start);
+    const points = present(start[i + 1], i + 1, start) - first;
     const path: Point[] = new Array(points);
     path[0] = w.origin;
-    for (let k = 1; k < points; k++) path[k] = [coords[2 * (first + k)] as number, coords[2 * (first + k) + 1] as number];
-    const end = path[points - 1] as Point;
+    for (let k = 1; k < points; k++) {
+      const c = 2 * (first + k);
+      path[k] = [present(coords[c], c, coords), present(coords[c + 1], c + 1, coords)];
+    }
+    const end = present(path[points - 1], points - 1, path);
     if (seed.ray >= 0) {
-      const ray = (w.rays as FanRay[])[seed.ray] as FanRay;
+      invariant(w.rays, `a fan ray's wave ${w.id} has rays`);
+      const ray = present(w.rays[seed.ray], seed.ray, w.rays);
       ray.end = end;
       ray.path = path;
     }
     if (seed.ray <= 0) {
       w.end = end;
-      w.endReason = traced.reason[i] as Wave['endReason'];
+      w.endReason = present(traced.reason[i], i, traced.reason);
       w.path = path;
     }
     if (seed.ray < 0) {
@@ -107,7 +117,7 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
       w.pRatioAheadAlong = ahead;
       w.pRatioBehindAlong = behind;
       if (w.kind === 'shock') {
-        w.pRatioAlong = behind.map((p, k) => p / (ahead[k] as number));
+        w.pRatioAlong = behind.map((p, k) => p / present(ahead[k], k, ahead));
         w.betaDegAlong = Array.from(traced.angleFromFlow.subarray(from, to), (b) => b * DEG_PER_RAD);
         w.machBehindAlong = Array.from(traced.machBehind.subarray(from, to));
       }
@@ -118,7 +128,7 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
   const slipCount = { upper: 0, lower: 0 };
   const slipWaves: Wave[] = [];
   for (const s of traced.slips) {
-    const shockWave = waves[(seeds[s.shock] as LineSeed).wave] as Wave;
+    const shockWave = waveOfLine(s.shock);
     const surface: SurfaceName = s.family === 1 ? 'upper' : 'lower';
     slipCount[surface]++;
     const origin: Point = [s.x, s.y];
@@ -149,7 +159,7 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
   let allStart = start;
   const families: (1 | -1 | 0)[] = seeds.map((s) => s.family);
   if (slipWaves.length > 0) {
-    const points = start[seeds.length] as number;
+    const points = present(start[seeds.length], seeds.length, start);
     allCoords = new Float64Array(coords.length + 4 * slipWaves.length);
     allCoords.set(coords);
     allStart = new Int32Array(start.length + slipWaves.length);
@@ -164,7 +174,7 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
       families.push(0);
     });
   }
-  const lineId = (line: number) => (line < seeds.length ? idOf(line) : (slipWaves[line - seeds.length] as Wave).id);
+  const lineId = (line: number) => (line < seeds.length ? idOf(line) : present(slipWaves[line - seeds.length], line - seeds.length, slipWaves).id);
   const crossings = crossWaveFamilies(allCoords, allStart, families, eps);
   crossings.sort((p, q) => p.x - q.x || p.y - q.y);
   for (const c of crossings) intersections.push({ at: [c.x, c.y], waves: [lineId(c.a), lineId(c.b)], kind: 'crossed' });
@@ -196,24 +206,24 @@ function addSurfaceWaves(input: WaveTraceInput, surface: SurfaceName, waves: Wav
       k === 0
         ? free
         : {
-            mach: march.mach[k - 1] as number,
-            pRatio: march.pRatio[k - 1] as number,
-            nu: march.nu[k - 1] as number,
-            psi: chain.phi[k - 1] as number,
+            mach: present(march.mach[k - 1], k - 1, march.mach),
+            pRatio: present(march.pRatio[k - 1], k - 1, march.pRatio),
+            nu: present(march.nu[k - 1], k - 1, march.nu),
+            psi: present(chain.phi[k - 1], k - 1, chain.phi),
           };
     const down: StreamState = {
-      mach: march.mach[k] as number,
-      pRatio: march.pRatio[k] as number,
-      nu: march.nu[k] as number,
-      psi: chain.phi[k] as number,
+      mach: present(march.mach[k], k, march.mach),
+      pRatio: present(march.pRatio[k], k, march.pRatio),
+      nu: present(march.nu[k], k, march.nu),
+      psi: present(chain.phi[k], k, chain.phi),
     };
-    const vertex = chain.vertices[k] as number;
-    const origin: Point = [chain.xs[k] as number, chain.ys[k] as number];
+    const vertex = present(chain.vertices[k], k, chain.vertices);
+    const origin: Point = [present(chain.xs[k], k, chain.xs), present(chain.ys[k], k, chain.ys)];
     const id = `wave_${surface}_${vertex}`;
     if (kind === 'fan') {
-      addFan(input, waves, seeds, id, surface, vertex, origin, sigma, up, down, march.turn[k] as number);
+      addFan(input, waves, seeds, id, surface, vertex, origin, sigma, up, down, present(march.turn[k], k, march.turn));
     } else {
-      const beta = kind === 'shock' ? (march.beta[k] as number) : machAngle(up.mach);
+      const beta = kind === 'shock' ? present(march.beta[k], k, march.beta) : machAngle(up.mach);
       addStraight(waves, seeds, {
         id,
         kind: kind === 'shock' ? 'shock' : 'mach',
@@ -225,17 +235,16 @@ function addSurfaceWaves(input: WaveTraceInput, surface: SurfaceName, waves: Wav
         up,
         down,
         pRatioBehind: down.pRatio,
-        deflection: kind === 'shock' ? (march.turn[k] as number) : 0,
+        deflection: kind === 'shock' ? present(march.turn[k], k, march.turn) : 0,
         family: sigma,
       });
     }
   }
 }
 
-function addTailWaves(input: WaveTraceInput, waves: Wave[], seeds: LineSeed[]): void {
-  const tail = input.tail as NonNullable<WaveTraceInput['tail']>;
+function addTailWaves(input: WaveTraceInput, tail: NonNullable<WaveTraceInput['tail']>, waves: Wave[], seeds: LineSeed[]): void {
   const vertex = input.tailIndex;
-  const tailPoint = input.points[vertex] as XY;
+  const tailPoint = itemAt(input.points, vertex);
   const origin: Point = [tailPoint[0], tailPoint[1]];
   const after: Record<SurfaceName, StreamState> = {
     upper: { mach: tail.upper.machAfter, pRatio: tail.upper.pRatioAfter, nu: 0, psi: tail.slip },
@@ -248,10 +257,10 @@ function addTailWaves(input: WaveTraceInput, waves: Wave[], seeds: LineSeed[]): 
     const sigma = surface === 'upper' ? 1 : -1;
     const last = march.solved - 1;
     const up: StreamState = {
-      mach: march.mach[last] as number,
-      pRatio: march.pRatio[last] as number,
-      nu: march.nu[last] as number,
-      psi: chain.phi[last] as number,
+      mach: present(march.mach[last], last, march.mach),
+      pRatio: present(march.pRatio[last], last, march.pRatio),
+      nu: present(march.nu[last], last, march.nu),
+      psi: present(chain.phi[last], last, chain.phi),
     };
     const down = after[surface];
     const id = `wave_tail_${surface}`;
@@ -407,7 +416,7 @@ function addFan(
     surface,
     vertex,
     origin,
-    angleDeg: (rays[0] as FanRay).angleDeg,
+    angleDeg: firstItem(rays).angleDeg,
     rays,
     end: origin,
     endReason: 'field',

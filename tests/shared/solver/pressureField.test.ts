@@ -11,7 +11,8 @@ import { RESULTS_CAUTION } from '../../../shared/model/caution';
 import { pressureField, pressureRows, pressureSteps } from '../../../shared/solver/pressureField';
 import { pressureSignature } from '../../../shared/solver/pressureSignature';
 import { solveSection } from '../../../shared/solver/solveSection';
-import type { Point, Wave } from '../../../shared/solver/types';
+import type { Wave } from '../../../shared/solver/types';
+import { itemAt } from '../../../shared/util/invariant';
 import { input, lens, type Pts } from './sections';
 
 function biconvex(m: number, t: number): Pts {
@@ -29,11 +30,21 @@ function biconvex(m: number, t: number): Pts {
 /** p/p∞ behind a shock where its path crosses height y. */
 function shockPressureAt(w: Wave, y: number): number {
   for (let k = 0; k + 1 < w.path.length; k++) {
-    const a = w.path[k] as Point;
-    const b = w.path[k + 1] as Point;
-    if ((a[1] - y) * (b[1] - y) <= 0) return w.pRatioBehindAlong![k] as number;
+    const a = itemAt(w.path, k);
+    const b = itemAt(w.path, k + 1);
+    if ((a[1] - y) * (b[1] - y) <= 0) {
+      if (!w.pRatioBehindAlong) throw new Error(`${w.id} has no pressures along its path`);
+      return itemAt(w.pRatioBehindAlong, k);
+    }
   }
   throw new Error(`${w.id} does not reach y = ${y}`);
+}
+
+/** p/p∞ of step k of a profile, a step outside the section (null there). */
+function stepPressure(p: readonly (number | null)[], k: number): number {
+  const value = itemAt(p, k);
+  if (value === null) throw new Error(`step ${k} lies inside the section`);
+  return value;
 }
 
 describe('pressure field and signature', () => {
@@ -46,12 +57,12 @@ describe('pressure field and signature', () => {
     expect(row.x).toHaveLength(row.p.length + 1);
     expect(row.p[0]).toBe(1);
     const nose = result.waves.find((w) => w.id === 'wave_lower_0')!;
-    expectClose(row.p[1] as number, shockPressureAt(nose, -0.5), 1e-12);
+    expectClose(stepPressure(row.p, 1), shockPressureAt(nose, -0.5), 1e-12);
     const inner = row.p.slice(1, -1) as number[];
     // Behind the nose shock the rays expand the flow below the free stream before the tail shock.
     expect(Math.min(...inner)).toBeLessThan(0.8);
-    expectClose(row.p[row.p.length - 1] as number, 1, 0.02);
-    for (let k = 0; k + 1 < row.x.length; k++) expect(row.x[k + 1] as number).toBeGreaterThan(row.x[k] as number);
+    expectClose(stepPressure(row.p, -1), 1, 0.02);
+    for (let k = 0; k + 1 < row.x.length; k++) expect(itemAt(row.x, k + 1)).toBeGreaterThan(itemAt(row.x, k));
   });
 
   it('pressureField: mirror symmetry at α = 0 (y and −y read the same), null inside the section, the free stream with no waves', () => {
@@ -60,8 +71,8 @@ describe('pressure field and signature', () => {
     const through = along(0, -1, 5);
     const inside = through.p.findIndex((p) => p === null);
     expect(inside).toBeGreaterThan(0);
-    expectClose(through.x[inside] as number, 0, 1e-12);
-    expectClose(through.x[inside + 1] as number, 1, 1e-12);
+    expectClose(itemAt(through.x, inside), 0, 1e-12);
+    expectClose(itemAt(through.x, inside + 1), 1, 1e-12);
     expect(pressureField([], pts)(3, -1, 5)).toEqual({ x: [-1, 5], p: [1] });
   });
 

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { expectClose } from '../../helpers/expectClose';
 import { reached } from '../../helpers/reached';
-import { itemAt } from '../../../shared/util/invariant';
+import { itemAt, lastItem } from '../../../shared/util/invariant';
 import { isSimplePolygon } from '../../../shared/model/polygon';
 import { machAngle } from '../../../shared/solver/machAngle';
 import { solveSection } from '../../../shared/solver/solveSection';
@@ -17,7 +17,7 @@ function segments(r: SolveResult): [string, Point, Point][] {
   const out: [string, Point, Point][] = [];
   for (const w of r.waves) {
     const paths = w.rays ? w.rays.map((ray) => ray.path) : [w.path];
-    for (const p of paths) for (let k = 0; k + 1 < p.length; k++) out.push([w.id, p[k] as Point, p[k + 1] as Point]);
+    for (const p of paths) for (let k = 0; k + 1 < p.length; k++) out.push([w.id, itemAt(p, k), itemAt(p, k + 1)]);
   }
   return out;
 }
@@ -91,7 +91,7 @@ describe('traceWaves (via solveSection)', () => {
       if (w.kind === 'slip') continue;
       const facets = w.surface === 'upper' ? r.surfaces.upper : r.surfaces.lower;
       const k = facets.findIndex((f) => f.from[0] === w.origin[0] && f.from[1] === w.origin[1]);
-      const psiDeg = w.id.startsWith('wave_tail') ? facets.at(-1)!.phiDeg : k <= 0 ? 4 : itemAt(facets, k - 1).phiDeg;
+      const psiDeg = w.id.startsWith('wave_tail') ? lastItem(facets).phiDeg : k <= 0 ? 4 : itemAt(facets, k - 1).phiDeg;
       const lean = w.angleDeg - psiDeg;
       if (w.surface === 'upper') expect(lean).toBeGreaterThan(0);
       else expect(lean).toBeLessThan(0);

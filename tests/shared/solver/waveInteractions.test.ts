@@ -11,6 +11,7 @@ import { reached } from '../../helpers/reached';
 import { isSimplePolygon } from '../../../shared/model/polygon';
 import { solveSection } from '../../../shared/solver/solveSection';
 import type { Point, SolveResult, Wave } from '../../../shared/solver/types';
+import { firstItem, itemAt, lastItem } from '../../../shared/util/invariant';
 import { thetaFromBeta } from './independentRelations';
 import { input, lens, type Pts } from './sections';
 
@@ -35,6 +36,13 @@ function byId(r: SolveResult, id: string): Wave {
   return w;
 }
 
+/** A wave's per-segment list (every shock has them), or a failure naming the wave. */
+function alongOf(w: Wave, key: 'pRatioAlong' | 'betaDegAlong' | 'machBehindAlong'): number[] {
+  const list = w[key];
+  if (!list) throw new Error(`${w.id} has no ${key}`);
+  return list;
+}
+
 const angleOf = (a: Point, b: Point) => Math.atan2(b[1] - a[1], b[0] - a[0]);
 
 /** Least-squares slope of ln v against ln y. */
@@ -46,7 +54,7 @@ function logSlope(ys: number[], vs: number[]): number {
   let sxy = 0;
   let sxx = 0;
   xs.forEach((x, i) => {
-    sxy += (x - mx) * ((ls[i] as number) - ml);
+    sxy += (x - mx) * (itemAt(ls, i) - ml);
     sxx += (x - mx) ** 2;
   });
   return sxy / sxx;
@@ -72,7 +80,7 @@ function pieces(r: SolveResult): [string, Point, Point][] {
   const out: [string, Point, Point][] = [];
   for (const w of r.waves) {
     const paths = w.rays ? w.rays.map((ray) => ray.path) : [w.path];
-    for (const p of paths) for (let k = 0; k + 1 < p.length; k++) out.push([w.id, p[k] as Point, p[k + 1] as Point]);
+    for (const p of paths) for (let k = 0; k + 1 < p.length; k++) out.push([w.id, itemAt(p, k), itemAt(p, k + 1)]);
   }
   return out;
 }
@@ -94,15 +102,15 @@ describe('wave interactions and the far field', () => {
     const r = solveSection(input(biconvex(200, t), mach, 0, { fieldExtentChords: 50 }));
     const nose = byId(r, 'wave_upper_0');
     expect(nose.endReason).toBe('field');
-    const along = nose.pRatioAlong!;
+    const along = alongOf(nose, 'pRatioAlong');
     expect(along).toHaveLength(nose.path.length - 1);
     const ys: number[] = [];
     const strength: number[] = [];
     for (let k = 0; k < along.length; k++) {
-      const y = 0.5 * ((nose.path[k] as Point)[1] + (nose.path[k + 1] as Point)[1]);
+      const y = 0.5 * (itemAt(nose.path, k)[1] + itemAt(nose.path, k + 1)[1]);
       if (y >= 10 && y <= 40) {
         ys.push(y);
-        strength.push((along[k] as number) - 1);
+        strength.push(itemAt(along, k) - 1);
       }
     }
     expect(ys.length).toBeGreaterThan(50);
@@ -116,7 +124,7 @@ describe('wave interactions and the far field', () => {
     for (const y of [10, 20, 40]) {
       const k = ys.findIndex((v) => v >= y - 0.5);
       if (k < 0) continue;
-      expectClose((strength[k] as number) / whitham(ys[k] as number), 1, 0.08);
+      expectClose(itemAt(strength, k) / whitham(itemAt(ys, k)), 1, 0.08);
     }
   });
 
@@ -133,31 +141,31 @@ describe('wave interactions and the far field', () => {
       const absorbed = r.intersections.filter((i) => i.kind === 'absorbed' && i.survivor === id);
       expect(absorbed.length).toBeGreaterThan(5);
       for (let k = 0; k + 1 < shock.path.length; k++) {
-        const beta = sigma * (angleOf(shock.path[k] as Point, shock.path[k + 1] as Point) - alphaDeg * DEG);
+        const beta = sigma * (angleOf(itemAt(shock.path, k), itemAt(shock.path, k + 1)) - alphaDeg * DEG);
         const mn = mach * Math.sin(beta);
         // Normal-shock pressure jump with the normal Mach component (NACA Report 1135).
-        expectClose(shock.pRatioAlong![k] as number, 1 + ((2 * gamma) / (gamma + 1)) * (mn * mn - 1), 1e-9);
+        expectClose(itemAt(alongOf(shock, 'pRatioAlong'), k), 1 + ((2 * gamma) / (gamma + 1)) * (mn * mn - 1), 1e-9);
         if (k === 0) continue;
         // The bend at path[k] is where a fan ray was absorbed: the new deflection is that
         // ray's flow direction (its angle minus its Mach angle) from the free stream.
-        const at = shock.path[k] as Point;
+        const at = itemAt(shock.path, k);
         const meeting = absorbed.find((i) => Math.hypot(i.at[0] - at[0], i.at[1] - at[1]) < 1e-12);
-        expect(meeting).toBeDefined();
-        const fan = byId(r, meeting!.waves[1]);
-        const ray = fan.rays!.find((q) => {
-          const e = q.path[q.path.length - 1] as Point;
+        if (!meeting) throw new Error(`${id}: no absorption reported at its bend ${k}`);
+        const fan = byId(r, meeting.waves[1]);
+        const ray = (fan.rays ?? []).find((q) => {
+          const e = lastItem(q.path);
           return Math.hypot(e[0] - at[0], e[1] - at[1]) < 1e-12;
         });
-        expect(ray).toBeDefined();
-        const psi = ray!.angleDeg * DEG - sigma * Math.asin(1 / ray!.mach);
+        if (!ray) throw new Error(`${id}: no ray of ${fan.id} ends at its bend ${k}`);
+        const psi = ray.angleDeg * DEG - sigma * Math.asin(1 / ray.mach);
         const theta = sigma * (psi - alphaDeg * DEG);
         // θ-β-M relation (NACA Report 1135), independently of the solver's root.
         expectClose(thetaFromBeta(mach, beta, gamma), theta, 1e-9);
         // β and M₂ as reported for the segment: M₂ = Mn2 / sin(β − θ), with the normal-shock
         // Mn2 (NACA Report 1135).
-        expectClose(shock.betaDegAlong![k] as number, beta / DEG, 1e-9);
+        expectClose(itemAt(alongOf(shock, 'betaDegAlong'), k), beta / DEG, 1e-9);
         const mn2 = Math.sqrt((mn * mn * (gamma - 1) + 2) / (2 * gamma * mn * mn - (gamma - 1)));
-        expectClose(shock.machBehindAlong![k] as number, mn2 / Math.sin(beta - theta), 1e-9);
+        expectClose(itemAt(alongOf(shock, 'machBehindAlong'), k), mn2 / Math.sin(beta - theta), 1e-9);
         checked.hit();
       }
     }
@@ -171,18 +179,22 @@ describe('wave interactions and the far field', () => {
     for (const w of r.waves) {
       if (w.surface !== 'upper') continue;
       const twin = r.waves.find((o) => o.surface === 'lower' && o.origin[0] === w.origin[0] && o.origin[1] === -w.origin[1] && o.id.startsWith(w.id.startsWith('wave_tail') ? 'wave_tail' : 'wave_lower'));
-      expect(twin, w.id).toBeDefined();
+      if (!twin) throw new Error(`${w.id} has no mirror image below`);
       const paths = w.rays ? w.rays.map((q) => q.path) : [w.path];
-      const twins = twin!.rays ? twin!.rays.map((q) => q.path) : [twin!.path];
+      const twins = twin.rays ? twin.rays.map((q) => q.path) : [twin.path];
+      expect(twins).toHaveLength(paths.length);
       paths.forEach((p, n) => {
-        const q = twins[n] as Point[];
+        const q = itemAt(twins, n);
         expect(q).toHaveLength(p.length);
         p.forEach((pt, k) => {
-          expectClose((q[k] as Point)[0], pt[0], 1e-12);
-          expectClose((q[k] as Point)[1], -pt[1], 1e-12);
+          expectClose(itemAt(q, k)[0], pt[0], 1e-12);
+          expectClose(itemAt(q, k)[1], -pt[1], 1e-12);
         });
       });
-      if (w.pRatioAlong) w.pRatioAlong.forEach((v, k) => expectClose(twin!.pRatioAlong![k] as number, v, 1e-12));
+      if (w.pRatioAlong) {
+        const mirrored = alongOf(twin, 'pRatioAlong');
+        w.pRatioAlong.forEach((v, k) => expectClose(itemAt(mirrored, k), v, 1e-12));
+      }
       checked.hit();
     }
     checked.expectAtLeast(20);
@@ -196,13 +208,13 @@ describe('wave interactions and the far field', () => {
     const mach = 2;
     const r = solveSection(input(biconvex(40, 0.1), mach, 0, { fieldExtentChords: 50 }));
     const nose = byId(r, 'wave_upper_0');
-    const angles = nose.path.slice(1).map((p, k) => angleOf(nose.path[k] as Point, p));
+    const angles = nose.path.slice(1).map((p, k) => angleOf(itemAt(nose.path, k), p));
     // Each segment's angle comes from atan2 of rounded end points: equal angles may differ by
     // a few 1e-16 rad, so "not steeper" is checked to 1e-12 rad.
-    for (let k = 1; k < angles.length; k++) expect(angles[k] as number).toBeLessThanOrEqual((angles[k - 1] as number) + 1e-12);
+    for (let k = 1; k < angles.length; k++) expect(itemAt(angles, k)).toBeLessThanOrEqual(itemAt(angles, k - 1) + 1e-12);
     const mu = Math.asin(1 / mach);
-    const first = angles[0] as number;
-    const last = angles[angles.length - 1] as number;
+    const first = firstItem(angles);
+    const last = lastItem(angles);
     // From 39.3° at the nose (NACA Report 1135 chart: M 2, θ 11.4°) to within about a degree
     // of μ∞ = 30° at 50 chords: a tenth of the way it started.
     expect(first - mu).toBeGreaterThan(9 * DEG);
@@ -249,7 +261,7 @@ describe('wave interactions and the far field', () => {
           expect(w.path[w.path.length - 1]).toEqual(w.end);
           if (w.kind === 'shock') {
             expect(w.pRatioAlong).toHaveLength(w.path.length - 1);
-            for (const v of w.pRatioAlong!) expect(Number.isFinite(v) && v > 0).toBe(true);
+            for (const v of alongOf(w, 'pRatioAlong')) expect(Number.isFinite(v) && v > 0).toBe(true);
           }
           for (const ray of w.rays ?? []) {
             expect(ray.path[0]).toEqual(w.origin);
@@ -260,8 +272,8 @@ describe('wave interactions and the far field', () => {
         const list = pieces(r);
         for (let i = 0; i < list.length; i++) {
           for (let j = i + 1; j < list.length; j++) {
-            const [ia, a, b] = list[i] as [string, Point, Point];
-            const [ib, c, d] = list[j] as [string, Point, Point];
+            const [ia, a, b] = itemAt(list, i);
+            const [ib, c, d] = itemAt(list, j);
             if (ia === ib) continue;
             const p = crossing(a, b, c, d);
             if (!p) continue;

@@ -6,6 +6,7 @@ import { roleAtLeast, type Role } from '../../shared/model/roles.ts';
 import { normalizeDocument, type SketchDocument } from '../../shared/model/sketch.ts';
 import { applyEdit, transformPast, type SketchState } from '../../shared/protocol/transform.ts';
 import type { EditOp, EditStatus } from '../../shared/protocol/messages.ts';
+import { firstItem, invariant, itemAt } from '../../shared/util/invariant.ts';
 import { editSketchAtomically, type BatchWrite, type EditLogRow, type LockedSketch } from './repository.ts';
 import { createSolveQueue, type SolveQueue } from './solveQueue.ts';
 
@@ -182,7 +183,8 @@ export function createEditQueue(db: Db, options: { solves?: SolveQueue; log?: (l
   /** One edit in its own transaction. */
   async function applyAlone(b: Waiting): Promise<void> {
     try {
-      b.resolve((await applyWithRetry(b.input.sketchId, [b.input]))[0]!);
+      // One outcome per input, in order.
+      b.resolve(firstItem(await applyWithRetry(b.input.sketchId, [b.input])));
     } catch (err) {
       if (passing(err)) b.reject(err);
       else refuse(b, err);
@@ -192,7 +194,10 @@ export function createEditQueue(db: Db, options: { solves?: SolveQueue; log?: (l
   function remember(sketchId: string, entry: CachedDocument): void {
     cache.delete(sketchId);
     cache.set(sketchId, entry);
-    if (cache.size > DOCUMENT_CACHE_SIZE) cache.delete(cache.keys().next().value!);
+    if (cache.size > DOCUMENT_CACHE_SIZE) {
+      const oldest = cache.keys().next(); // a Map keeps insertion order: the least recently used
+      if (!oldest.done) cache.delete(oldest.value);
+    }
   }
 
   async function applyBatch(sketchId: string, items: EditInput[]): Promise<EditOutcome[]> {
@@ -210,19 +215,20 @@ export function createEditQueue(db: Db, options: { solves?: SolveQueue; log?: (l
   }
 
   async function drain(sketchId: string): Promise<void> {
-    const q = queues.get(sketchId)!;
+    const q = queues.get(sketchId);
+    invariant(q, `a queue exists for ${sketchId} while it drains`);
     q.running = true;
     try {
       while (q.items.length) {
         const batch = q.items.splice(0, MAX_EDIT_BATCH);
         try {
           const outcomes = await applyWithRetry(sketchId, batch.map((b) => b.input));
-          batch.forEach((b, i) => b.resolve(outcomes[i]!));
+          batch.forEach((b, i) => b.resolve(itemAt(outcomes, i)));
         } catch (err) {
           // [R9] One edit the database refuses must not fail its neighbours: when a batch of
           // several fails for any reason but a lost database, race or timeout, each edit is tried on its own.
           if (passing(err)) for (const b of batch) b.reject(err);
-          else if (batch.length === 1) refuse(batch[0]!, err);
+          else if (batch.length === 1) refuse(firstItem(batch), err);
           else for (const b of batch) await applyAlone(b);
         }
       }

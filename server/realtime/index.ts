@@ -6,6 +6,7 @@ import type { Database } from '../db/client.ts';
 import type { SessionUser } from '../auth/passport.ts';
 import type { AppContext } from '../context.ts';
 import { normalizeDocument } from '../../shared/model/sketch.ts';
+import { firstItem } from '../../shared/util/invariant.ts';
 import { clientMessageSchema, PING_INTERVAL_MS, PING_TIMEOUT_MS, PROTOCOL_VERSION, type ClientMessage, type Person } from '../../shared/protocol/messages.ts';
 import type { TrustFn } from '../http/forwarded.ts';
 import { findSketchState } from './repository.ts';
@@ -130,7 +131,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     socket.on('message', (raw: unknown) => {
       const parsed = clientMessageSchema.safeParse(raw);
       if (!parsed.success) {
-        const issue = parsed.error.issues[0]!;
+        const issue = firstItem(parsed.error.issues); // a failed parse has at least one issue
         send(socket, { type: 'error', code: 'invalid_message', reason: `The message was refused: ${issue.path.join('.') || 'message'} ${issue.message}.`, about: (raw as { type?: string })?.type });
         return;
       }

@@ -1,4 +1,5 @@
 import { PEOPLE_REFRESH_MS, type Person } from '../../shared/protocol/messages.ts';
+import { itemAt } from '../../shared/util/invariant.ts';
 import { localSketches, room, send, type Hub, type IoSocket } from './hub.ts';
 import { errorForLog } from '../log.ts';
 
@@ -7,7 +8,7 @@ const PERSON_COLOURS = ['#e4572e', '#17bebb', '#ffc914', '#a855f7', '#76b041', '
 export function personColour(userId: string): string {
   let h = 0;
   for (const c of userId) h = (h * 31 + c.charCodeAt(0)) >>> 0;
-  return PERSON_COLOURS[h % PERSON_COLOURS.length]!;
+  return itemAt(PERSON_COLOURS, h % PERSON_COLOURS.length);
 }
 
 export interface Presence {

@@ -25,6 +25,7 @@ import { prng, signInCookie, simClient, until, type SimClient } from '../helpers
 import { startServerProcess, type ServerProcess } from '../helpers/serverProcess.ts';
 import { untilInstancesMeet } from '../helpers/instances.ts';
 import type { EditOp } from '../../shared/protocol/messages.ts';
+import { firstItem, firstItems, itemAt } from '../../shared/util/invariant.ts';
 
 const CLIENTS = Number(process.env.BENCH_CLIENTS ?? 25);
 const RATE_PER_S = Number(process.env.BENCH_RATE ?? 10);
@@ -35,8 +36,9 @@ const BIG_EDITORS = 10;
 const BIG_SECONDS = Number(process.env.BENCH_BIG_SECONDS ?? 10);
 
 function cpuSeconds(pid: number): number {
-  const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ');
-  return (Number(fields[11]) + Number(fields[12])) / 100; // utime + stime, clock ticks at 100 Hz
+  // The fields after the command name's closing parenthesis; utime and stime are the 12th and 13th.
+  const fields = itemAt(readFileSync(`/proc/${pid}/stat`, 'utf8').split(') '), 1).split(' ');
+  return (Number(itemAt(fields, 11)) + Number(itemAt(fields, 12))) / 100; // utime + stime, clock ticks at 100 Hz
 }
 function memoryMb(pid: number, key: 'VmRSS' | 'VmHWM'): number {
   const line = readFileSync(`/proc/${pid}/status`, 'utf8').split('\n').find((l) => l.startsWith(key))!;
@@ -44,8 +46,8 @@ function memoryMb(pid: number, key: 'VmRSS' | 'VmHWM'): number {
 }
 /** Busy and total jiffies of all cores (/proc/stat), to tell how loaded the machine was. */
 function machineTicks(): { busy: number; total: number } {
-  const f = readFileSync('/proc/stat', 'utf8').split('\n')[0]!.trim().split(/\s+/).slice(1).map(Number);
-  const idle = f[3]! + f[4]!;
+  const f = firstItem(readFileSync('/proc/stat', 'utf8').split('\n')).trim().split(/\s+/).slice(1).map(Number);
+  const idle = itemAt(f, 3) + itemAt(f, 4); // idle and iowait
   const total = f.reduce((a, b) => a + b, 0);
   return { busy: total - idle, total };
 }
@@ -91,7 +93,7 @@ function instrument(clients: SimClient[]) {
 
 async function openClients(url: string, emails: string[], n: number, sketchId: string): Promise<SimClient[]> {
   const clients: SimClient[] = [];
-  for (let i = 0; i < n; i++) clients.push(simClient(url, await signInCookie(url, emails[i % emails.length]!, RT_PASSWORD)));
+  for (let i = 0; i < n; i++) clients.push(simClient(url, await signInCookie(url, itemAt(emails, i % emails.length), RT_PASSWORD)));
   await until(() => clients.every((c) => c.socket.connected), 30_000, 'connect');
   for (const c of clients) c.engine.join(sketchId);
   await until(() => clients.every((c) => c.engine.state !== null), 30_000, 'join');
@@ -108,7 +110,8 @@ async function editStorm(clients: SimClient[], rate: number, seconds: number, ta
       while (Date.now() < stopAt) {
         const pts = c.engine.state!.document.section.points;
         const k = Math.floor(rand() * pts.length);
-        const op: EditOp = { type: 'moveVertices', opId: `${tag}${i}-${n++}`, indices: [k], to: [[pts[k]![0] + (rand() - 0.5) * 0.0002, pts[k]![1] + (rand() - 0.5) * 0.0002]] };
+        const [x, y] = itemAt(pts, k);
+        const op: EditOp = { type: 'moveVertices', opId: `${tag}${i}-${n++}`, indices: [k], to: [[x + (rand() - 0.5) * 0.0002, y + (rand() - 0.5) * 0.0002]] };
         if (c.engine.submit(op).ok) c.submitted.push(op.opId);
         await new Promise((r) => setTimeout(r, 1000 / rate));
       }
@@ -135,7 +138,7 @@ async function main() {
   const world = await seedTeam(db.db, Array.from({ length: 5 }, (_, i) => ({ name: `Bench${i}`, role: 'editor' as const })));
   const emails = world.users.map((u) => u.email);
   const bigId = newId('sketch');
-  await db.db.insert(sketches).values({ id: bigId, teamId: world.teamId, title: 'Big section', document: bigDocument(BIG_VERTICES), createdBy: world.users[0]!.id, updatedBy: world.users[0]!.id });
+  await db.db.insert(sketches).values({ id: bigId, teamId: world.teamId, title: 'Big section', document: bigDocument(BIG_VERTICES), createdBy: firstItem(world.users).id, updatedBy: firstItem(world.users).id });
   const server = await startServerProcess(url, await freePort());
   const pid = server.child.pid!;
   const procs: ServerProcess[] = [server];
@@ -172,23 +175,24 @@ async function main() {
 
     // ── 2. A 2,000-vertex section ──
     console.log(`\n2. A ${BIG_VERTICES}-vertex section`);
-    const [solo] = await openClients(server.url, emails, 1, bigId);
-    const soloWatch = instrument([solo!]);
+    const solo = firstItem(await openClients(server.url, emails, 1, bigId));
+    const soloWatch = instrument([solo]);
     const rand = prng(77);
     const bigCpu0 = cpuSeconds(pid);
     const sequential = await measured(async () => {
       for (let n = 0; n < BIG_SEQUENTIAL_EDITS; n++) {
-        const pts = solo!.engine.state!.document.section.points;
+        const pts = solo.engine.state!.document.section.points;
         const k = Math.floor(rand() * pts.length);
-        solo!.engine.submit({ type: 'moveVertices', opId: `s-${n}`, indices: [k], to: [[pts[k]![0], pts[k]![1] + (rand() - 0.5) * 1e-5]] });
-        await until(() => solo!.engine.pendingCount === 0, 30_000, 'ack');
+        const [x, y] = itemAt(pts, k);
+        solo.engine.submit({ type: 'moveVertices', opId: `s-${n}`, indices: [k], to: [[x, y + (rand() - 0.5) * 1e-5]] });
+        await until(() => solo.engine.pendingCount === 0, 30_000, 'ack');
       }
     });
     const bigCpu = cpuSeconds(pid) - bigCpu0;
     row('one editor, one edit at a time: send → ack', `${spread(soloWatch.acks)}; target ≤ 15 ms (server time + loopback)`);
     row('server CPU per edit', `${((bigCpu / BIG_SEQUENTIAL_EDITS) * 1000).toFixed(1)} ms (all its threads, the coalesced solves included)`);
     row('machine during the run', sequential.machineBusy);
-    solo!.close();
+    solo.close();
     const big = await openClients(server.url, emails, BIG_EDITORS, bigId);
     const bigWatch = instrument(big);
     const crowd = await measured(() => editStorm(big, 10, BIG_SECONDS, 'g'));
@@ -201,10 +205,10 @@ async function main() {
     console.log('\n3. Joining while another instance of the server has just died');
     const other = await startServerProcess(url, await freePort());
     procs.push(other);
-    await untilInstancesMeet([server, other], world.sketchId, [emails[0]!, emails[1]!]);
+    await untilInstancesMeet([server, other], world.sketchId, firstItems(emails, 2));
     const onOther = await openClients(other.url, emails, 2, world.sketchId);
     const joinTime = async () => {
-      const c = simClient(server.url, await signInCookie(server.url, emails[2]!, RT_PASSWORD));
+      const c = simClient(server.url, await signInCookie(server.url, itemAt(emails, 2), RT_PASSWORD));
       await until(() => c.socket.connected, 30_000, 'connect');
       const from = performance.now();
       c.engine.join(world.sketchId);

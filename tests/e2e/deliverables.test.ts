@@ -121,7 +121,7 @@ describe('deliverables: loads CSV, the captioned picture, study loads, the phone
     expect(status).toBe(201);
     const mails = async () => (await database.db.select().from(mailMessages)).filter((m) => m.toAddresses.includes(itemAt(DEMO_PEOPLE, 2).email));
     await expect.poll(async () => (await mails()).length, { timeout: 20_000 }).toBe(1);
-    const link = /https?:\/\/\S+\?pin=(pin_[a-z0-9]{20})/.exec((await mails())[0]!.textBody)!;
+    const link = /https?:\/\/\S+\?pin=(pin_[a-z0-9]{20})/.exec(firstItem(await mails()).textBody)!;
 
     // Priya opens it on her phone, signed out: sign in, then straight to the sketch, read-only.
     const page = priya.page;

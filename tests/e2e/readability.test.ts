@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { firstItem, itemAt } from '../../shared/util/invariant.ts';
 import type { Page } from 'playwright-core';
 import { eq } from 'drizzle-orm';
 import type { RunningServer } from '../../server/index.ts';
@@ -77,7 +78,7 @@ describe('readable read-only fields and links (WCAG 2.x contrast, computed in th
   beforeAll(async () => {
     world = await startBrowserWorld();
     server = world.server;
-    page = world.browsers[0]!.page;
+    page = firstItem(world.browsers).page;
     const root = await world.database.db.query.sketches.findFirst({ where: eq(sketches.title, 'Tern fin root — double wedge, 5% thick, ridge at 40%') });
     sketchId = root!.id;
   });
@@ -89,7 +90,7 @@ describe('readable read-only fields and links (WCAG 2.x contrast, computed in th
   });
 
   it('a viewer\'s read-only condition and loads fields read at 4.5:1 or more', async () => {
-    await signInDemo(page, DEMO_PEOPLE[3]!.email, server.url);
+    await signInDemo(page, itemAt(DEMO_PEOPLE, 3).email, server.url);
     await page.goto(`${server.url}/sketches/${sketchId}`);
     await page.getByTestId('loads-panel').waitFor();
     await page.locator('.condition__more summary').click();

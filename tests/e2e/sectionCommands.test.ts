@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { firstItem, itemAt } from '../../shared/util/invariant.ts';
 import type { Page } from 'playwright-core';
 import { eq } from 'drizzle-orm';
 import type { RunningServer } from '../../server/index.ts';
@@ -28,14 +29,14 @@ describe('section commands in the editor', () => {
   beforeAll(async () => {
     world = await startBrowserWorld();
     ({ database, server } = world);
-    page = world.browsers[0]!.page;
+    page = firstItem(world.browsers).page;
     const root = await database.db.query.sketches.findFirst({ where: eq(sketches.title, 'Tern fin root — double wedge, 5% thick, ridge at 40%') });
     sketchId = root!.id;
   });
   afterAll(async () => world?.close());
 
   it('sets t/c to 4 % and moves the ridge to 50 %, each one saved edit; a bad value is refused by name', async () => {
-    await signInDemo(page, DEMO_PEOPLE[1]!.email, server.url);
+    await signInDemo(page, itemAt(DEMO_PEOPLE, 1).email, server.url);
     await page.goto(`${server.url}/sketches/${sketchId}`);
     await page.getByTestId('sketch-canvas').waitFor();
     await expect.poll(() => textOf(page, 'connection-state'), { timeout: 30_000 }).toContain('Live');

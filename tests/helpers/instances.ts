@@ -9,14 +9,15 @@ import { signInCookie, simClient, until } from './simClient.ts';
  * would send people lists and broadcasts only to their own sockets.
  */
 export async function untilInstancesMeet(procs: [ServerProcess, ServerProcess], sketchId: string, emails: [string, string]): Promise<void> {
-  const cookies = [await signInCookie(procs[0].url, emails[0], RT_PASSWORD), await signInCookie(procs[1].url, emails[1], RT_PASSWORD)];
-  const watcher = simClient(procs[0].url, cookies[0]!);
+  const watcherCookie = await signInCookie(procs[0].url, emails[0], RT_PASSWORD);
+  const visitorCookie = await signInCookie(procs[1].url, emails[1], RT_PASSWORD);
+  const watcher = simClient(procs[0].url, watcherCookie);
   try {
     watcher.engine.join(sketchId);
     await until(() => watcher.engine.state !== null, 30_000, 'watcher joined');
     await until(async () => {
       const from = watcher.received.length;
-      const visitor = simClient(procs[1].url, cookies[1]!);
+      const visitor = simClient(procs[1].url, visitorCookie);
       try {
         await until(() => visitor.socket.connected, 30_000, 'visitor connected');
         visitor.engine.join(sketchId);
@@ -33,9 +34,6 @@ export async function untilInstancesMeet(procs: [ServerProcess, ServerProcess], 
 
 /** The people list a client last heard (joined or people), as names. */
 export function lastPeople(received: ServerMessage[]): string[] | null {
-  for (let i = received.length - 1; i >= 0; i--) {
-    const m = received[i]!;
-    if (m.type === 'people' || m.type === 'joined') return m.people.map((p) => p.name).sort();
-  }
-  return null;
+  const m = received.findLast((r) => r.type === 'people' || r.type === 'joined');
+  return m && (m.type === 'people' || m.type === 'joined') ? m.people.map((p) => p.name).sort() : null;
 }

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { firstItem, itemAt } from '../../shared/util/invariant.ts';
 import { spawn, type ChildProcess } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
@@ -15,7 +16,7 @@ import type { EditOp } from '../../shared/protocol/messages.ts';
 const ROOT = path.resolve(import.meta.dirname, '../..');
 
 /** 'T' while the process is stopped (SIGSTOP), from /proc/<pid>/stat. */
-const processState = (pid: number) => readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ')[0];
+const processState = (pid: number) => firstItem(itemAt(readFileSync(`/proc/${pid}/stat`, 'utf8').split(') '), 1).split(' '));
 
 /**
  * [R2] An instance frozen while it holds a sketch's row lock (a stopped process, a machine
@@ -46,13 +47,13 @@ describe('an instance frozen while it holds a sketch’s row lock', () => {
   });
 
   it('editors on another instance get their edits through while it stays frozen; every acked edit is stored and solved', async () => {
-    for (let i = 0; i < 4; i++) clients.push(simClient(server.url, await signInCookie(server.url, world.users[i % 2]!.email, RT_PASSWORD)));
+    for (let i = 0; i < 4; i++) clients.push(simClient(server.url, await signInCookie(server.url, itemAt(world.users, i % 2).email, RT_PASSWORD)));
     await until(() => clients.every((c) => c.socket.connected), 20_000, 'all connected');
     for (const c of clients) c.engine.join(world.sketchId);
     await until(() => clients.every((c) => c.engine.state !== null), 20_000, 'all joined');
 
     // The other instance takes the row lock, then freezes.
-    holder = spawn(process.execPath, ['--import', 'tsx', 'tests/helpers/lockHolder.ts', database.url, world.sketchId, world.users[0]!.id], { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
+    holder = spawn(process.execPath, ['--import', 'tsx', 'tests/helpers/lockHolder.ts', database.url, world.sketchId, firstItem(world.users).id], { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
     let output = '';
     holder.stdout!.on('data', (d) => (output += d));
     holder.stderr!.on('data', (d) => (output += d));
@@ -69,7 +70,8 @@ describe('an instance frozen while it holds a sketch’s row lock', () => {
           if (c.engine.pendingCount > 0) continue;
           const pts = c.engine.state!.document.section.points;
           const k = i * 3;
-          const op: EditOp = { type: 'moveVertices', opId: `h${i}-${n++}`, indices: [k], to: [[pts[k]![0], pts[k]![1] + (rand() - 0.5) * 0.002]] };
+          const [x, y] = itemAt(pts, k);
+          const op: EditOp = { type: 'moveVertices', opId: `h${i}-${n++}`, indices: [k], to: [[x, y + (rand() - 0.5) * 0.002]] };
           if (c.engine.submit(op).ok) c.submitted.push(op.opId);
         }
         await new Promise((r) => setTimeout(r, 50));

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { firstItems, itemAt } from '../../shared/util/invariant.ts';
 import { freePort } from '../../server/lifecycle/postgres.ts';
 import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { RT_PASSWORD, seedTeam, storedAndReplayed } from '../helpers/realtimeWorld.ts';
@@ -18,14 +19,17 @@ describe('an instance dying under the editors of another', () => {
   let second: ServerProcess;
   const clients: SimClient[] = [];
   const open = async (proc: ServerProcess, who: number) => {
-    const c = simClient(proc.url, await signInCookie(proc.url, world.users[who]!.email, RT_PASSWORD));
+    const c = simClient(proc.url, await signInCookie(proc.url, itemAt(world.users, who).email, RT_PASSWORD));
     clients.push(c);
     await until(() => c.socket.connected, 20_000, 'socket connected');
     c.engine.join(world.sketchId);
     await until(() => c.engine.state !== null, 20_000, 'joined');
     return c;
   };
-  const emails = () => [world.users[0]!.email, world.users[1]!.email] as [string, string];
+  const emails = (): [string, string] => {
+    const [a, b] = firstItems(world.users, 2);
+    return [a.email, b.email];
+  };
 
   beforeAll(async () => {
     database = await createTestDatabase();

@@ -79,7 +79,7 @@ describe('realtime protocol against one server', () => {
   });
 
   it('[R3] a repeated op id is acked again with the first outcome and not applied twice', async () => {
-    const a = firstItem(clients);
+    const [a, b] = firstItems(clients, 2);
     a.send({ type: 'edit', sketchId: world.sketchId, baseRevision: 1, op: { type: 'setCondition', opId: 'op-mach-1', field: 'mach', value: 3.2 } });
     await until(() => (a.acks.get('op-mach-1') ?? 0) === 2, 2000, 'second ack');
     const acks = a.received.filter((m) => m.type === 'ack' && m.opId === 'op-mach-1');
@@ -88,7 +88,6 @@ describe('realtime protocol against one server', () => {
     expect(a.engine.revision).toBe(1);
     // [R7] …and broadcast again: a colleague who missed the first broadcast (it died with the
     // instance that committed it) catches up; one who has it ignores the repeat.
-    const b = clients[1];
     const repeats = () => b.received.filter((m) => m.type === 'edit' && m.op.opId === 'op-mach-1').length;
     await until(() => repeats() === 2, 10_000, 'the repeat reaches b');
     expect(b.engine.revision).toBe(1);

@@ -27,12 +27,17 @@ describe('review outcomes over time', () => {
   const cookie: Record<string, string> = {};
   let sketchId: string;
 
+  const cookieOf = (who: Who): string => {
+    const c = cookie[who];
+    if (c === undefined) throw new Error(`${who} has not signed in yet`);
+    return c;
+  };
   const as = (who: Who) => ({
-    get: (url: string) => request(world.app).get(url).set('Cookie', cookie[who]!),
-    post: (url: string, body: object = {}) => request(world.app).post(url).set(CSRF).set('Cookie', cookie[who]!).send(body),
-    put: (url: string, body: object) => request(world.app).put(url).set(CSRF).set('Cookie', cookie[who]!).send(body),
-    patch: (url: string, body: object) => request(world.app).patch(url).set(CSRF).set('Cookie', cookie[who]!).send(body),
-    pdf: (url: string) => request(world.app).get(url).set('Cookie', cookie[who]!).buffer(true).parse(binary),
+    get: (url: string) => request(world.app).get(url).set('Cookie', cookieOf(who)),
+    post: (url: string, body: object = {}) => request(world.app).post(url).set(CSRF).set('Cookie', cookieOf(who)).send(body),
+    put: (url: string, body: object) => request(world.app).put(url).set(CSRF).set('Cookie', cookieOf(who)).send(body),
+    patch: (url: string, body: object) => request(world.app).patch(url).set(CSRF).set('Cookie', cookieOf(who)).send(body),
+    pdf: (url: string) => request(world.app).get(url).set('Cookie', cookieOf(who)).buffer(true).parse(binary),
   });
   const sketch = async () => (await as('viewer').get(`/api/sketches/${sketchId}`)).body;
   const row = async () => (await as('viewer').get(`/api/teams/${world.teamId}/sketches`)).body.find((s: { id: string }) => s.id === sketchId);

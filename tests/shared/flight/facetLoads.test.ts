@@ -99,7 +99,7 @@ describe('facetLoads (loads per facet in physical units)', () => {
 
   it('a design point named like a formula is a neutralised text cell in every row and note [CSV2]', () => {
     const doc = wedgeDocument();
-    const evil: SketchDocument = { ...doc, designPoints: [{ ...doc.designPoints[0]!, name: '=HYPERLINK("x")' }] };
+    const evil: SketchDocument = { ...doc, designPoints: [{ ...firstItem(doc.designPoints), name: '=HYPERLINK("x")' }] };
     const text = loadsCsv('@title', evil, analyseDesignPoints(evil), { units: 'si' });
     const rows = text.split('\n').filter((l) => l.startsWith('"'));
     expect(rows).toHaveLength(5);

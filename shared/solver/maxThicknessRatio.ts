@@ -25,13 +25,14 @@ export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower:
   const cx = ex / chord;
   const cy = ey / chord;
   const toChordAxes = (c: Pick<SurfaceChain, 'xs' | 'ys'>) => {
-    const xs: number[] = [];
-    const ys: number[] = [];
-    for (let i = 0; i < c.xs.length; i++) {
+    const n = c.xs.length;
+    const xs: number[] = new Array(n);
+    const ys: number[] = new Array(n);
+    for (let i = 0; i < n; i++) {
       const x = present(c.xs[i], i, c.xs) - x0;
       const y = present(c.ys[i], i, c.ys) - y0;
-      xs.push(x * cx + y * cy);
-      ys.push(-x * cy + y * cx);
+      xs[i] = x * cx + y * cy;
+      ys[i] = -x * cy + y * cx;
     }
     return { xs, ys };
   };
@@ -45,11 +46,7 @@ export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower:
 }
 
 function monotone(xs: readonly number[]): boolean {
-  let before = -Infinity;
-  for (const x of xs) {
-    if (x < before) return false;
-    before = x;
-  }
+  for (let i = 1; i < xs.length; i++) if (present(xs[i], i, xs) < present(xs[i - 1], i - 1, xs)) return false;
   return true;
 }
 

@@ -255,7 +255,12 @@ function streamAtTail(march: SurfaceMarch, chain: SurfaceChain): { mach: number;
 
 /** Pressure coefficients c1·θ + c2·θ² per facet (c2 = 0: linear theory). */
 function theoryCp(theta: readonly number[], c1: number, c2: number): number[] {
-  return theta.map((t) => c1 * t + c2 * t * t);
+  const out: number[] = new Array(theta.length);
+  for (let k = 0; k < theta.length; k++) {
+    const t = present(theta[k], k, theta);
+    out[k] = c1 * t + c2 * t * t;
+  }
+  return out;
 }
 
 /**

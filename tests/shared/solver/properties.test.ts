@@ -341,7 +341,7 @@ describe('solveSection properties (fast-check)', () => {
     checked.expectAtLeast(180);
   }, 60_000);
 
-  it('[S7] for such a section with M∞·θmax ≤ 0.4 and |α| > 0.5°, second-order cm is closer to exact than linear', () => {
+  it('[S7] for such a section with M∞·θmax ≤ 0.4 and |α| > 0.5°, second-order cm is closer to exact than linear in all but a rare few cases, and typically by a factor of ten or more', () => {
     // cm improves where Busemann's expansion is a good one: it is a series in θ whose second
     // coefficient grows like M (C2/C1 → (γ+1)M/4), i.e. in the hypersonic similarity parameter
     // K = M∞·θmax (common practice). With K not small the third-order terms it drops are as
@@ -349,7 +349,16 @@ describe('solveSection properties (fast-check)', () => {
     // in linear theory: seed -1970200818 found such a section (5 % thick, M 3.8) when this was
     // checked over the whole range above; sampling 25 000 of those sections found none below
     // K 0.49. So the sections here are thinner and slower, and K is checked.
+    // Even there it is not true of every section: seed 489258948 found one at M 1.968, α 0.5°,
+    // t/c 1 % where the exact cm is −0.005040, linear −0.005149 (error 1.1e-4) and second-order
+    // −0.004814 (error 2.3e-4) — a genuine exception (the two errors' leading terms cross as α/θ
+    // varies), not a rounding tie. Over 4,588 sections of this family 2 were such exceptions
+    // (0.04 %) and the median ratio of the second-order to the linear error was 0.054 (95th
+    // percentile 0.14). So the check is the statement that holds: at most 1 % of the sections
+    // reached are exceptions, and the median ratio is below 0.25.
     const checked = reached('[S7] symmetric sections, cm compared (K = M∞·θmax ≤ 0.4)');
+    let exceptions = 0;
+    const ratios: number[] = [];
     fc.assert(
       fc.property(
         fc.uniqueArray(fc.integer({ min: 1, max: 49 }), { minLength: 1, maxLength: 8 }),
@@ -372,18 +381,22 @@ describe('solveSection properties (fast-check)', () => {
           checked.hit();
           const lin = r.theories!.linear;
           const sec = r.theories!.secondOrder;
-          // Not strict: where the two errors meet they are equal to within the exact solution's
-          // own accuracy (seed 866028690: both 0.00488183169934071, 5e-16 apart). The exact
-          // march solves its shocks and fans to 1e-14 rad (SHOCK_ROOT_TOLERANCE_RAD,
-          // PRANDTL_MEYER_TOLERANCE_RAD) on some 20 facets, so its cm is known to about 1e-13:
-          // a difference below 1e-12 is a tie, not a failure.
-          const tie = 1e-12;
-          expect(Math.abs(sec.cm - r.coefficients!.cm)).toBeLessThanOrEqual(Math.abs(lin.cm - r.coefficients!.cm) + tie);
+          const exact = r.coefficients!.cm;
+          // Where the two errors meet they are equal to within the exact solution's own accuracy
+          // (seed 866028690: both 0.00488183169934071, 5e-16 apart; the march solves its shocks
+          // and fans to 1e-14 rad): a difference below 1e-12 is a tie, not an exception.
+          const errSecond = Math.abs(sec.cm - exact);
+          const errLinear = Math.abs(lin.cm - exact);
+          if (errSecond > errLinear + 1e-12) exceptions += 1;
+          ratios.push(errLinear > 0 ? errSecond / errLinear : errSecond > 1e-12 ? Infinity : 0);
         },
       ),
       { numRuns: 300 },
     );
     checked.expectAtLeast(150);
+    expect(exceptions).toBeLessThanOrEqual(Math.floor(ratios.length / 100));
+    ratios.sort((a, b) => a - b);
+    expect(itemAt(ratios, Math.floor(ratios.length / 2))).toBeLessThan(0.25);
   }, 60_000);
 });
 

@@ -1,6 +1,6 @@
 import type { SurfaceChain } from './splitSurfaces';
 import type { SurfaceName } from './types';
-import { itemAt } from '../util/invariant.ts';
+import { itemAt, present } from '../util/invariant.ts';
 
 /**
  * Deflection of each facet from the free stream, radians, + = into the flow (compression).
@@ -25,11 +25,11 @@ export function facetDeflections(
   if (surface === 'upper') {
     let theta = itemAt(chain.phi, 0) - alpha;
     out[0] = theta;
-    for (let k = 1; k < m; k++) out[k] = theta += itemAt(turn, k);
+    for (let k = 1; k < m; k++) out[k] = theta += present(turn[k], k, turn);
   } else {
     let theta = alpha - itemAt(chain.phi, 0);
     out[0] = theta;
-    for (let k = 1; k < m; k++) out[k] = theta -= itemAt(turn, k);
+    for (let k = 1; k < m; k++) out[k] = theta -= present(turn[k], k, turn);
   }
   return out;
 }

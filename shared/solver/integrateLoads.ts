@@ -1,6 +1,6 @@
 import { COEFFICIENT_ZERO } from './constants';
 import type { Coefficients, SurfaceCoefficients } from './types';
-import { itemAt } from '../util/invariant.ts';
+import { present } from '../util/invariant.ts';
 
 /** A surface for load integration: its vertices nose → tail. */
 export interface LoadSurface {
@@ -92,14 +92,22 @@ function surfaceForce(
   const ys = s.ys;
   const rx = ref[0];
   const ry = ref[1];
+  // The hot loop reads its lists itself, checked by `present` (see shared/util/invariant.ts).
+  let x0 = present(xs[0], 0, xs);
+  let y0 = present(ys[0], 0, ys);
   for (let k = 0; k < cp.length; k++) {
-    const dx = itemAt(xs, k + 1) - itemAt(xs, k);
-    const dy = itemAt(ys, k + 1) - itemAt(ys, k);
+    const x1 = present(xs[k + 1], k + 1, xs);
+    const y1 = present(ys[k + 1], k + 1, ys);
+    const c = present(cp[k], k, cp);
+    const dx = x1 - x0;
+    const dy = y1 - y0;
     // F = −Cp·n·len with n·len = side·(−dy, dx)
-    const px = side * itemAt(cp, k) * dy;
-    const py = -side * itemAt(cp, k) * dx;
-    const mx = 0.5 * (itemAt(xs, k) + itemAt(xs, k + 1)) - rx;
-    const my = 0.5 * (itemAt(ys, k) + itemAt(ys, k + 1)) - ry;
+    const px = side * c * dy;
+    const py = -side * c * dx;
+    const mx = 0.5 * (x0 + x1) - rx;
+    const my = 0.5 * (y0 + y1) - ry;
+    x0 = x1;
+    y0 = y1;
     fx += px;
     fy += py;
     mz += mx * py - my * px;

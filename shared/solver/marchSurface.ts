@@ -3,7 +3,7 @@ import { obliqueShock } from './obliqueShock';
 import { machParameterAfterExpansion, prandtlMeyer, prandtlMeyerMax } from './prandtlMeyer';
 import { sonicDeflection } from './sonicDeflection';
 import type { FacetWave } from './types';
-import { itemAt } from '../util/invariant.ts';
+import { present } from '../util/invariant.ts';
 
 /** Why a surface march stopped. Angles in radians. */
 export interface SurfaceLimit {
@@ -91,7 +91,7 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
   const zeroTurn = ZERO_TURN_RAD; // read once (an imported binding may be a getter call)
   let prevTheta = 0;
   for (let k = 0; k < m; k++) {
-    const thetaK = itemAt(theta, k);
+    const thetaK = present(theta[k], k, theta);
     const d = thetaK - prevTheta;
     prevTheta = thetaK;
     turn[k] = d;
@@ -106,7 +106,7 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
   let nuAhead = prandtlMeyer(machInf, gamma);
   let k = 0;
   for (; k < m; k++) {
-    const d = itemAt(turn, k);
+    const d = present(turn[k], k, turn);
     const kind = wave[k];
     let b = 0;
     let tMax = 0;

@@ -1,7 +1,7 @@
 import { signedArea, type XY } from '../model/polygon';
 import { atanNearZero } from './atanNearZero';
 import { BLUNT_FACE_ANGLE_RAD } from './constants';
-import { itemAt } from '../util/invariant.ts';
+import { itemAt, present } from '../util/invariant.ts';
 
 /** One surface as a vertex chain from the nose to the tail. Angles in radians. */
 export interface SurfaceChain {
@@ -64,8 +64,7 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
   let maxX = -Infinity;
   let minY = Infinity;
   let maxY = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const [x, y] = itemAt(points, i);
+  for (const [x, y] of points) {
     if (x < minX) minX = x;
     if (x > maxX) maxX = x;
     if (y < minY) minY = y;
@@ -76,21 +75,23 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
   // Nose: the least (x, y) vertex; tail: the greatest x, least y among exact ties. Both are
   // extreme vertices of the polygon (the orientation test at the nose relies on it).
   let noseIndex = 0;
+  let nose = itemAt(points, 0);
   for (let i = 1; i < n; i++) {
-    const p = itemAt(points, i);
-    const q = itemAt(points, noseIndex);
-    if (p[0] < q[0] || (p[0] === q[0] && p[1] < q[1])) noseIndex = i;
+    const p = present(points[i], i, points);
+    if (p[0] < nose[0] || (p[0] === nose[0] && p[1] < nose[1])) {
+      noseIndex = i;
+      nose = p;
+    }
   }
   let tailIndex = -1;
+  let tail: XY | null = null;
   for (let i = 0; i < n; i++) {
     if (i === noseIndex) continue;
-    const p = itemAt(points, i);
-    if (tailIndex < 0) {
+    const p = present(points[i], i, points);
+    if (tail === null || p[0] > tail[0] || (p[0] === tail[0] && p[1] < tail[1])) {
       tailIndex = i;
-      continue;
+      tail = p;
     }
-    const q = itemAt(points, tailIndex);
-    if (p[0] > q[0] || (p[0] === q[0] && p[1] < q[1])) tailIndex = i;
   }
   if (tailIndex < 0) tailIndex = (noseIndex + 1) % n;
   const bluntNose = verticalFace(points, noseIndex);

@@ -55,6 +55,8 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
 
     await page.getByTestId('toggle-review').click();
     await page.getByTestId('review-panel').waitFor();
+    // The review panel takes the results panel's place; the caution stays under the wave map.
+    expect(await page.getByTestId('review-caution').textContent()).toBe(RESULTS_CAUTION);
     await page.getByTestId('place-pin').click();
     await page.getByTestId('pin-placing').waitFor();
 

@@ -98,8 +98,14 @@ describe('coordinates import: file → preview → confirm → undo', () => {
     // Tomasz's view fits the new section (0.32 m long, drawn in metres) on the canvas.
     const box = (await tomasz.getByTestId('sketch-canvas').boundingBox())!;
     const viewScale = async () => Number((await tomasz.getByTestId('sketch-canvas').getAttribute('data-view'))!.split(' ')[0]);
-    await expect.poll(async () => 0.32 * (await viewScale()) <= box.width).toBe(true);
-    expect(0.32 * (await viewScale())).toBeGreaterThan(box.width / 3);
+    // Wait for the fit itself: before it, the old view (unit chord) also holds 0.32 m within the
+    // width, at less than a third of it.
+    await expect
+      .poll(async () => {
+        const width = 0.32 * (await viewScale());
+        return width <= box.width && width > box.width / 3;
+      })
+      .toBe(true);
     const after = await stored();
     expect(after.revision).toBe(before.revision + 1);
     expect(after.doc.loads.chordM).toBe(0.32);

@@ -13,19 +13,7 @@ import { pressureSignature } from '../../../shared/solver/pressureSignature';
 import { solveSection } from '../../../shared/solver/solveSection';
 import type { Wave } from '../../../shared/solver/types';
 import { itemAt } from '../../../shared/util/invariant';
-import { input, lens, type Pts } from './sections';
-
-function biconvex(m: number, t: number): Pts {
-  const upper: Pts = [];
-  const lower: Pts = [];
-  for (let i = 0; i <= m; i++) {
-    const x = i / m;
-    const y = 2 * t * x * (1 - x);
-    upper.push([x, y]);
-    lower.push([x, -y]);
-  }
-  return [...upper, ...lower.slice(1, -1).reverse()];
-}
+import { biconvex, input, lens } from './sections';
 
 /** p/p∞ behind a shock where its path crosses height y. */
 function shockPressureAt(w: Wave, y: number): number {

@@ -43,6 +43,19 @@ export function wedgeNose(upperDeg: number, lowerDeg: number): Pts {
 }
 
 /** Cambered lens with m facets per surface and cosine spacing (clockwise). */
+/** Symmetric biconvex (parabolic-arc) section, chord 1, thickness t, m facets per surface. */
+export function biconvex(m: number, t: number): Pts {
+  const upper: Pts = [];
+  const lower: Pts = [];
+  for (let i = 0; i <= m; i++) {
+    const x = i / m;
+    const y = 2 * t * x * (1 - x);
+    upper.push([x, y]);
+    lower.push([x, -y]);
+  }
+  return [...upper, ...lower.slice(1, -1).reverse()];
+}
+
 export function lens(m: number, thickness: number, camber: number): Pts {
   const upper: Pts = [];
   const lower: Pts = [];

@@ -13,22 +13,9 @@ import { solveSection } from '../../../shared/solver/solveSection';
 import type { Point, SolveResult, Wave } from '../../../shared/solver/types';
 import { firstItem, itemAt, lastItem } from '../../../shared/util/invariant';
 import { thetaFromBeta } from './independentRelations';
-import { input, lens, type Pts } from './sections';
+import { biconvex, input, lens } from './sections';
 
 const DEG = Math.PI / 180;
-
-/** Symmetric biconvex (parabolic-arc) section, chord 1, thickness t, m facets per surface. */
-function biconvex(m: number, t: number): Pts {
-  const upper: Pts = [];
-  const lower: Pts = [];
-  for (let i = 0; i <= m; i++) {
-    const x = i / m;
-    const y = 2 * t * x * (1 - x);
-    upper.push([x, y]);
-    lower.push([x, -y]);
-  }
-  return [...upper, ...lower.slice(1, -1).reverse()];
-}
 
 function byId(r: SolveResult, id: string): Wave {
   const w = r.waves.find((x) => x.id === id);

@@ -1,7 +1,7 @@
 import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
 import { RESULTS_CAUTION } from '../model/caution.ts';
 import type { SketchDocument } from '../model/sketch.ts';
-import type { DesignPointsAnalysis } from './designPoints.ts';
+import type { DesignPointsAnalysis } from './storedAnalysis.ts';
 import { facetLoads, type FacetLoad, type FacetLoadsTotal } from './facetLoads.ts';
 import { toDisplay, type Quantity, type UnitSystem } from './units.ts';
 
@@ -112,8 +112,3 @@ export function loadsCsv(title: string, doc: SketchDocument, analysis: DesignPoi
   return [...lines, csvHeader(loadsCsvHeader(u)), ...rows, ''].join('\n');
 }
 
-/** Is there anything to export for this point (loads at its altitude)? */
-export function hasFacetLoads(analysis: DesignPointsAnalysis | null, pointId: string): boolean {
-  const a = analysis?.points.find((p) => p.id === pointId)?.analysis;
-  return !!a?.loads && !!a.result;
-}

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { DesignPointsAnalysis } from '../flight/designPoints.ts';
+import type { DesignPointsAnalysis } from '../flight/storedAnalysis.ts';
 import type { SketchAnalysis } from '../flight/analyseSketch.ts';
 import type { SolveResult, SolveStatus, Wave } from '../solver/types.ts';
 import { FIRST_DESIGN_POINT_ID, FIRST_DESIGN_POINT_NAME } from './sketch.ts';
@@ -251,7 +251,7 @@ export const sketchAnalysisSchema = z.object({
   loadsNote: z.string().nullable(),
 }) satisfies z.ZodType<SketchAnalysis>;
 
-/** Every design point solved together (`DesignPointsAnalysis`, shared/flight/designPoints.ts). */
+/** Every design point solved together (`DesignPointsAnalysis`, shared/flight/storedAnalysis.ts). */
 export const designPointsAnalysisSchema = z.object({
   version: z.literal(2),
   selectedPointId: z.string(),

@@ -1,5 +1,5 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
-import { readSelectedAnalysis, type DesignPointsAnalysis } from '@shared/flight/designPoints';
+import { readSelectedAnalysis, type DesignPointsAnalysis } from '@shared/flight/storedAnalysis';
 import { formatNumber, formatSigned } from '@shared/format/number';
 import type { SnapshotDetail } from '@shared/model/review';
 import type { SketchDocument } from '@shared/model/sketch';

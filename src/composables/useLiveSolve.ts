@@ -1,6 +1,6 @@
 import { onBeforeUnmount, ref, shallowRef, toRaw, watch, type Ref } from 'vue';
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
-import type { DesignPointsAnalysis } from '@shared/flight/designPoints';
+import type { DesignPointsAnalysis } from '@shared/flight/storedAnalysis';
 import type { SketchDocument } from '@shared/model/sketch';
 import type { SolveResult } from '@shared/solver/types';
 import type { SceneState } from '@/canvas/scenePainter';

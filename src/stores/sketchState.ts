@@ -3,7 +3,7 @@ import type { Sketch } from '@shared/model/sketchApi';
 import type { SketchDocument } from '@shared/model/sketch';
 import type { SketchOp } from '@shared/model/ops';
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
-import { readSelectedAnalysis } from '@shared/flight/designPoints';
+import { readSelectedAnalysis } from '@shared/flight/storedAnalysis';
 import type { EditOp } from '@shared/protocol/messages';
 
 /** One local edit in the history: the op as applied and the op that takes it back. */

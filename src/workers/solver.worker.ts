@@ -1,6 +1,7 @@
 /// <reference lib="webworker" />
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
-import { analyseDesignPoints, selectedAnalysis } from '@shared/flight/designPoints';
+import { analyseDesignPoints } from '@shared/flight/designPoints';
+import { selectedAnalysis } from '@shared/flight/storedAnalysis';
 import { EMPTY_SCENE_CONTENT, paintLists, paintScene, sceneLists, type SceneContent, type SceneState } from '@/canvas/scenePainter';
 import { answerPacer } from './answerPacer';
 import type { SolveRequest, SolveResponse, WorkerRequest, WorkerResponse } from './solverProtocol';

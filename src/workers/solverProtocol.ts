@@ -1,5 +1,5 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
-import type { DesignPointsAnalysis } from '@shared/flight/designPoints';
+import type { DesignPointsAnalysis } from '@shared/flight/storedAnalysis';
 import type { SketchDocument } from '@shared/model/sketch';
 import type { SceneState } from '@/canvas/scenePainter';
 

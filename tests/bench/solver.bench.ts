@@ -203,7 +203,8 @@ await (async () => {
   const { runStudy, runStudySliced } = await import('../../shared/flight/study.ts');
   const { studyDefinitionSchema } = await import('../../shared/model/study.ts');
   const { normalizeDocument, sketchCase } = await import('../../shared/model/sketch.ts');
-  const { analyseDesignPoints, selectedAnalysis } = await import('../../shared/flight/designPoints.ts');
+  const { analyseDesignPoints } = await import('../../shared/flight/designPoints.ts');
+  const { selectedAnalysis } = await import('../../shared/flight/storedAnalysis.ts');
 
   const document = normalizeDocument({
     version: 1,

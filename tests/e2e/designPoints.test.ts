@@ -4,7 +4,7 @@ import { eq } from 'drizzle-orm';
 import type { RunningServer } from '../../server/index.ts';
 import { DEMO_PEOPLE } from '../../server/db/seed.ts';
 import { sketches } from '../../server/db/schema.ts';
-import { readStoredAnalysis } from '../../shared/flight/designPoints.ts';
+import { readStoredAnalysis } from '../../shared/flight/storedAnalysis.ts';
 import { normalizeDocument, selectedPoint } from '../../shared/model/sketch.ts';
 import type { TestDatabase } from '../helpers/database.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';

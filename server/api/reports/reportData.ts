@@ -1,5 +1,5 @@
 import type { SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
-import type { DesignPointsAnalysis } from '../../../shared/flight/designPoints.ts';
+import type { DesignPointsAnalysis } from '../../../shared/flight/storedAnalysis.ts';
 import type { UnitSystem } from '../../../shared/flight/units.ts';
 import type { SketchDocument } from '../../../shared/model/sketch.ts';
 import type { StudyDefinition, StudyResults } from '../../../shared/model/study.ts';

@@ -9,7 +9,7 @@ import { getPreferences } from '../preferences/service.ts';
 import type { UnitSystem } from '../../../shared/flight/units.ts';
 import { normalizeDocument } from '../../../shared/model/sketch.ts';
 import { fileSafeName } from '../../../shared/model/sketchExport.ts';
-import { readStoredAnalysis, selectedAnalysis } from '../../../shared/flight/designPoints.ts';
+import { readStoredAnalysis, selectedAnalysis } from '../../../shared/flight/storedAnalysis.ts';
 import { renderReport } from './renderReport.ts';
 import type { ReportData } from './reportData.ts';
 import { findTeamName } from './repository.ts';

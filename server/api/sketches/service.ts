@@ -10,7 +10,7 @@ import { thicknessRatio } from '../../../shared/solver/thicknessRatio.ts';
 import { solveDocument } from './solveDocument.ts';
 import * as repo from './repository.ts';
 import type { AppContext } from '../../context.ts';
-import { readStoredAnalysis } from '../../../shared/flight/designPoints.ts';
+import { readStoredAnalysis } from '../../../shared/flight/storedAnalysis.ts';
 
 /** Role check for a sketch: looks up its team first (404 when it does not exist). */
 export async function authorizeSketch(db: Db, userId: string, sketchId: string, needed: Role, what: string): Promise<{ teamId: string; role: Role }> {

@@ -1,6 +1,7 @@
 import type { AnalysisStatus } from '../../../shared/model/analysis.ts';
 import type { SketchDocument } from '../../../shared/model/sketch.ts';
-import { analyseDesignPoints, selectedAnalysis, type DesignPointsAnalysis } from '../../../shared/flight/designPoints.ts';
+import { analyseDesignPoints } from '../../../shared/flight/designPoints.ts';
+import { selectedAnalysis, type DesignPointsAnalysis } from '../../../shared/flight/storedAnalysis.ts';
 
 /** Sections larger than this are stored without their wave map (it costs O(n²) to trace). */
 export const STORED_WAVES_MAX_FACETS = 400;

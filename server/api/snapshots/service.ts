@@ -11,7 +11,7 @@ import type { ImportSection, SnapshotDetail, SnapshotSummary } from '../../../sh
 import type { ImportResult, Sketch } from '../../../shared/model/sketchApi.ts';
 import type { EditInput, EditOutcome } from '../../realtime/editLog.ts';
 import * as repo from './repository.ts';
-import { readStoredAnalysis } from '../../../shared/flight/designPoints.ts';
+import { readStoredAnalysis } from '../../../shared/flight/storedAnalysis.ts';
 
 type Row = NonNullable<Awaited<ReturnType<typeof repo.findSnapshot>>>;
 const toSummary = (r: Omit<Row, 'title' | 'document' | 'result'>): SnapshotSummary => ({ ...r, createdAt: r.createdAt.toISOString() });

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { analyseSketch } from '../../../shared/flight/analyseSketch.ts';
-import { analyseDesignPoints, pointAnalysis, readStoredAnalysis, selectedAnalysis } from '../../../shared/flight/designPoints.ts';
+import { analyseDesignPoints } from '../../../shared/flight/designPoints.ts';
+import { pointAnalysis, readStoredAnalysis, selectedAnalysis } from '../../../shared/flight/storedAnalysis.ts';
 import { caseAt, defaultSketchDocument, FIRST_DESIGN_POINT_ID, type SketchDocument } from '../../../shared/model/sketch.ts';
 import { itemAt } from '../../../shared/util/invariant.ts';
 

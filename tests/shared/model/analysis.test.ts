@@ -1,7 +1,8 @@
 import { describe, expect, expectTypeOf, it } from 'vitest';
 import type { z } from 'zod';
 import { analyseSketch, type SketchAnalysis } from '../../../shared/flight/analyseSketch.ts';
-import { analyseDesignPoints, readStoredAnalysis, type DesignPointsAnalysis } from '../../../shared/flight/designPoints.ts';
+import { analyseDesignPoints } from '../../../shared/flight/designPoints.ts';
+import { readStoredAnalysis, type DesignPointsAnalysis } from '../../../shared/flight/storedAnalysis.ts';
 import {
   ANALYSIS_STATUSES,
   designPointsAnalysisSchema,

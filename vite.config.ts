@@ -11,7 +11,7 @@ import type { Plugin } from 'vite';
  * cannot tell such calls are pure, so all schemes (~10 KB gzip) came along with the one scale we
  * use (viridis). Mark those top-level initialisers pure so that unused schemes drop out.
  */
-function pureColourSchemes(): Plugin {
+export function pureColourSchemes(): Plugin {
   return {
     name: 'shockwright:pure-colour-schemes',
     transform(code, id) {

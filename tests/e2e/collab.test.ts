@@ -96,7 +96,14 @@ describe('live collaboration in two browsers', () => {
     expect(await scaleOf(b)).not.toBeCloseTo(await scaleOf(a), 6); // …and kept his own
     await b.getByTestId('walkthrough-rejoin').click();
     await expect.poll(async () => Math.abs((await scaleOf(b)) - (await scaleOf(a))) / (await scaleOf(a)), { timeout: 10_000 }).toBeLessThan(1e-6);
-    await a.getByTestId('walkthrough-stop').click();
+    // Ines hands the lead to Tomasz (the select loads on its own once there is someone to hand
+    // over to); he leads, she follows, and he ends it.
+    await a.getByTestId('walkthrough-hand-over').click();
+    await a.locator('.ant-select-item-option[title="Tomasz Reyes"]').click();
+    await expect.poll(() => text(b, 'walkthrough-state')).toContain('You are leading');
+    await expect.poll(() => text(a, 'walkthrough-state')).toContain('Tomasz Reyes leads a walkthrough');
+    await b.getByTestId('walkthrough-stop').click();
+    await expect.poll(() => a.getByTestId('walkthrough-state').count()).toBe(0);
     await expect.poll(() => b.getByTestId('walkthrough-state').count()).toBe(0);
   });
 

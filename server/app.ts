@@ -55,7 +55,7 @@ export interface RateLimits {
   resets: number;
   /** Invitations per inviting user per hour. */
   invites: number;
-  /** Heavy requests (server-side studies, PDF reports) one person may have running at once [H1]. */
+  /** Heavy requests (server-side studies, PDF reports) one person may have running at once, over every instance [H1]. */
   heavyPerUser: number;
   /** Heavy requests this instance runs at once, over everyone [H1]. */
   heavyTotal: number;
@@ -144,7 +144,8 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
     mailboxOperators: new Set(env.NODE_ENV === 'production' ? [] : env.MAILBOX_OPERATOR),
     events: new EventEmitter(),
     edits: createEditQueue(database.db, { log }),
-    heavy: createHeavyWork({ perUser: sizes.heavyPerUser, total: sizes.heavyTotal }),
+    heavy: createHeavyWork(database.db, { perUser: sizes.heavyPerUser, total: sizes.heavyTotal }, { log }),
+    studyPauseMs: env.FAULT_STUDY_PAUSE_MS ?? 0,
   };
   const HOUR = 60 * 60 * 1000;
   const devices = createDeviceKeys(env.SESSION_SECRET);

@@ -38,6 +38,8 @@ export interface AppContext {
   events: EventEmitter<AppEvents>;
   /** Every edit to a sketch document goes through here (ordered, batched, logged). */
   edits: EditQueue;
-  /** Server-side studies and PDF reports run through here: bounded per person and per instance [H1]. */
+  /** Server-side studies and PDF reports run through here: bounded per person (over every instance) and per instance [H1]. */
   heavy: HeavyWork;
+  /** Tests only (FAULT_STUDY_PAUSE_MS): extra wait between a server study's slices, so a study outlasts the test's steps. */
+  studyPauseMs: number;
 }

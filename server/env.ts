@@ -70,6 +70,11 @@ const envSchema = z.object({
    * starts with this, before acking or broadcasting it — the crash the realtime layer must heal.
    */
   FAULT_DIE_AFTER_COMMIT: z.string().min(1).optional(),
+  /**
+   * Tests only: a server study waits this long between its slices, so it is still running when
+   * a test acts on it (another instance, a kill, a stop).
+   */
+  FAULT_STUDY_PAUSE_MS: z.coerce.number().int().min(1).max(60_000).optional(),
 });
 
 export type Env = z.infer<typeof envSchema>;
@@ -77,6 +82,9 @@ export type Env = z.infer<typeof envSchema>;
 const checkedEnvSchema = envSchema.superRefine((env, ctx) => {
   if (env.NODE_ENV !== 'test' && env.FAULT_DIE_AFTER_COMMIT !== undefined) {
     ctx.addIssue({ code: 'custom', path: ['FAULT_DIE_AFTER_COMMIT'], message: 'is for tests only (NODE_ENV=test)' });
+  }
+  if (env.NODE_ENV !== 'test' && env.FAULT_STUDY_PAUSE_MS !== undefined) {
+    ctx.addIssue({ code: 'custom', path: ['FAULT_STUDY_PAUSE_MS'], message: 'is for tests only (NODE_ENV=test)' });
   }
   if (env.NODE_ENV === 'production' && env.MAILBOX_OPERATOR.length > 0) {
     ctx.addIssue({ code: 'custom', path: ['MAILBOX_OPERATOR'], message: 'is for development only; production has no mailbox to read' });

@@ -54,6 +54,7 @@ export async function startServer(
           setTimeout(() => server.closeAllConnections(), 5_000).unref();
         });
         built.close();
+        await built.context.heavy.close();
         await database.close();
       })();
       return closing;

@@ -240,6 +240,27 @@ export const rateLimits = pgTable('rate_limits', {
 });
 
 /**
+ * Heavy-work slots held now [H1], shared by every server instance on the database, so a person's
+ * bound holds however many instances serve them. A slot is a lease: its instance renews it while
+ * the work runs and deletes it when the work settles; a row whose `lease_until` has passed (its
+ * instance died, hung or lost the database) no longer counts and is deleted by the next claim.
+ */
+export const heavyWorkSlots = pgTable(
+  'heavy_work_slots',
+  {
+    id: text('id').primaryKey(),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    /** The server process holding the slot (a new id each time a process starts). */
+    instanceId: text('instance_id').notNull(),
+    startedAt: timestamp('started_at', { withTimezone: true }).notNull().defaultNow(),
+    leaseUntil: timestamp('lease_until', { withTimezone: true }).notNull(),
+  },
+  (t) => [index('heavy_work_slots_user_idx').on(t.userId, t.leaseUntil)],
+);
+
+/**
  * The edit log of every sketch: one row per edit the realtime channel received, applied or not.
  * Applied rows carry the revision they produced (replayed to reconnecting clients); the
  * (sketch, op id) pair is unique, which is what makes a re-sent op harmless.

@@ -5,7 +5,7 @@ import { z } from 'zod';
  * (100 bits) from the platform CSPRNG, which both Node ≥ 19 and browsers expose as
  * `globalThis.crypto`.
  */
-export const ID_KINDS = ['user', 'team', 'sketch', 'invite', 'reset', 'mail', 'audit', 'op', 'pin', 'reply', 'snap', 'study', 'act', 'signup', 'point', 'outcome'] as const;
+export const ID_KINDS = ['user', 'team', 'sketch', 'invite', 'reset', 'mail', 'audit', 'op', 'pin', 'reply', 'snap', 'study', 'act', 'signup', 'point', 'outcome', 'slot', 'instance'] as const;
 export type IdKind = (typeof ID_KINDS)[number];
 
 const ALPHABET = 'abcdefghijkmnpqrstuvwxyz23456789'; // 32 symbols, no look-alikes (l, o, 0, 1)

@@ -23,6 +23,12 @@ describe('parseEnv', () => {
     expect(() => parseEnv({ ...good, ...bad })).toThrow(new EnvError(message));
   });
 
+  it('refuses the test-only faults outside NODE_ENV=test, naming them', () => {
+    expect(() => parseEnv({ ...good, FAULT_STUDY_PAUSE_MS: '2000' })).toThrow(/^Refusing to start: FAULT_STUDY_PAUSE_MS is for tests only \(NODE_ENV=test\)/);
+    expect(() => parseEnv({ ...good, FAULT_DIE_AFTER_COMMIT: 'die-' })).toThrow(/^Refusing to start: FAULT_DIE_AFTER_COMMIT is for tests only \(NODE_ENV=test\)/);
+    expect(parseEnv({ ...good, NODE_ENV: 'test', FAULT_STUDY_PAUSE_MS: '2000' }).FAULT_STUDY_PAUSE_MS).toBe(2000);
+  });
+
   it('refuses a missing DATABASE_URL', () => {
     expect(() => parseEnv({ SESSION_SECRET: good.SESSION_SECRET })).toThrow(/^Refusing to start: DATABASE_URL is required/);
   });

@@ -1,5 +1,6 @@
 /**
- * Heavy work is bounded per person and per instance [H1] (server/http/heavyWork.ts): four
+ * Heavy work is bounded per person and per instance [H1] (server/http/heavyWork.ts; across
+ * instances: tests/realtime/heavyWorkInstances.test.ts): four
  * maximal studies running at once leave /api/health answering, and with the four slots taken a
  * fifth heavy request — or a person's third — is refused at once with a 429 that says why; a
  * study whose request is closed stops and frees its slot. No timing is asserted.
@@ -7,6 +8,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { STUDY_MAX_POINTS } from '../../shared/model/study.ts';
+import { eq } from 'drizzle-orm';
+import { heavyWorkSlots } from '../../server/db/schema.ts';
 import { CSRF, createWorld, freshSketch, signIn, type World } from '../helpers/world.ts';
 
 /** 100 Mach numbers × 200 incidences: the largest study allowed ([ST4]). */
@@ -29,6 +32,12 @@ describe('[H1] heavy work bounded per person and per instance', () => {
     outsiderSketch = await freshSketch(world, world.outsiderTeamId, 'Elsewhere');
   });
   afterAll(async () => world?.close());
+
+  /** Heavy-work slots held in the database now (of one person, or everyone's). */
+  async function slotsInDatabase(userId?: string): Promise<number> {
+    const rows = await world.database.db.select().from(heavyWorkSlots).where(userId ? eq(heavyWorkSlots.userId, userId) : undefined);
+    return rows.length;
+  }
 
   const study = (cookie: string, sketch: string, name: string) =>
     request(world.app).post(`/api/sketches/${sketch}/studies`).set(CSRF).set('Cookie', cookie).send({ name, definition: MAXIMAL });
@@ -54,7 +63,9 @@ describe('[H1] heavy work bounded per person and per instance', () => {
     let release!: () => void;
     const held = new Promise<void>((r) => (release = r));
     const occupants = [world.users.owner.id, world.users.owner.id, world.users.editor.id, world.users.editor.id].map((id) => heavy.run(id, 'held work', () => held));
-    expect(heavy.running()).toBe(4);
+    // The four slots are claimed in the database (shared by every instance), then the work runs.
+    await expect.poll(() => heavy.running()).toBe(4);
+    expect(await slotsInDatabase()).toBe(4);
     try {
       const third = await study(owner, sketchId, 'A3');
       expect(third.status).toBe(429);
@@ -73,6 +84,7 @@ describe('[H1] heavy work bounded per person and per instance', () => {
       await Promise.all(occupants);
     }
     expect(heavy.running()).toBe(0);
+    expect(await slotsInDatabase()).toBe(0);
 
     // The slots are free again; the refused requests wrote nothing.
     const after = await study(outsider, outsiderSketch, 'C2');
@@ -97,6 +109,8 @@ describe('[H1] heavy work bounded per person and per instance', () => {
     expect(await settled).toBe('aborted');
     // The study stops at its next slice instead of running its 20,000 points to the end.
     await expect.poll(() => heavy.running(), { timeout: 60_000 }).toBe(0);
+    // Given back in the database too, where other instances count it.
+    await expect.poll(() => slotsInDatabase(world.users.editor.id)).toBe(0);
     const after = await request(world.app).get(`/api/sketches/${sketchId}/studies`).set('Cookie', editor);
     expect(after.body.total).toBe(before.body.total);
     expect(after.body.items.map((s: { name: string }) => s.name)).not.toContain('Closed tab');
@@ -104,7 +118,7 @@ describe('[H1] heavy work bounded per person and per instance', () => {
     let release!: () => void;
     const held = new Promise<void>((r) => (release = r));
     const two = [heavy.run(world.users.editor.id, 'held work', () => held), heavy.run(world.users.editor.id, 'held work', () => held)];
-    expect(heavy.running()).toBe(2);
+    await expect.poll(() => heavy.running()).toBe(2);
     release();
     await Promise.all(two);
   });

@@ -6,6 +6,7 @@ import { newId } from '../../../shared/model/ids.ts';
 import { findDesignPoint, normalizeDocument, sketchCase } from '../../../shared/model/sketch.ts';
 import type { CreateStudy, StudyDetail, StudyPage } from '../../../shared/model/study.ts';
 import { runStudySliced } from '../../../shared/flight/study.ts';
+import type { HeavySlot } from '../../http/heavyWork.ts';
 import * as repo from './repository.ts';
 
 /** Time the server computes before letting other requests in (see runStudySliced). */
@@ -20,10 +21,10 @@ export const STUDY_SLICE_MS = 25;
 export async function createStudy(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy, signal?: AbortSignal): Promise<StudyDetail> {
   await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'run and save studies');
   // [H1] one of the person's (and the instance's) few heavy slots, for the run and the save.
-  return ctx.heavy.run(userId, 'this study', () => computeAndSave(ctx, userId, sketchId, input, signal));
+  return ctx.heavy.run(userId, 'this study', (slot) => computeAndSave(ctx, userId, sketchId, input, slot, signal));
 }
 
-async function computeAndSave(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy, signal?: AbortSignal): Promise<StudyDetail> {
+async function computeAndSave(ctx: AppContext, userId: string, sketchId: string, input: CreateStudy, slot: HeavySlot, signal?: AbortSignal): Promise<StudyDetail> {
   const sketch = await findSketch(ctx.db, sketchId);
   if (!sketch) throw new HttpError(404, 'not_found', 'No such sketch.');
   const document = normalizeDocument(sketch.document);
@@ -32,13 +33,18 @@ async function computeAndSave(ctx: AppContext, userId: string, sketchId: string,
     throw new HttpError(400, 'invalid_study', 'definition.designPointId: that design point is not in the sketch (perhaps someone removed it).');
   }
   const outcome = await runStudySliced(sketchCase(document, pointId), input.definition, {
-    pause: () => new Promise((r) => setImmediate(r)),
+    pause: () => new Promise((r) => (ctx.studyPauseMs > 0 ? setTimeout(r, ctx.studyPauseMs) : setImmediate(r))),
     sliceMs: STUDY_SLICE_MS,
-    isCancelled: () => signal?.aborted ?? false,
+    isCancelled: () => (signal?.aborted ?? false) || slot.signal.aborted,
   });
   if (outcome.status === 'invalid') throw new HttpError(400, 'invalid_study', outcome.reason);
+  // A slot lost meanwhile (this instance hung past its lease): stop, say so, save nothing.
+  if (slot.signal.aborted) throw slot.signal.reason;
   // Only a closed request cancels a study; nobody is left to read the answer.
   if (outcome.status === 'cancelled') throw new HttpError(409, 'study_cancelled', `The study was cancelled after ${outcome.done} of ${outcome.total} points: the request was closed. Nothing was saved.`);
+  // Still holding the slot right before the save: an instance that woke after its lease ran out
+  // (someone may hold that place now) never stores what it computed.
+  await slot.confirm();
   const id = newId('study');
   await repo.insertStudy(ctx.db, {
     id,

@@ -44,8 +44,8 @@ function startStudy(server: ServerProcess, cookie: string, sketchId: string, nam
     body: JSON.stringify({ name, definition: MAXIMAL }),
     signal: closer.signal,
   }).then(
-    async (res) => ({ status: res.status, body: await res.json() }) as Answer,
-    () => (closer.signal.aborted ? 'closed' : 'connection lost') as const,
+    async (res): Promise<Answer> => ({ status: res.status, body: await res.json() }),
+    (): 'closed' | 'connection lost' => (closer.signal.aborted ? 'closed' : 'connection lost'),
   );
   return { answer, close: () => closer.abort() };
 }

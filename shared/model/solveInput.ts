@@ -10,11 +10,13 @@ import { textSchema } from './text';
  *
  * `{ name?: text, section: { points: [[x,y],...] }, flow: { mach, alphaDeg, gamma? = 1.4 },
  *    reference?: { momentPoint?: [x,y], chord?: c, leadingEdge?: [x,y] },
- *    options?: { fieldExtentChords? = 1.5, waves? = true } }`
+ *    options?: { fieldExtentChords? = 1.5, fanRayStepDeg? = 1, waves? = true } }`
  *
  * Rules: 3 to 2000 finite points forming a simple polygon (no repeated point — closer than a
  * billionth of the section's size counts as repeated —, no self-intersection, non-zero area);
- * 1 < mach ≤ 50; |alphaDeg| < 90; 1 < gamma ≤ 5/3; 0 < fieldExtentChords ≤ 100; chord > 0.
+ * 1 < mach ≤ 50; |alphaDeg| < 90; 1 < gamma ≤ 5/3; 0 < fieldExtentChords ≤ 100; chord > 0;
+ * 0 < fanRayStepDeg ≤ 180 (the wave map's fan discretisation, FAN_RAY_STEP_DEG_DEFAULT: the
+ * most Prandtl-Meyer turning between two drawn rays of a fan, up to three interior rays).
  * Every object refuses keys it does not know, by name (`flow has an unknown key "gama"`), so a
  * misspelt field is never silently replaced by its default. Every message names the field and
  * says what is wrong.
@@ -32,6 +34,8 @@ export const MACH_MAX = 50;
 export const ALPHA_LIMIT_DEG = 90;
 /** Largest γ accepted (monatomic gas). */
 export const GAMMA_MAX = 5 / 3;
+/** Largest fan ray spacing accepted, degrees (any fan is then its head and tail ray). */
+export const FAN_RAY_STEP_DEG_MAX = 180;
 /** Largest wave-map field margin accepted, chords. */
 export const FIELD_EXTENT_CHORDS_MAX = 100;
 
@@ -219,11 +223,17 @@ export const solveInputSchema = strictObject(
                 `options.fieldExtentChords must be at most ${FIELD_EXTENT_CHORDS_MAX}; got ${fmt(iss.input)}.`,
             })
             .default(FIELD_EXTENT_CHORDS_DEFAULT),
+          fanRayStepDeg: finite('options.fanRayStepDeg')
+            .gt(0, { error: (iss) => `options.fanRayStepDeg must be above 0 degrees; got ${fmt(iss.input)}.` })
+            .lte(FAN_RAY_STEP_DEG_MAX, {
+              error: (iss) => `options.fanRayStepDeg must be at most ${FAN_RAY_STEP_DEG_MAX} degrees; got ${fmt(iss.input)}.`,
+            })
+            .optional(),
           waves: z
             .boolean({ error: (iss) => `options.waves must be true or false; got ${fmt(iss.input)}.` })
             .default(true),
         },
-        () => 'options must be an object { "fieldExtentChords": n, "waves": true|false }.',
+        () => 'options must be an object { "fieldExtentChords": n, "fanRayStepDeg": d, "waves": true|false }.',
       )
       .prefault({}),
   },

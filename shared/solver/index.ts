@@ -41,6 +41,7 @@ export { linearTheoryCp } from './linearTheory';
 export { secondOrderTheoryCp, busemannCoefficients, type BusemannCoefficients } from './secondOrderTheory';
 export { maxThicknessRatio } from './maxThicknessRatio';
 export { traceWaves, type WaveMap, type WaveTraceInput } from './traceWaves';
+export { fanInteriorRays } from './fanInteriorRays';
 export { interactWaves, type FlowState, type Interactions, type LineSeed, type WaveMeeting } from './interactWaves';
 export { crossWaveFamilies, type LineCrossing } from './crossWaveFamilies';
 export { bodyHitTest, type BodyHit } from './bodyHitTest';

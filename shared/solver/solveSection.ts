@@ -212,6 +212,7 @@ export function solveSection(input: SolveInput): SolveResult {
       gamma,
       box: fieldBox(split, input.options?.fieldExtentChords ?? FIELD_EXTENT_CHORDS_DEFAULT),
       chord,
+      fanRayStepDeg: input.options?.fanRayStepDeg,
     });
     waves = map.waves;
     intersections = map.intersections;

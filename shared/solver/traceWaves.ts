@@ -1,7 +1,8 @@
 import type { XY } from '../model/polygon';
 import { firstItem, invariant, itemAt, present } from '../util/invariant.ts';
 import { bodyHitTest } from './bodyHitTest';
-import { DEG_PER_RAD, FAN_INTERIOR_RAYS, WAVE_ORIGIN_EPS_CHORDS } from './constants';
+import { DEG_PER_RAD, WAVE_ORIGIN_EPS_CHORDS } from './constants';
+import { fanInteriorRays } from './fanInteriorRays';
 import { crossWaveFamilies } from './crossWaveFamilies';
 import { interactWaves, type FlowState, type LineSeed } from './interactWaves';
 import type { SurfaceMarch } from './marchSurface';
@@ -27,6 +28,9 @@ export interface WaveTraceInput {
   /** Field box in body axes: waves stop at its edges. */
   box: { minX: number; maxX: number; minY: number; maxY: number };
   chord: number;
+  /** Most Prandtl-Meyer turning between neighbouring rays of a fan, degrees (`fanInteriorRays`);
+   *  FAN_RAY_STEP_DEG_DEFAULT when left out. */
+  fanRayStepDeg?: number;
 }
 
 /** The drawn wave pattern: waves and the points where they first meet. */
@@ -42,8 +46,10 @@ export interface WaveMap {
  *
  * Directions: a wave from the upper surface leans up and aft of the local flow direction ψ
  * (shock at ψ + β, fan rays at ψ_j + μ_j); a lower-surface wave is mirrored (ψ − β, ψ − μ).
- * Fans carry a head ray, 3 interior rays (at ¼, ½, ¾ of the turn) and a tail ray, each with
- * its own Mach number and pressure. The trailing-edge waves stand in the upper and lower
+ * Fans carry a head ray, interior rays evenly spaced in turning and a tail ray, each with its
+ * own Mach number and pressure: as many interior rays as keep neighbours at most
+ * `fanRayStepDeg` (default 0.25°) apart, at least 1 and at most 3 (at ¼, ½, ¾ of the turn) —
+ * `fanInteriorRays`. The trailing-edge waves stand in the upper and lower
  * streams (surface `upper` / `lower`, vertex = the tail); the slip line runs along the common
  * flow direction (surface `trailingEdge`).
  *
@@ -370,7 +376,7 @@ function addFan(
   const h = 0.5 * (gamma - 1);
   const pExp = gamma / (gamma - 1);
   const size = -turn; // > 0 for an expansion
-  const count = FAN_INTERIOR_RAYS + 2;
+  const count = fanInteriorRays(size, input.fanRayStepDeg) + 2;
   const rays: FanRay[] = [];
   const index = waves.length;
   const degPerRad = DEG_PER_RAD; // read once (an imported binding may be a getter call)

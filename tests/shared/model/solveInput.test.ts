@@ -136,6 +136,17 @@ describe('parseSolveInput', () => {
     expect(itemAt(ref, 0).path).toMatch(/^reference\.momentPoint/);
   });
 
+  it('parseSolveInput takes options.fanRayStepDeg (the wave map\'s fan discretisation) above 0 and up to 180 degrees, left out by default, and names it when refused', () => {
+    const base = { section: { points: diamond }, flow: { mach: 2, alphaDeg: 0 } };
+    const ok = parseSolveInput({ ...base, options: { fanRayStepDeg: 1 } });
+    expect(ok.ok && ok.value.options).toEqual({ fieldExtentChords: 1.5, waves: true, fanRayStepDeg: 1 });
+    for (const bad of [0, -1, 181, 'fine']) {
+      const issues = issuesOf({ ...base, options: { fanRayStepDeg: bad } });
+      expect(itemAt(issues, 0).path).toBe('options.fanRayStepDeg');
+      expect(itemAt(issues, 0).message).toMatch(/^options\.fanRayStepDeg must be/);
+    }
+  });
+
   it('parseSolveInput refuses an unknown key at every level by name, so a misspelt field never falls back to its default', () => {
     const base = { section: { points: diamond }, flow: { mach: 2, alphaDeg: 1 } };
     const flow = issuesOf({ ...base, flow: { mach: 2, alphaDeg: 1, gama: 1.3 } });

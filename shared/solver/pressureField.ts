@@ -19,7 +19,10 @@ export type PressureAlong = (y: number, xMin: number, xMax: number) => PressureP
  * pressure field drawn on the canvas).
  *
  * Every wave line (fan rays, shocks and Mach lines along their paths) separates two uniform
- * states; slip lines do not (the pressure is the same on both sides). Along the line the
+ * states; slip lines do not (the pressure is the same on both sides), nor does a line that
+ * carries no change (a fan's head ray, a Mach line: the same p on both sides). Those are left
+ * out: about a quarter of a finely faceted section's lines, whose crossings every row of the
+ * canvas's field would otherwise sort and walk. Along the line the
  * crossings are taken in order of x: between two crossings the pressure is the one behind
  * the previous wave, or, after leaving the section or before the first wave, the one ahead
  * of the next wave; with no wave at all, the free stream (1). Which side of a segment is
@@ -202,6 +205,8 @@ function segmentTable(waves: readonly Wave[], outline: readonly (readonly [numbe
   const seg: number[] = [];
   const add = (a: Point, b: Point, family: 1 | -1, pAhead: number, pBehind: number): void => {
     if (a[1] === b[1]) return; // parallel to every row: never crossed
+    // A line that carries no change (a fan's head ray, a Mach line) separates nothing.
+    if (pAhead === pBehind) return;
     // Looking along the segment a → b, the upstream flow is on the left for the upper
     // stream; the side toward −x is the left of a → b exactly when the segment rises.
     const leftOfSegmentAhead = family === 1;

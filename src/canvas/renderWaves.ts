@@ -49,9 +49,20 @@ export function wavePath(w: Wave, ray?: number): readonly Point[] {
 }
 
 /**
+ * Fan rays of one stream are drawn at least this far apart (screen pixels): a ray whose start
+ * and end both lie within it of the last ray drawn in its stream is left out. Rays closer than
+ * that cannot be told apart — a 200-vertex arc at the default zoom starts a ray about every
+ * pixel, a solid sheet of hairlines that cost the software rasteriser ~2.5 ms a frame — and the
+ * pressure field under them shows every ray's region all the same. Zoomed in, the rays move
+ * apart and are all drawn again.
+ */
+export const FAN_RAY_GAP_PX = 3;
+
+/**
  * The wave map as strokes: each shock, Mach line and slip line along its path, each fan as
  * its rays; every line coloured by the pressure behind it (a shock segment by segment, as it
- * weakens along the way; a fan ray by the pressure at that ray); the slip line dashed.
+ * weakens along the way; a fan ray by the pressure at that ray); the slip line dashed. Fan
+ * rays closer than FAN_RAY_GAP_PX to the last one drawn in their stream are left out.
  */
 export function renderWaves(result: SolveResult | null, view: View, layers: LayerSettings, domain: PressureDomain): DrawList {
   const paths: StrokePath[] = [];
@@ -64,11 +75,17 @@ export function renderWaves(result: SolveResult | null, view: View, layers: Laye
     }
     return out;
   };
+  // The last fan ray drawn in each stream (screen x0, y0, x1, y1), to leave out the ones beside it.
+  const lastRay: Record<string, number[] | undefined> = {};
   for (const w of result.waves) {
     if (!waveVisible(w, layers)) continue;
     if (w.kind === 'fan' && w.rays && w.rays.length > 0) {
       w.rays.forEach((ray, k) => {
-        paths.push({ points: screen(wavePath(w, k)), colour: pressureColour(ray.pRatio, domain), width: WAVE_WIDTH_PX.fan });
+        const points = screen(wavePath(w, k));
+        const last = lastRay[w.surface];
+        if (last && besideRay(points, last)) return;
+        lastRay[w.surface] = [points[0] as number, points[1] as number, points[points.length - 2] as number, points[points.length - 1] as number];
+        paths.push({ points, colour: pressureColour(ray.pRatio, domain), width: WAVE_WIDTH_PX.fan });
       });
       continue;
     }
@@ -94,6 +111,31 @@ export function renderWaves(result: SolveResult | null, view: View, layers: Laye
     }
   }
   return { paths, dots: [] };
+}
+
+/**
+ * A ray (flat screen points) that would be drawn beside the drawn ray `last` (x0, y0, x1, y1):
+ * it starts within FAN_RAY_GAP_PX of that ray and ends within it of that ray's line. (Its end
+ * is compared with the line, not the drawn segment: rays of one stream that end on a shock run
+ * nearly along it, so a neighbour a pixel away meets it further on — the shock is there.)
+ */
+function besideRay(points: readonly number[], last: readonly number[]): boolean {
+  const [ax, ay, bx, by] = last as [number, number, number, number];
+  const n = points.length;
+  return (
+    distanceToSegment(points[0] as number, points[1] as number, ax, ay, bx, by, true) < FAN_RAY_GAP_PX &&
+    distanceToSegment(points[n - 2] as number, points[n - 1] as number, ax, ay, bx, by, false) < FAN_RAY_GAP_PX
+  );
+}
+
+/** Distance from (px, py) to the segment (ax, ay)–(bx, by) (`clamp`), or to its line, pixels. */
+function distanceToSegment(px: number, py: number, ax: number, ay: number, bx: number, by: number, clamp: boolean): number {
+  const dx = bx - ax;
+  const dy = by - ay;
+  const length2 = dx * dx + dy * dy;
+  const along = length2 > 0 ? ((px - ax) * dx + (py - ay) * dy) / length2 : 0;
+  const t = clamp ? Math.min(1, Math.max(0, along)) : along;
+  return Math.hypot(px - (ax + t * dx), py - (ay + t * dy));
 }
 
 /** Meeting marks: light specks where a ray ended on a shock, rings where two shocks merged

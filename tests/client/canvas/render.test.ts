@@ -18,7 +18,8 @@ import { DEFAULT_LAYERS } from '@/canvas/layers';
 import { legendModel } from '@/canvas/legend';
 import { renderLimits } from '@/canvas/renderLimits';
 import { FACET_CP_WIDTH_PX, facetPressures, renderSection } from '@/canvas/renderSection';
-import { SLIP_DASH_PX, renderWaves, resultDomain } from '@/canvas/renderWaves';
+import { FAN_RAY_GAP_PX, SLIP_DASH_PX, WAVE_WIDTH_PX, renderWaves, resultDomain, wavePath } from '@/canvas/renderWaves';
+import { generateSection } from '@shared/model/templates';
 import { facetTooltip, waveTooltip } from '@/canvas/tooltips';
 import { toScreen } from '@/canvas/view';
 import { expectClose } from '../../helpers/expectClose';
@@ -89,6 +90,50 @@ describe('wave map renderer', () => {
     const dashed = list.paths.filter((p) => p.dash);
     expect(dashed).toHaveLength(result.waves.filter((w) => w.kind === 'slip').length);
     expect(dashed[0].dash).toEqual(SLIP_DASH_PX);
+  });
+
+  it('fan rays closer than FAN_RAY_GAP_PX to a drawn ray of their stream (start within it, end within it of its line) are left out; zoomed in, nearly every ray is drawn', () => {
+    const section = generateSection('biconvex', { thicknessPercent: 6, facetsPerSide: 100 });
+    if (!section.ok) throw new Error('no section');
+    const fine = solve(section.points, 2.5, 3);
+    const fineDomain = resultDomain(fine);
+    const fans = fine.waves.filter((w) => w.kind === 'fan');
+    const rayCount = fans.reduce((n, w) => n + (w.rays?.length ?? 0), 0);
+    const others = fine.waves.length - fans.length;
+    const distance = (p: number[], a: number[], b: number[], clamp: boolean) => {
+      const [dx, dy] = [b[0]! - a[0]!, b[1]! - a[1]!];
+      const along = ((p[0]! - a[0]!) * dx + (p[1]! - a[1]!) * dy) / (dx * dx + dy * dy);
+      const t = clamp ? Math.min(1, Math.max(0, along)) : along;
+      return Math.hypot(p[0]! - (a[0]! + t * dx), p[1]! - (a[1]! + t * dy));
+    };
+    // At the editor's usual zoom a 200-vertex arc starts a ray about every pixel.
+    const list = renderWaves(fine, view, DEFAULT_LAYERS, fineDomain);
+    const drawnRays = list.paths.filter((p) => p.width === WAVE_WIDTH_PX.fan);
+    expect(drawnRays.length).toBeLessThan(rayCount / 2);
+    expect(list.paths.filter((p) => p.width !== WAVE_WIDTH_PX.fan).length).toBeGreaterThanOrEqual(others);
+    let left = 0;
+    for (const w of fans) {
+      const stream = drawnRays.filter((p) => fans.some((f) => f.surface === w.surface && f.rays!.some((_, k) => toScreen(view, wavePath(f, k)[0]!)[0] === p.points[0] && toScreen(view, wavePath(f, k)[0]!)[1] === p.points[1])));
+      w.rays!.forEach((_, k) => {
+        const pts = wavePath(w, k).map((q) => toScreen(view, q));
+        const start = pts[0]!;
+        const end = pts[pts.length - 1]!;
+        const drawn = drawnRays.some((p) => p.points[0] === start[0] && p.points[1] === start[1] && p.points[p.points.length - 2] === end[0] && p.points[p.points.length - 1] === end[1]);
+        if (drawn) return;
+        left += 1;
+        const beside = stream.some((p) => {
+          const a = p.points.slice(0, 2);
+          const b = p.points.slice(-2);
+          return distance(start, a, b, true) < FAN_RAY_GAP_PX && distance(end, a, b, false) < FAN_RAY_GAP_PX;
+        });
+        expect(beside).toBe(true);
+      });
+    }
+    expect(left).toBe(rayCount - drawnRays.length);
+    // Sixteen times closer the vertices' rays are many pixels apart: nearly all drawn (what stays
+    // left out are rays of one tiny fan, a fraction of a degree apart, on a short way to a shock).
+    const zoomed = renderWaves(fine, { scale: 6400, originX: -2000, originY: 250 }, DEFAULT_LAYERS, fineDomain);
+    expect(zoomed.paths.filter((p) => p.width === WAVE_WIDTH_PX.fan).length).toBeGreaterThan(0.9 * rayCount);
   });
 
   it('layer toggles remove their kind of wave', () => {

@@ -18,9 +18,12 @@
  *    handler's start (the editor's own share), and until the drawing was rasterised (the
  *    compositor's share after that is not visible to a page). Then where the time went, the
  *    CPU time Chromium's processes used per move (from /proc: it hardly depends on the load),
- *    and the machine's load average: the machine is shared and its load shows in the tails.
+ *    and the machine's load average before and after each drag (as `uptime` prints it): the
+ *    machine is shared and its load shows in the tails. `BENCH_VERTICES=200` drags only the
+ *    sizes listed, `BENCH_SHOTS=folder` saves screenshots during and after each drag, and
+ *    `BENCH_TRACE=prefix` records a Chromium trace of each drag (see `startTrace`).
  */
-import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import path from 'node:path';
 import { build } from 'vite';
@@ -107,9 +110,62 @@ function chromiumThreadCpuMs(): Map<string, number> | null {
   }
 }
 
+/** The load averages as `uptime` prints them (1, 5 and 15 minutes) and the core count. */
+function uptimeLine(): string {
+  const [l1, l5, l15] = firstItems(loadavg(), 3);
+  return `load average ${l1.toFixed(2)}, ${l5.toFixed(2)}, ${l15.toFixed(2)} on ${cpus().length} cores`;
+}
+
+/**
+ * The section sizes to drag: SECTION_VERTICES, or those listed in BENCH_VERTICES (e.g.
+ * `BENCH_VERTICES=200 npm run bench:canvas`, to look at one size while working on it).
+ */
+function benchSizes(): number[] {
+  const wanted = process.env.BENCH_VERTICES;
+  if (!wanted) return SECTION_VERTICES;
+  const sizes = wanted.split(',').map(Number);
+  for (const v of sizes) if (!Number.isInteger(v) || v < 4 || v % 4 !== 0) throw new Error(`BENCH_VERTICES: ${JSON.stringify(wanted)} must list vertex counts that are multiples of 4 (e.g. 64,200)`);
+  return sizes;
+}
+
 function quantile(sorted: number[], q: number): number {
   if (sorted.length === 0) return Number.NaN;
   return itemAt(sorted, Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1)));
+}
+
+/** BENCH_SHOTS=folder: screenshots of the editor during (an eighth of the way in) and after each drag. */
+const shotsDir = process.env.BENCH_SHOTS ? path.resolve(process.env.BENCH_SHOTS) : null;
+
+/**
+ * BENCH_TRACE=path-prefix: a Chromium trace (timeline, V8 and canvas categories, every process)
+ * of each measured drag, written as `<prefix>-<vertices>v-<amplitude>px.json` for Chromium's
+ * performance panel (or any trace viewer). Tracing costs CPU: the latencies of a traced run
+ * are not the bench's figures.
+ */
+async function startTrace(page: Page) {
+  const cdp = await page.context().newCDPSession(page);
+  await cdp.send('Tracing.start', {
+    transferMode: 'ReturnAsStream',
+    traceConfig: {
+      includedCategories: ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'v8', 'v8.execute', 'disabled-by-default-v8.cpu_profiler', 'blink', 'cc', 'gpu', 'viz', 'toplevel', 'benchmark'],
+    },
+  });
+  return {
+    async stop(file: string) {
+      const done = new Promise<string>((resolve) => cdp.once('Tracing.tracingComplete', (e) => resolve(e.stream ?? '')));
+      await cdp.send('Tracing.end');
+      const handle = await done;
+      const chunks: string[] = [];
+      for (;;) {
+        const { data, eof, base64Encoded } = await cdp.send('IO.read', { handle });
+        chunks.push(base64Encoded ? Buffer.from(data, 'base64').toString('utf8') : data);
+        if (eof) break;
+      }
+      await cdp.send('IO.close', { handle });
+      writeFileSync(file, chunks.join(''));
+      console.log(`  trace written: ${file}`);
+    },
+  };
 }
 
 /** Creates a faceted biconvex of `vertices` vertices, opens it and drags its mid-chord upper vertex. */
@@ -167,6 +223,7 @@ async function dragBench(page: Page, baseUrl: string, vertices: number, amplitud
   await page.evaluate(() => {
     (globalThis as { __shockwrightPaintLatencies?: unknown }).__shockwrightPaintLatencies = { fromEvent: [], fromHandler: [] };
   });
+  const trace = process.env.BENCH_TRACE ? await startTrace(page) : null;
   const cpuBefore = chromiumThreadCpuMs();
   const startedAt = performance.now();
   for (let i = 1; i <= MOVES; i++) {
@@ -174,11 +231,18 @@ async function dragBench(page: Page, baseUrl: string, vertices: number, amplitud
     const dy = amplitudePx * Math.sin((i / MOVES) * Math.PI * 4);
     await page.mouse.move(x + (i % 3), y - dy);
     await page.waitForTimeout(MOVE_INTERVAL_MS);
+    if (shotsDir && i === MOVES / 8) await page.screenshot({ path: path.join(shotsDir, `drag-${vertices}v-${amplitudePx}px-during.png`) });
   }
   const dragMs = performance.now() - startedAt;
   const cpuAfter = chromiumThreadCpuMs();
+  if (trace) await trace.stop(`${process.env.BENCH_TRACE}-${vertices}v-${amplitudePx}px.json`);
   await page.waitForTimeout(200);
   await page.mouse.up();
+  if (shotsDir) {
+    await page.getByTestId('coef-exact-cl').filter({ hasNotText: '—' }).waitFor();
+    await page.waitForTimeout(500);
+    await page.screenshot({ path: path.join(shotsDir, `drag-${vertices}v-${amplitudePx}px-after.png`) });
+  }
   const record = await page.evaluate(
     () => (globalThis as { __shockwrightPaintLatencies?: { fromEvent: number[]; fromHandler: number[]; rasterised?: number[]; breakdown?: Record<'toWorker' | 'solve' | 'lists' | 'paint' | 'raster', number[]> } }).__shockwrightPaintLatencies,
   );
@@ -238,11 +302,15 @@ async function main() {
       await page.getByTestId('header-user').waitFor();
 
       const [l1Before] = firstItems(loadavg(), 1);
-      for (const [vertices, amplitudePx] of SECTION_VERTICES.flatMap((v) => DRAG_AMPLITUDES_PX.map((a) => [v, a] as const))) {
+      const sizes = benchSizes();
+      if (shotsDir) mkdirSync(shotsDir, { recursive: true });
+      for (const [vertices, amplitudePx] of sizes.flatMap((v) => DRAG_AMPLITUDES_PX.map((a) => [v, a] as const))) {
+        const loadBefore = uptimeLine();
         const stats = await dragBench(page, server.url, vertices, amplitudePx);
         const line = (name: string, v: number[]) =>
           `  ${name.padEnd(34)} p50 ${quantile(v, 0.5).toFixed(1).padStart(5)} ms   p90 ${quantile(v, 0.9).toFixed(1).padStart(5)} ms   p95 ${quantile(v, 0.95).toFixed(1).padStart(5)} ms   max ${(v.at(-1) ?? Number.NaN).toFixed(1).padStart(5)} ms`;
         console.log(`\nDrag of one vertex of a ${vertices}-vertex section (faceted biconvex, M 2.5, α 3°), ${MOVES} pointer moves ${MOVE_INTERVAL_MS} ms apart, ${DRAG_KINDS[amplitudePx] ?? `±${amplitudePx} px`}, ${stats.waveCount} waves at rest, pressure field and meeting marks on (the default layers)`);
+        console.log(`  machine before this drag: ${loadBefore}; after it: ${uptimeLine()}`);
         console.log(`  moves paired with a repaint: ${stats.fromEvent.length} of ${MOVES} (sent at ${stats.movesPerS.toFixed(0)}/s)`);
         if (stats.cpuPerMove) {
           const total = stats.cpuPerMove.reduce((sum, [, ms]) => sum + ms, 0);

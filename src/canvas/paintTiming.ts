@@ -5,8 +5,9 @@
  * it (the request numbers of useLiveSolve), and two latencies in ms are recorded:
  * - from the event's own timestamp (includes the browser's input queueing), and
  * - from when our handler ran (the editor's own share: solve in the worker, render, draw).
- * With the worker painting, also until the drawing was rasterised (the canvas hands its pixels
- * to the compositor then), and, for a move whose own request was solved and painted, where the
+ * With the worker painting, also until the drawing was rasterised (the worker reads a pixel
+ * after drawing in the bench, which rasterises the recorded calls there and then; otherwise the
+ * canvas does it in a task of its own right after), and, for a move whose own request was solved and painted, where the
  * time went: from the handler to the worker starting on it (the page's work, the copy, and
  * waiting behind an earlier solve), the solve, building the draw lists, the draw calls, and
  * the raster.

@@ -15,8 +15,10 @@
  *    includes that move (src/canvas/paintTiming.ts; the solver worker paints it and reports its
  *    times on its own clock, brought onto the page's), and this prints p50/p90/p95/max (target
  *    p95 ≤ 16 ms): from the event's timestamp (includes Chromium's input queueing), from our
- *    handler's start (the editor's own share), and until the drawing was rasterised (the
- *    compositor's share after that is not visible to a page). Then where the time went, the
+ *    handler's start (the editor's own share), and until the drawing was rasterised (in the
+ *    bench the worker reads a pixel right after drawing, which rasterises the recorded calls at
+ *    once instead of in the canvas's own task after it; the compositor's share after that is
+ *    not visible to a page). Then where the time went, the
  *    CPU time Chromium's processes used per move (from /proc: it hardly depends on the load),
  *    and the machine's load average before and after each drag (as `uptime` prints it): the
  *    machine is shared and its load shows in the tails. `BENCH_VERTICES=200` drags only the

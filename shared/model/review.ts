@@ -136,6 +136,16 @@ const outcomeNoteSchema = textSchema().trim().max(2000, 'must be at most 2000 ch
  * has moved on since (nobody approves what they have not seen) [A3].
  */
 export const approveSchema = z.strictObject({ revision: revisionSchema, note: outcomeNoteSchema.default('') });
+/**
+ * An owner's reset of the review [A7]: it withdraws the approval in force (or the request for
+ * changes, or the review request), so it happens only with an explicit confirmation in the body —
+ * a stray or replayed request without it changes nothing.
+ */
+export const resetReviewSchema = z.strictObject({
+  confirm: z.literal(true, {
+    error: 'is required and must be true: resetting withdraws the approval in force (or the request for changes or for review) and sets the status back to draft',
+  }),
+});
 export const requestChangesSchema = z.strictObject({
   revision: revisionSchema,
   note: textSchema({ error: 'is required: say what should change' }).trim().min(1, 'must say what should change').max(2000, 'must be at most 2000 characters'),

@@ -278,10 +278,10 @@ export const useReviewStore = defineStore('review', () => {
     bump('status');
   }
 
-  /** Owners only: back to draft; the history keeps every earlier outcome [A5]. */
+  /** Owners only, after they confirmed it [A7]: back to draft; the history keeps every earlier outcome [A5]. */
   async function resetReview(): Promise<void> {
     const id = requireSketch();
-    takeReview(await api.post(`/api/sketches/${id}/review-reset`, {}, sketchSchema));
+    takeReview(await api.post(`/api/sketches/${id}/review-reset`, { confirm: true }, sketchSchema));
     bump('status');
   }
 

@@ -335,4 +335,39 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     expect(await page.locator('[data-testid^="pick-a-"]').count()).toBeGreaterThan(0);
     expect(editor.foreignRequests).toEqual([]);
   });
+
+  it('[A7] the owner’s reset asks first and says which approval it withdraws: Keep the review keeps it, Reset to draft resets it', async () => {
+    const ines = reviewer.page;
+    const stored = async () => (await database.db.query.sketches.findFirst({ where: eq(sketches.id, sketchId) }))!;
+    await ines.getByTestId(`open-${sketchId}`).click();
+    await ines.getByTestId('sketch-canvas').waitFor();
+    await expect.poll(() => ines.getByTestId('review-status').textContent()).toBe('Approved');
+    const revision = Number((await text(ines, 'review-approval'))?.slice(1));
+    expect(revision).toBeGreaterThan(0);
+
+    await ines.getByTestId('review-decide').click();
+    await ines.getByTestId('review-reset').click();
+    const lost = ines.getByTestId('review-reset-lost');
+    await lost.waitFor();
+    expect(await lost.textContent()).toMatch(new RegExp(`^The approval of revision ${revision} by Tomasz Reyes \\(.+\\) is withdrawn: the sketch stops reading as approved`));
+    await screenshot(ines, 'review-reset-confirm');
+
+    // Keep the review: nothing is sent, the approval stands on screen and in the database.
+    await ines.getByTestId('review-reset-cancel').click();
+    await lost.waitFor({ state: 'hidden' });
+    expect(await text(ines, 'review-status')).toBe('Approved');
+    expect(await stored()).toMatchObject({ reviewStatus: 'approved' });
+    expect((await stored()).approvalId).not.toBeNull();
+
+    // Reset to draft: the header and the database follow; the caution stays with the results.
+    await ines.getByTestId('review-decide').click();
+    await ines.getByTestId('review-reset').click();
+    await ines.getByTestId('review-reset-confirm').click();
+    await expect.poll(() => ines.getByTestId('review-status').textContent()).toBe('Draft');
+    await lost.waitFor({ state: 'hidden' });
+    expect(await stored()).toMatchObject({ reviewStatus: 'draft', approvalId: null });
+    expect(await ines.getByTestId('results-caution').first().textContent()).toBe(RESULTS_CAUTION);
+    await screenshot(ines, 'review-reset-done');
+    expect(reviewer.foreignRequests).toEqual([]);
+  });
 });

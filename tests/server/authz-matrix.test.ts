@@ -203,7 +203,7 @@ const TABLE: Record<string, Entry> = {
     ok: 200,
     prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/change-requests`, body: { revision: 0, note: 'Sharpen the nose.' } }),
   },
-  'POST /api/sketches/:sketchId/review-reset': { need: 'owner', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/review-reset` }) },
+  'POST /api/sketches/:sketchId/review-reset': { need: 'owner', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/review-reset`, body: { confirm: true } }) },
   'GET /api/sketches/:sketchId/review-history': { need: 'viewer', ok: 200, prepare: async (w) => ({ path: `/api/sketches/${await freshSketch(w)}/review-history` }) },
   'POST /api/sketches/:sketchId/review-requests': {
     need: 'editor',

@@ -45,6 +45,7 @@ function validBodies(w: World): Record<string, Json> {
     'POST /api/sketches/:sketchId/import': { points: [[0, 0], [0.5, 0.04], [1, 0], [0.5, -0.04]], fileName: 'fin.csv' },
     'POST /api/sketches/:sketchId/approvals': { revision: 0, note: 'Loads checked.' },
     'POST /api/sketches/:sketchId/change-requests': { revision: 0, note: 'Sharpen the nose.' },
+    'POST /api/sketches/:sketchId/review-reset': { confirm: true },
     'POST /api/sketches/:sketchId/review-requests': { reviewerIds: [w.users.reviewer.id], message: 'Please look' },
     'POST /api/sketches/:sketchId/studies': { name: 'Envelope', definition: { mach: { kind: 'list', values: [1.5, 2.5] }, alpha: { startDeg: -2, endDeg: 2, stepDeg: 2 }, flapDeg: [0], altitudeM: 1000, friction: 'turbulent' } },
     'PATCH /api/preferences': { unitSystem: 'si' },
@@ -59,7 +60,6 @@ const BODYLESS = new Set([
   'POST /api/pins/:pinId/resolve',
   'POST /api/pins/:pinId/reopen',
   'POST /api/snapshots/:snapshotId/restore',
-  'POST /api/sketches/:sketchId/review-reset',
 ]);
 
 /** Ids that do not name anything this caller may touch, in shapes that stress the id check. */

@@ -138,13 +138,29 @@ describe('review outcomes over time', () => {
     expect(text).toContain('“The nose shock detaches at Mach 1.6, α 8°: sharpen the nose.”');
   });
 
-  it('[A5] viewers record no outcome; editors and reviewers cannot reset; an owner resets to draft', async () => {
+  it('[A5][A7] viewers record no outcome; editors and reviewers cannot reset; an owner resets to draft only with an explicit confirmation', async () => {
     const now = (await sketch()).revision;
     expect((await as('viewer').post(`/api/sketches/${sketchId}/approvals`, { revision: now })).status).toBe(403);
     expect((await as('viewer').post(`/api/sketches/${sketchId}/change-requests`, { revision: now, note: 'x' })).status).toBe(403);
-    expect((await as('editor').post(`/api/sketches/${sketchId}/review-reset`)).status).toBe(403);
-    expect((await as('reviewer').post(`/api/sketches/${sketchId}/review-reset`)).status).toBe(403);
-    const reset = await as('owner').post(`/api/sketches/${sketchId}/review-reset`);
+    expect((await as('editor').post(`/api/sketches/${sketchId}/review-reset`, { confirm: true })).status).toBe(403);
+    expect((await as('reviewer').post(`/api/sketches/${sketchId}/review-reset`, { confirm: true })).status).toBe(403);
+    // [A7] A reset withdraws what the review holds: without an explicit confirmation it is refused, naming the field, and nothing changes.
+    const before = await sketch();
+    const historyBefore = (await history()).total;
+    for (const body of [{}, { confirm: false }, { confirm: 'yes' }, { confirm: 1 }]) {
+      const refused = await as('owner').post(`/api/sketches/${sketchId}/review-reset`, body);
+      expect(refused.status).toBe(400);
+      expect(refused.body.error).toEqual({
+        code: 'invalid_input',
+        message: 'Invalid body: confirm: is required and must be true: resetting withdraws the approval in force (or the request for changes or for review) and sets the status back to draft.',
+      });
+    }
+    const unknown = await as('owner').post(`/api/sketches/${sketchId}/review-reset`, { confirm: true, force: true });
+    expect(unknown.status).toBe(400);
+    expect(unknown.body.error.message).toMatch(/force/);
+    expect(await sketch()).toMatchObject({ reviewStatus: before.reviewStatus, reviewState: before.reviewState, approval: before.approval });
+    expect((await history()).total).toBe(historyBefore);
+    const reset = await as('owner').post(`/api/sketches/${sketchId}/review-reset`, { confirm: true });
     expect(reset.status).toBe(200);
     expect(reset.body).toMatchObject({ reviewStatus: 'draft', reviewState: 'draft', approval: null });
   });

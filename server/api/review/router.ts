@@ -5,7 +5,7 @@ import { currentUser, requireUser } from '../../auth/guards.ts';
 import { parseOr400 } from '../../http/validate.ts';
 import { pageQuerySchema } from '../../../shared/model/teams.ts';
 import { idSchema } from '../../../shared/model/ids.ts';
-import { approveSchema, createPinSchema, createSnapshotSchema, importSectionSchema, pinListQuerySchema, replySchema, requestChangesSchema, reviewRequestSchema } from '../../../shared/model/review.ts';
+import { approveSchema, createPinSchema, createSnapshotSchema, importSectionSchema, pinListQuerySchema, replySchema, requestChangesSchema, resetReviewSchema, reviewRequestSchema } from '../../../shared/model/review.ts';
 import * as pins from '../pins/service.ts';
 import * as snapshots from '../snapshots/service.ts';
 import * as activity from '../activity/service.ts';
@@ -80,6 +80,8 @@ export function reviewRouter(ctx: AppContext): Router {
   });
   router.post('/sketches/:sketchId/review-reset', requireUser, async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');
+    // [A7] Destructive: only with `confirm: true` in the body.
+    parseOr400(resetReviewSchema, req.body);
     res.json(await review.resetReview(ctx, currentUser(req), sketchId));
   });
   router.get('/sketches/:sketchId/review-history', requireUser, async (req, res) => {

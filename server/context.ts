@@ -17,6 +17,10 @@ export interface AppEvents {
    * or sketch deleted): open sockets matching the filter re-check session and role at once.
    */
   accessChanged: [filter: AccessFilter];
+  /** A team's sketch list changed in a way no sketch event carries (created, duplicated, deleted): home tables refetch [T2]. */
+  teamSketchesChanged: [teamId: string];
+  /** Someone's list of teams grew (an invitation accepted, a team created): their open home pages reload it [T5]. */
+  teamsChanged: [userId: string];
 }
 
 export type { NoticeTopic } from '../shared/protocol/messages.ts';

@@ -65,6 +65,8 @@ export interface AccessHooks {
 export interface AccessGuard {
   /** A new connection: remembers its session (in this process only) and opens its lane. */
   register(socket: IoSocket): void;
+  /** The session the socket was opened with (kept in this process only). */
+  sessionOf(socket: IoSocket): string;
   /** Runs `task` in the socket's lane (after the messages before it). */
   inLane(socket: IoSocket, task: () => Promise<void>): Promise<void>;
   /** The session ended (signed out, password reset, expired): tell the client, then hang up. */
@@ -167,6 +169,7 @@ export function createAccessGuard(hub: Hub, hooks: AccessHooks): AccessGuard {
     register(socket) {
       privates.set(socket, { sessionId: (socket.request as IncomingMessage & { sessionID?: string }).sessionID ?? '', lane: Promise.resolve() });
     },
+    sessionOf: (socket) => privates.get(socket)?.sessionId ?? '',
     inLane,
     endSession,
     async checkJoin(socket, sketchId) {

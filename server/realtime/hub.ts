@@ -1,5 +1,6 @@
 import type { Server, Socket } from 'socket.io';
 import type { SessionUser } from '../auth/passport.ts';
+import type { Role } from '../../shared/model/roles.ts';
 import type { AppContext } from '../context.ts';
 import type { ClientToServerEvents, Person, ServerMessage, ServerToClientEvents } from '../../shared/protocol/messages.ts';
 import type { AccessFilter, RoomAccess } from './access.ts';
@@ -12,6 +13,8 @@ export interface SocketData {
   rooms: Map<string, RoomAccess>;
   /** Presence card per joined sketch (role may differ per team). */
   people: Record<string, Person>;
+  /** Teams whose sketch list this connection watches (the home table), with the role last checked [T1]. */
+  teams: Map<string, { role: Role }>;
 }
 /** Between server instances (through the adapter): re-check the sockets an access change concerns. */
 export interface InterServerEvents {

@@ -15,6 +15,7 @@ import { createAccessGuard, guardHandshake } from './connection.ts';
 import { createPresence, personColour } from './presence.ts';
 import { createEditChannel } from './edits.ts';
 import { createWalkthroughs } from './walkthrough.ts';
+import { createTeamWatch } from './teamWatch.ts';
 import { errorForLog } from '../log.ts';
 
 /** Messages that get a fresh database check; the frequent others reuse one younger than ACCESS_RECHECK_MS. */
@@ -63,6 +64,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     left: (socket, sketchId) => leftSketch(sketchId, socket.data.user.id),
     roleChanged: (sketchId) => presence.broadcastPeople(sketchId),
   });
+  const teamWatch = createTeamWatch(hub, access);
 
   async function join(socket: IoSocket, msg: Extract<ClientMessage, { type: 'join' }>, fail: (code: string, reason: string) => void): Promise<void> {
     const user = socket.data.user;
@@ -90,6 +92,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
   async function handle(socket: IoSocket, msg: ClientMessage): Promise<void> {
     const fail = (code: string, reason: string): void => send(socket, { type: 'error', code, reason, about: msg.type });
     if (msg.type === 'join') return join(socket, msg, fail);
+    if (msg.type === 'watchTeam' || msg.type === 'unwatchTeam') return teamWatch.handle(socket, msg, fail);
     if (!socket.data.rooms.has(msg.sketchId)) return fail('not_joined', 'Join the sketch before sending to it.');
     if (msg.type === 'leave') {
       await socket.leave(room(msg.sketchId));
@@ -100,8 +103,13 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     // Membership and role at the time of the message, not of the join [A2].
     if (!(await access.roleNow(socket, msg.sketchId, CHECKED_NOW.has(msg.type)))) return;
     switch (msg.type) {
-      case 'edit':
-        return edits.edit(socket, msg);
+      case 'edit': {
+        await edits.edit(socket, msg);
+        // The home tables of the sketch's team show its title, section, editor and time [T2].
+        const teamId = socket.data.rooms.get(msg.sketchId)?.teamId;
+        if (teamId) teamWatch.changed(teamId);
+        return;
+      }
       case 'resync': {
         const row = await findSketchState(ctx.db, msg.sketchId);
         if (!row) return fail('not_found', 'This sketch no longer exists.');
@@ -119,6 +127,7 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     edits.stop();
     presence.stop();
     access.stop();
+    teamWatch.stop();
     return closeIo(fn);
   };
 
@@ -126,7 +135,9 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     socket.data.user = (socket.request as IncomingMessage & { user?: SessionUser }).user!;
     socket.data.rooms = new Map();
     socket.data.people = {};
+    socket.data.teams = new Map();
     access.register(socket);
+    void teamWatch.register(socket).catch(logged(hub, 'person room'));
 
     socket.on('message', (raw: unknown) => {
       const parsed = clientMessageSchema.safeParse(raw);

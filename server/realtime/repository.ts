@@ -44,6 +44,41 @@ export async function checkAccess(db: Db, checks: readonly AccessCheck[]): Promi
   return out;
 }
 
+/** One socket's claim on a team's sketch list (the home table's live watch). */
+export interface TeamAccessCheck {
+  sessionId: string;
+  userId: string;
+  teamId: string;
+}
+export interface TeamAccessResult {
+  sessionLive: boolean;
+  teamExists: boolean;
+  role: Role | null;
+}
+
+/** Like checkAccess, for teams: is each session still signed in as its user, and their role in the team. */
+export async function checkTeamAccess(db: Db, checks: readonly TeamAccessCheck[]): Promise<TeamAccessResult[]> {
+  if (checks.length === 0) return [];
+  const input = JSON.stringify(checks.map((c, i) => ({ i, sid: c.sessionId, user_id: c.userId, team_id: c.teamId })));
+  const { rows } = await db.execute<{ i: number; live: boolean; team_exists: boolean; role: Role | null }>(sql`
+    select c.i,
+           exists (select 1 from session s
+                    where s.sid = c.sid and s.expire >= now() and s.sess->'passport'->>'user' = c.user_id) as live,
+           t.id is not null as team_exists, m.role
+      from jsonb_to_recordset(${input}::jsonb) as c(i int, sid text, user_id text, team_id text)
+      left join teams t on t.id = c.team_id
+      left join memberships m on m.team_id = t.id and m.user_id = c.user_id`);
+  const out: TeamAccessResult[] = checks.map(() => ({ sessionLive: false, teamExists: false, role: null }));
+  for (const r of rows) out[r.i] = { sessionLive: r.live, teamExists: r.team_exists, role: r.role };
+  return out;
+}
+
+/** The team that owns `sketchId` (null: no such sketch). */
+export async function findSketchTeam(db: Db, sketchId: string): Promise<string | null> {
+  const row = await db.query.sketches.findFirst({ where: eq(sketches.id, sketchId), columns: { teamId: true } });
+  return row?.teamId ?? null;
+}
+
 /** The parts of a sketch a socket needs when it joins or resyncs. */
 export async function findSketchState(db: Db, sketchId: string) {
   const row = await db.query.sketches.findFirst({ where: eq(sketches.id, sketchId), columns: { teamId: true, title: true, document: true, revision: true, resultRevision: true } });

@@ -86,6 +86,10 @@ export const walkthroughStopSchema = z.object({ type: z.literal('walkthroughStop
 export const walkthroughViewSchema = z.object({ type: z.literal('walkthroughView'), sketchId: sketchIdSchema, view: viewSchema, highlight: highlightSchema });
 export const walkthroughHandOverSchema = z.object({ type: z.literal('walkthroughHandOver'), sketchId: sketchIdSchema, toUserId: textSchema().max(64) });
 
+/** The home table watches a team's sketch list [T1] (membership checked by the server). */
+export const watchTeamMessageSchema = z.object({ type: z.literal('watchTeam'), teamId: idSchema('team') });
+export const unwatchTeamMessageSchema = z.object({ type: z.literal('unwatchTeam'), teamId: idSchema('team') });
+
 export const clientMessageSchema = z.discriminatedUnion('type', [
   joinMessageSchema,
   leaveMessageSchema,
@@ -96,6 +100,8 @@ export const clientMessageSchema = z.discriminatedUnion('type', [
   walkthroughStopSchema,
   walkthroughViewSchema,
   walkthroughHandOverSchema,
+  watchTeamMessageSchema,
+  unwatchTeamMessageSchema,
 ]);
 export type ClientMessage = z.infer<typeof clientMessageSchema>;
 
@@ -150,6 +156,14 @@ export type ServerMessage =
    * sketch deleted) — then the server has already taken me out of the room and sends nothing more.
    */
   | { type: 'access'; sketchId: string; role: z.infer<typeof roleSchema> | null; reason: string }
+  /** The team's sketch list is watched from now on (answer to `watchTeam`) [T1]. */
+  | { type: 'teamWatched'; teamId: string; role: z.infer<typeof roleSchema> }
+  /** The team's sketch list changed — a sketch created, renamed, edited, deleted, its review status: refetch it [T2]. Names no sketch. */
+  | { type: 'teamSketches'; teamId: string }
+  /** My membership of a watched team changed: a new role, or none — then the watch has ended and nothing more comes [T3]. */
+  | { type: 'teamAccess'; teamId: string; role: z.infer<typeof roleSchema> | null; reason: string }
+  /** My list of teams grew (I joined a team, or created one): reload it [T5]. Sent to my own connections only. */
+  | { type: 'teamsChanged' }
   | { type: 'error'; code: string; reason: string; about?: string };
 
 /** socket.io typed event maps: one event each way. */
@@ -180,5 +194,7 @@ export const PING_INTERVAL_MS = 3_000;
 export const PING_TIMEOUT_MS = 3_000;
 /** Every server instance re-sends the people list of its rooms this often (heals misses). */
 export const PEOPLE_REFRESH_MS = 5_000;
+/** A team's watchers get at most one `teamSketches` notice this often (the last change always follows). */
+export const TEAM_NOTICE_INTERVAL_MS = 1_000;
 /** Longest op log the server replays on reconnect before sending a snapshot instead. */
 export const MAX_REPLAY_EDITS = 500;

@@ -269,7 +269,8 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         if (msg.about === 'join' && msg.code !== 'internal') askedAt = null;
         return;
       }
-      if (msg.sketchId !== sketchId) return;
+      // Messages about teams (the home table's channel) carry no sketch: not this engine's.
+      if (!('sketchId' in msg) || msg.sketchId !== sketchId) return;
       switch (msg.type) {
         case 'joined':
           if (!server) {

@@ -21,7 +21,7 @@ export function teamSketchesRouter(ctx: AppContext): Router {
   router.post('/', async (req, res) => {
     const { teamId } = parseOr400(teamParams, req.params, 'params');
     const body = parseOr400(createSketchSchema, req.body);
-    res.status(201).json(await service.createSketch(db, currentUser(req).id, teamId, body));
+    res.status(201).json(await service.createSketch(ctx, currentUser(req).id, teamId, body));
   });
   return router;
 }
@@ -46,7 +46,7 @@ export function sketchesRouter(ctx: AppContext): Router {
   });
   router.post('/:sketchId/duplicate', async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');
-    res.status(201).json(await service.duplicateSketch(db, currentUser(req).id, sketchId));
+    res.status(201).json(await service.duplicateSketch(ctx, currentUser(req).id, sketchId));
   });
   router.delete('/:sketchId', async (req, res) => {
     const { sketchId } = parseOr400(sketchParams, req.params, 'params');

@@ -81,20 +81,22 @@ export async function getSketch(db: Db, userId: string, sketchId: string): Promi
   return toSketch(row);
 }
 
-export async function createSketch(db: Db, userId: string, teamId: string, input: { title: string; document?: SketchDocument }): Promise<Sketch> {
+export async function createSketch(ctx: AppContext, userId: string, teamId: string, input: { title: string; document?: SketchDocument }): Promise<Sketch> {
+  const { db } = ctx;
   await assertTeamRole(db, userId, teamId, 'editor', 'create sketches');
   const document = input.document ?? defaultSketchDocument();
   const solved = solveDocument(document);
   const id = newId('sketch');
   await repo.insertSketch(db, { id, teamId, title: input.title, document, userId, lastSolveStatus: solved.status, lastResult: solved.result });
+  ctx.events.emit('teamSketchesChanged', teamId);
   return getSketch(db, userId, id);
 }
 
-export async function duplicateSketch(db: Db, userId: string, sketchId: string): Promise<Sketch> {
-  const { teamId } = await authorizeSketch(db, userId, sketchId, 'editor', 'duplicate sketches');
-  const source = await repo.findSketch(db, sketchId);
+export async function duplicateSketch(ctx: AppContext, userId: string, sketchId: string): Promise<Sketch> {
+  const { teamId } = await authorizeSketch(ctx.db, userId, sketchId, 'editor', 'duplicate sketches');
+  const source = await repo.findSketch(ctx.db, sketchId);
   if (!source) throw new HttpError(404, 'not_found', 'No such sketch.');
-  return createSketch(db, userId, teamId, { title: `${source.title} (copy)`.slice(0, 200), document: normalizeDocument(source.document) });
+  return createSketch(ctx, userId, teamId, { title: `${source.title} (copy)`.slice(0, 200), document: normalizeDocument(source.document) });
 }
 
 /**
@@ -131,7 +133,8 @@ export async function saveDocument(ctx: AppContext, userId: string, sketchId: st
 }
 
 export async function deleteSketch(ctx: AppContext, userId: string, sketchId: string): Promise<void> {
-  await authorizeSketch(ctx.db, userId, sketchId, 'owner', 'delete sketches');
+  const { teamId } = await authorizeSketch(ctx.db, userId, sketchId, 'owner', 'delete sketches');
   await repo.deleteSketch(ctx.db, sketchId);
   ctx.events.emit('accessChanged', { sketchId });
+  ctx.events.emit('teamSketchesChanged', teamId);
 }

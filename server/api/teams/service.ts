@@ -11,6 +11,7 @@ import { errorForLog } from '../../log.ts';
 
 export async function createTeam(ctx: AppContext, userId: string, name: string): Promise<{ teamId: string; teamName: string; role: Role }> {
   const teamId = await repo.createTeam(ctx.db, name, userId);
+  ctx.events.emit('teamsChanged', userId);
   return { teamId, teamName: name, role: 'owner' };
 }
 
@@ -142,6 +143,7 @@ export async function acceptInvitation(
   });
   if (!result.ok && result.reason === 'used') throw new HttpError(410, 'invitation_used', 'This invitation has already been used.');
   if (!result.ok) throw new HttpError(409, 'already_member', 'You are already a member of this team.');
+  ctx.events.emit('teamsChanged', result.userId);
   return { userId: result.userId, email: inv.email };
 }
 

@@ -6,12 +6,14 @@ import { toScreen, toWorld, type Size, type View } from './view';
 
 /** Height of one row of the pressure field, screen pixels (the fill is a stack of rows). */
 export const FIELD_ROW_PX = 3;
+/** The rows' height while a drag moves the section ([DR6]): half the rows to read per move. */
+export const FIELD_ROW_DRAG_PX = 6;
 /** Opacity of the field fill: the grid and the waves stay readable through it. */
 export const FIELD_ALPHA = 0.3;
 
 /** The last field drawn and what it was drawn from, so that a repaint of the same result in
  *  the same view (a hover, a selection) reuses it. */
-let cached: { result: SolveResult; outline: readonly (readonly [number, number])[]; view: View; size: Size; domain: PressureDomain; list: DrawList } | null = null;
+let cached: { result: SolveResult; outline: readonly (readonly [number, number])[]; view: View; size: Size; domain: PressureDomain; rowPx: number; list: DrawList } | null = null;
 
 interface Box {
   minX: number;
@@ -34,12 +36,12 @@ const EMPTY: DrawList = { paths: [], dots: [] };
  * so that a drag does not allocate (and the garbage collector sweep) a buffer of the canvas's
  * size per move.
  */
-export function renderField(result: SolveResult | null, outline: readonly (readonly [number, number])[], view: View, size: Size, on: boolean, domain: PressureDomain): DrawList {
+export function renderField(result: SolveResult | null, outline: readonly (readonly [number, number])[], view: View, size: Size, on: boolean, domain: PressureDomain, rowPx: number = FIELD_ROW_PX): DrawList {
   if (!on || !result || result.waves.length === 0 || outline.length < 3) return EMPTY;
   const c = cached;
-  if (c && c.result === result && c.outline === outline && sameView(c.view, view) && c.size.width === size.width && c.size.height === size.height && c.domain.min === domain.min && c.domain.max === domain.max) return c.list;
-  const list = fieldRows(result, outline, view, size, domain, c?.list.image?.pixels ?? null);
-  cached = { result, outline, view: { ...view }, size: { ...size }, domain: { ...domain }, list };
+  if (c && c.result === result && c.outline === outline && c.rowPx === rowPx && sameView(c.view, view) && c.size.width === size.width && c.size.height === size.height && c.domain.min === domain.min && c.domain.max === domain.max) return c.list;
+  const list = fieldRows(result, outline, view, size, domain, rowPx, c?.list.image?.pixels ?? null);
+  cached = { result, outline, view: { ...view }, size: { ...size }, domain: { ...domain }, rowPx, list };
   return list;
 }
 
@@ -47,7 +49,7 @@ function sameView(a: View, b: View): boolean {
   return a.scale === b.scale && a.originX === b.originX && a.originY === b.originY && (a.exaggeration ?? 1) === (b.exaggeration ?? 1);
 }
 
-function fieldRows(result: SolveResult, outline: readonly (readonly [number, number])[], view: View, size: Size, domain: PressureDomain, spare: Uint8ClampedArray<ArrayBuffer> | null): DrawList {
+function fieldRows(result: SolveResult, outline: readonly (readonly [number, number])[], view: View, size: Size, domain: PressureDomain, rowPx: number, spare: Uint8ClampedArray<ArrayBuffer> | null): DrawList {
   const box = waveBox(result);
   const [sx0, sTop] = toScreen(view, [box.minX, box.maxY]);
   const [sx1, sBottom] = toScreen(view, [box.maxX, box.minY]);
@@ -59,7 +61,7 @@ function fieldRows(result: SolveResult, outline: readonly (readonly [number, num
   const xMin = toWorld(view, [left, 0])[0];
   const xMax = toWorld(view, [right, 0])[0];
   const ys: number[] = [];
-  for (let sy = top; sy < bottom; sy += FIELD_ROW_PX) ys.push(toWorld(view, [0, sy + Math.min(FIELD_ROW_PX, bottom - sy) / 2])[1]);
+  for (let sy = top; sy < bottom; sy += rowPx) ys.push(toWorld(view, [0, sy + Math.min(rowPx, bottom - sy) / 2])[1]);
   // One pixel per column and per row; a step [x0, x1) fills the columns whose centres it holds.
   const imageX = Math.floor(left);
   const width = Math.ceil(right) - imageX;
@@ -107,7 +109,7 @@ function fieldRows(result: SolveResult, outline: readonly (readonly [number, num
     colourIndex,
   );
   flush();
-  return { image: { x: imageX, y: top, width, height: bottom - top, rows: ys.length, rowHeight: FIELD_ROW_PX, alpha: FIELD_ALPHA, pixels }, paths: [], dots: [] };
+  return { image: { x: imageX, y: top, width, height: bottom - top, rows: ys.length, rowHeight: rowPx, alpha: FIELD_ALPHA, pixels }, paths: [], dots: [] };
 }
 
 /** The field box: the extent of the waves' paths (they end on it). */

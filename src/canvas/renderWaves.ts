@@ -57,14 +57,17 @@ export function wavePath(w: Wave, ray?: number): readonly Point[] {
  * apart and are all drawn again.
  */
 export const FAN_RAY_GAP_PX = 3;
+/** The gap while a drag moves the section ([DR6]): about half as many rays to rasterise per move. */
+export const FAN_RAY_GAP_DRAG_PX = 6;
 
 /**
  * The wave map as strokes: each shock, Mach line and slip line along its path, each fan as
  * its rays; every line coloured by the pressure behind it (a shock segment by segment, as it
  * weakens along the way; a fan ray by the pressure at that ray); the slip line dashed. Fan
- * rays closer than FAN_RAY_GAP_PX to the last one drawn in their stream are left out.
+ * rays closer than `rayGapPx` (FAN_RAY_GAP_PX; FAN_RAY_GAP_DRAG_PX during a drag) to the last
+ * one drawn in their stream are left out.
  */
-export function renderWaves(result: SolveResult | null, view: View, layers: LayerSettings, domain: PressureDomain): DrawList {
+export function renderWaves(result: SolveResult | null, view: View, layers: LayerSettings, domain: PressureDomain, rayGapPx: number = FAN_RAY_GAP_PX): DrawList {
   const paths: StrokePath[] = [];
   if (!result) return { paths, dots: [] };
   const screen = (pts: readonly Point[]): number[] => {
@@ -83,7 +86,7 @@ export function renderWaves(result: SolveResult | null, view: View, layers: Laye
       w.rays.forEach((ray, k) => {
         const points = screen(wavePath(w, k));
         const last = lastRay[w.surface];
-        if (last && besideRay(points, last)) return;
+        if (last && besideRay(points, last, rayGapPx)) return;
         lastRay[w.surface] = [points[0] as number, points[1] as number, points[points.length - 2] as number, points[points.length - 1] as number];
         paths.push({ points, colour: pressureColour(ray.pRatio, domain), width: WAVE_WIDTH_PX.fan });
       });
@@ -115,16 +118,16 @@ export function renderWaves(result: SolveResult | null, view: View, layers: Laye
 
 /**
  * A ray (flat screen points) that would be drawn beside the drawn ray `last` (x0, y0, x1, y1):
- * it starts within FAN_RAY_GAP_PX of that ray and ends within it of that ray's line. (Its end
+ * it starts within `gap` pixels of that ray and ends within them of that ray's line. (Its end
  * is compared with the line, not the drawn segment: rays of one stream that end on a shock run
  * nearly along it, so a neighbour a pixel away meets it further on — the shock is there.)
  */
-function besideRay(points: readonly number[], last: readonly number[]): boolean {
+function besideRay(points: readonly number[], last: readonly number[], gap: number): boolean {
   const [ax, ay, bx, by] = last as [number, number, number, number];
   const n = points.length;
   return (
-    distanceToSegment(points[0] as number, points[1] as number, ax, ay, bx, by, true) < FAN_RAY_GAP_PX &&
-    distanceToSegment(points[n - 2] as number, points[n - 1] as number, ax, ay, bx, by, false) < FAN_RAY_GAP_PX
+    distanceToSegment(points[0] as number, points[1] as number, ax, ay, bx, by, true) < gap &&
+    distanceToSegment(points[n - 2] as number, points[n - 1] as number, ax, ay, bx, by, false) < gap
   );
 }
 

@@ -8,8 +8,8 @@ import { renderGrid } from './renderGrid';
 import { renderLimits } from './renderLimits';
 import { renderReadout } from './renderReadout';
 import { renderSection } from './renderSection';
-import { renderField } from './renderField';
-import { renderMeetings, renderWaves, resultDomain } from './renderWaves';
+import { FIELD_ROW_DRAG_PX, FIELD_ROW_PX, renderField } from './renderField';
+import { FAN_RAY_GAP_DRAG_PX, FAN_RAY_GAP_PX, renderMeetings, renderWaves, resultDomain } from './renderWaves';
 import { toScreen, type Size, type View } from './view';
 
 /**
@@ -57,15 +57,23 @@ export interface SceneContent {
 
 export const EMPTY_SCENE_CONTENT: SceneContent = { points: [], result: null, solvedPoints: null, hinge: null, invalid: false };
 
+/**
+ * How much detail the wave map is drawn with ([DR6]): `full`, or `drag` — painted on every move
+ * of a drag, with the pressure field in rows of FIELD_ROW_DRAG_PX and fan rays at least
+ * FAN_RAY_GAP_DRAG_PX apart; the worker paints the full detail again when the pointer pauses.
+ */
+export type SceneDetail = 'full' | 'drag';
+
 /** The scene's draw lists, bottom to top (pure; tests read them). */
-export function sceneLists(state: SceneState, content: SceneContent): DrawList[] {
+export function sceneLists(state: SceneState, content: SceneContent, detail: SceneDetail = 'full'): DrawList[] {
   const { view, size, layers } = state;
   const domain = resultDomain(content.result);
+  const drag = detail === 'drag';
   // The pressure field's rows and the meeting marks go with the waves: a list draws its row
   // picture first (translucent, over the grid's background and lines), then the lines, then the dots.
-  const field = renderField(content.result, content.solvedPoints ?? content.points, view, size, layers.pressureField ?? true, domain);
+  const field = renderField(content.result, content.solvedPoints ?? content.points, view, size, layers.pressureField ?? true, domain, drag ? FIELD_ROW_DRAG_PX : FIELD_ROW_PX);
   const meetings = renderMeetings(content.result, view, size, layers.meetings ?? true);
-  const waves = renderWaves(content.result, view, layers, domain);
+  const waves = renderWaves(content.result, view, layers, domain, drag ? FAN_RAY_GAP_DRAG_PX : FAN_RAY_GAP_PX);
   const lists: DrawList[] = [
     renderGrid(view, size, layers.grid),
     // Thin lines whose crossings nobody can tell apart: stroked in batches (drawPaths.ts).
@@ -88,8 +96,8 @@ export function sceneLists(state: SceneState, content: SceneContent): DrawList[]
 }
 
 /** Paints the scene on a 2D context whose canvas is `size × pixelRatio` device pixels. */
-export function paintScene(ctx: CanvasRenderingContext2D | OffscreenCanvasRenderingContext2D, state: SceneState, content: SceneContent): void {
-  paintLists(ctx, state, sceneLists(state, content));
+export function paintScene(ctx: CanvasRenderingContext2D | OffscreenCanvasRenderingContext2D, state: SceneState, content: SceneContent, detail: SceneDetail = 'full'): void {
+  paintLists(ctx, state, sceneLists(state, content, detail));
 }
 
 /** Paints draw lists built by `sceneLists` (the worker times the two steps apart for the bench). */

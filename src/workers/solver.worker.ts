@@ -2,7 +2,7 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
 import { analyseDesignPoints } from '@shared/flight/designPoints';
 import { selectedAnalysis } from '@shared/flight/storedAnalysis';
-import { EMPTY_SCENE_CONTENT, paintLists, paintScene, sceneLists, type SceneContent, type SceneState } from '@/canvas/scenePainter';
+import { EMPTY_SCENE_CONTENT, paintLists, paintScene, sceneLists, type SceneContent, type SceneDetail, type SceneState } from '@/canvas/scenePainter';
 import { answerPacer } from './answerPacer';
 import type { SolveRequest, SolveResponse, WorkerRequest, WorkerResponse } from './solverProtocol';
 
@@ -15,7 +15,8 @@ import type { SolveRequest, SolveResponse, WorkerRequest, WorkerResponse } from 
  * (the solve is scheduled behind the messages already queued), so a fast drag never builds a
  * queue. When the page has transferred the scene canvas, the worker paints the scene right
  * after each solve — the section and its wave map reach the screen together, without the
- * page's main thread [DR1] — and again after each scene change from the page.
+ * page's main thread [DR1] — and again after each scene change from the page. A drag's
+ * previews are painted with less detail and the scene in full when the pointer pauses [DR6].
  */
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 
@@ -29,9 +30,17 @@ let content: SceneContent = EMPTY_SCENE_CONTENT;
 /** The last answer that could be solved: its waves stay on screen while a drag passes through a crossing. */
 let lastGood: SketchAnalysis | null = null;
 let contentSeq = 0;
-/** Answers to the page: thinned outside a drag, held until the pointer pauses during one (answerPacer.ts). */
+/** The scene on screen was painted with a drag's detail ([DR6]): paint it in full at the pause. */
+let dragDetailShown = false;
+/**
+ * Answers to the page: thinned outside a drag, held until the pointer pauses during one
+ * (answerPacer.ts). The pause is also when a scene painted with a drag's detail is painted in full.
+ */
 const ANSWER_INTERVAL_MS = 80;
-const answers = answerPacer<SolveResponse>((answer) => post(answer), ANSWER_INTERVAL_MS);
+const answers = answerPacer<SolveResponse>((answer) => {
+  post(answer);
+  if (dragDetailShown) paint();
+}, ANSWER_INTERVAL_MS);
 /** How long the last solve took (bench timing). */
 let lastSolveMs = 0;
 
@@ -94,20 +103,23 @@ function solve(request: SolveRequest) {
     answer = { type: 'answer', seq: request.seq, ok: false, message: `The solver failed unexpectedly: ${(err as Error).message}` };
   }
   contentSeq = request.seq;
-  paint(lastSolveMs);
-  // A drag's preview (only the selected point solved) waits for the pointer to pause.
-  answers.offer(answer, request.selectedOnly === true);
+  // A drag's preview (only the selected point solved) is painted with a drag's detail, and its
+  // answer waits for the pointer to pause (when the scene is painted in full again).
+  const drag = request.selectedOnly === true;
+  paint(lastSolveMs, drag ? 'drag' : 'full');
+  answers.offer(answer, drag);
 }
 
 /** Paints the scene; `solveMs` is the solve it follows (0 for a scene change). */
-function paint(solveMs = 0) {
+function paint(solveMs = 0, detail: SceneDetail = 'full') {
   if (!canvas || !context || !scene) return;
   const t0 = performance.now();
   const w = Math.max(1, Math.round(scene.size.width * scene.pixelRatio));
   const h = Math.max(1, Math.round(scene.size.height * scene.pixelRatio));
   if (canvas.width !== w) canvas.width = w;
   if (canvas.height !== h) canvas.height = h;
-  const lists = sceneLists(scene, content);
+  const lists = sceneLists(scene, content, detail);
+  dragDetailShown = detail === 'drag';
   const listed = performance.now();
   paintLists(context, scene, lists);
   if (bench && contentSeq > 0) {

@@ -22,7 +22,7 @@
  *    CPU time Chromium's processes used per move (from /proc: it hardly depends on the load),
  *    and the machine's load average before and after each drag (as `uptime` prints it): the
  *    machine is shared and its load shows in the tails. `BENCH_VERTICES=200` drags only the
- *    sizes listed, `BENCH_SHOTS=folder` saves screenshots during and after each drag, and
+ *    sizes listed, `BENCH_SHOTS=folder` saves screenshots during each drag, at its pause and after it, and
  *    `BENCH_TRACE=prefix` records a Chromium trace of each drag (see `startTrace`).
  */
 import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -135,7 +135,7 @@ function quantile(sorted: number[], q: number): number {
   return itemAt(sorted, Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1)));
 }
 
-/** BENCH_SHOTS=folder: screenshots of the editor during (an eighth of the way in) and after each drag. */
+/** BENCH_SHOTS=folder: screenshots of the editor during each drag (an eighth of the way in), at its pause (still holding) and after it. */
 const shotsDir = process.env.BENCH_SHOTS ? path.resolve(process.env.BENCH_SHOTS) : null;
 
 /**
@@ -239,6 +239,8 @@ async function dragBench(page: Page, baseUrl: string, vertices: number, amplitud
   const cpuAfter = chromiumThreadCpuMs();
   if (trace) await trace.stop(`${process.env.BENCH_TRACE}-${vertices}v-${amplitudePx}px.json`);
   await page.waitForTimeout(200);
+  // Still holding the vertex: the pointer has paused, so the scene is painted in full again.
+  if (shotsDir) await page.screenshot({ path: path.join(shotsDir, `drag-${vertices}v-${amplitudePx}px-paused.png`) });
   await page.mouse.up();
   if (shotsDir) {
     await page.getByTestId('coef-exact-cl').filter({ hasNotText: '—' }).waitFor();

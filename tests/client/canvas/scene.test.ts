@@ -5,7 +5,10 @@ import { solveSection } from '@shared/solver';
 import { drawList, HAIRLINE_MAX_PX, type DrawList } from '@/canvas/drawPaths';
 import { DEFAULT_LAYERS } from '@/canvas/layers';
 import { readoutLines } from '@/canvas/renderReadout';
+import { FIELD_ROW_DRAG_PX, FIELD_ROW_PX } from '@/canvas/renderField';
+import { FAN_RAY_GAP_DRAG_PX, WAVE_WIDTH_PX, renderWaves, resultDomain } from '@/canvas/renderWaves';
 import { sceneLists, type SceneContent, type SceneState } from '@/canvas/scenePainter';
+import { generateSection } from '@shared/model/templates';
 import { toScreen } from '@/canvas/view';
 
 function solve(points: Point[], mach: number, alphaDeg: number) {
@@ -65,6 +68,26 @@ describe('scene painter', () => {
     expect(readout.paths[0].points[1]).toBeLessThan(vy);
     // A vertex index beyond the section (a stale mark) draws nothing.
     expect(sceneLists({ ...state, readoutVertex: 9 }, content)).toHaveLength(lists.length - 1);
+  });
+
+  it('[DR6] a drag\'s detail: the field in rows of FIELD_ROW_DRAG_PX and fan rays at least FAN_RAY_GAP_DRAG_PX apart; the grid, the section and the other waves as in full', () => {
+    const section = generateSection('biconvex', { thicknessPercent: 6, facetsPerSide: 100 });
+    if (!section.ok) throw new Error('no section');
+    const result = solve(section.points, 2.5, 3);
+    const content: SceneContent = { points: section.points, result, solvedPoints: section.points, hinge: null, invalid: false };
+    const full = sceneLists(state, content);
+    const drag = sceneLists(state, content, 'drag');
+    expect(full[1].image!.rowHeight).toBe(FIELD_ROW_PX);
+    expect(drag[1].image!.rowHeight).toBe(FIELD_ROW_DRAG_PX);
+    expect(drag[1].image!.rows).toBe(Math.ceil(full[1].image!.rows * (FIELD_ROW_PX / FIELD_ROW_DRAG_PX)));
+    const rays = (list: DrawList) => list.paths.filter((p) => p.width === WAVE_WIDTH_PX.fan);
+    expect(rays(drag[1]).length).toBeLessThan(rays(full[1]).length);
+    expect(drag[1].paths.filter((p) => p.width !== WAVE_WIDTH_PX.fan)).toEqual(full[1].paths.filter((p) => p.width !== WAVE_WIDTH_PX.fan));
+    expect(drag[1].dots).toEqual(full[1].dots);
+    expect(drag[0]).toEqual(full[0]);
+    expect(drag.slice(2)).toEqual(full.slice(2));
+    // The drag's rays are those a full paint draws with the wider gap.
+    expect(rays(drag[1])).toEqual(rays(renderWaves(result, state.view, DEFAULT_LAYERS, resultDomain(result), FAN_RAY_GAP_DRAG_PX)));
   });
 
   it('an unsolvable section keeps the last waves, drops the limit rings and its facet shading', () => {

@@ -105,7 +105,8 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
     }
     const end = present(path[points - 1], points - 1, path);
     if (seed.ray >= 0) {
-      invariant(w.rays, `a fan ray's wave ${w.id} has rays`);
+      // The message is built only when it is needed (this runs for every fan ray).
+      if (!w.rays) invariant(false, `a fan ray's wave ${w.id} has rays`);
       const ray = present(w.rays[seed.ray], seed.ray, w.rays);
       ray.end = end;
       ray.path = path;
@@ -118,14 +119,14 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
     if (seed.ray < 0) {
       const from = first - i;
       const to = from + points - 1;
-      const ahead = Array.from(pAhead.subarray(from, to));
-      const behind = Array.from(pBehind.subarray(from, to));
+      const ahead = plainList(pAhead, from, to, 1);
+      const behind = plainList(pBehind, from, to, 1);
       w.pRatioAheadAlong = ahead;
       w.pRatioBehindAlong = behind;
       if (w.kind === 'shock') {
         w.pRatioAlong = behind.map((p, k) => p / present(ahead[k], k, ahead));
-        w.betaDegAlong = Array.from(traced.angleFromFlow.subarray(from, to), (b) => b * DEG_PER_RAD);
-        w.machBehindAlong = Array.from(traced.machBehind.subarray(from, to));
+        w.betaDegAlong = plainList(traced.angleFromFlow, from, to, DEG_PER_RAD);
+        w.machBehindAlong = plainList(traced.machBehind, from, to, 1);
       }
     }
   }
@@ -185,6 +186,16 @@ export function traceWaves(input: WaveTraceInput): WaveMap {
   crossings.sort((p, q) => p.x - q.x || p.y - q.y);
   for (const c of crossings) intersections.push({ at: [c.x, c.y], waves: [lineId(c.a), lineId(c.b)], kind: 'crossed' });
   return { waves, intersections };
+}
+
+/**
+ * `values[from…to)` times `scale`, as a plain list (the result is plain JSON). A loop: Array.from
+ * of a typed array walks an iterator, several times slower for the long paths of far-field shocks.
+ */
+function plainList(values: Float64Array, from: number, to: number, scale: number): number[] {
+  const out: number[] = new Array(to - from);
+  for (let k = from; k < to; k++) out[k - from] = present(values[k], k, values) * scale;
+  return out;
 }
 
 interface StreamState {

@@ -24,54 +24,95 @@ export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower:
   if (!(chord > 0)) return 0;
   const cx = ex / chord;
   const cy = ey / chord;
-  const toChordAxes = (c: Pick<SurfaceChain, 'xs' | 'ys'>) => {
-    const n = c.xs.length;
-    const xs: number[] = new Array(n);
-    const ys: number[] = new Array(n);
-    for (let i = 0; i < n; i++) {
-      const x = present(c.xs[i], i, c.xs) - x0;
-      const y = present(c.ys[i], i, c.ys) - y0;
-      xs[i] = x * cx + y * cy;
-      ys[i] = -x * cy + y * cx;
-    }
-    return { xs, ys };
-  };
-  const u = toChordAxes(upper);
-  const l = toChordAxes(lower);
-  if (monotone(u.xs) && monotone(l.xs)) {
-    const t = Math.max(sweep(u, l, 1), sweep(l, u, -1));
+  // The usual section: both chains run monotonically along the chord line. The chord-line
+  // coordinates are computed where they are read (no copies, no closures: this runs in every
+  // core solve).
+  if (monotone(upper, x0, y0, cx, cy) && monotone(lower, x0, y0, cx, cy)) {
+    const t = Math.max(sweep(upper, lower, 1, x0, y0, cx, cy), sweep(lower, upper, -1, x0, y0, cx, cy));
     return Math.max(0, t) / chord;
   }
-  return extentAtVertices(u, l) / chord;
+  return extentAtVertices(toChordAxes(upper, x0, y0, cx, cy), toChordAxes(lower, x0, y0, cx, cy)) / chord;
 }
 
-function monotone(xs: readonly number[]): boolean {
-  for (let i = 1; i < xs.length; i++) if (present(xs[i], i, xs) < present(xs[i - 1], i - 1, xs)) return false;
+/** A chain in chord-line axes: s = (p − p0)·(cx, cy) along, n = (p − p0)·(−cy, cx) normal. */
+function toChordAxes(c: Pick<SurfaceChain, 'xs' | 'ys'>, x0: number, y0: number, cx: number, cy: number): Pick<SurfaceChain, 'xs' | 'ys'> {
+  const n = c.xs.length;
+  const xs: number[] = new Array(n);
+  const ys: number[] = new Array(n);
+  for (let i = 0; i < n; i++) {
+    const x = present(c.xs[i], i, c.xs) - x0;
+    const y = present(c.ys[i], i, c.ys) - y0;
+    xs[i] = x * cx + y * cy;
+    ys[i] = -x * cy + y * cx;
+  }
+  return { xs, ys };
+}
+
+/** Whether the chain's chord-line coordinate s never decreases nose → tail. */
+function monotone(c: Pick<SurfaceChain, 'xs' | 'ys'>, x0: number, y0: number, cx: number, cy: number): boolean {
+  const xs = c.xs;
+  const ys = c.ys;
+  let before = -Infinity;
+  for (let i = 0; i < xs.length; i++) {
+    const s = (present(xs[i], i, xs) - x0) * cx + (present(ys[i], i, ys) - y0) * cy;
+    if (s < before) return false;
+    before = s;
+  }
   return true;
 }
 
-/** max over a's vertices of sign·(y_a − y_b(x)), walking b alongside. */
-function sweep(a: Pick<SurfaceChain, 'xs' | 'ys'>, b: Pick<SurfaceChain, 'xs' | 'ys'>, sign: 1 | -1): number {
+/**
+ * max over a's vertices of sign·(n_a − n_b(s)), walking b alongside, both in chord-line axes
+ * (computed here from body axes with the same arithmetic as `toChordAxes`).
+ */
+function sweep(
+  a: Pick<SurfaceChain, 'xs' | 'ys'>,
+  b: Pick<SurfaceChain, 'xs' | 'ys'>,
+  sign: 1 | -1,
+  ox: number,
+  oy: number,
+  cx: number,
+  cy: number,
+): number {
   let best = -Infinity;
   let j = 0;
-  const nb = b.xs.length;
-  // j stays below nb − 1, so b's segment j → j + 1 exists (a chain has at least two vertices).
-  for (let i = 0; i < a.xs.length; i++) {
-    const x = present(a.xs[i], i, a.xs);
-    while (j < nb - 2 && present(b.xs[j + 1], j + 1, b.xs) < x) j++;
-    const x0 = present(b.xs[j], j, b.xs);
-    const x1 = present(b.xs[j + 1], j + 1, b.xs);
-    const y0 = present(b.ys[j], j, b.ys);
-    const y1 = present(b.ys[j + 1], j + 1, b.ys);
+  const axs = a.xs;
+  const ays = a.ys;
+  const bxs = b.xs;
+  const bys = b.ys;
+  const nb = bxs.length;
+  // b's segment j → j + 1 in chord-line axes; j stays below nb − 1, so it exists (a chain has
+  // at least two vertices).
+  const bx0 = present(bxs[0], 0, bxs) - ox;
+  const by0 = present(bys[0], 0, bys) - oy;
+  let s0 = bx0 * cx + by0 * cy;
+  let n0 = -bx0 * cy + by0 * cx;
+  let bx1 = present(bxs[1], 1, bxs) - ox;
+  let by1 = present(bys[1], 1, bys) - oy;
+  let s1 = bx1 * cx + by1 * cy;
+  let n1 = -bx1 * cy + by1 * cx;
+  for (let i = 0; i < axs.length; i++) {
+    const ax = present(axs[i], i, axs) - ox;
+    const ay = present(ays[i], i, ays) - oy;
+    const x = ax * cx + ay * cy;
+    while (j < nb - 2 && s1 < x) {
+      j++;
+      s0 = s1;
+      n0 = n1;
+      bx1 = present(bxs[j + 1], j + 1, bxs) - ox;
+      by1 = present(bys[j + 1], j + 1, bys) - oy;
+      s1 = bx1 * cx + by1 * cy;
+      n1 = -bx1 * cy + by1 * cx;
+    }
     let yb: number;
-    if (x1 > x0) {
-      const f = Math.min(1, Math.max(0, (x - x0) / (x1 - x0)));
-      yb = y0 + f * (y1 - y0);
+    if (s1 > s0) {
+      const f = Math.min(1, Math.max(0, (x - s0) / (s1 - s0)));
+      yb = n0 + f * (n1 - n0);
     } else {
       // A vertical step in b: take the side that keeps the thickness smallest.
-      yb = sign > 0 ? Math.max(y0, y1) : Math.min(y0, y1);
+      yb = sign > 0 ? Math.max(n0, n1) : Math.min(n0, n1);
     }
-    const t = sign * (present(a.ys[i], i, a.ys) - yb);
+    const t = sign * (-ax * cy + ay * cx - yb);
     if (t > best) best = t;
   }
   return best;

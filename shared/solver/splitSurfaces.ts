@@ -64,7 +64,10 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
   let maxX = -Infinity;
   let minY = Infinity;
   let maxY = -Infinity;
-  for (const [x, y] of points) {
+  for (let i = 0; i < n; i++) {
+    const p = present(points[i], i, points);
+    const x = p[0];
+    const y = p[1];
     if (x < minX) minX = x;
     if (x > maxX) maxX = x;
     if (y < minY) minY = y;
@@ -181,8 +184,9 @@ function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1):
   const turn: number[] = new Array(m);
   const length: number[] = new Array(m);
   let i = nose;
-  let x0 = itemAt(points, i)[0];
-  let y0 = itemAt(points, i)[1];
+  const start = itemAt(points, i);
+  let x0 = start[0];
+  let y0 = start[1];
   vertices[0] = i;
   xs[0] = x0;
   ys[0] = y0;
@@ -193,7 +197,10 @@ function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1):
     let j = i + step;
     if (j === n) j = 0;
     else if (j < 0) j = n - 1;
-    const [x1, y1] = itemAt(points, j);
+    // j stays in [0, n) by the wrap above; the hot loop reads the point itself (see present).
+    const p = present(points[j], j, points);
+    const x1 = p[0];
+    const y1 = p[1];
     const dx = x1 - x0;
     const dy = y1 - y0;
     edges[k] = step === 1 ? i : j;

@@ -13,7 +13,7 @@ import {
   ZERO_TURN_RAD,
 } from './constants';
 import { facetDeflections } from './facetDeflections';
-import { integrateLoads, type Loads } from './integrateLoads';
+import { integrateLoadsOfThree, type Loads } from './integrateLoads';
 import { linearTheoryCp } from './linearTheory';
 import { marchSurface, type SurfaceLimit, type SurfaceMarch } from './marchSurface';
 import { matchTrailingEdge, type TailMatch, type TailTurn } from './matchTrailingEdge';
@@ -107,10 +107,12 @@ export function solveSection(input: SolveInput): SolveResult {
   const { c1, c2 } = busemannCoefficients(mach, gamma);
   // Ackeret's Cp is linear in θ: its slope is linearTheoryCp(1 rad).
   const linearSlope = linearTheoryCp(1, mach);
-  const cpLinU = theoryCp(thetaU, linearSlope, 0);
-  const cpLinL = theoryCp(thetaL, linearSlope, 0);
-  const cp2U = theoryCp(thetaU, c1, c2);
-  const cp2L = theoryCp(thetaL, c1, c2);
+  const theoryU = theoryCp(thetaU, linearSlope, c1, c2);
+  const theoryL = theoryCp(thetaL, linearSlope, c1, c2);
+  const cpLinU = theoryU.linear;
+  const cpLinL = theoryL.linear;
+  const cp2U = theoryU.secondOrder;
+  const cp2L = theoryL.secondOrder;
 
   const ctx: FacetContext = { mach, gamma, chord: refChord, noseX: leadingEdge[0], cpVacuum: -2 / (gamma * mach * mach) };
 
@@ -140,8 +142,9 @@ export function solveSection(input: SolveInput): SolveResult {
 
   const marchU = marchSurface(thetaU, mach, gamma);
   const marchL = marchSurface(thetaL, mach, gamma);
-  const cpU: number[] = new Array(thetaU.length).fill(0);
-  const cpL: number[] = new Array(thetaL.length).fill(0);
+  // buildFacets writes every entry (0 where the march stopped short of a vacuum).
+  const cpU: number[] = new Array(thetaU.length);
+  const cpL: number[] = new Array(thetaL.length);
   const facetsU = buildFacets(upperChain, thetaU, marchU, cpLinU, cp2U, ctx, cpU);
   const facetsL = buildFacets(lowerChain, thetaL, marchL, cpLinL, cp2L, ctx, cpL);
 
@@ -153,15 +156,23 @@ export function solveSection(input: SolveInput): SolveResult {
 
   // A `vacuum` limit still has well-defined loads: the facets past the Prandtl-Meyer limit carry
   // p = 0 (buildFacets wrote Cp = −2/(γM∞²) there), so the coefficients are given, flagged.
+  // One pass over the geometry integrates all three (the exact set is read only when valid).
+  const [exact, linear, second] = integrateLoadsOfThree(
+    upperChain,
+    [cpU, cpLinU, cp2U],
+    lowerChain,
+    [cpL, cpLinL, cp2L],
+    alpha,
+    momentPoint,
+    leadingEdge,
+    refChord,
+  );
   let coefficients: Coefficients | null = null;
   let bySurface: SolveResult['bySurface'] = null;
   if (ok || status === 'vacuum') {
-    const exact = integrateLoads(upperChain, cpU, lowerChain, cpL, alpha, momentPoint, leadingEdge, refChord);
     coefficients = exact.total;
     bySurface = { upper: exact.upper, lower: exact.lower };
   }
-  const linear = integrateLoads(upperChain, cpLinU, lowerChain, cpLinL, alpha, momentPoint, leadingEdge, refChord);
-  const second = integrateLoads(upperChain, cp2U, lowerChain, cp2L, alpha, momentPoint, leadingEdge, refChord);
   const theories = {
     linear: theoryResult(linear, coefficients),
     secondOrder: theoryResult(second, coefficients),
@@ -194,7 +205,7 @@ export function solveSection(input: SolveInput): SolveResult {
     }
   }
 
-  collectWarnings(warnings, mach, upperChain, lowerChain, thetaU, thetaL, marchU, marchL, match);
+  collectWarnings(warnings, mach, upperChain, lowerChain, Math.max(theoryU.maxAbsTheta, theoryL.maxAbsTheta), marchU, marchL, match);
 
   let waves: SolveResult['waves'] = [];
   let intersections: SolveResult['intersections'] = [];
@@ -254,14 +265,31 @@ function streamAtTail(march: SurfaceMarch, chain: SurfaceChain): { mach: number;
   return { mach: itemAt(march.mach, last), pRatio: itemAt(march.pRatio, last), direction: itemAt(chain.phi, last), nu: itemAt(march.nu, last) };
 }
 
-/** Pressure coefficients c1·θ + c2·θ² per facet (c2 = 0: linear theory). */
-function theoryCp(theta: readonly number[], c1: number, c2: number): number[] {
-  const out: number[] = new Array(theta.length);
-  for (let k = 0; k < theta.length; k++) {
+/**
+ * Thin-airfoil pressure coefficients per facet, in one pass: Ackeret's slope·θ (written as
+ * slope·θ + 0·θ², the second-order form with c2 = 0) and Busemann's c1·θ + c2·θ²; and the
+ * largest |θ| (for the small-deflection warning).
+ */
+function theoryCp(
+  theta: readonly number[],
+  slope: number,
+  c1: number,
+  c2: number,
+): { linear: number[]; secondOrder: number[]; maxAbsTheta: number } {
+  const m = theta.length;
+  const linear: number[] = new Array(m);
+  const secondOrder: number[] = new Array(m);
+  let maxAbsTheta = 0;
+  for (let k = 0; k < m; k++) {
     const t = present(theta[k], k, theta);
-    out[k] = c1 * t + c2 * t * t;
+    // The same expression for both, as Busemann's with c2 = 0, so the two agree bit for bit
+    // where they should.
+    linear[k] = slope * t + 0 * t * t;
+    secondOrder[k] = c1 * t + c2 * t * t;
+    const a = Math.abs(t);
+    if (a > maxAbsTheta) maxAbsTheta = a;
   }
-  return out;
+  return { linear, secondOrder, maxAbsTheta };
 }
 
 /**
@@ -373,6 +401,7 @@ function buildFacets(
         xMidOverC,
       };
     } else {
+      if (cpOut) cpOut[k] = 0;
       facet = {
         index,
         from,
@@ -583,15 +612,11 @@ function collectWarnings(
   mach: number,
   upperChain: SurfaceChain,
   lowerChain: SurfaceChain,
-  thetaU: readonly number[],
-  thetaL: readonly number[],
+  maxTheta: number,
   marchU: SurfaceMarch,
   marchL: SurfaceMarch,
   match: TailMatch | null,
 ): void {
-  let maxTheta = 0;
-  for (const t of thetaU) if (Math.abs(t) > maxTheta) maxTheta = Math.abs(t);
-  for (const t of thetaL) if (Math.abs(t) > maxTheta) maxTheta = Math.abs(t);
   if (maxTheta * DEG_PER_RAD > SMALL_DEFLECTION_WARNING_DEG) {
     warnings.push(
       `Linear and second-order theories assume small deflections; the largest facet deflection here ` +

@@ -3,7 +3,7 @@ import { reached } from '../../helpers/reached';
 import { describe, expect, it } from 'vitest';
 import { expectClose } from '../../helpers/expectClose';
 import { facetDeflections } from '../../../shared/solver/facetDeflections';
-import { integrateLoads } from '../../../shared/solver/integrateLoads';
+import { integrateLoads, integrateLoadsOfThree } from '../../../shared/solver/integrateLoads';
 import { linearTheoryCp } from '../../../shared/solver/linearTheory';
 import { marchSurface } from '../../../shared/solver/marchSurface';
 import { matchTrailingEdge } from '../../../shared/solver/matchTrailingEdge';
@@ -216,6 +216,38 @@ describe('integrateLoads', () => {
     const r = integrateLoads(sq, [0, 0], sqLow, [0, 0], 0, [0.25, 0], [0, 0], 1);
     expect(r.total.xcpOverC).toBeNull();
     expect(r.total.liftToDrag).toBeNull();
+  });
+
+  it('integrateLoadsOfThree gives the three integrateLoads results bit for bit, for random sections and Cp (fast-check)', () => {
+    // The core solve integrates its exact, linear and second-order Cp in one pass; the numbers
+    // must be those of three separate integrations (the same operations in the same order).
+    const checked = reached('three Cp sets in one pass');
+    const coordinate = fc.double({ min: -2, max: 2, noNaN: true });
+    const cp = fc.double({ min: -3, max: 3, noNaN: true });
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 12 }),
+        fc.integer({ min: 1, max: 12 }),
+        fc.array(coordinate, { minLength: 52, maxLength: 52 }),
+        fc.array(cp, { minLength: 72, maxLength: 72 }),
+        fc.double({ min: -0.5, max: 0.5, noNaN: true }),
+        (mu, ml, xy, cps, alpha) => {
+          const chain = (m: number, at: number) => ({ xs: xy.slice(at, at + m + 1), ys: xy.slice(at + 13, at + 14 + m) });
+          const up = chain(mu, 0);
+          const low = chain(ml, 26);
+          const sets = (m: number, at: number) => [cps.slice(at, at + m), cps.slice(at + 12, at + 12 + m), cps.slice(at + 24, at + 24 + m)] as const;
+          const cpU = sets(mu, 0);
+          const cpL = sets(ml, 36);
+          const together = integrateLoadsOfThree(up, cpU, low, cpL, alpha, [0.3, 0.01], [0, 0], 1.7);
+          checked.hit();
+          for (let i = 0; i < 3; i++) {
+            expect(together[i]).toStrictEqual(integrateLoads(up, itemAt(cpU, i), low, itemAt(cpL, i), alpha, [0.3, 0.01], [0, 0], 1.7));
+          }
+        },
+      ),
+      { numRuns: 300 },
+    );
+    checked.expectAtLeast(300);
   });
 });
 

@@ -1,4 +1,5 @@
-import { VACUUM_MARGIN_RELATIVE, ZERO_TURN_RAD } from './constants';
+import { atanNearZero } from './atanNearZero';
+import { PRANDTL_MEYER_TOLERANCE_RAD, VACUUM_MARGIN_RELATIVE, ZERO_TURN_RAD } from './constants';
 import { obliqueShock } from './obliqueShock';
 import { machParameterAfterExpansion, prandtlMeyer, prandtlMeyerMax } from './prandtlMeyer';
 import { sonicDeflection } from './sonicDeflection';
@@ -77,6 +78,12 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
   const halfInteger = Math.abs(twiceExp - Math.round(twiceExp)) < 1e-12 && twiceExp < 64 ? Math.round(twiceExp) : 0;
   const nuMax = prandtlMeyerMax(gamma);
   const nuLimit = nuMax * (1 - VACUUM_MARGIN_RELATIVE);
+  // Prandtl-Meyer constants, as machParameterAfterExpansion forms them: k² = (γ+1)/(γ−1).
+  const k2 = (gamma + 1) / (gamma - 1);
+  const kPm = Math.sqrt(k2);
+  const kk = kPm * kPm;
+  const kk1 = kk - 1;
+  const tolPm = PRANDTL_MEYER_TOLERANCE_RAD;
 
   const wave: FacetWave[] = new Array(m);
   const turn: number[] = new Array(m);
@@ -104,6 +111,10 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
   let pAhead = 1;
   let p0Ahead = 1;
   let nuAhead = prandtlMeyer(machInf, gamma);
+  // The fan step's Taylor coefficients 1/ν' and (ν''/ν')/2 (in s), taken at the last fan's
+  // start, a hair from the state it found (NaN: work them out at the state itself).
+  let slopeHint = Number.NaN;
+  let curveHint = Number.NaN;
   let k = 0;
   for (; k < m; k++) {
     const d = present(turn[k], k, turn);
@@ -134,6 +145,7 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
       pAhead *= shock.pRatio;
       p0Ahead *= shock.p0Ratio;
       nuAhead = prandtlMeyer(mAhead, gamma);
+      slopeHint = Number.NaN;
       b = shock.beta;
       tMax = shock.thetaMax;
     } else if (kind === 'fan') {
@@ -142,7 +154,45 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
         limit = { status: 'vacuum', facet: k, turn: d, machAhead: mAhead, nu: target, nuMax };
         break;
       }
-      const sNew = machParameterAfterExpansion(sAhead, nuAhead, -d, gamma);
+      // The fan's new Mach parameter s = √(M²−1): ν(s) − ν(sAhead) = −d, solved as
+      // machParameterAfterExpansion does (second-order Taylor start, the residual by the atan
+      // subtraction formula, one Newton step whose quadratic error is checked), except that the
+      // Taylor coefficients come from the previous fan's start. The march is a chain (each fan
+      // starts from the state the last one found), and this takes two divisions off each link;
+      // the start is as good (the coefficients move by the last Newton step, ~1e-8), and any
+      // step that does not pass the same check goes through the full safeguarded solve.
+      const dNu = -d;
+      if (!(slopeHint === slopeHint) && sAhead > 0) {
+        const q0 = (k2 + sAhead * sAhead) * (1 + sAhead * sAhead);
+        slopeHint = q0 / ((k2 - 1) * sAhead * sAhead);
+        curveHint = (k2 - sAhead * sAhead * sAhead * sAhead) / (sAhead * q0);
+      }
+      const h = dNu * slopeHint;
+      const start = sAhead + h - curveHint * h * h;
+      const ds = start - sAhead;
+      const ss0 = start * sAhead;
+      const f = kPm * atanNearZero((kPm * ds) / (kk + ss0)) - atanNearZero(ds / (1 + ss0)) - dNu;
+      const s2 = start * start;
+      const q = (kk + s2) * (1 + s2);
+      const slope = q / (kk1 * s2);
+      slopeHint = slope;
+      curveHint = (k2 - s2 * s2) / (start * q);
+      const step = f * slope;
+      const next = start - step;
+      const tol = tolPm * (target > 1 ? target : 1);
+      let sNew: number;
+      if (Math.abs(f) <= tol && start > sAhead) sNew = start;
+      else if (
+        next > sAhead &&
+        Math.abs(step) < 0.1 * next &&
+        (Math.abs(kk - s2 * s2) * kk1 * start * step * step) / (q * q) <= 0.25 * tol
+      ) {
+        sNew = next;
+      } else {
+        // Not yet within the tolerance: the safeguarded solve carries on from this iterate.
+        sNew = machParameterAfterExpansion(sAhead, nuAhead, dNu, gamma, next);
+        slopeHint = Number.NaN;
+      }
       const m2New = 1 + sNew * sNew;
       const xNew = 1 + halfG1 * m2New;
       const r = xAhead / xNew;

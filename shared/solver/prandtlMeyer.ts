@@ -82,12 +82,14 @@ export function machAfterExpansion(mach: number, nu: number, dNu: number, gamma:
  * `machAfterExpansion` in terms of the Mach parameter s = √(M² − 1) (dimensionless): takes s0
  * of the stream, its Prandtl-Meyer angle `nu` and the change `dNu` (radians, > 0 expansion),
  * and returns s after the turn. The march carries s from facet to facet so that no square root
- * sits on its critical path. Edge cases: dNu = 0 → s0; ν + dNu ≥ ν_max → +Infinity (vacuum);
- * ν + dNu ≤ 0 → 0 (sonic).
+ * sits on its critical path. `guess` (optional): a start the caller already has, used instead of
+ * the Taylor step when it lies on the right side of s0 (the march passes its own Newton iterate
+ * when that iterate did not pass the accuracy check). Edge cases: dNu = 0 → s0; ν + dNu ≥ ν_max
+ * → +Infinity (vacuum); ν + dNu ≤ 0 → 0 (sonic).
  *
  * Source: as `machAfterExpansion`.
  */
-export function machParameterAfterExpansion(s0: number, nu: number, dNu: number, gamma: number): number {
+export function machParameterAfterExpansion(s0: number, nu: number, dNu: number, gamma: number, guess?: number): number {
   if (dNu === 0) return s0;
   const k2 = (gamma + 1) / (gamma - 1);
   const k = Math.sqrt(k2);
@@ -95,7 +97,9 @@ export function machParameterAfterExpansion(s0: number, nu: number, dNu: number,
   if (target >= (Math.PI / 2) * (k - 1)) return Number.POSITIVE_INFINITY;
   if (target <= 0) return 0;
   let start: number;
-  if (s0 > 0) {
+  if (guess !== undefined && (dNu > 0 ? guess > s0 : guess >= 0 && guess < s0)) {
+    start = guess;
+  } else if (s0 > 0) {
     // Second-order Taylor step: Δs ≈ Δν/ν' − (ν''/ν')·(Δν/ν')²/2.
     const q = (k2 + s0 * s0) * (1 + s0 * s0);
     const step = (dNu * q) / ((k2 - 1) * s0 * s0);
@@ -133,15 +137,17 @@ function solveS(
     const ss0 = s * s0;
     const a = k2 + ss0;
     const b = 1 + ss0;
-    const inv = ds / (a * b);
-    const f = k * atanNearZero(k * b * inv) - atanNearZero(a * inv) - dNu;
+    // 1/ν'(s) = P/((k²−1)s²) depends on s alone: worked out beside the residual, so the Newton
+    // step after it is one multiplication (each fan of the march waits on the one before).
+    const s2 = s * s;
+    const p = (k2 + s2) * (1 + s2);
+    const slope = p / (k2m1 * s2);
+    const f = k * atanNearZero((k * ds) / a) - atanNearZero(ds / b) - dNu;
     if (Math.abs(f) <= tol) break;
     if (f < 0) lo = s;
     else hi = s;
     if (hi < Number.POSITIVE_INFINITY && hi - lo <= 4e-16 * hi) break;
-    const s2 = s * s;
-    const p = (k2 + s2) * (1 + s2);
-    const step = (f * p) / (k2m1 * s2);
+    const step = f * slope;
     const next = s - step;
     // Newton's next error is ≈ (ν''/2ν')·step², so its residual is ≈ |ν''|·step²/2
     // = |k² − s⁴|·(k²−1)·s·step²/P².

@@ -3,9 +3,17 @@
  * here, never in tests).
  *
  * - Core solve (march, trailing edge, loads, both theories; `options.waves = false`) and the
- *   full solve with the wave map, for 4, 16, 64 and 200 facets. Each sample times a batch of
- *   calls with process.hrtime.bigint and divides by the batch size, so that the timer's own
- *   cost does not swamp a few-microsecond call; median and p95 are over the samples.
+ *   full solve with the wave map, for 4, 16, 64 and 200 facets. The core solve's result is
+ *   the complete one the API and the worker receive (every facet record built, nothing
+ *   deferred); only the wave map is left out. Each function is warmed up for 300 ms first;
+ *   each sample then times a batch of calls (about 4,000 facets' worth) with
+ *   process.hrtime.bigint and divides by the batch size, so that the timer's own cost does
+ *   not swamp a few-microsecond call; median and p95 are over 300 samples. The same samples'
+ *   CPU time (process.cpuUsage, user + system) is printed beside the wall time: other work on
+ *   a busy machine inflates the wall time far more than this process's CPU time, so the CPU
+ *   column is the one to compare between runs at different loads. The load average is
+ *   printed with every table.
+ * - `npm run bench -- --core` prints the section solve table only (a few seconds).
  * - An envelope of 40 Mach × 61 α on a 64-facet section (core solve), median and p95 of
  *   whole-envelope times.
  * - A study of 40 Mach × 61 α × 5 flap deflections (12 200 points) on the 64-facet fin with a
@@ -55,14 +63,23 @@ function quantile(sorted: number[], q: number): number {
 
 /** Per-call times (µs) of `samples` batches of `batch` calls each. */
 function timePerCall(fn: () => unknown, batch: number, samples: number): number[] {
-  const out: number[] = [];
+  return timeAndCpuPerCall(fn, batch, samples).wall;
+}
+
+/** Per-call wall and CPU times (µs, each list sorted) of `samples` batches of `batch` calls. */
+function timeAndCpuPerCall(fn: () => unknown, batch: number, samples: number): { wall: number[]; cpu: number[] } {
+  const wall: number[] = [];
+  const cpu: number[] = [];
   for (let s = 0; s < samples; s++) {
+    const c0 = process.cpuUsage();
     const t0 = process.hrtime.bigint();
     for (let i = 0; i < batch; i++) fn();
     const t1 = process.hrtime.bigint();
-    out.push(Number(t1 - t0) / 1000 / batch);
+    const c = process.cpuUsage(c0);
+    wall.push(Number(t1 - t0) / 1000 / batch);
+    cpu.push((c.user + c.system) / batch);
   }
-  return out.sort((a, b) => a - b);
+  return { wall: wall.sort((a, b) => a - b), cpu: cpu.sort((a, b) => a - b) };
 }
 
 let sink = 0;
@@ -97,7 +114,7 @@ for (const facets of [4, 16, 64, 200]) {
   warmUp(coreFn, 300);
   warmUp(fullFn, 300);
   const coreBatch = Math.max(10, Math.round(4000 / facets));
-  const c = timePerCall(coreFn, coreBatch, 300);
+  const { wall: c, cpu: cCpu } = timeAndCpuPerCall(coreFn, coreBatch, 300);
   const fullBatch = Math.max(2, Math.round(400 / facets));
   const f = timePerCall(fullFn, fullBatch, 150);
   const cMed = quantile(c, 0.5);
@@ -108,6 +125,7 @@ for (const facets of [4, 16, 64, 200]) {
     String(facets),
     cMed.toFixed(2),
     quantile(c, 0.95).toFixed(2),
+    quantile(cCpu, 0.5).toFixed(2),
     ((cMed * 1000) / facets).toFixed(0),
     Number.isNaN(marginal) ? '–' : marginal.toFixed(0),
     quantile(f, 0.5).toFixed(1),
@@ -120,6 +138,7 @@ const header = [
   'facets',
   'core median µs',
   'core p95 µs',
+  'core CPU median µs',
   'core ns/facet',
   'marginal ns/facet',
   'with wave map median µs',
@@ -132,9 +151,9 @@ console.log('Section solve (demo fin, M 2.5, α 3°, γ 1.4)');
 console.log(fmtRow(header));
 for (const r of rows) console.log(fmtRow(r));
 
-// Envelope: 40 Mach × 61 α on a 64-facet section, core solve.
 const load = () => loadavg().map((l) => l.toFixed(2)).join(' / ');
 console.log(`  (load average now ${load()}; targets on a quiet machine: 200 facets core ≤ 20 µs, wave map ≤ 5 ms)`);
+if (process.argv.includes('--core')) process.exit(0);
 
 // The wave map with its interactions (a sweep, O(L log L) in its lines) on large sections:
 // the 2000-point demo fin and a 2000-point biconvex arc, both with the default field and a
@@ -172,6 +191,7 @@ console.log(`  (load average now ${load()}; targets on a quiet machine: 200 face
   }
 }
 
+// Envelope: 40 Mach × 61 α on a 64-facet section, core solve.
 const envPts = demoSection(64);
 const machs = Array.from({ length: 40 }, (_, i) => 1.2 + (i * (5 - 1.2)) / 39);
 const alphas = Array.from({ length: 61 }, (_, j) => -15 + j * 0.5);

@@ -71,14 +71,6 @@ export function matchTrailingEdge(upper: TailStream, lower: TailStream, gamma: n
   }
 
   const ev = { g: 0, dg: 0 };
-  const evaluate = (delta: number) => {
-    turned(su, delta - upper.direction, gamma);
-    const lu = su.lnp;
-    const du = su.dlnp;
-    turned(sl, lower.direction - delta, gamma);
-    ev.g = lu - sl.lnp;
-    ev.dg = du + sl.dlnp;
-  };
 
   // Linear-theory start: ln p ≈ ln p_s + k_s·(turn), k = γM²/√(M²−1).
   const ku = su.dlnp0;
@@ -91,7 +83,7 @@ export function matchTrailingEdge(upper: TailStream, lower: TailStream, gamma: n
   let b = hi;
   let converged = false;
   for (let iter = 0; iter < 100; iter++) {
-    evaluate(delta);
+    evaluate(ev, su, sl, upper.direction, lower.direction, delta, gamma);
     if (ev.g === 0) {
       converged = true;
       break;
@@ -111,9 +103,9 @@ export function matchTrailingEdge(upper: TailStream, lower: TailStream, gamma: n
   }
   // Pinned against an end of the range: is there a sign change at all?
   if (!converged || delta - lo <= TAIL_ROOT_TOLERANCE_RAD || hi - delta <= TAIL_ROOT_TOLERANCE_RAD) {
-    evaluate(lo);
+    evaluate(ev, su, sl, upper.direction, lower.direction, lo, gamma);
     if (ev.g > 0) return { status: 'unmatched', reason: unmatchedReason(true) };
-    evaluate(hi);
+    evaluate(ev, su, sl, upper.direction, lower.direction, hi, gamma);
     if (ev.g < 0) return { status: 'unmatched', reason: unmatchedReason(false) };
   }
 
@@ -126,6 +118,20 @@ export function matchTrailingEdge(upper: TailStream, lower: TailStream, gamma: n
     upper: upperTurn,
     lower: lowerTurn,
   };
+}
+
+/**
+ * G(δ) = ln p_u − ln p_l and its derivative into `ev`, both streams turned to the direction δ.
+ * (A module function rather than a closure: a closure made on every call costs its creation in
+ * the core solve.)
+ */
+function evaluate(ev: { g: number; dg: number }, su: Side, sl: Side, upperDirection: number, lowerDirection: number, delta: number, gamma: number): void {
+  turned(su, delta - upperDirection, gamma);
+  const lu = su.lnp;
+  const du = su.dlnp;
+  turned(sl, lowerDirection - delta, gamma);
+  ev.g = lu - sl.lnp;
+  ev.dg = du + sl.dlnp;
 }
 
 function unmatchedReason(upperTooHigh: boolean): string {

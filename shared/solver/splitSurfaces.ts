@@ -60,11 +60,19 @@ export interface SplitSection {
  */
 export function splitSurfaces(points: readonly XY[]): SplitSection {
   const n = points.length;
-  let minX = Infinity;
-  let maxX = -Infinity;
-  let minY = Infinity;
-  let maxY = -Infinity;
-  for (let i = 0; i < n; i++) {
+  // One pass: the bounding box, the nose (least (x, y)) and the tail (greatest x, least y
+  // among exact ties). The tail excludes the nose vertex, which matters only when the nose is
+  // also of greatest x (every vertex on one vertical line): that case takes a second pass.
+  const first = itemAt(points, 0);
+  let minX = first[0];
+  let maxX = first[0];
+  let minY = first[1];
+  let maxY = first[1];
+  let noseIndex = 0;
+  let nose: XY = first;
+  let tailIndex = 0;
+  let tail: XY = first;
+  for (let i = 1; i < n; i++) {
     const p = present(points[i], i, points);
     const x = p[0];
     const y = p[1];
@@ -72,28 +80,26 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
     if (x > maxX) maxX = x;
     if (y < minY) minY = y;
     if (y > maxY) maxY = y;
-  }
-  const chord = maxX - minX;
-
-  // Nose: the least (x, y) vertex; tail: the greatest x, least y among exact ties. Both are
-  // extreme vertices of the polygon (the orientation test at the nose relies on it).
-  let noseIndex = 0;
-  let nose = itemAt(points, 0);
-  for (let i = 1; i < n; i++) {
-    const p = present(points[i], i, points);
-    if (p[0] < nose[0] || (p[0] === nose[0] && p[1] < nose[1])) {
+    if (x < nose[0] || (x === nose[0] && y < nose[1])) {
       noseIndex = i;
       nose = p;
     }
-  }
-  let tailIndex = -1;
-  let tail: XY | null = null;
-  for (let i = 0; i < n; i++) {
-    if (i === noseIndex) continue;
-    const p = present(points[i], i, points);
-    if (tail === null || p[0] > tail[0] || (p[0] === tail[0] && p[1] < tail[1])) {
+    if (x > tail[0] || (x === tail[0] && y < tail[1])) {
       tailIndex = i;
       tail = p;
+    }
+  }
+  const chord = maxX - minX;
+  if (tailIndex === noseIndex) {
+    tailIndex = -1;
+    let t: XY | null = null;
+    for (let i = 0; i < n; i++) {
+      if (i === noseIndex) continue;
+      const p = present(points[i], i, points);
+      if (t === null || p[0] > t[0] || (p[0] === t[0] && p[1] < t[1])) {
+        tailIndex = i;
+        t = p;
+      }
     }
   }
   if (tailIndex < 0) tailIndex = (noseIndex + 1) % n;

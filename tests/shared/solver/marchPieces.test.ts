@@ -32,6 +32,55 @@ describe('splitSurfaces', () => {
     expect(b.lower.length).toEqual(a.lower.length);
   });
 
+  it('splitSurfaces picks the nose (least x, then least y) and the tail (greatest x, then least y, not the nose) as the plain definitions do, ties in x included (fast-check)', () => {
+    // The search is one pass over the points; this checks it against the definitions written
+    // out plainly, on point lists whose x often tie (a grid of seven columns).
+    const checked = reached('nose and tail searches');
+    fc.assert(
+      fc.property(
+        fc.uniqueArray(fc.tuple(fc.integer({ min: 0, max: 6 }), fc.integer({ min: -20, max: 20 })), {
+          minLength: 3,
+          maxLength: 14,
+          selector: ([x, y]) => `${x},${y}`,
+        }),
+        (raw) => {
+          const points = raw.map(([x, y]) => [x / 6, y / 20] as [number, number]);
+          const s = splitSurfaces(points);
+          if (s.bluntNose || s.bluntTail) return; // a vertical face moves the ends to its lowest vertex
+          checked.hit();
+          let nose = 0;
+          points.forEach(([x, y], i) => {
+            const [nx, ny] = itemAt(points, nose);
+            if (x < nx || (x === nx && y < ny)) nose = i;
+          });
+          let tail = -1;
+          points.forEach(([x, y], i) => {
+            if (i === nose) return;
+            if (tail < 0) tail = i;
+            const [tx, ty] = itemAt(points, tail);
+            if (x > tx || (x === tx && y < ty)) tail = i;
+          });
+          expect([s.noseIndex, s.tailIndex]).toEqual([nose, tail]);
+          expect(s.chord).toBe(Math.max(...points.map((p) => p[0])) - Math.min(...points.map((p) => p[0])));
+        },
+      ),
+      { numRuns: 600 },
+    );
+    checked.expectAtLeast(150);
+  });
+
+  it('splitSurfaces with every vertex on one vertical line: one blunt face at both ends, its lowest vertex the nose and the tail (degenerate)', () => {
+    const s = splitSurfaces([
+      [0, 0.2],
+      [0, -0.1],
+      [0, 0.5],
+    ]);
+    expect(s.chord).toBe(0);
+    expect(s.bluntNose).toEqual([0, 1, 2]);
+    expect(s.bluntTail).toEqual([0, 1, 2]);
+    expect([s.noseIndex, s.tailIndex]).toEqual([1, 1]);
+  });
+
   it('splitSurfaces gives facet angles atan2(dy, dx) and turns that add up to them (common practice)', () => {
     const pts = lens(9, 0.08, 0.03);
     const s = splitSurfaces(pts);

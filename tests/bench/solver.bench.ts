@@ -6,13 +6,15 @@
  *   full solve with the wave map, for 4, 16, 64 and 200 facets. The core solve's result is
  *   the complete one the API and the worker receive (every facet record built, nothing
  *   deferred); only the wave map is left out. Each function is warmed up for 300 ms first;
- *   each sample then times a batch of calls (about 4,000 facets' worth) with
+ *   each sample then times a batch of calls (about 8,000 facets' worth, at most 500 calls:
+ *   a millisecond or more, so that the 300 samples span a second or so of load) with
  *   process.hrtime.bigint and divides by the batch size, so that the timer's own cost does
  *   not swamp a few-microsecond call; median and p95 are over 300 samples. The same samples'
  *   CPU time (process.cpuUsage, user + system) is printed beside the wall time: other work on
- *   a busy machine inflates the wall time far more than this process's CPU time, so the CPU
- *   column is the one to compare between runs at different loads. The load average is
- *   printed with every table.
+ *   a busy machine inflates the wall time more than this process's CPU time, so the CPU column
+ *   is the one to compare between runs at different loads. It is not load-free either (a busy
+ *   neighbour shares caches and perhaps the core): compare old and new code back to back, and
+ *   read the load average printed with every table.
  * - `npm run bench -- --core` prints the section solve table only (a few seconds).
  * - An envelope of 40 Mach × 61 α on a 64-facet section (core solve), median and p95 of
  *   whole-envelope times.
@@ -113,7 +115,7 @@ for (const facets of [4, 16, 64, 200]) {
   const fullFn = () => consume(solveSection(full));
   warmUp(coreFn, 300);
   warmUp(fullFn, 300);
-  const coreBatch = Math.max(10, Math.round(4000 / facets));
+  const coreBatch = Math.min(500, Math.max(10, Math.round(8000 / facets)));
   const { wall: c, cpu: cCpu } = timeAndCpuPerCall(coreFn, coreBatch, 300);
   const fullBatch = Math.max(2, Math.round(400 / facets));
   const f = timePerCall(fullFn, fullBatch, 150);

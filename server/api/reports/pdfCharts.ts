@@ -41,6 +41,55 @@ export function tickLabel(v: number, step: number): string {
   return formatFixed(v, decimals);
 }
 
+/** The plot area of a chart box: the box less room for the title, tick labels and axis titles. */
+interface PlotArea {
+  /** The box's left edge (the rotated y title sits there). */
+  x: number;
+  px: number;
+  py: number;
+  pw: number;
+  ph: number;
+}
+
+function plotArea(x: number, y: number, w: number, h: number, bottom: number): PlotArea {
+  const pad = { left: 44, right: 8, top: 18 };
+  return { x, px: x + pad.left, py: y + pad.top, pw: w - pad.left - pad.right, ph: h - pad.top - bottom };
+}
+
+/** An empty plot frame that says why there is nothing in it. */
+function drawEmptyPlot(doc: PDFKit.PDFDocument, a: PlotArea, message: string): void {
+  doc.rect(a.px, a.py, a.pw, a.ph).lineWidth(0.5).strokeColor(RULE).stroke();
+  line(doc, message, a.px, a.py + a.ph / 2 - 5, { size: 8, color: INK_SOFT, width: a.pw, align: 'center' });
+}
+
+type Ticks = ReturnType<typeof niceTicks>;
+
+/**
+ * Grid, zero line, frame, tick labels and the two axis titles (the y title rotated along the
+ * left edge); `xTitleGap` is the x title's distance below the plot.
+ */
+function drawPlotFrame(
+  doc: PDFKit.PDFDocument,
+  a: PlotArea,
+  axes: { xt: Ticks; yt: Ticks; X: (v: number) => number; Y: (v: number) => number },
+  titles: { x: string; y: string; xTitleGap: number },
+): void {
+  const { px, py, pw, ph } = a;
+  const { xt, yt, X, Y } = axes;
+  doc.lineWidth(0.4).strokeColor('#e7ecea');
+  for (const t of yt.ticks) doc.moveTo(px, Y(t)).lineTo(px + pw, Y(t)).stroke();
+  for (const t of xt.ticks) doc.moveTo(X(t), py).lineTo(X(t), py + ph).stroke();
+  if (yt.lo < 0 && yt.hi > 0) doc.lineWidth(0.6).strokeColor('#b8c3c0').moveTo(px, Y(0)).lineTo(px + pw, Y(0)).stroke();
+  doc.rect(px, py, pw, ph).lineWidth(0.6).strokeColor('#9aa8a4').stroke();
+  for (const t of yt.ticks) line(doc, tickLabel(t, yt.step), px - 40, Y(t) - 3.5, { size: 6.5, color: INK_SOFT, width: 37, align: 'right' });
+  for (const t of xt.ticks) line(doc, tickLabel(t, xt.step), X(t) - 20, py + ph + 3, { size: 6.5, color: INK_SOFT, width: 40, align: 'center' });
+  line(doc, titles.x, px, py + ph + titles.xTitleGap, { size: 7.5, color: INK, width: pw, align: 'center' });
+  doc.save();
+  doc.rotate(-90, { origin: [a.x + 6, py + ph / 2] });
+  line(doc, titles.y, a.x + 6 - ph / 2, py + ph / 2 - 4, { size: 7.5, color: INK, width: ph, align: 'center' });
+  doc.restore();
+}
+
 export interface ChartSeries {
   colour: string;
   /** Points in order; null breaks the line. */
@@ -62,11 +111,8 @@ export interface LineChart {
 
 /** Draws a line chart in the box (x, y, w, h); the title sits inside the box's top. */
 export function drawLineChart(doc: PDFKit.PDFDocument, x: number, y: number, w: number, h: number, chart: LineChart): void {
-  const pad = { left: 44, right: 8, top: 18, bottom: 30 };
-  const px = x + pad.left;
-  const py = y + pad.top;
-  const pw = w - pad.left - pad.right;
-  const ph = h - pad.top - pad.bottom;
+  const area = plotArea(x, y, w, h, 30);
+  const { px, py, pw, ph } = area;
   line(doc, chart.title, x, y, { size: 9, weight: 'bold', color: INK });
 
   const xs: number[] = [];
@@ -84,8 +130,7 @@ export function drawLineChart(doc: PDFKit.PDFDocument, x: number, y: number, w: 
     ys.push(m.y);
   }
   if (xs.length === 0) {
-    doc.rect(px, py, pw, ph).lineWidth(0.5).strokeColor(RULE).stroke();
-    line(doc, 'No valid points to plot.', px, py + ph / 2 - 5, { size: 8, color: INK_SOFT, width: pw, align: 'center' });
+    drawEmptyPlot(doc, area, 'No valid points to plot.');
     return;
   }
   const xr = chart.xRange ?? [Math.min(...xs), Math.max(...xs)];
@@ -94,19 +139,7 @@ export function drawLineChart(doc: PDFKit.PDFDocument, x: number, y: number, w: 
   const X = (v: number) => px + ((v - xt.lo) / (xt.hi - xt.lo)) * pw;
   const Y = (v: number) => py + ph - ((v - yt.lo) / (yt.hi - yt.lo)) * ph;
 
-  // Grid and tick labels.
-  doc.lineWidth(0.4).strokeColor('#e7ecea');
-  for (const t of yt.ticks) doc.moveTo(px, Y(t)).lineTo(px + pw, Y(t)).stroke();
-  for (const t of xt.ticks) doc.moveTo(X(t), py).lineTo(X(t), py + ph).stroke();
-  if (yt.lo < 0 && yt.hi > 0) doc.lineWidth(0.6).strokeColor('#b8c3c0').moveTo(px, Y(0)).lineTo(px + pw, Y(0)).stroke();
-  doc.rect(px, py, pw, ph).lineWidth(0.6).strokeColor('#9aa8a4').stroke();
-  for (const t of yt.ticks) line(doc, tickLabel(t, yt.step), px - 40, Y(t) - 3.5, { size: 6.5, color: INK_SOFT, width: 37, align: 'right' });
-  for (const t of xt.ticks) line(doc, tickLabel(t, xt.step), X(t) - 20, py + ph + 3, { size: 6.5, color: INK_SOFT, width: 40, align: 'center' });
-  line(doc, chart.xLabel, px, py + ph + 14, { size: 7.5, color: INK, width: pw, align: 'center' });
-  doc.save();
-  doc.rotate(-90, { origin: [x + 6, py + ph / 2] });
-  line(doc, chart.yLabel, x + 6 - ph / 2, py + ph / 2 - 4, { size: 7.5, color: INK, width: ph, align: 'center' });
-  doc.restore();
+  drawPlotFrame(doc, area, { xt, yt, X, Y }, { x: chart.xLabel, y: chart.yLabel, xTitleGap: 14 });
 
   // Lines, clipped to the plot area.
   doc.save();
@@ -181,17 +214,13 @@ export interface StepChart {
  * the plot; the title sits inside the box's top.
  */
 export function drawStepChart(doc: PDFKit.PDFDocument, x: number, y: number, w: number, h: number, chart: StepChart): void {
-  const pad = { left: 44, right: 8, top: 18, bottom: 44 };
-  const px = x + pad.left;
-  const py = y + pad.top;
-  const pw = w - pad.left - pad.right;
-  const ph = h - pad.top - pad.bottom;
+  const area = plotArea(x, y, w, h, 44);
+  const { px, py, pw, ph } = area;
   line(doc, chart.title, x, y, { size: 9, weight: 'bold', color: INK });
   const ys = chart.series.flatMap((s) => s.steps.map((t) => t[2])).filter(Number.isFinite);
   const xs = chart.series.flatMap((s) => s.steps.flatMap((t) => [t[0], t[1]])).filter(Number.isFinite);
   if (ys.length === 0) {
-    doc.rect(px, py, pw, ph).lineWidth(0.5).strokeColor(RULE).stroke();
-    line(doc, 'No valid facets to plot.', px, py + ph / 2 - 5, { size: 8, color: INK_SOFT, width: pw, align: 'center' });
+    drawEmptyPlot(doc, area, 'No valid facets to plot.');
     return;
   }
   const xr = chart.xRange ?? [Math.min(...xs), Math.max(...xs)];
@@ -200,18 +229,7 @@ export function drawStepChart(doc: PDFKit.PDFDocument, x: number, y: number, w: 
   const X = (v: number) => px + ((v - xt.lo) / (xt.hi - xt.lo)) * pw;
   const Y = (v: number) => (chart.invertY ? py + ((v - yt.lo) / (yt.hi - yt.lo)) * ph : py + ph - ((v - yt.lo) / (yt.hi - yt.lo)) * ph);
 
-  doc.lineWidth(0.4).strokeColor('#e7ecea');
-  for (const t of yt.ticks) doc.moveTo(px, Y(t)).lineTo(px + pw, Y(t)).stroke();
-  for (const t of xt.ticks) doc.moveTo(X(t), py).lineTo(X(t), py + ph).stroke();
-  if (yt.lo < 0 && yt.hi > 0) doc.lineWidth(0.6).strokeColor('#b8c3c0').moveTo(px, Y(0)).lineTo(px + pw, Y(0)).stroke();
-  doc.rect(px, py, pw, ph).lineWidth(0.6).strokeColor('#9aa8a4').stroke();
-  for (const t of yt.ticks) line(doc, tickLabel(t, yt.step), px - 40, Y(t) - 3.5, { size: 6.5, color: INK_SOFT, width: 37, align: 'right' });
-  for (const t of xt.ticks) line(doc, tickLabel(t, xt.step), X(t) - 20, py + ph + 3, { size: 6.5, color: INK_SOFT, width: 40, align: 'center' });
-  line(doc, chart.xLabel, px, py + ph + 13, { size: 7.5, color: INK, width: pw, align: 'center' });
-  doc.save();
-  doc.rotate(-90, { origin: [x + 6, py + ph / 2] });
-  line(doc, chart.yLabel, x + 6 - ph / 2, py + ph / 2 - 4, { size: 7.5, color: INK, width: ph, align: 'center' });
-  doc.restore();
+  drawPlotFrame(doc, area, { xt, yt, X, Y }, { x: chart.xLabel, y: chart.yLabel, xTitleGap: 13 });
 
   doc.save();
   doc.rect(px, py, pw, ph).clip();

@@ -229,17 +229,17 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     await page.getByTestId('review-decide').click();
     const approve = page.getByTestId('review-approve');
     await approve.waitFor();
-    expect(await approve.getAttribute('aria-disabled')).toBe('true');
+    expect(await approve.isDisabled()).toBe(true);
     expect(await approve.textContent()).toBe('Approve — not by you: you made the last edit');
-    // The menu has finished opening (its motion classes are gone) before the picture.
+    // The list has finished opening (its motion classes are gone) before the picture.
     await page.waitForFunction(() => {
-      const menu = document.querySelector('.ant-dropdown');
+      const menu = document.querySelector('.ant-popover');
       return !!menu && !/-(enter|appear)/.test(menu.className);
     });
     await screenshot(page, 'review-status-self');
+    // Escape closes the list.
     await page.keyboard.press('Escape');
-    await page.getByTestId('review-decide').click();
-    await page.locator('.ant-dropdown').waitFor({ state: 'hidden' });
+    await page.getByTestId('review-decide-menu').waitFor({ state: 'hidden' });
 
     const other = editor.page;
     await other.reload();

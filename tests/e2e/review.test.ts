@@ -167,8 +167,11 @@ describe('review workflow in Chromium: pins, threads, mentions, snapshots, statu
     expect(await drawn.textContent()).toContain('saved');
     await drawn.locator('[data-testid^="pick-a-"]').click();
     await thicker.locator('[data-testid^="pick-b-"]').click();
-    await page.getByTestId('snapshot-compare').click();
-    await page.getByTestId('snapshot-compare').waitFor({ state: 'detached' });
+    await page.getByTestId('snapshot-compare-open').click();
+    // The comparison replaces the list (the button goes, the comparison comes). The button and
+    // the comparison once shared a test id, and waiting for that id to go raced the comparison.
+    await page.getByTestId('snapshot-compare').waitFor();
+    await page.getByTestId('snapshot-compare-open').waitFor({ state: 'detached' });
     await page.locator('[data-testid="compare-exact"]').waitFor();
 
     // A thicker ridge at the same α: more wave drag, so cd grows (B − A > 0) in every theory.

@@ -138,12 +138,21 @@ export function createTeamWatch(hub: Hub, guard: TeamWatchGuard): TeamWatch {
         await socket.leave(teamRoom(msg.teamId));
         return;
       }
-      const [result] = await checkTeamAccess(ctx.db, [{ sessionId: guard.sessionOf(socket), userId: socket.data.user.id, teamId: msg.teamId }]);
-      if (!result?.sessionLive) return guard.endSession(socket);
-      if (!result.role) return fail('not_found', 'No such team, or you are not a member of it.');
-      socket.data.teams.set(msg.teamId, { role: result.role });
+      const check = async () => (await checkTeamAccess(ctx.db, [{ sessionId: guard.sessionOf(socket), userId: socket.data.user.id, teamId: msg.teamId }]))[0];
+      const admitted = await check();
+      if (!admitted?.sessionLive) return guard.endSession(socket);
+      if (!admitted.role) return fail('not_found', 'No such team, or you are not a member of it.');
+      socket.data.teams.set(msg.teamId, { role: admitted.role });
       await socket.join(teamRoom(msg.teamId));
-      send(socket, { type: 'teamWatched', teamId: msg.teamId, role: result.role });
+      // Checked once more now that the watch is recorded: a removal committed while the first
+      // check ran is seen here, and one committed later finds the watch when its re-check runs —
+      // no window in which a removed member keeps hearing the team (before this, up to the sweep).
+      const now = await check();
+      const watch = socket.data.teams.get(msg.teamId);
+      if (!now?.sessionLive) return guard.endSession(socket);
+      if (!now.role || !watch) return evict(socket, msg.teamId, now.teamExists ? 'You are no longer a member of this team.' : 'This team was deleted.');
+      watch.role = now.role;
+      send(socket, { type: 'teamWatched', teamId: msg.teamId, role: now.role });
     },
     changed,
     stop() {

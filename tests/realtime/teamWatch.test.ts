@@ -148,6 +148,33 @@ describe('[T1]–[T4] a team’s sketch list, live, only to its members', () => 
     await dee.waitFor(listChanged(world.teamId), 30_000, fromDee);
   });
 
+  // Which of the two comes first varies from try to try; the watch's second check (teamWatch.ts)
+  // is what makes every order safe, so this test cannot fail for want of the race, only catch it.
+  it('[T3] a watch asked for while the member is being removed never outlives the removal (the race, repeated)', async () => {
+    const dee = await watcher(two, 'dee');
+    const bo = await watcher(two, 'bo');
+    const ann = await watcher(one, 'ann');
+    for (const c of [bo, ann]) c.send({ type: 'watchTeam', teamId: world.teamId });
+    await bo.waitFor(watched(world.teamId));
+    await ann.waitFor(watched(world.teamId));
+    const dees = itemAt(world.users, 2);
+    for (let i = 0; i < 12; i++) {
+      // Dee is a member (again); she asks to watch while Ann removes her, on the other instance.
+      await database.db.insert(memberships).values({ teamId: world.teamId, userId: dees.id, role: 'viewer' }).onConflictDoNothing();
+      const from = dee.received.length;
+      dee.send({ type: 'watchTeam', teamId: world.teamId });
+      expect((await call(one, 'ann', 'DELETE', `/api/teams/${world.teamId}/members/${dees.id}`)).status).toBe(204);
+      // Refused, or admitted and then told she is out: never left watching.
+      await dee.waitFor((m) => (m.type === 'error' && m.about === 'watchTeam') || m.type === 'teamAccess', 30_000, from);
+      const after = dee.received.length;
+      // The team changes; Bo, on Dee's instance, hears it — Dee does not.
+      const fromBo = bo.received.length;
+      await call(one, 'ann', 'PATCH', `/api/sketches/${world.sketchId}`, { title: `Race ${i}` });
+      await bo.waitFor(listChanged(world.teamId), 30_000, fromBo);
+      expect(dee.received.slice(after).filter((m) => m.type === 'teamSketches')).toEqual([]);
+    }
+  });
+
   it('[T3] a role change reaches the watcher with the new role; a deleted team ends the watch', async () => {
     const bo = await watcher(one, 'bo');
     bo.send({ type: 'watchTeam', teamId: world.teamId });

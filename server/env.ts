@@ -75,6 +75,11 @@ const envSchema = z.object({
    * a test acts on it (another instance, a kill, a stop).
    */
   FAULT_STUDY_PAUSE_MS: z.coerce.number().int().min(1).max(60_000).optional(),
+  /**
+   * Tests only: a join waits this long between its first access check and entering the room,
+   * so a removal can be committed inside that window on purpose [A5].
+   */
+  FAULT_JOIN_PAUSE_MS: z.coerce.number().int().min(1).max(60_000).optional(),
 });
 
 export type Env = z.infer<typeof envSchema>;
@@ -85,6 +90,9 @@ const checkedEnvSchema = envSchema.superRefine((env, ctx) => {
   }
   if (env.NODE_ENV !== 'test' && env.FAULT_STUDY_PAUSE_MS !== undefined) {
     ctx.addIssue({ code: 'custom', path: ['FAULT_STUDY_PAUSE_MS'], message: 'is for tests only (NODE_ENV=test)' });
+  }
+  if (env.NODE_ENV !== 'test' && env.FAULT_JOIN_PAUSE_MS !== undefined) {
+    ctx.addIssue({ code: 'custom', path: ['FAULT_JOIN_PAUSE_MS'], message: 'is for tests only (NODE_ENV=test)' });
   }
   if (env.NODE_ENV === 'production' && env.MAILBOX_OPERATOR.length > 0) {
     ctx.addIssue({ code: 'custom', path: ['MAILBOX_OPERATOR'], message: 'is for development only; production has no mailbox to read' });

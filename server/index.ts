@@ -29,6 +29,7 @@ export async function startServer(
     adapterPool: database.listenerPool,
     trustProxy: built.app.get('trust proxy fn'),
     dieAfterCommit: env.FAULT_DIE_AFTER_COMMIT,
+    joinPauseMs: env.FAULT_JOIN_PAUSE_MS,
   });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);

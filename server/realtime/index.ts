@@ -28,6 +28,8 @@ export interface RealtimeOptions {
   trustProxy?: TrustFn;
   /** Tests only (FAULT_DIE_AFTER_COMMIT): die right after committing an edit whose op id starts with this. */
   dieAfterCommit?: string;
+  /** Tests only (FAULT_JOIN_PAUSE_MS): a join's pause between its first check and the room [A5]. */
+  joinPauseMs?: number;
 }
 
 /**
@@ -77,12 +79,18 @@ export function attachRealtime(httpServer: HttpServer, session: RequestHandler, 
     const document = normalizeDocument(row.document);
     // A stored result behind the document (its instance died before solving): solve it now [E1].
     if (row.resultRevision === null || row.resultRevision < row.revision) ctx.edits.solveLater(msg.sketchId, row.revision, document);
+    if (options.joinPauseMs) await new Promise((r) => setTimeout(r, options.joinPauseMs));
     const you: Person = { connectionId: socket.id, userId: user.id, name: user.name, role, colour: personColour(user.id) };
     socket.data.rooms.set(msg.sketchId, { teamId: row.teamId, role, checkedAt: performance.now() });
     socket.data.people[msg.sketchId] = you;
     await socket.join(room(msg.sketchId));
+    // Checked once more now that the socket is in the room [A5]: a removal committed while the
+    // first check ran is seen here (and evicts at once), and one committed later finds the socket
+    // in the room when its re-check runs. Before, such a join stayed in the room until the sweep.
+    if (!(await access.roleNow(socket, msg.sketchId, true))) return;
+    const me = socket.data.people[msg.sketchId] ?? you;
     const walkthrough = await walkthroughs.state(msg.sketchId);
-    send(socket, { type: 'joined', sketchId: msg.sketchId, title: row.title, document, revision: row.revision, people: presence.quickPeople(msg.sketchId), walkthrough, you });
+    send(socket, { type: 'joined', sketchId: msg.sketchId, title: row.title, document, revision: row.revision, people: presence.quickPeople(msg.sketchId), walkthrough, you: me });
     // A rejoining client keeps its own state and gets what it missed.
     if (msg.lastRevision !== undefined) await edits.catchUp(socket, msg.sketchId, msg.lastRevision, row);
     // Everyone (the joiner too) gets the full list once every instance has answered [E3].

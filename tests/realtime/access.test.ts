@@ -9,7 +9,7 @@ import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
 import { testEnv } from '../helpers/app.ts';
 import { RT_PASSWORD, seedTeam } from '../helpers/realtimeWorld.ts';
 import { signInCookie, simClient, until, type SimClient } from '../helpers/simClient.ts';
-import type { ServerMessage } from '../../shared/protocol/messages.ts';
+import { PROTOCOL_VERSION, type ServerMessage } from '../../shared/protocol/messages.ts';
 
 type Msg<T extends ServerMessage['type']> = Extract<ServerMessage, { type: T }>;
 const CSRF = { 'x-shockwright-request': '1', 'content-type': 'application/json' };
@@ -23,6 +23,8 @@ describe('realtime access follows the session and the membership while sockets a
   let database: TestDatabase;
   let server: RunningServer;
   let second: RunningServer;
+  /** An instance whose joins pause between their first check and the room [A5] (closed at the end). */
+  let paused: RunningServer | undefined;
   let world: Awaited<ReturnType<typeof seedTeam>>;
   let ownerCookie: string;
   /** Olga (owner) and Sam's second session stay in the sketch throughout and witness broadcasts. */
@@ -71,6 +73,7 @@ describe('realtime access follows the session and the membership while sockets a
   });
   afterAll(async () => {
     for (const c of clients) c.close();
+    await paused?.close();
     await second?.close();
     await server?.close();
     await database?.drop();
@@ -188,6 +191,30 @@ describe('realtime access follows the session and the membership while sockets a
     await database.db.delete(sessions).where(eq(sessions.sid, sid));
     await until(() => !sam.socket.connected, ACCESS_SWEEP_MS * 3, 'the sweep hangs up the expired session');
     expect(sam.received.some((m) => m.type === 'error' && m.code === 'signed_out')).toBe(true);
+  });
+
+  // The instance here pauses each join between its first check and entering the room
+  // (FAULT_JOIN_PAUSE_MS), and the removal is committed inside that pause: the order that
+  // used to leave the socket in the room until the sweep, made to happen every time.
+  it('[A5] a join whose first check passed just before the person was removed never outlives the removal', async () => {
+    paused = await startServer(testEnv(database.url, { FAULT_JOIN_PAUSE_MS: '1500' }), { log: () => {} });
+    const kit = simClient(paused.url, await signInCookie(paused.url, user('Kit').email, RT_PASSWORD), { reconnect: false });
+    clients.push(kit);
+    await until(() => kit.socket.connected, 10_000, 'Kit connects');
+    for (let i = 0; i < 4; i++) {
+      // Kit is a member (again); she joins while Olga removes her (on another instance).
+      await database.db.insert(memberships).values({ teamId: world.teamId, userId: user('Kit').id, role: 'viewer' }).onConflictDoNothing();
+      const from = kit.received.length;
+      kit.send({ type: 'join', protocol: PROTOCOL_VERSION, sketchId: world.sketchId });
+      expect((await rest('DELETE', `/api/teams/${world.teamId}/members/${user('Kit').id}`, ownerCookie)).status).toBe(204);
+      // Refused, or admitted and then told she is out: never left in the room.
+      await kit.waitFor((m) => (m.type === 'error' && m.about === 'join') || (m.type === 'access' && m.role === null), 20_000, from);
+      expect(kit.received.slice(from).some((m) => m.type === 'joined')).toBe(false);
+      const after = kit.received.length;
+      // An edit in the sketch reaches the witness; Kit hears nothing of it.
+      await editSeenBy(olga, witness, `race-${i}`, 2 + i / 100);
+      expect(kit.received.slice(after).filter((m) => m.type === 'edit' || m.type === 'people')).toEqual([]);
+    }
   });
 
   it('[A2] deleting the sketch evicts everyone in it', async () => {

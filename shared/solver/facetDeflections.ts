@@ -1,6 +1,6 @@
 import type { SurfaceChain } from './splitSurfaces';
 import type { SurfaceName } from './types';
-import { itemAt, present } from '../util/invariant.ts';
+import { present } from '../util/invariant.ts';
 
 /**
  * Deflection of each facet from the free stream, radians, + = into the flow (compression).
@@ -23,11 +23,11 @@ export function facetDeflections(
   if (m === 0) return out;
   const turn = chain.turn;
   if (surface === 'upper') {
-    let theta = itemAt(chain.phi, 0) - alpha;
+    let theta = present(chain.phi[0], 0, chain.phi) - alpha;
     out[0] = theta;
     for (let k = 1; k < m; k++) out[k] = theta += present(turn[k], k, turn);
   } else {
-    let theta = alpha - itemAt(chain.phi, 0);
+    let theta = alpha - present(chain.phi[0], 0, chain.phi);
     out[0] = theta;
     for (let k = 1; k < m; k++) out[k] = theta -= present(turn[k], k, turn);
   }

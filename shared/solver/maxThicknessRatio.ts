@@ -1,4 +1,4 @@
-import { firstItem, itemAt, lastItem, present } from '../util/invariant.ts';
+import { itemAt, present } from '../util/invariant.ts';
 import type { SurfaceChain } from './splitSurfaces';
 
 /**
@@ -16,10 +16,13 @@ import type { SurfaceChain } from './splitSurfaces';
  */
 export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower: Pick<SurfaceChain, 'xs' | 'ys'>): number {
   // A chain runs nose → tail with at least one facet, so both ends exist.
-  const x0 = firstItem(upper.xs);
-  const y0 = firstItem(upper.ys);
-  const ex = lastItem(upper.xs) - x0;
-  const ey = lastItem(upper.ys) - y0;
+  const uxs = upper.xs;
+  const uys = upper.ys;
+  const last = uxs.length - 1;
+  const x0 = present(uxs[0], 0, uxs);
+  const y0 = present(uys[0], 0, uys);
+  const ex = present(uxs[last], last, uxs) - x0;
+  const ey = present(uys[last], last, uys) - y0;
   const chord = Math.hypot(ex, ey);
   if (!(chord > 0)) return 0;
   const cx = ex / chord;

@@ -75,8 +75,8 @@ export function solveSection(input: SolveInput): SolveResult {
   const alpha = alphaDeg * RAD_PER_DEG;
   const split = splitSurfaces(points);
   const chord = split.chord;
-  const nosePt = itemAt(points, split.noseIndex);
-  const tailPt = itemAt(points, split.tailIndex);
+  const nosePt = present(points[split.noseIndex], split.noseIndex, points);
+  const tailPt = present(points[split.tailIndex], split.tailIndex, points);
   const nose: Point = [nosePt[0], nosePt[1]];
   const tail: Point = [tailPt[0], tailPt[1]];
   const refChord = input.reference?.chord ?? chord;
@@ -262,7 +262,12 @@ function upperOrLower(name: SurfaceName, upper: SurfaceChain, lower: SurfaceChai
 /** The stream on a surface's last facet (every facet solved): what the trailing edge matches. */
 function streamAtTail(march: SurfaceMarch, chain: SurfaceChain): { mach: number; pRatio: number; direction: number; nu: number } {
   const last = chain.phi.length - 1;
-  return { mach: itemAt(march.mach, last), pRatio: itemAt(march.pRatio, last), direction: itemAt(chain.phi, last), nu: itemAt(march.nu, last) };
+  return {
+    mach: present(march.mach[last], last, march.mach),
+    pRatio: present(march.pRatio[last], last, march.pRatio),
+    direction: present(chain.phi[last], last, chain.phi),
+    nu: present(march.nu[last], last, march.nu),
+  };
 }
 
 /**
@@ -321,7 +326,7 @@ function buildFacets(
   const ys = chain.ys;
   const solvedCount = march ? march.solved : 0;
   const vacuumFrom = march && march.limit?.status === 'vacuum' ? march.solved : m;
-  let from: Point = [firstItem(xs), firstItem(ys)];
+  let from: Point = [present(xs[0], 0, xs), present(ys[0], 0, ys)];
   let thetaBefore = 0; // the free stream's: the first facet's turn is its deflection
   for (let k = 0; k < m; k++) {
     // Facet k of the chain runs from vertex k to vertex k + 1; theta, the march and the
@@ -655,12 +660,15 @@ function shockWarnings(
   for (let k = 0; k < march.solved; k++) {
     if (march.wave[k] !== 'shock') continue;
     // k < solved: facet k and the one before it carry a state.
+    const turn = present(march.turn[k], k, march.turn);
+    const thetaMax = present(march.thetaMax[k], k, march.thetaMax);
+    const machBehind = present(march.mach[k], k, march.mach);
+    const nearDetachment = (thetaMax - turn) * DEG_PER_RAD < NEAR_DETACHMENT_WARNING_DEG;
+    const nearSonic = machBehind < NEAR_SONIC_WARNING_MACH;
+    if (!nearDetachment && !nearSonic) continue;
     const name = k === 0 ? 'nose shock' : `shock at vertex ${itemAt(chain.vertices, k)}`;
-    const turn = itemAt(march.turn, k);
-    const thetaMax = itemAt(march.thetaMax, k);
-    const machBehind = itemAt(march.mach, k);
     const mAhead = k === 0 ? machInf : itemAt(march.mach, k - 1);
-    if ((thetaMax - turn) * DEG_PER_RAD < NEAR_DETACHMENT_WARNING_DEG) {
+    if (nearDetachment) {
       const f = degreesApart([[turn, thetaMax]]);
       warnings.push(
         `The ${name} on the ${surface} surface is within 1° of detachment: ` +
@@ -668,7 +676,7 @@ function shockWarnings(
           `${f(thetaMax)}° at ${k === 0 ? 'M' : 'local M'} ${m2(mAhead)}.`,
       );
     }
-    if (machBehind < NEAR_SONIC_WARNING_MACH) {
+    if (nearSonic) {
       warnings.push(
         `Flow behind the ${name} on the ${surface} surface is barely supersonic ` +
           `(M ${machNearOne(machBehind)}); a slightly larger deflection would make it subsonic.`,

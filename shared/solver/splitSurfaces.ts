@@ -63,7 +63,7 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
   // One pass: the bounding box, the nose (least (x, y)) and the tail (greatest x, least y
   // among exact ties). The tail excludes the nose vertex, which matters only when the nose is
   // also of greatest x (every vertex on one vertical line): that case takes a second pass.
-  const first = itemAt(points, 0);
+  const first = present(points[0], 0, points);
   let minX = first[0];
   let maxX = first[0];
   let minY = first[1];
@@ -135,9 +135,11 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
  */
 function counterClockwise(points: readonly XY[], v: number): boolean {
   const n = points.length;
-  const p = itemAt(points, (v + n - 1) % n);
-  const c = itemAt(points, v);
-  const q = itemAt(points, (v + 1) % n);
+  const iP = (v + n - 1) % n;
+  const iQ = (v + 1) % n;
+  const p = present(points[iP], iP, points);
+  const c = present(points[v], v, points);
+  const q = present(points[iQ], iQ, points);
   const cross = (c[0] - p[0]) * (q[1] - c[1]) - (c[1] - p[1]) * (q[0] - c[0]);
   return cross !== 0 ? cross > 0 : signedArea(points) > 0;
 }
@@ -151,6 +153,11 @@ function vertical(a: XY, b: XY): boolean {
   return dy > 0 && dx <= VERTICAL_SLOPE * dy;
 }
 
+/** Whether the edge from points[i] to points[j] is vertical (see `vertical`). */
+function verticalEdge(points: readonly XY[], i: number, j: number): boolean {
+  return vertical(present(points[i], i, points), present(points[j], j, points));
+}
+
 /**
  * The vertices of the run of consecutive vertical edges through vertex `v` (in index order), or
  * null when neither edge at `v` is vertical (a sharp end).
@@ -159,13 +166,13 @@ function verticalFace(points: readonly XY[], v: number): number[] | null {
   const n = points.length;
   let first = v;
   let steps = 0;
-  while (steps < n - 1 && vertical(itemAt(points, (first + n - 1) % n), itemAt(points, first))) {
+  while (steps < n - 1 && verticalEdge(points, (first + n - 1) % n, first)) {
     first = (first + n - 1) % n;
     steps++;
   }
   const out = [first];
   let i = first;
-  while (out.length < n && vertical(itemAt(points, i), itemAt(points, (i + 1) % n))) {
+  while (out.length < n && verticalEdge(points, i, (i + 1) % n)) {
     i = (i + 1) % n;
     out.push(i);
   }
@@ -190,7 +197,7 @@ function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1):
   const turn: number[] = new Array(m);
   const length: number[] = new Array(m);
   let i = nose;
-  const start = itemAt(points, i);
+  const start = present(points[i], i, points);
   let x0 = start[0];
   let y0 = start[1];
   vertices[0] = i;

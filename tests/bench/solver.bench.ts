@@ -5,16 +5,28 @@
  * - Core solve (march, trailing edge, loads, both theories; `options.waves = false`) and the
  *   full solve with the wave map, for 4, 16, 64 and 200 facets. The core solve's result is
  *   the complete one the API and the worker receive (every facet record built, nothing
- *   deferred); only the wave map is left out. Each function is warmed up for 300 ms first;
- *   each sample then times a batch of calls (about 8,000 facets' worth, at most 500 calls:
- *   a millisecond or more, so that the 300 samples span a second or so of load) with
- *   process.hrtime.bigint and divides by the batch size, so that the timer's own cost does
- *   not swamp a few-microsecond call; median and p95 are over 300 samples. The same samples'
- *   CPU time (process.cpuUsage, user + system) is printed beside the wall time: other work on
- *   a busy machine inflates the wall time more than this process's CPU time, so the CPU column
- *   is the one to compare between runs at different loads. It is not load-free either (a busy
- *   neighbour shares caches and perhaps the core): compare old and new code back to back, and
- *   read the load average printed with every table.
+ *   deferred); only the wave map is left out. The figure is the core solve as a caller pays
+ *   it, which takes two things:
+ *   - The process has drawn wave maps too, as the server and the section worker have: each
+ *     row warms up the core solve and the full solve (300 ms each) before it is timed, and the
+ *     rows run in order. A helper shared by the whole program (a list reader, say) that the
+ *     wave map also calls sees more kinds of data there, and the engine compiles it more
+ *     generally for the core solve as well: a harness that runs only the core solve measured
+ *     a quarter less than this bench for the same code (2026-12-03) until the core solve
+ *     stopped reading its lists through such a helper (shared/solver/README.md, Cost).
+ *   - Each sample is a batch of calls lasting about 10 ms (the batch size set from the
+ *     warm-up's rate), timed with process.hrtime.bigint and divided by the batch size. The
+ *     garbage the solve leaves is collected every hundred or so calls of 200 facets; a sample
+ *     of 1 ms (as this bench took before) held a collection in fewer than half the samples,
+ *     so the median left the collections out. Ten-millisecond samples each carry their share,
+ *     so the median is the cost per call with the collections paid; the CPU time's mean
+ *     over all samples is printed beside its median. Median and p95 are over 100 samples
+ *     (a second of calls).
+ *   The same samples' CPU time (process.cpuUsage, user + system) is printed beside the wall
+ *   time: other work on a busy machine inflates the wall time more than this process's CPU
+ *   time, so the CPU column is the one to compare between runs at different loads. It is not
+ *   load-free either (a busy neighbour shares caches and perhaps the core): compare old and
+ *   new code back to back, and read the load average printed with every table.
  * - `npm run bench -- --core` prints the section solve table only (a few seconds).
  * - An envelope of 40 Mach × 61 α on a 64-facet section (core solve), median and p95 of
  *   whole-envelope times.
@@ -89,10 +101,19 @@ function consume(r: ReturnType<typeof solveSection>): void {
   sink += r.coefficients ? r.coefficients.cl : 1;
 }
 
-function warmUp(fn: () => unknown, ms: number): void {
+/** Calls `fn` for `ms` milliseconds; returns how many calls that took. */
+function warmUp(fn: () => unknown, ms: number): number {
   const end = Date.now() + ms;
-  while (Date.now() < end) fn();
+  let calls = 0;
+  while (Date.now() < end) {
+    fn();
+    calls++;
+  }
+  return calls;
 }
+
+/** Samples of this many milliseconds each carry their share of the garbage collections. */
+const CORE_SAMPLE_MS = 10;
 
 const cpu = cpus()[0];
 console.log(
@@ -113,10 +134,11 @@ for (const facets of [4, 16, 64, 200]) {
   }
   const coreFn = () => consume(solveSection(core));
   const fullFn = () => consume(solveSection(full));
-  warmUp(coreFn, 300);
+  const coreRate = warmUp(coreFn, 300) / 300; // calls per ms
   warmUp(fullFn, 300);
-  const coreBatch = Math.min(500, Math.max(10, Math.round(8000 / facets)));
-  const { wall: c, cpu: cCpu } = timeAndCpuPerCall(coreFn, coreBatch, 300);
+  const coreBatch = Math.max(10, Math.round(coreRate * CORE_SAMPLE_MS));
+  const { wall: c, cpu: cCpu } = timeAndCpuPerCall(coreFn, coreBatch, 100);
+  const cCpuMean = cCpu.reduce((a, b) => a + b, 0) / cCpu.length;
   const fullBatch = Math.max(2, Math.round(400 / facets));
   const f = timePerCall(fullFn, fullBatch, 150);
   const cMed = quantile(c, 0.5);
@@ -128,6 +150,7 @@ for (const facets of [4, 16, 64, 200]) {
     cMed.toFixed(2),
     quantile(c, 0.95).toFixed(2),
     quantile(cCpu, 0.5).toFixed(2),
+    cCpuMean.toFixed(2),
     ((cMed * 1000) / facets).toFixed(0),
     Number.isNaN(marginal) ? '–' : marginal.toFixed(0),
     quantile(f, 0.5).toFixed(1),
@@ -141,6 +164,7 @@ const header = [
   'core median µs',
   'core p95 µs',
   'core CPU median µs',
+  'core CPU mean µs',
   'core ns/facet',
   'marginal ns/facet',
   'with wave map median µs',
@@ -149,7 +173,7 @@ const header = [
 ];
 const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => itemAt(r, i).length)));
 const fmtRow = (r: string[]) => r.map((c, i) => c.padStart(itemAt(widths, i))).join('  ');
-console.log('Section solve (demo fin, M 2.5, α 3°, γ 1.4)');
+console.log(`Section solve (demo fin, M 2.5, α 3°, γ 1.4; core: samples of ${CORE_SAMPLE_MS} ms, wave maps drawn in the same process)`);
 console.log(fmtRow(header));
 for (const r of rows) console.log(fmtRow(r));
 

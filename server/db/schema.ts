@@ -1,7 +1,9 @@
 import {
   type AnyPgColumn,
   bigserial,
+  check,
   customType,
+  doublePrecision,
   index,
   uniqueIndex,
   integer,
@@ -14,6 +16,7 @@ import {
   timestamp,
   varchar,
 } from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
 import { UNIT_SYSTEMS } from '../../shared/flight/units.ts';
 import { ANALYSIS_STATUSES } from '../../shared/model/analysis.ts';
 import { ROLES } from '../../shared/model/roles.ts';
@@ -108,9 +111,31 @@ export const sketches = pgTable(
      * its revision [A1]); null otherwise. "Changed since approval" is revision > its revision.
      */
     approvalId: text('approval_id').references((): AnyPgColumn => reviewOutcomes.id, { onDelete: 'set null' }),
+    /*
+     * The sketches table's summary of `document` (shared/flight/sketchSummary.ts), written in the
+     * same statement as the document by every writer (server/db/sketchSummary.ts
+     * `sketchSummaryColumns`), so the team's list never reads documents. `summary_revision` is
+     * the revision it was computed at: a trigger (migration 0011) refuses a write of the document
+     * or the revision that leaves it behind; null on a row stored before the columns (filled once
+     * by `backfillSketchSummaries` when migrations run; until then the list reads its document).
+     */
+    vertexCount: integer('vertex_count'),
+    /** t/c, the solver's measure; null for a degenerate section (as the API says). */
+    thicknessRatio: doublePrecision('thickness_ratio'),
+    selectedMach: doublePrecision('selected_mach'),
+    selectedAlphaDeg: doublePrecision('selected_alpha_deg'),
+    designPointCount: integer('design_point_count'),
+    selectedPointName: text('selected_point_name'),
+    summaryRevision: integer('summary_revision'),
     ...timestamps,
   },
-  (t) => [index('sketches_team_idx').on(t.teamId)],
+  (t) => [
+    index('sketches_team_idx').on(t.teamId),
+    check(
+      'sketches_summary_whole',
+      sql`${t.summaryRevision} is null or (${t.vertexCount} is not null and ${t.selectedMach} is not null and ${t.selectedAlphaDeg} is not null and ${t.designPointCount} is not null and ${t.selectedPointName} is not null)`,
+    ),
+  ],
 );
 
 /**

@@ -6,6 +6,7 @@ import type { Role } from '../../shared/model/roles.ts';
 import { FIRST_DESIGN_POINT_ID, sketchDocumentSchema, type SketchDocument } from '../../shared/model/sketch.ts';
 import { hashPassword } from '../auth/passwords.ts';
 import { solveDocument } from '../api/sketches/solveDocument.ts';
+import { sketchSummaryColumns } from './sketchSummary.ts';
 
 /**
  * Demo data: Harrowgate Dynamics, a fictional maker of small sounding rockets, and the fins
@@ -125,7 +126,7 @@ export async function seedDemoOnce(db: Db): Promise<'seeded' | 'already'> {
     for (const [i, s] of DEMO_SKETCHES.entries()) {
       const author = ids[i % 2]; // the owner and the editor drew them
       const solved = solveDocument(s.document);
-      await tx.insert(sketches).values({ id: newId('sketch'), teamId, title: s.title, document: s.document, createdBy: author, updatedBy: author, lastSolveStatus: solved.status, lastResult: solved.result, resultRevision: 0 });
+      await tx.insert(sketches).values({ id: newId('sketch'), teamId, title: s.title, document: s.document, createdBy: author, updatedBy: author, lastSolveStatus: solved.status, lastResult: solved.result, resultRevision: 0, ...sketchSummaryColumns(s.document, 0) });
     }
     await tx.insert(appMeta).values({ key: 'demo_seeded_at', value: new Date().toISOString() });
   });

@@ -123,7 +123,7 @@ export async function planBatch(
     outcomes.push(outcome);
   }
 
-  const sketch = revision !== locked.revision ? { title: state.title, documentJson: JSON.stringify(state.document), revision, updatedBy: lastEditor } : null;
+  const sketch = revision !== locked.revision ? { title: state.title, document: state.document, revision, updatedBy: lastEditor } : null;
   return { write: { sketch, rows }, result: { outcomes, state: { revision, document: state.document } } };
 }
 

@@ -5,6 +5,8 @@ import type { Role } from '../../shared/model/roles.ts';
 import type { AnalysisStatus } from '../../shared/model/analysis.ts';
 import type { AppliedEdit, EditOp, EditStatus, WalkthroughState } from '../../shared/protocol/messages.ts';
 import { findRole } from '../api/auth/repository.ts';
+import { sketchSummaryColumns } from '../db/sketchSummary.ts';
+import type { SketchDocument } from '../../shared/model/sketch.ts';
 
 /** What one open socket claims: its session, its user and (optionally) a sketch it is in. */
 export interface AccessCheck {
@@ -133,7 +135,7 @@ export interface EditLogRow {
 
 /** What a batch writes: the new document state (when edits applied) and every log row. */
 export interface BatchWrite {
-  sketch: { title: string; documentJson: string; revision: number; updatedBy: string | null } | null;
+  sketch: { title: string; document: SketchDocument; revision: number; updatedBy: string | null } | null;
   rows: EditLogRow[];
 }
 
@@ -188,11 +190,16 @@ async function writeBatch(tx: Tx, sketchId: string, write: BatchWrite): Promise<
       from jsonb_to_recordset(${JSON.stringify(write.rows.map((r) => ({ id: r.id, op_id: r.opId, revision: r.revision, user_id: r.userId, op: r.op, status: r.status, reason: r.reason })))}::jsonb)
         as r(id text, op_id text, revision int, user_id text, op jsonb, status edit_status, reason text)`;
   if (write.sketch) {
-    // One statement writes the document and every log row.
+    // One statement writes the document, its summary for the sketches table and every log row.
+    const summary = sketchSummaryColumns(write.sketch.document, write.sketch.revision);
     await tx.execute(sql`
       with updated as (
         update sketches
-           set title = ${write.sketch.title}, document = ${write.sketch.documentJson}::jsonb, revision = ${write.sketch.revision},
+           set title = ${write.sketch.title}, document = ${JSON.stringify(write.sketch.document)}::jsonb, revision = ${write.sketch.revision},
+               vertex_count = ${summary.vertexCount}, thickness_ratio = ${summary.thicknessRatio}::double precision,
+               selected_mach = ${summary.selectedMach}::double precision, selected_alpha_deg = ${summary.selectedAlphaDeg}::double precision,
+               design_point_count = ${summary.designPointCount}, selected_point_name = ${summary.selectedPointName},
+               summary_revision = ${summary.summaryRevision},
                updated_by = ${write.sketch.updatedBy}, updated_at = now()
          where id = ${sketchId}
         returning 1

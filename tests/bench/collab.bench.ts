@@ -26,6 +26,7 @@ import { startServerProcess, type ServerProcess } from '../helpers/serverProcess
 import { untilInstancesMeet } from '../helpers/instances.ts';
 import type { EditOp } from '../../shared/protocol/messages.ts';
 import { firstItem, firstItems, itemAt } from '../../shared/util/invariant.ts';
+import { sketchSummaryColumns } from '../../server/db/sketchSummary.ts';
 
 const CLIENTS = Number(process.env.BENCH_CLIENTS ?? 25);
 const RATE_PER_S = Number(process.env.BENCH_RATE ?? 10);
@@ -138,7 +139,8 @@ async function main() {
   const world = await seedTeam(db.db, Array.from({ length: 5 }, (_, i) => ({ name: `Bench${i}`, role: 'editor' as const })));
   const emails = world.users.map((u) => u.email);
   const bigId = newId('sketch');
-  await db.db.insert(sketches).values({ id: bigId, teamId: world.teamId, title: 'Big section', document: bigDocument(BIG_VERTICES), createdBy: firstItem(world.users).id, updatedBy: firstItem(world.users).id });
+  const big = bigDocument(BIG_VERTICES);
+  await db.db.insert(sketches).values({ id: bigId, teamId: world.teamId, title: 'Big section', document: big, createdBy: firstItem(world.users).id, updatedBy: firstItem(world.users).id, ...sketchSummaryColumns(big, 0) });
   const server = await startServerProcess(url, await freePort());
   const pid = server.child.pid!;
   const procs: ServerProcess[] = [server];

@@ -7,7 +7,9 @@
  * `teamSketches` notice (at most one a second per team): one request at a time (wall time
  * p50 / p95), ten at once (ten open home pages hearing the same notice), and the CPU time the
  * server process and PostgreSQL spent per request (CPU time says more than wall time on a busy
- * machine). The load average is printed before and after.
+ * machine). The load average is printed before and after. Two ways of answering are measured
+ * alternately, back to back: from the summary columns (what the list does), and reading and
+ * summarising every document (what it did before migration 0011).
  */
 import { readFileSync, readdirSync } from 'node:fs';
 import os from 'node:os';
@@ -37,19 +39,25 @@ function cpuSeconds(pid: number): number {
     return 0; // the process ended meanwhile
   }
 }
-/** The CPU time of the cluster's postmaster and every process it started (backends, workers). */
-function clusterCpuSeconds(dataDir: string): number {
+/** The CPU time of the cluster's postmaster and of every process it started (backends, workers), by pid. */
+function clusterCpu(dataDir: string): Map<number, number> {
   const postmaster = Number(firstItem(readFileSync(path.join(dataDir, 'postmaster.pid'), 'utf8').split('\n')));
-  let total = cpuSeconds(postmaster);
+  const out = new Map<number, number>([[postmaster, cpuSeconds(postmaster)]]);
   for (const entry of readdirSync('/proc')) {
     if (!/^\d+$/.test(entry)) continue;
     try {
       const fields = itemAt(readFileSync(`/proc/${entry}/stat`, 'utf8').split(') '), 1).split(' ');
-      if (Number(itemAt(fields, 1)) === postmaster) total += cpuSeconds(Number(entry));
+      if (Number(itemAt(fields, 1)) === postmaster) out.set(Number(entry), cpuSeconds(Number(entry)));
     } catch {
       // gone meanwhile
     }
   }
+  return out;
+}
+/** CPU seconds the cluster spent between two readings (processes that ended meanwhile, e.g. an autovacuum worker, are not counted). */
+function clusterCpuSince(before: Map<number, number>, dataDir: string): number {
+  let total = 0;
+  for (const [pid, cpu] of clusterCpu(dataDir)) total += cpu - (before.get(pid) ?? 0);
   return total;
 }
 const loadLine = () => `load average ${os.loadavg().map((l) => l.toFixed(2)).join(' / ')} (1 / 5 / 15 min) on ${os.cpus().length} cores`;
@@ -115,29 +123,53 @@ async function main() {
     const rows = (JSON.parse(first) as unknown[]).length;
     for (let i = 0; i < 3; i++) await list(); // warm-up
 
-    const one: number[] = [];
-    const serverCpu0 = cpuSeconds(pid);
-    const pgCpu0 = clusterCpuSeconds(dataDir);
-    for (let i = 0; i < SEQUENTIAL; i++) {
-      const t0 = performance.now();
-      await list();
-      one.push(performance.now() - t0);
+    /** One block of figures: sequential requests (wall, server and PostgreSQL CPU), then ten at once. */
+    const measure = async () => {
+      const one: number[] = [];
+      const serverCpu0 = cpuSeconds(pid);
+      const pgCpu0 = clusterCpu(dataDir);
+      for (let i = 0; i < SEQUENTIAL; i++) {
+        const t0 = performance.now();
+        await list();
+        one.push(performance.now() - t0);
+      }
+      const serverCpu = (cpuSeconds(pid) - serverCpu0) / SEQUENTIAL;
+      const pgCpu = clusterCpuSince(pgCpu0, dataDir) / SEQUENTIAL;
+      const ten: number[] = [];
+      for (let r = 0; r < ROUNDS; r++) {
+        const t0 = performance.now();
+        await Promise.all(Array.from({ length: PAGES }, () => list()));
+        ten.push(performance.now() - t0);
+      }
+      return { one, ten, serverCpu: [serverCpu], pgCpu: [pgCpu] };
+    };
+    // A/B, alternating, back to back: the summary columns (what the list reads), and every
+    // document read and summarised (what it did before migration 0011, and still does for a row
+    // whose summary is not of its revision: taking the revision tag away puts the list there).
+    const byColumns = { one: [] as number[], ten: [] as number[], serverCpu: [] as number[], pgCpu: [] as number[] };
+    const byDocuments = { one: [] as number[], ten: [] as number[], serverCpu: [] as number[], pgCpu: [] as number[] };
+    const hasSummary = async (on: boolean) => {
+      await db.pool.query(on ? `update sketches set summary_revision = revision where team_id = $1` : `update sketches set summary_revision = null where team_id = $1`, [world.teamId]);
+    };
+    for (let round = 0; round < 2; round++) {
+      for (const [on, into] of [[true, byColumns], [false, byDocuments]] as const) {
+        await hasSummary(on);
+        await list(); // the first request after the switch is not counted
+        const m = await measure();
+        for (const k of ['one', 'ten', 'serverCpu', 'pgCpu'] as const) into[k].push(...m[k]);
+      }
     }
-    const serverCpu = (cpuSeconds(pid) - serverCpu0) / SEQUENTIAL;
-    const pgCpu = (clusterCpuSeconds(dataDir) - pgCpu0) / SEQUENTIAL;
-
-    const ten: number[] = [];
-    for (let r = 0; r < ROUNDS; r++) {
-      const t0 = performance.now();
-      await Promise.all(Array.from({ length: PAGES }, () => list()));
-      ten.push(performance.now() - t0);
-    }
+    await hasSummary(true);
+    const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / Math.max(1, xs.length);
 
     row('rows in the list / answer size', `${rows} / ${(Buffer.byteLength(first) / 1024).toFixed(0)} KB`);
-    row('one list request: p50 / p95', spread(one));
-    row('server CPU per list request', `${(serverCpu * 1000).toFixed(1)} ms`);
-    row('PostgreSQL CPU per list request', `${(pgCpu * 1000).toFixed(1)} ms (every process of the cluster)`);
-    row(`${PAGES} home pages at once (one notice): p50 / p95`, `${spread(ten)} until the last answer`);
+    for (const [label, m] of [['from the summary columns', byColumns], ['reading every document (before)', byDocuments]] as const) {
+      console.log(`\n${label}`);
+      row('  one list request: p50 / p95', spread(m.one));
+      row('  server CPU per list request', `${(mean(m.serverCpu) * 1000).toFixed(1)} ms`);
+      row('  PostgreSQL CPU per list request', `${(mean(m.pgCpu) * 1000).toFixed(1)} ms (the cluster's processes alive at the end)`);
+      row(`  ${PAGES} home pages at once: p50 / p95`, `${spread(m.ten)} until the last answer`);
+    }
     console.log(`\nMachine after: ${loadLine()}`);
   } finally {
     if (server.alive()) await server.stop();

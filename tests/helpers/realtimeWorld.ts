@@ -8,6 +8,7 @@ import { applyEdit, type SketchState } from '../../shared/protocol/transform.ts'
 import type { EditOp } from '../../shared/protocol/messages.ts';
 import type { Db } from '../../server/db/client.ts';
 import { itemAt } from '../../shared/util/invariant.ts';
+import { sketchSummaryColumns } from '../../server/db/sketchSummary.ts';
 
 export const RT_PASSWORD = 'realtime password';
 
@@ -35,7 +36,7 @@ export async function seedTeam(db: Db, people: { name: string; role: Role }[]) {
   }
   const sketchId = newId('sketch');
   const initial = ellipseDocument();
-  await db.insert(sketches).values({ id: sketchId, teamId, title: 'Shared section', document: initial, createdBy: itemAt(out, 0).id, updatedBy: itemAt(out, 0).id });
+  await db.insert(sketches).values({ id: sketchId, teamId, title: 'Shared section', document: initial, createdBy: itemAt(out, 0).id, updatedBy: itemAt(out, 0).id, ...sketchSummaryColumns(initial, 0) });
   return { teamId, users: out, sketchId, initial };
 }
 

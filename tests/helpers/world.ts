@@ -11,6 +11,7 @@ import type { Role } from '../../shared/model/roles.ts';
 import { createTestDatabase, type TestDatabase } from './database.ts';
 import { testEnv } from './app.ts';
 import { itemAt } from '../../shared/util/invariant.ts';
+import { sketchSummaryColumns } from '../../server/db/sketchSummary.ts';
 
 export const CSRF = { 'x-shockwright-request': '1' } as const;
 export const PASSWORD = 'correct horse battery';
@@ -113,7 +114,8 @@ export async function freshTeam(world: World, name = 'Test team'): Promise<strin
 
 export async function freshSketch(world: World, teamId = world.teamId, title = 'Test sketch'): Promise<string> {
   const id = newId('sketch');
-  await world.database.db.insert(sketches).values({ id, teamId, title, document: defaultSketchDocument(), createdBy: world.users.owner.id, updatedBy: world.users.owner.id });
+  const document = defaultSketchDocument();
+  await world.database.db.insert(sketches).values({ id, teamId, title, document, createdBy: world.users.owner.id, updatedBy: world.users.owner.id, ...sketchSummaryColumns(document, 0) });
   return id;
 }
 

@@ -114,6 +114,42 @@ describe('[T1]–[T4] a team’s sketch list, live, only to its members', () => 
     for (const c of [ann, bo]) expect(c.received.some((m) => 'teamId' in m && m.teamId === other.teamId)).toBe(false);
   });
 
+  it('[T2][T6] a colleague’s live edit on the other instance adds a vertex and changes Mach: the list the watcher fetches after the notice shows 5 vertices, the new t/c (by hand) and Mach', async () => {
+    const ann = await watcher(one, 'ann');
+    ann.send({ type: 'watchTeam', teamId: world.teamId });
+    await ann.waitFor(watched(world.teamId));
+    // Ann draws a 5 % double wedge; Bo edits it live on instance two.
+    const wedge = { version: 1, section: { points: [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]] }, condition: { mach: 2, alphaDeg: 0 } };
+    const made = await call(one, 'ann', 'POST', `/api/teams/${world.teamId}/sketches`, { title: 'Wedge, live', document: wedge });
+    expect(made.status).toBe(201);
+    const sketchId = (made.body as { id: string }).id;
+    const listed = async () => ((await call(one, 'ann', 'GET', `/api/teams/${world.teamId}/sketches`)).body as { id: string; vertexCount: number; thicknessRatio: number; mach: number; revision: number }[]).find((s) => s.id === sketchId)!;
+    expect(await listed()).toMatchObject({ vertexCount: 4, mach: 2, revision: 0 });
+    expect((await listed()).thicknessRatio).toBeCloseTo(0.05, 12);
+
+    const fromAnn = ann.received.length;
+    const bo = await watcher(two, 'bo');
+    bo.engine.join(sketchId);
+    await until(() => bo.engine.state !== null, 30_000, 'Bo joined the sketch');
+    // A vertex on the upper surface at x = 0.25, 0.04 up: the thickness there becomes 0.04 + 0.0125
+    // (the lower surface at x = 0.25 is halfway to −0.025) = 0.0525 of the unit chord, the most anywhere.
+    expect(bo.engine.submit({ type: 'insertVertex', opId: 'home-count-1', index: 1, at: [0.25, 0.04] }).ok).toBe(true);
+    expect(bo.engine.submit({ type: 'setCondition', opId: 'home-count-2', field: 'mach', value: 3.1 }).ok).toBe(true);
+    await until(() => bo.engine.pendingCount === 0, 30_000, 'Bo’s edits are confirmed');
+
+    // As the home page does: every notice, fetch the list again. The last change always gets a
+    // notice [T2], so a fetch after one shows both edits.
+    let from = fromAnn;
+    let row: Awaited<ReturnType<typeof listed>> | null = null;
+    do {
+      await ann.waitFor(listChanged(world.teamId), 30_000, from).catch(() => expect.fail(`no notice brought Bo’s edits; the list said ${JSON.stringify(row)}`));
+      from = ann.received.findLastIndex(listChanged(world.teamId)) + 1;
+      row = await listed();
+    } while (row.vertexCount !== 5 || row.mach !== 3.1);
+    expect(row).toMatchObject({ vertexCount: 5, mach: 3.1, revision: 2 });
+    expect(row.thicknessRatio).toBeCloseTo(0.0525, 12);
+  });
+
   it('[T3] a member removed while watching is told at once and hears nothing more; the list refuses her; added again, she may watch again', async () => {
     const dee = await watcher(two, 'dee');
     const ann = await watcher(one, 'ann');

@@ -9,6 +9,8 @@ import { ROLES } from '../../shared/model/roles.ts';
 import { AUDIT_ACTIONS } from '../../shared/model/teams.ts';
 import { EDIT_STATUSES } from '../../shared/protocol/messages.ts';
 import { createTestDatabase, type TestDatabase } from '../helpers/database.ts';
+import { defaultSketchDocument } from '../../shared/model/sketch.ts';
+import { summarizeDocument } from '../../shared/flight/sketchSummary.ts';
 
 /**
  * [M1] Each closed vocabulary the database stores is one list in shared/, and the column is a
@@ -74,7 +76,13 @@ describe('vocabularies: one list in shared/, one enum in the database [M1]', () 
   it('the database refuses a word outside the list in every converted column, naming the enum; the list’s own words go in', async () => {
     await q(`insert into users (id, email, name, password_hash) values ('user_ines', 'ines@harrowgate.example', 'Ines Marlow', 'x')`);
     await q(`insert into teams (id, name) values ('team_fins', 'Fins group')`);
-    await q(`insert into sketches (id, team_id, title, document) values ('sketch_root', 'team_fins', 'Root', '{}')`);
+    const summary = summarizeDocument(defaultSketchDocument());
+    // A sketch row carries its document's summary (the trigger of migration 0011 holds it).
+    await q(
+      `insert into sketches (id, team_id, title, document, vertex_count, thickness_ratio, selected_mach, selected_alpha_deg, design_point_count, selected_point_name, summary_revision)
+       values ('sketch_root', 'team_fins', 'Root', $1, $2, $3, $4, $5, $6, $7, 0)`,
+      [JSON.stringify(defaultSketchDocument()), summary.vertexCount, summary.thicknessRatio, summary.mach, summary.alphaDeg, summary.designPointCount, summary.selectedPointName],
+    );
     const refused = async (text: string, values: unknown[], enumName: string) => {
       const err = (await q(text, values).then(
         () => null,

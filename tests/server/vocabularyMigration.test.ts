@@ -7,9 +7,9 @@ import pg from 'pg';
 import { drizzle } from 'drizzle-orm/node-postgres';
 import { migrate } from 'drizzle-orm/node-postgres/migrator';
 import { ensureDatabase } from '../../server/db/admin.ts';
-import { openDatabase } from '../../server/db/client.ts';
 import { MIGRATIONS_FOLDER, applyMigrations, readJournal } from '../../server/db/migrate.ts';
-import { DEMO_SKETCHES, seedDemoOnce } from '../../server/db/seed.ts';
+import { DEMO_SKETCHES } from '../../server/db/seed.ts';
+import { seedDemoAsBefore } from '../helpers/legacyDemo.ts';
 import { solveDocument } from '../../server/api/sketches/solveDocument.ts';
 import { SKETCH_EVENT_KINDS } from '../../shared/model/review.ts';
 import { AUDIT_ACTIONS } from '../../shared/model/teams.ts';
@@ -84,12 +84,8 @@ describe('migration 0009: closed vocabularies become enums', () => {
   it('a seeded demo install with every word ever written converts whole; stray outcomes and statuses are mapped', async () => {
     const { url, client } = await databaseBefore0009();
     const q = (text: string, values: unknown[] = []) => client.query(text, values);
-    const seeded = openDatabase(url, { max: 1 });
-    try {
-      expect(await seedDemoOnce(seeded.db)).toBe('seeded');
-    } finally {
-      await seeded.close();
-    }
+    // The demo as `npm start` seeded it then (the seed of today writes columns 0009 lacks).
+    await seedDemoAsBefore(client);
     const team = (await q(`select id from teams`)).rows[0].id as string;
     const sketch = (await q(`select id from sketches order by title limit 1`)).rows[0].id as string;
     const { edit } = await addHistory(client, team, sketch);

@@ -1,9 +1,10 @@
-import { desc, eq } from 'drizzle-orm';
+import { desc, eq, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { Db } from '../../db/client.ts';
 import { reviewOutcomes, sketches, users } from '../../db/schema.ts';
 import type { AnalysisStatus } from '../../../shared/model/analysis.ts';
 import type { SketchDocument } from '../../../shared/model/sketch.ts';
+import { columnsToSummary, sketchSummaryColumns } from '../../db/sketchSummary.ts';
 
 const editor = alias(users, 'editor');
 
@@ -12,7 +13,6 @@ const columns = {
   teamId: sketches.teamId,
   title: sketches.title,
   revision: sketches.revision,
-  document: sketches.document,
   lastSolveStatus: sketches.lastSolveStatus,
   reviewStatus: sketches.reviewStatus,
   /** The approval in force [A1] (null unless approved). */
@@ -25,19 +25,39 @@ const columns = {
   updatedByName: editor.name,
 };
 
+/**
+ * The team's sketches for the home table, newest first: each row's summary from its columns,
+ * never its document — except a row whose summary does not belong to its revision (stored
+ * before migration 0011 and not filled yet): `summary` is null and its document comes along,
+ * so the service summarises it.
+ */
 export async function listSketches(db: Db, teamId: string) {
-  return db
-    .select(columns)
+  const rows = await db
+    .select({
+      ...columns,
+      vertexCount: sketches.vertexCount,
+      thicknessRatio: sketches.thicknessRatio,
+      selectedMach: sketches.selectedMach,
+      selectedAlphaDeg: sketches.selectedAlphaDeg,
+      designPointCount: sketches.designPointCount,
+      selectedPointName: sketches.selectedPointName,
+      summaryRevision: sketches.summaryRevision,
+      staleDocument: sql<unknown>`case when ${sketches.summaryRevision} is distinct from ${sketches.revision} then ${sketches.document} end`,
+    })
     .from(sketches)
     .leftJoin(editor, eq(editor.id, sketches.updatedBy))
     .leftJoin(reviewOutcomes, eq(reviewOutcomes.id, sketches.approvalId))
     .where(eq(sketches.teamId, teamId))
     .orderBy(desc(sketches.updatedAt));
+  return rows.map(({ vertexCount, thicknessRatio, selectedMach, selectedAlphaDeg, designPointCount, selectedPointName, summaryRevision, staleDocument, ...row }) => {
+    const summary = columnsToSummary({ vertexCount, thicknessRatio, selectedMach, selectedAlphaDeg, designPointCount, selectedPointName, summaryRevision, revision: row.revision });
+    return { ...row, summary, document: summary ? null : staleDocument };
+  });
 }
 
 export async function findSketch(db: Db, id: string) {
   const rows = await db
-    .select({ ...columns, lastResult: sketches.lastResult, resultRevision: sketches.resultRevision })
+    .select({ ...columns, document: sketches.document, lastResult: sketches.lastResult, resultRevision: sketches.resultRevision })
     .from(sketches)
     .leftJoin(editor, eq(editor.id, sketches.updatedBy))
     .leftJoin(reviewOutcomes, eq(reviewOutcomes.id, sketches.approvalId))
@@ -65,6 +85,7 @@ export async function insertSketch(
     lastSolveStatus: row.lastSolveStatus,
     lastResult: row.lastResult,
     resultRevision: 0,
+    ...sketchSummaryColumns(row.document, 0),
   });
 }
 

@@ -2,11 +2,11 @@ import type { Db } from '../../db/client.ts';
 import { HttpError } from '../../http/errors.ts';
 import { assertTeamRole } from '../../auth/guards.ts';
 import { newId } from '../../../shared/model/ids.ts';
-import { defaultSketchDocument, normalizeDocument, selectedPoint, type SketchDocument } from '../../../shared/model/sketch.ts';
+import { defaultSketchDocument, normalizeDocument, type SketchDocument } from '../../../shared/model/sketch.ts';
 import type { Role } from '../../../shared/model/roles.ts';
 import { reviewState } from '../../../shared/model/review.ts';
 import type { Sketch, SketchSummary } from '../../../shared/model/sketchApi.ts';
-import { thicknessRatio } from '../../../shared/solver/thicknessRatio.ts';
+import { summarizeDocument } from '../../../shared/flight/sketchSummary.ts';
 import { solveDocument } from './solveDocument.ts';
 import * as repo from './repository.ts';
 import type { AppContext } from '../../context.ts';
@@ -49,29 +49,25 @@ function toSketch(row: SketchRow): Sketch {
   };
 }
 
+/**
+ * The team's sketches table. Every open home page of the team fetches it again after each
+ * `teamSketches` notice, so it reads the summary columns and no document (a row stored before
+ * the columns, not filled yet, is summarised from its document here).
+ */
 export async function listTeamSketches(db: Db, userId: string, teamId: string): Promise<SketchSummary[]> {
   await assertTeamRole(db, userId, teamId, 'viewer', 'see this team’s sketches');
   const rows = await repo.listSketches(db, teamId);
-  return rows.map((r) => {
-    const doc = normalizeDocument(r.document);
-    const point = selectedPoint(doc);
-    return {
-      id: r.id,
-      teamId: r.teamId,
-      title: r.title,
-      revision: r.revision,
-      vertexCount: doc.section.points.length,
-      thicknessRatio: thicknessRatio(doc.section.points),
-      mach: point.condition.mach,
-      alphaDeg: point.condition.alphaDeg,
-      designPointCount: doc.designPoints.length,
-      selectedPointName: point.name,
-      lastSolveStatus: r.lastSolveStatus,
-      updatedAt: r.updatedAt.toISOString(),
-      updatedByName: r.updatedByName,
-      ...reviewOf(r),
-    };
-  });
+  return rows.map((r) => ({
+    id: r.id,
+    teamId: r.teamId,
+    title: r.title,
+    revision: r.revision,
+    ...(r.summary ?? summarizeDocument(normalizeDocument(r.document))),
+    lastSolveStatus: r.lastSolveStatus,
+    updatedAt: r.updatedAt.toISOString(),
+    updatedByName: r.updatedByName,
+    ...reviewOf(r),
+  }));
 }
 
 export async function getSketch(db: Db, userId: string, sketchId: string): Promise<Sketch> {

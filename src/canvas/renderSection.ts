@@ -9,6 +9,8 @@ import {
   VERTEX_FILL,
   VERTEX_SELECTED,
   pressureColour,
+  pressureColourAt,
+  pressureT,
   type PressureDomain,
 } from './colors';
 import type { Dot, DrawList, StrokePath } from './drawPaths';
@@ -35,7 +37,25 @@ export interface SectionRenderOptions {
   solvedPoints?: readonly Point[] | null;
   /** The flap's hinge (drawn as a ring with a cross) when the sketch has a flap. */
   hinge?: Point | null;
+  /**
+   * A drag's detail ([DR7]): vertex dots at least VERTEX_GAP_DRAG_PX apart along the outline
+   * (the selected and hovered vertices, the `keepVertex` and its two neighbours always), and the
+   * Cp shading stroked as one line per run of facets of one colour.
+   */
+  drag?: { keepVertex: number | null } | null;
 }
+
+/**
+ * During a drag ([DR7]) a vertex dot is left out when it lies within this many pixels of the
+ * last dot drawn along the outline: a 200-vertex arc at the usual zoom puts dots ~4 px apart,
+ * overlapping into a bead chain that costs the software rasteriser ~0.6 ms a move.
+ */
+export const VERTEX_GAP_DRAG_PX = 12;
+/**
+ * During a drag the Cp shading takes one of this many colours of the scale (at rest: 256), so
+ * that neighbouring facets of nearly one pressure make one run to stroke ([DR7]).
+ */
+export const CP_DRAG_STEPS = 24;
 
 const HINGE_RADIUS_PX = 6;
 const HINGE_COLOUR = '#f1e6d2';
@@ -74,7 +94,8 @@ export function renderSection(points: readonly Point[], result: SolveResult | nu
   if (solved) paths.push({ points: shaded.flat(), colour: SECTION_OUTLINE, width: 1, dash: [5, 4], closed: true, alpha: 0.8 });
   const m = shaded.length;
   const pressures = layers.surfaceCp && !options.invalid ? facetPressures(result, m) : null;
-  if (pressures) {
+  if (pressures && options.drag) paths.push(...cpRuns(shaded, pressures, domain));
+  else if (pressures) {
     for (let i = 0; i < m; i++) {
       const a = shaded[i];
       const b = shaded[(i + 1) % m];
@@ -100,10 +121,49 @@ export function renderSection(points: readonly Point[], result: SolveResult | nu
   }
   if (options.showVertices) {
     const selected = new Set(options.selection);
+    const keep = options.drag ? options.drag.keepVertex : null;
+    // During a drag: the last dot drawn (screen), to leave out the ones crowding it.
+    let lastX = Number.NaN;
+    let lastY = Number.NaN;
     screen.forEach(([x, y], i) => {
+      if (options.drag) {
+        const always = selected.has(i) || i === options.hoverVertex || (keep !== null && (i === keep || i === (keep + 1) % n || i === (keep + n - 1) % n));
+        if (!always && Math.hypot(x - lastX, y - lastY) < VERTEX_GAP_DRAG_PX) return;
+        lastX = x;
+        lastY = y;
+      }
       if (selected.has(i)) dots.push({ x, y, radius: SELECTED_RADIUS_PX, fill: VERTEX_SELECTED, stroke: '#0b2b2a', strokeWidth: 1.5 });
       else dots.push({ x, y, radius: i === options.hoverVertex ? SELECTED_RADIUS_PX : VERTEX_RADIUS_PX, fill: VERTEX_FILL, stroke: '#0c1418', strokeWidth: 1 });
     });
   }
   return { paths, dots };
+}
+
+/**
+ * The Cp shading as one line per run of neighbouring facets of one colour (a drag's detail,
+ * [DR7]): round joins where the facets of a run meet instead of a round cap at each end of
+ * every facet — the same band, a fraction of the strokes to rasterise. Unsolved facets stay
+ * dashed, each on its own.
+ */
+function cpRuns(shaded: readonly (readonly [number, number])[], pressures: readonly (number | null)[], domain: PressureDomain): StrokePath[] {
+  const m = shaded.length;
+  const out: StrokePath[] = [];
+  let run: StrokePath | null = null;
+  for (let i = 0; i < m; i++) {
+    const a = shaded[i];
+    const b = shaded[(i + 1) % m];
+    const p = pressures[i];
+    if (p === null) {
+      run = null;
+      out.push({ points: [a[0], a[1], b[0], b[1]], colour: UNSOLVED_FACET, width: FACET_CP_WIDTH_PX, dash: [3, 3] });
+      continue;
+    }
+    const colour = pressureColourAt(Math.round(Math.min(1, Math.max(0, pressureT(p, domain))) * CP_DRAG_STEPS) / CP_DRAG_STEPS);
+    if (run && run.colour === colour) run.points.push(b[0], b[1]);
+    else {
+      run = { points: [a[0], a[1], b[0], b[1]], colour, width: FACET_CP_WIDTH_PX };
+      out.push(run);
+    }
+  }
+  return out;
 }

@@ -58,9 +58,10 @@ export interface SceneContent {
 export const EMPTY_SCENE_CONTENT: SceneContent = { points: [], result: null, solvedPoints: null, hinge: null, invalid: false };
 
 /**
- * How much detail the wave map is drawn with ([DR6]): `full`, or `drag` — painted on every move
- * of a drag, with the pressure field in rows of FIELD_ROW_DRAG_PX and fan rays at least
- * FAN_RAY_GAP_DRAG_PX apart; the worker paints the full detail again when the pointer pauses.
+ * How much detail the scene is drawn with ([DR6], [DR7]): `full`, or `drag` — painted on every
+ * move of a drag, with the pressure field in rows of FIELD_ROW_DRAG_PX, fan rays at least
+ * FAN_RAY_GAP_DRAG_PX apart, no meeting marks, vertex dots thinned and the Cp shading in runs
+ * of one colour; the worker paints the full detail again when the pointer pauses.
  */
 export type SceneDetail = 'full' | 'drag';
 
@@ -72,7 +73,8 @@ export function sceneLists(state: SceneState, content: SceneContent, detail: Sce
   // The pressure field's rows and the meeting marks go with the waves: a list draws its row
   // picture first (translucent, over the grid's background and lines), then the lines, then the dots.
   const field = renderField(content.result, content.solvedPoints ?? content.points, view, size, layers.pressureField ?? true, domain, drag ? FIELD_ROW_DRAG_PX : FIELD_ROW_PX);
-  const meetings = renderMeetings(content.result, view, size, layers.meetings ?? true);
+  // A drag leaves the meeting marks out ([DR7]): specks at hundreds of points nobody reads while moving.
+  const meetings = renderMeetings(content.result, view, size, !drag && (layers.meetings ?? true));
   const waves = renderWaves(content.result, view, layers, domain, drag ? FAN_RAY_GAP_DRAG_PX : FAN_RAY_GAP_PX);
   const lists: DrawList[] = [
     renderGrid(view, size, layers.grid),
@@ -86,6 +88,7 @@ export function sceneLists(state: SceneState, content: SceneContent, detail: Sce
       showVertices: state.showVertices,
       solvedPoints: content.solvedPoints,
       hinge: content.hinge,
+      drag: drag ? { keepVertex: state.readoutVertex } : null,
     }),
     toolMarks(state),
   ];

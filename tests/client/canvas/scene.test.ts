@@ -2,7 +2,9 @@ import { describe, expect, it } from 'vitest';
 import type { Point } from '@shared/model/sketch';
 import { parseSolveInput } from '@shared/model/solveInput';
 import { solveSection } from '@shared/solver';
-import { drawList, HAIRLINE_MAX_PX, type DrawList } from '@/canvas/drawPaths';
+import { drawList, HAIRLINE_MAX_PX, type DrawList, type StrokePath } from '@/canvas/drawPaths';
+import { CP_DRAG_STEPS, FACET_CP_WIDTH_PX, VERTEX_GAP_DRAG_PX, facetPressures } from '@/canvas/renderSection';
+import { pressureColourAt, pressureT } from '@/canvas/colors';
 import { DEFAULT_LAYERS } from '@/canvas/layers';
 import { readoutLines } from '@/canvas/renderReadout';
 import { FIELD_ROW_DRAG_PX, FIELD_ROW_PX } from '@/canvas/renderField';
@@ -47,6 +49,15 @@ function recorder() {
   return { ctx: ctx as unknown as CanvasRenderingContext2D, calls };
 }
 
+/** A 200-vertex faceted biconvex at Mach 2.5, α 3° (the canvas bench's section). */
+function bench200() {
+  const section = generateSection('biconvex', { thicknessPercent: 6, facetsPerSide: 100 });
+  if (!section.ok) throw new Error('no section');
+  const result = solve(section.points, 2.5, 3);
+  const content: SceneContent = { points: section.points, result, solvedPoints: section.points, hinge: null, invalid: false };
+  return { result, content };
+}
+
 describe('scene painter', () => {
   it('[DR1] the scene is grid, wave map, section and marks, with the waves stroked unordered', () => {
     const result = solve(wedge, 2, 2);
@@ -70,11 +81,8 @@ describe('scene painter', () => {
     expect(sceneLists({ ...state, readoutVertex: 9 }, content)).toHaveLength(lists.length - 1);
   });
 
-  it('[DR6] a drag\'s detail: the field in rows of FIELD_ROW_DRAG_PX and fan rays at least FAN_RAY_GAP_DRAG_PX apart; the grid, the section and the other waves as in full', () => {
-    const section = generateSection('biconvex', { thicknessPercent: 6, facetsPerSide: 100 });
-    if (!section.ok) throw new Error('no section');
-    const result = solve(section.points, 2.5, 3);
-    const content: SceneContent = { points: section.points, result, solvedPoints: section.points, hinge: null, invalid: false };
+  it('[DR6] a drag\'s detail: the field in rows of FIELD_ROW_DRAG_PX and fan rays at least FAN_RAY_GAP_DRAG_PX apart; the grid and the other waves as in full', () => {
+    const { result, content } = bench200();
     const full = sceneLists(state, content);
     const drag = sceneLists(state, content, 'drag');
     expect(full[1].image!.rowHeight).toBe(FIELD_ROW_PX);
@@ -83,11 +91,53 @@ describe('scene painter', () => {
     const rays = (list: DrawList) => list.paths.filter((p) => p.width === WAVE_WIDTH_PX.fan);
     expect(rays(drag[1]).length).toBeLessThan(rays(full[1]).length);
     expect(drag[1].paths.filter((p) => p.width !== WAVE_WIDTH_PX.fan)).toEqual(full[1].paths.filter((p) => p.width !== WAVE_WIDTH_PX.fan));
-    expect(drag[1].dots).toEqual(full[1].dots);
     expect(drag[0]).toEqual(full[0]);
-    expect(drag.slice(2)).toEqual(full.slice(2));
+    // The section's outline and fill, the tool marks and the limit rings as in full ([DR7] for the rest).
+    expect(drag[2].paths[0]).toEqual(full[2].paths[0]);
+    expect(drag.slice(3)).toEqual(full.slice(3));
     // The drag's rays are those a full paint draws with the wider gap.
     expect(rays(drag[1])).toEqual(rays(renderWaves(result, state.view, DEFAULT_LAYERS, resultDomain(result), FAN_RAY_GAP_DRAG_PX)));
+  });
+
+  it('[DR7] a drag leaves out the meeting marks, thins the vertex dots (the dragged vertex, its neighbours and the selection always drawn) and shades Cp in runs of one colour', () => {
+    const { content } = bench200();
+    const dragged = 50;
+    const moving: SceneState = { ...state, selection: [dragged, 120], readoutVertex: dragged, hoverVertex: 7 };
+    const full = sceneLists(moving, content);
+    const drag = sceneLists(moving, content, 'drag');
+    // Meeting marks: there at rest, none while moving.
+    expect(full[1].dots.length).toBeGreaterThan(100);
+    expect(drag[1].dots).toEqual([]);
+    // Vertex dots: every dot drawn is one of the full paint's, fewer of them, none crowding the last one drawn.
+    const at = (d: { x: number; y: number }) => `${d.x},${d.y}`;
+    const fullDots = new Map(full[2].dots.map((d) => [at(d), d]));
+    expect(drag[2].dots.length).toBeLessThan(full[2].dots.length / 2);
+    for (const d of drag[2].dots) expect(fullDots.get(at(d))).toEqual(d);
+    const kept = new Set([dragged - 1, dragged, dragged + 1, 120, 7].map((i) => at(full[2].dots[i])));
+    for (const k of kept) expect(drag[2].dots.map(at)).toContain(k);
+    let checked = 0;
+    drag[2].dots.forEach((d, i) => {
+      const before = drag[2].dots[i - 1];
+      if (!before || kept.has(at(d))) return;
+      expect(Math.hypot(d.x - before.x, d.y - before.y)).toBeGreaterThanOrEqual(VERTEX_GAP_DRAG_PX);
+      checked++;
+    });
+    expect(checked).toBeGreaterThan(10);
+    // Cp shading: the runs cover the facets in order, each facet in its pressure's colour on a
+    // scale of CP_DRAG_STEPS colours; a fraction of the strokes.
+    const segments = (paths: StrokePath[]) => paths.filter((p) => p.width === FACET_CP_WIDTH_PX).flatMap((p) => {
+      const out: { at: string; colour: string }[] = [];
+      for (let i = 2; i < p.points.length; i += 2) out.push({ at: `${p.points[i - 2]},${p.points[i - 1]},${p.points[i]},${p.points[i + 1]}`, colour: p.colour });
+      return out;
+    });
+    const pressures = facetPressures(content.result, content.points.length)!;
+    const domain = resultDomain(content.result);
+    const dragFacets = segments(drag[2].paths);
+    expect(dragFacets.map((f) => f.at)).toEqual(segments(full[2].paths).map((f) => f.at));
+    expect(dragFacets.map((f) => f.colour)).toEqual(pressures.map((p) => pressureColourAt(Math.round(pressureT(p!, domain) * CP_DRAG_STEPS) / CP_DRAG_STEPS)));
+    expect(new Set(dragFacets.map((f) => f.colour)).size).toBeLessThanOrEqual(CP_DRAG_STEPS + 1);
+    const runs = drag[2].paths.filter((p) => p.width === FACET_CP_WIDTH_PX);
+    expect(runs.length).toBeLessThan(content.points.length / 4);
   });
 
   it('an unsolvable section keeps the last waves, drops the limit rings and its facet shading', () => {

@@ -20,9 +20,15 @@ export function resultPressures(result: SolveResult): number[] {
   return out;
 }
 
+/** The last result's domain: the scene, the worker's note to the page and the legend ask for the same one. */
+let lastDomain: { result: SolveResult | null; domain: PressureDomain } | null = null;
+
 /** The colour domain for a result (see `pressureDomain`). */
 export function resultDomain(result: SolveResult | null): PressureDomain {
-  return pressureDomain(result ? resultPressures(result) : []);
+  if (lastDomain && lastDomain.result === result) return lastDomain.domain;
+  const domain = pressureDomain(result ? resultPressures(result) : []);
+  lastDomain = { result, domain };
+  return domain;
 }
 
 export function waveVisible(w: Wave, layers: LayerSettings): boolean {

@@ -1,6 +1,6 @@
 import type { Point } from '@shared/model/sketch';
 import type { SolveResult } from '@shared/solver/types';
-import { MARQUEE, VERTEX_SELECTED } from './colors';
+import { MARQUEE, VERTEX_SELECTED, type PressureDomain } from './colors';
 import { drawList, type DrawList, type StrokePath } from './drawPaths';
 import type { Rect } from './geometry';
 import type { LayerSettings } from './layers';
@@ -65,10 +65,13 @@ export const EMPTY_SCENE_CONTENT: SceneContent = { points: [], result: null, sol
  */
 export type SceneDetail = 'full' | 'drag';
 
-/** The scene's draw lists, bottom to top (pure; tests read them). */
-export function sceneLists(state: SceneState, content: SceneContent, detail: SceneDetail = 'full'): DrawList[] {
+/**
+ * The scene's draw lists, bottom to top (pure; tests read them). The colours span `domain`, by
+ * default the result's own (`resultDomain`); a drag's previews are painted on the range of the
+ * last full paint, so that colours and legend hold still while the pointer moves ([DR8]).
+ */
+export function sceneLists(state: SceneState, content: SceneContent, detail: SceneDetail = 'full', domain: PressureDomain = resultDomain(content.result)): DrawList[] {
   const { view, size, layers } = state;
-  const domain = resultDomain(content.result);
   const drag = detail === 'drag';
   // The pressure field's rows and the meeting marks go with the waves: a list draws its row
   // picture first (translucent, over the grid's background and lines), then the lines, then the dots.

@@ -1,4 +1,4 @@
-import { computed, onMounted, useTemplateRef, watch } from 'vue';
+import { computed, onMounted, ref, useTemplateRef, watch } from 'vue';
 import type Konva from 'konva';
 import type { Context } from 'konva/lib/Context';
 import type { Point } from '@shared/model/sketch';
@@ -151,9 +151,14 @@ const NO_PRESENCE: readonly PresenceMark[] = [];
  */
 export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, hover: CanvasHover, tools: CanvasTools) {
   const { view, size } = canvas;
-  // Keyed by value so that an unchanged domain keeps its object and nothing downstream redraws.
+  /** True once the worker paints the scene. */
+  const inWorker = ref(false);
+  // The colours' range: the one the worker says the scene on screen was painted with (during a
+  // drag the preview's, whose answer waits for the pause [DR8]), else the shown result's. Keyed
+  // by value so that an unchanged domain keeps its object and nothing downstream redraws.
   const domainKey = computed(() => {
-    const d = resultDomain(source().result);
+    const painted = inWorker.value ? source().scenePort?.shown()?.domain : undefined;
+    const d = painted ?? resultDomain(source().result);
     return `${d.min} ${d.max}`;
   });
   const domain = computed(() => {
@@ -184,19 +189,17 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
     };
   });
   const sceneCanvas = useTemplateRef<HTMLCanvasElement>('sceneCanvas');
-  /** True once the worker paints the scene. */
-  let inWorker = false;
 
   onMounted(() => {
     const el = sceneCanvas.value;
     const port = source().scenePort;
-    inWorker = !!el && !!port && port.attach(el);
-    if (inWorker) port!.update(toRawState(sceneState.value));
+    inWorker.value = !!el && !!port && port.attach(el);
+    if (inWorker.value) port!.update(toRawState(sceneState.value));
     else paintHere();
   });
   // 'sync': the state goes out with the solve of the same pointer event (useLiveSolve batches both).
   watch(sceneState, (state) => {
-    if (inWorker) source().scenePort?.update(toRawState(state));
+    if (inWorker.value) source().scenePort?.update(toRawState(state));
   }, { flush: 'sync' });
 
   // Without a worker: paint from the props (section and result of the same answer).
@@ -217,12 +220,12 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
     notePaint(source().resultSeq);
   }
   watch([sceneState, content], () => {
-    if (!inWorker) paintHere();
+    if (!inWorker.value) paintHere();
   }, { flush: 'post' });
 
   /** The scene at `ratio` device pixels per CSS pixel, for a PNG. */
   async function scenePicture(ratio: number): Promise<CanvasImageSource | null> {
-    if (inWorker) return (await source().scenePort?.picture(ratio)) ?? null;
+    if (inWorker.value) return (await source().scenePort?.picture(ratio)) ?? null;
     const state = sceneState.value;
     const out = document.createElement('canvas');
     out.width = Math.round(state.size.width * ratio);
@@ -268,7 +271,10 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
   });
   const overlay = useDrawLayer('overlayLayer', () => [presenceList.value, reviewList.value, hudList.value]);
 
-  return { domain, limits, scenePicture, shapes: { overlay: overlay.shape } };
+  /** The detail of the scene on screen ([DR6]): as the worker reports it; the page paints in full. */
+  const sceneDetail = computed(() => (inWorker.value ? (source().scenePort?.shown()?.detail ?? null) : 'full'));
+
+  return { domain, limits, scenePicture, sceneDetail, shapes: { overlay: overlay.shape } };
 }
 
 const NO_POINTS: readonly Point[] = [];

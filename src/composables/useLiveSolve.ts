@@ -3,7 +3,8 @@ import type { SketchAnalysis } from '@shared/flight/analyseSketch';
 import type { DesignPointsAnalysis } from '@shared/flight/storedAnalysis';
 import type { SketchDocument } from '@shared/model/sketch';
 import type { SolveResult } from '@shared/solver/types';
-import type { SceneState } from '@/canvas/scenePainter';
+import type { PressureDomain } from '@/canvas/colors';
+import type { SceneDetail, SceneState } from '@/canvas/scenePainter';
 import type { WorkerRequest, WorkerResponse } from '@/workers/solverProtocol';
 import { benchEnabled, notePaint, noteSent } from '@/canvas/paintTiming';
 
@@ -17,6 +18,11 @@ export interface ScenePort {
   update(state: SceneState): void;
   /** The scene as a bitmap at `pixelRatio` (PNG export); null without a transferred canvas. */
   picture(pixelRatio: number): Promise<ImageBitmap | null>;
+  /**
+   * What the scene on screen was last painted with, as the worker reports it (reactive): its
+   * detail and its colour domain (the legend's range, [DR8]); null until the first paint.
+   */
+  shown(): { detail: SceneDetail; domain: PressureDomain } | null;
 }
 
 /**
@@ -42,6 +48,7 @@ export function useLiveSolve(document: Ref<SketchDocument | null>, options: { se
   const isLoading = ref(false);
   const error = ref<string | null>(null);
   const solveMs = ref<number | null>(null);
+  const shown = shallowRef<{ detail: SceneDetail; domain: PressureDomain } | null>(null);
 
   let worker: Worker | null = null;
   let seq = 0;
@@ -61,6 +68,10 @@ export function useLiveSolve(document: Ref<SketchDocument | null>, options: { se
       if (msg.type === 'painted') {
         // The worker's clock has its own origin: bring the time onto this page's.
         notePaint(msg.seq, msg.at - performance.timeOrigin, msg);
+        return;
+      }
+      if (msg.type === 'shown') {
+        shown.value = { detail: msg.detail, domain: msg.domain };
         return;
       }
       if (msg.type === 'picture') {
@@ -147,6 +158,7 @@ export function useLiveSolve(document: Ref<SketchDocument | null>, options: { se
       pendingScene = state;
       queueFlush();
     },
+    shown: () => shown.value,
     picture(pixelRatio) {
       const id = ++pictureId;
       return new Promise((resolve) => {

@@ -10,8 +10,8 @@
  *   that follow each other closely — typing in a field — are thinned, not delayed).
  * - During a drag (`drag`: the request solved only the selected design point for a preview),
  *   the answer waits until the pointer pauses: it goes out when no newer answer arrived for
- *   `intervalMs`. The panels refresh at pauses anyway (useSettled), and the limit labels and
- *   the legend follow at the pause.
+ *   `intervalMs`. The panels refresh at pauses anyway (useSettled), and the limit labels
+ *   follow at the pause (the legend follows the painted scene's range, reported apart).
  * - The last answer of a burst always arrives, and an answer from outside a drag (the release)
  *   replaces a held drag answer.
  */

@@ -3,6 +3,8 @@ import type { SketchAnalysis } from '@shared/flight/analyseSketch';
 import { analyseDesignPoints } from '@shared/flight/designPoints';
 import { selectedAnalysis } from '@shared/flight/storedAnalysis';
 import { EMPTY_SCENE_CONTENT, paintLists, paintScene, sceneLists, type SceneContent, type SceneDetail, type SceneState } from '@/canvas/scenePainter';
+import type { PressureDomain } from '@/canvas/colors';
+import { resultDomain } from '@/canvas/renderWaves';
 import { answerPacer } from './answerPacer';
 import type { SolveRequest, SolveResponse, WorkerRequest, WorkerResponse } from './solverProtocol';
 
@@ -41,6 +43,10 @@ const answers = answerPacer<SolveResponse>((answer) => {
   post(answer);
   if (dragDetailShown) paint();
 }, ANSWER_INTERVAL_MS);
+/** What the page was last told the scene on screen shows ([DR8]): detail and colour domain. */
+let shown = { detail: '', min: Number.NaN, max: Number.NaN };
+/** The colour domain of the last full paint: a drag's previews keep it ([DR8]). */
+let fullDomain: PressureDomain | null = null;
 /** How long the last solve took (bench timing). */
 let lastSolveMs = 0;
 
@@ -118,10 +124,15 @@ function paint(solveMs = 0, detail: SceneDetail = 'full') {
   const h = Math.max(1, Math.round(scene.size.height * scene.pixelRatio));
   if (canvas.width !== w) canvas.width = w;
   if (canvas.height !== h) canvas.height = h;
-  const lists = sceneLists(scene, content, detail);
+  // A drag's previews keep the last full paint's colour range, so colours and legend hold still
+  // while the pointer moves; the pause paints in full on the answer's own range ([DR8]).
+  const domain = detail === 'drag' && fullDomain ? fullDomain : resultDomain(content.result);
+  if (detail === 'full') fullDomain = domain;
+  const lists = sceneLists(scene, content, detail, domain);
   dragDetailShown = detail === 'drag';
   const listed = performance.now();
   paintLists(context, scene, lists);
+  tellShown(detail, domain);
   if (bench && contentSeq > 0) {
     const drawn = performance.now();
     // The canvas records the draw calls and rasterises them when it hands the frame on, in a
@@ -131,6 +142,13 @@ function paint(solveMs = 0, detail: SceneDetail = 'full') {
     const rasterised = performance.now();
     post({ type: 'painted', seq: contentSeq, at: performance.timeOrigin + drawn, solveMs, listsMs: listed - t0, paintMs: drawn - listed, rasterMs: rasterised - drawn });
   }
+}
+
+/** Tells the page the painted detail and colour domain when they change (the legend follows them). */
+function tellShown(detail: SceneDetail, domain: PressureDomain) {
+  if (shown.detail === detail && shown.min === domain.min && shown.max === domain.max) return;
+  shown = { detail, min: domain.min, max: domain.max };
+  post({ type: 'shown', detail, domain: { min: domain.min, max: domain.max } });
 }
 
 function picture(pixelRatio: number): ImageBitmap | null {

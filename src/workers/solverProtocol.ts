@@ -1,7 +1,8 @@
 import type { SketchAnalysis } from '@shared/flight/analyseSketch';
 import type { DesignPointsAnalysis } from '@shared/flight/storedAnalysis';
 import type { SketchDocument } from '@shared/model/sketch';
-import type { SceneState } from '@/canvas/scenePainter';
+import type { PressureDomain } from '@/canvas/colors';
+import type { SceneDetail, SceneState } from '@/canvas/scenePainter';
 
 /**
  * Messages between the editor and the solver worker. `seq` pairs an answer with its request.
@@ -51,4 +52,10 @@ export type WorkerResponse =
    * `rasterMs` later.
    */
   | { type: 'painted'; seq: number; at: number; solveMs: number; listsMs: number; paintMs: number; rasterMs: number }
-  | { type: 'picture'; id: number; bitmap: ImageBitmap | null };
+  | { type: 'picture'; id: number; bitmap: ImageBitmap | null }
+  /**
+   * What the scene on screen was last painted with, sent when it changes: the detail ([DR6]) and
+   * the colour domain, so that the legend states the range of the colours shown — during a drag
+   * the preview's, whose answer waits for the pause ([DR8]).
+   */
+  | { type: 'shown'; detail: SceneDetail; domain: PressureDomain };

@@ -99,6 +99,36 @@ describe('sketch editor in Chromium', () => {
     expect(await page.getByTestId('vertex-y-1').inputValue()).toBe(yAfter);
   });
 
+  it('[DR6] a drag paints its previews with a drag\'s detail and, while the vertex is still held, the full picture once the pointer pauses', async () => {
+    const { page } = browser;
+    const canvas = page.getByTestId('sketch-canvas');
+    await expect.poll(() => canvas.getAttribute('data-scene-detail')).toBe('full');
+    // Every detail the worker reports from here on, in order (a slow machine may pause between moves).
+    await canvas.evaluate((el) => {
+      const seen: string[] = [];
+      (window as unknown as { __details: string[] }).__details = seen;
+      new MutationObserver(() => seen.push(el.getAttribute('data-scene-detail') ?? '')).observe(el, { attributes: true, attributeFilter: ['data-scene-detail'] });
+    });
+    const yBefore = await page.getByTestId('vertex-y-1').inputValue();
+    const start = await vertexOnScreen(page, 1);
+    await page.mouse.move(start.x, start.y);
+    await page.mouse.down();
+    for (let i = 1; i <= 12; i++) await page.mouse.move(start.x, start.y - 2 * i);
+    // Still holding: the pointer has stopped, so the worker paints the scene in full again.
+    await expect.poll(() => page.evaluate(() => (window as unknown as { __details: string[] }).__details.at(-1))).toBe('full');
+    const details = await page.evaluate(() => (window as unknown as { __details: string[] }).__details);
+    expect(details.indexOf('drag')).toBeGreaterThanOrEqual(0);
+    expect(details.lastIndexOf('full')).toBeGreaterThan(details.indexOf('drag'));
+    expect(await canvas.getAttribute('data-scene-detail')).toBe('full');
+    await screenshot(page, 'editor-drag-paused');
+    await page.mouse.up();
+    // One edit; undo takes it back.
+    await expect.poll(() => page.getByTestId('vertex-y-1').inputValue()).not.toBe(yBefore);
+    await page.getByTestId('sketch-canvas').focus();
+    await page.keyboard.press('Control+z');
+    await expect.poll(() => page.getByTestId('vertex-y-1').inputValue()).toBe(yBefore);
+  });
+
   it('edits a vertex in the table and refuses a crossing with the reason', async () => {
     const { page } = browser;
     const cell = page.getByTestId('vertex-x-1');

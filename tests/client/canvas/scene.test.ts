@@ -4,7 +4,7 @@ import { parseSolveInput } from '@shared/model/solveInput';
 import { solveSection } from '@shared/solver';
 import { drawList, HAIRLINE_MAX_PX, type DrawList, type StrokePath } from '@/canvas/drawPaths';
 import { CP_DRAG_STEPS, FACET_CP_WIDTH_PX, VERTEX_GAP_DRAG_PX, facetPressures } from '@/canvas/renderSection';
-import { pressureColourAt, pressureT } from '@/canvas/colors';
+import { pressureColour, pressureColourAt, pressureT } from '@/canvas/colors';
 import { DEFAULT_LAYERS } from '@/canvas/layers';
 import { readoutLines } from '@/canvas/renderReadout';
 import { FIELD_ROW_DRAG_PX, FIELD_ROW_PX } from '@/canvas/renderField';
@@ -138,6 +138,40 @@ describe('scene painter', () => {
     expect(new Set(dragFacets.map((f) => f.colour)).size).toBeLessThanOrEqual(CP_DRAG_STEPS + 1);
     const runs = drag[2].paths.filter((p) => p.width === FACET_CP_WIDTH_PX);
     expect(runs.length).toBeLessThan(content.points.length / 4);
+  });
+
+  it('[DR8] a drag\'s preview painted on a given colour range (the last full paint\'s): waves, facets and the field take their colours from it', () => {
+    const { result, content } = bench200();
+    const own = resultDomain(result);
+    const held = { min: own.min * 1.5, max: own.max / 1.5 };
+    const drag = sceneLists(state, content, 'drag', held);
+    // (The next field drawn reuses the picture's buffer: keep a copy.)
+    const a = drag[1].image!.pixels.slice();
+    const ownDrag = sceneLists(state, content, 'drag');
+    const shocks = (lists: DrawList[]) => lists[1].paths.filter((p) => p.width === WAVE_WIDTH_PX.shock).map((p) => p.colour);
+    // The bow shocks' first segments, coloured by the pressure behind them on each range.
+    const bow = result.waves.filter((w) => w.kind === 'shock' && w.pRatioBehindAlong?.length);
+    expect(bow.length).toBeGreaterThan(0);
+    for (const w of bow) {
+      expect(shocks(drag)).toContain(pressureColour(w.pRatioBehindAlong![0]!, held));
+      expect(shocks(ownDrag)).toContain(pressureColour(w.pRatioBehindAlong![0]!, own));
+    }
+    expect(shocks(drag)).not.toEqual(shocks(ownDrag));
+    // The facets' Cp shading (a drag's CP_DRAG_STEPS colours) on the held range.
+    const pressures = facetPressures(result, content.points.length)!;
+    const firstRun = drag[2].paths.find((p) => p.width === FACET_CP_WIDTH_PX)!;
+    expect(firstRun.colour).toBe(pressureColourAt(Math.round(Math.min(1, Math.max(0, pressureT(pressures[0]!, held))) * CP_DRAG_STEPS) / CP_DRAG_STEPS));
+    // The field picture: the same regions filled, in the held range's colours.
+    const b = ownDrag[1].image!.pixels;
+    let filled = 0;
+    let differ = 0;
+    for (let i = 3; i < a.length; i += 4) {
+      expect(a[i] === 0).toBe(b[i] === 0);
+      if (a[i] !== 0) filled++;
+      if (a[i - 3] !== b[i - 3] || a[i - 2] !== b[i - 2] || a[i - 1] !== b[i - 1]) differ++;
+    }
+    expect(filled).toBeGreaterThan(1000);
+    expect(differ).toBeGreaterThan(filled / 2);
   });
 
   it('an unsolvable section keeps the last waves, drops the limit rings and its facet shading', () => {

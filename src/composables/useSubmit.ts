@@ -3,9 +3,10 @@ import { ApiError } from '@/api/client';
 
 /**
  * A form's submit action with its state: `submitting` while it runs, `failure` with the server's
- * message (or `fallback`) when it fails. Used by every account form.
+ * message (or `fallback`) when it fails, after `prefix` when one is given ("Not reset: "). Used by
+ * every account form and the review dialogs.
  */
-export function useSubmit(action: () => Promise<void>, fallback: string) {
+export function useSubmit(action: () => Promise<void>, fallback: string, prefix = '') {
   const submitting = ref(false);
   const failure = ref<string | null>(null);
   async function submit(): Promise<void> {
@@ -14,7 +15,7 @@ export function useSubmit(action: () => Promise<void>, fallback: string) {
     try {
       await action();
     } catch (err) {
-      failure.value = err instanceof ApiError ? err.message : fallback;
+      failure.value = prefix + (err instanceof ApiError ? err.message : fallback);
     } finally {
       submitting.value = false;
     }

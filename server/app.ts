@@ -146,6 +146,7 @@ export function createApp({ env, database, log: rawLog = (l) => console.log(l), 
     edits: createEditQueue(database.db, { log }),
     heavy: createHeavyWork(database.db, { perUser: sizes.heavyPerUser, total: sizes.heavyTotal }, { log }),
     studyPauseMs: env.FAULT_STUDY_PAUSE_MS ?? 0,
+    studySlicePoints: env.FAULT_STUDY_SLICE_POINTS,
   };
   const HOUR = 60 * 60 * 1000;
   const devices = createDeviceKeys(env.SESSION_SECRET);

@@ -46,4 +46,6 @@ export interface AppContext {
   heavy: HeavyWork;
   /** Tests only (FAULT_STUDY_PAUSE_MS): extra wait between a server study's slices, so a study outlasts the test's steps. */
   studyPauseMs: number;
+  /** Tests only (FAULT_STUDY_SLICE_POINTS): at most this many points per study slice. */
+  studySlicePoints?: number;
 }

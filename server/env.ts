@@ -76,6 +76,11 @@ const envSchema = z.object({
    */
   FAULT_STUDY_PAUSE_MS: z.coerce.number().int().min(1).max(60_000).optional(),
   /**
+   * Tests only: a server study's slice computes at most this many points, so how long a study
+   * runs (slices × FAULT_STUDY_PAUSE_MS) does not depend on how fast the machine solves.
+   */
+  FAULT_STUDY_SLICE_POINTS: z.coerce.number().int().min(1).max(100_000).optional(),
+  /**
    * Tests only: a join waits this long between its first access check and entering the room,
    * so a removal can be committed inside that window on purpose [A5].
    */
@@ -90,6 +95,9 @@ const checkedEnvSchema = envSchema.superRefine((env, ctx) => {
   }
   if (env.NODE_ENV !== 'test' && env.FAULT_STUDY_PAUSE_MS !== undefined) {
     ctx.addIssue({ code: 'custom', path: ['FAULT_STUDY_PAUSE_MS'], message: 'is for tests only (NODE_ENV=test)' });
+  }
+  if (env.NODE_ENV !== 'test' && env.FAULT_STUDY_SLICE_POINTS !== undefined) {
+    ctx.addIssue({ code: 'custom', path: ['FAULT_STUDY_SLICE_POINTS'], message: 'is for tests only (NODE_ENV=test)' });
   }
   if (env.NODE_ENV !== 'test' && env.FAULT_JOIN_PAUSE_MS !== undefined) {
     ctx.addIssue({ code: 'custom', path: ['FAULT_JOIN_PAUSE_MS'], message: 'is for tests only (NODE_ENV=test)' });

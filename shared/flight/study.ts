@@ -226,7 +226,7 @@ export function runStudy(doc: SketchCase, def: StudyDefinition, options: RunStud
 export async function runStudySliced(
   doc: SketchCase,
   def: StudyDefinition,
-  options: RunStudyOptions & { pause: () => Promise<void>; sliceMs?: number },
+  options: RunStudyOptions & { pause: () => Promise<void>; sliceMs?: number; slicePoints?: number },
 ): Promise<StudyOutcome> {
   const planned = planStudy(doc, def);
   if (!planned.ok) return { status: 'invalid', reason: planned.reason };
@@ -235,9 +235,17 @@ export async function runStudySliced(
   const sliceMs = options.sliceMs ?? 40;
   for (;;) {
     const sliceEnd = now() + sliceMs;
+    const sliceStart = run.rows.length;
     let cancelled = false;
     // The clock is read every 32 points: cheap next to a solve, fine-grained enough for slices.
-    const finished = run.step(() => (cancelled = options.isCancelled?.() ?? false) || (run.rows.length % 32 === 0 && now() > sliceEnd));
+    // `slicePoints` caps a slice by count as well (tests: a study whose length does not depend on
+    // how fast the machine solves).
+    const finished = run.step(
+      () =>
+        (cancelled = options.isCancelled?.() ?? false) ||
+        (options.slicePoints !== undefined && run.rows.length - sliceStart >= options.slicePoints) ||
+        (run.rows.length % 32 === 0 && now() > sliceEnd),
+    );
     if (cancelled) return { status: 'cancelled', done: run.rows.length, total: planned.plan.total };
     options.onProgress?.({ done: run.rows.length, total: planned.plan.total });
     if (finished) break;

@@ -5,8 +5,11 @@
  * (HEAVY_SLOT_LEASE_MS) runs out; one that hangs past its lease stops its study when it wakes
  * and saves nothing; terminated database connections stop neither the servers nor the renewals.
  *
- * Studies here pause between slices (FAULT_STUDY_PAUSE_MS), so each is still running while the
- * test acts; every wait is on state (the slots table, an answer), never a fixed sleep.
+ * Studies here compute at most 50 points per slice (FAULT_STUDY_SLICE_POINTS) and pause 2 s
+ * between slices (FAULT_STUDY_PAUSE_MS): a maximal study runs for about 13 minutes however fast
+ * the machine solves, so each is still running while the test acts (with slices cut by time
+ * alone, a fast solve finished studies mid-test). Every wait is on state (the slots table, an
+ * answer), never a fixed sleep.
  */
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { eq } from 'drizzle-orm';
@@ -22,7 +25,7 @@ import { firstItem } from '../../shared/util/invariant.ts';
 
 /** 100 Mach numbers × 200 incidences: the largest study allowed ([ST4]), a few hundred slices. */
 const MAXIMAL = { mach: { kind: 'range', start: 1.5, end: 5.46, step: 0.04 }, alpha: { startDeg: -10, endDeg: 9.9, stepDeg: 0.1 } } as const;
-const FAULTS = { FAULT_STUDY_PAUSE_MS: '2000' };
+const FAULTS = { FAULT_STUDY_PAUSE_MS: '2000', FAULT_STUDY_SLICE_POINTS: '50' };
 const PER_PERSON = /^You already have 2 studies or reports being computed \(at most 2 at a time per person\)/;
 
 interface Answer {

@@ -25,6 +25,7 @@ describe('parseEnv', () => {
 
   it('refuses the test-only faults outside NODE_ENV=test, naming them', () => {
     expect(() => parseEnv({ ...good, FAULT_STUDY_PAUSE_MS: '2000' })).toThrow(/^Refusing to start: FAULT_STUDY_PAUSE_MS is for tests only \(NODE_ENV=test\)/);
+    expect(() => parseEnv({ ...good, FAULT_STUDY_SLICE_POINTS: '50' })).toThrow(/^Refusing to start: FAULT_STUDY_SLICE_POINTS is for tests only \(NODE_ENV=test\)/);
     expect(() => parseEnv({ ...good, FAULT_JOIN_PAUSE_MS: '500' })).toThrow(/^Refusing to start: FAULT_JOIN_PAUSE_MS is for tests only \(NODE_ENV=test\)/);
     expect(() => parseEnv({ ...good, FAULT_DIE_AFTER_COMMIT: 'die-' })).toThrow(/^Refusing to start: FAULT_DIE_AFTER_COMMIT is for tests only \(NODE_ENV=test\)/);
     expect(parseEnv({ ...good, NODE_ENV: 'test', FAULT_STUDY_PAUSE_MS: '2000' }).FAULT_STUDY_PAUSE_MS).toBe(2000);

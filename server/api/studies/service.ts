@@ -35,6 +35,7 @@ async function computeAndSave(ctx: AppContext, userId: string, sketchId: string,
   const outcome = await runStudySliced(sketchCase(document, pointId), input.definition, {
     pause: () => new Promise((r) => (ctx.studyPauseMs > 0 ? setTimeout(r, ctx.studyPauseMs) : setImmediate(r))),
     sliceMs: STUDY_SLICE_MS,
+    slicePoints: ctx.studySlicePoints,
     isCancelled: () => (signal?.aborted ?? false) || slot.signal.aborted,
   });
   if (outcome.status === 'invalid') throw new HttpError(400, 'invalid_study', outcome.reason);

@@ -196,6 +196,27 @@ describe('runStudy', () => {
     expect(cancelled.status).toBe('cancelled');
   });
 
+  it('slicePoints caps every slice by count, however long the clock allows', async () => {
+    const planned = planStudy(doc, definition);
+    const points = planned.ok ? planned.plan.total : 0;
+    expect(points).toBe(3 * 12 * 3);
+    const sizes: number[] = [];
+    let last = 0;
+    const sliced = await runStudySliced(doc, definition, {
+      pause: () => new Promise<void>((r) => setImmediate(r)),
+      sliceMs: 60_000,
+      slicePoints: 7,
+      onProgress: ({ done }) => {
+        sizes.push(done - last);
+        last = done;
+      },
+    });
+    expect(done(sliced as ReturnType<typeof runStudy>)).toEqual(done(runStudy(doc, definition)));
+    // One progress call per slice: 7 points each, the last one the rest (108 = 15 × 7 + 3).
+    expect(sizes).toEqual([...Array.from({ length: 15 }, () => 7), 3]);
+    expect(sizes.reduce((a, b) => a + b, 0)).toBe(points);
+  });
+
   it('a flap deflection that folds the section gives invalid rows with the reason, not an exception', () => {
     const deep = { ...doc, section: { points: [[0, 0], [0.6, 0.3], [1, 0], [0.62, -0.3]] as [number, number][] }, flap: { hingeXOverC: 0.6, deflectionDeg: 0 } };
     const rows = unpackStudyRows(done(runStudy(deep, def({ mach: { kind: 'list', values: [3] }, alpha: { startDeg: 0, endDeg: 0, stepDeg: 1 }, flapDeg: [0, 45] }))));

@@ -8,11 +8,13 @@
  * With the worker painting, also until the drawing was rasterised (the worker reads a pixel
  * after drawing in the bench, which rasterises the recorded calls there and then; otherwise the
  * canvas does it in a task of its own right after), and, for a move whose own request was solved and painted, where the
- * time went: from the handler to the worker starting on it (the page's work, the copy, and
- * waiting behind an earlier solve), the solve, building the draw lists, the draw calls, and
+ * time went: from the handler until the request is posted (the page's work before it), from
+ * the handler to the worker starting on it (that, the copy, and waiting behind an earlier solve), the solve, building the draw lists, the draw calls, and
  * the raster.
  */
 interface Breakdown {
+  /** From the handler's start until the request went to the worker (this page's work before posting it). */
+  toPost: number[];
   toWorker: number[];
   solve: number[];
   lists: number[];
@@ -58,7 +60,7 @@ export function noteSent(seq: number): void {
 export function notePaint(seq: number, at: number = performance.now(), worker?: { solveMs: number; listsMs: number; paintMs: number; rasterMs: number }): void {
   if (!benchEnabled() || pending.length === 0) return;
   const out = (g.__shockwrightPaintLatencies ??= { fromEvent: [], fromHandler: [] });
-  const breakdown = (out.breakdown ??= { toWorker: [], solve: [], lists: [], paint: [], raster: [] });
+  const breakdown = (out.breakdown ??= { toPost: [], toWorker: [], solve: [], lists: [], paint: [], raster: [] });
   const rasterised = (out.rasterised ??= []);
   const r = requests.get(seq);
   while (pending.length > 0 && pending[0].seq <= seq) {
@@ -67,6 +69,7 @@ export function notePaint(seq: number, at: number = performance.now(), worker?: 
     out.fromHandler.push(at - p.handlerTime);
     if (worker) rasterised.push(at + worker.rasterMs - p.eventTime);
     if (p.seq === seq && r && worker) {
+      breakdown.toPost.push(r.sentAt - p.handlerTime);
       breakdown.toWorker.push(at - worker.paintMs - worker.listsMs - worker.solveMs - p.handlerTime);
       breakdown.solve.push(worker.solveMs);
       breakdown.lists.push(worker.listsMs);

@@ -248,7 +248,7 @@ async function dragBench(page: Page, baseUrl: string, vertices: number, amplitud
     await page.screenshot({ path: path.join(shotsDir, `drag-${vertices}v-${amplitudePx}px-after.png`) });
   }
   const record = await page.evaluate(
-    () => (globalThis as { __shockwrightPaintLatencies?: { fromEvent: number[]; fromHandler: number[]; rasterised?: number[]; breakdown?: Record<'toWorker' | 'solve' | 'lists' | 'paint' | 'raster', number[]> } }).__shockwrightPaintLatencies,
+    () => (globalThis as { __shockwrightPaintLatencies?: { fromEvent: number[]; fromHandler: number[]; rasterised?: number[]; breakdown?: Record<'toPost' | 'toWorker' | 'solve' | 'lists' | 'paint' | 'raster', number[]> } }).__shockwrightPaintLatencies,
   );
   const waveCount = await page.evaluate(() => document.querySelector('[data-testid="sketch-canvas"]')?.getAttribute('data-wave-count'));
   return {
@@ -326,7 +326,7 @@ async function main() {
         if (stats.rasterised.length > 0) console.log(line('pointer event → wave map rasterised', stats.rasterised));
         if (stats.breakdown) {
           console.log(`  where the time went (the ${stats.breakdown.solve.length} moves whose own request was solved and painted):`);
-          for (const [name, label] of [['toWorker', 'handler → worker starts on it'], ['solve', 'solve in the worker'], ['lists', 'draw lists built in the worker'], ['paint', 'draw calls in the worker'], ['raster', 'raster in the worker']] as const) {
+          for (const [name, label] of [['toPost', 'handler → request to the worker'], ['toWorker', 'handler → worker starts on it'], ['solve', 'solve in the worker'], ['lists', 'draw lists built in the worker'], ['paint', 'draw calls in the worker'], ['raster', 'raster in the worker']] as const) {
             console.log(line(`  ${label}`, [...stats.breakdown[name]].sort((a, b) => a - b)));
           }
         }

@@ -28,6 +28,11 @@ export interface ToolSink {
   pointer(world: Point | null): void;
   /** A press the review layer may take (a pin's head, pin mode); true when it did. */
   reviewClick(input: PointerInput): boolean;
+  /**
+   * A pointer move's effects are all applied: what they queued for the solver worker (the
+   * preview's solve, the scene state) may go now, before the page's own rendering.
+   */
+  moved(): void;
 }
 
 /**
@@ -159,9 +164,19 @@ export function useCanvasTools(host: Readonly<Ref<HTMLDivElement | null>>, sourc
     noteHandlerStart();
     if (canvas.panTo(e)) return;
     const input = pointerInput(e);
+    if (pointerDown) {
+      // A drag: the preview's solve goes to the worker as soon as the move's effects are
+      // applied, before the page re-renders for it; the cursor for the status line and the
+      // people watching (a socket message) follows.
+      apply(current().move(toolState, toolContext(), input), e.timeStamp);
+      sink.moved();
+      queueMicrotask(() => sink.pointer(input.world));
+      return;
+    }
     sink.pointer(input.world);
     apply(current().move(toolState, toolContext(), input), e.timeStamp);
-    if (!pointerDown) hover.updateHover(input.world, input.screen);
+    hover.updateHover(input.world, input.screen);
+    sink.moved();
   }
 
   function onPointerUp(e: PointerEvent) {

@@ -23,6 +23,12 @@ export interface ScenePort {
    * detail and its colour domain (the legend's range, [DR8]); null until the first paint.
    */
   shown(): { detail: SceneDetail; domain: PressureDomain } | null;
+  /**
+   * Sends what is queued for the worker now (a pointer move's solve and scene state) instead of
+   * at the end of the task: a drag's preview then reaches the worker before the page re-renders
+   * for the move (~0.5 ms at 200 vertices).
+   */
+  flush(): void;
 }
 
 /**
@@ -159,6 +165,9 @@ export function useLiveSolve(document: Ref<SketchDocument | null>, options: { se
       queueFlush();
     },
     shown: () => shown.value,
+    flush: () => {
+      if (flushQueued) flush();
+    },
     picture(pixelRatio) {
       const id = ++pictureId;
       return new Promise((resolve) => {

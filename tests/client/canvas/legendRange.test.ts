@@ -37,7 +37,7 @@ describe('[DR8] the legend states the range of the colours on screen', () => {
   it('useCanvasLayers: with the worker painting, the legend takes the range the worker reports it painted with, else the shown result\'s', async () => {
     const props = canvasProps();
     const painted = shallowRef<{ detail: SceneDetail; domain: PressureDomain } | null>(null);
-    const port: ScenePort = { attach: () => true, update: () => {}, picture: async () => null, shown: () => painted.value };
+    const port: ScenePort = { attach: () => true, update: () => {}, picture: async () => null, shown: () => painted.value, flush: () => {} };
     props.scenePort = port;
     const view = { size: ref({ width: 800, height: 500 }), view: ref({ scale: 400, originX: 100, originY: 250 }) } as unknown as CanvasView;
     const hover = { hover: ref({ vertex: null, facet: null, wave: null, tooltip: null }) } as unknown as CanvasHover;

@@ -80,12 +80,14 @@ export type LayerProps = Omit<LayerSource, 'hinge' | 'pins' | 'compare' | 'prese
  * The layers' source read lazily from the canvas's (reactive) props: each field is a getter, so
  * a computed that reads `pins` depends on `pins` alone. Built as a plain object of all the props
  * at once, every computed here would depend on every prop — the shown points change with each
- * move of a drag, and the overlay would be redrawn with each move [DR2].
+ * move of a drag, and the overlay would be redrawn with each move [DR2]. The shown points come
+ * through their own getter (`points`): the canvas receives them as one, so that its parent does
+ * not re-render with every move [DR9].
  */
-export function layerSourceOf(props: LayerProps): LayerSource {
+export function layerSourceOf(props: Omit<LayerProps, 'points'>, points: () => readonly Point[]): LayerSource {
   return {
     get points() {
-      return props.points;
+      return points();
     },
     get result() {
       return props.result;

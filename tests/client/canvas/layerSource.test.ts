@@ -38,7 +38,7 @@ function dragMove(props: LayerProps, k: number) {
 describe('[DR2] the overlay is not redrawn while a drag moves the shown points', () => {
   it('layerSourceOf reads each prop lazily: a computed over the pins does not re-run when the points move', () => {
     const props = canvasProps();
-    const source = layerSourceOf(props);
+    const source = layerSourceOf(props, () => props.points);
     let runs = 0;
     const pins = computed(() => {
       runs++;
@@ -65,7 +65,7 @@ describe('[DR2] the overlay is not redrawn while a drag moves the shown points',
     const tools = { marquee: ref(null), drawPath: ref(null), ghost: ref(null), readout: ref(1) } as unknown as CanvasTools;
     const Harness = defineComponent({
       setup() {
-        useCanvasLayers(() => layerSourceOf(props), view, hover, tools);
+        useCanvasLayers(() => layerSourceOf(props, () => props.points), view, hover, tools);
         return () => h('div', [h('canvas', { ref: 'sceneCanvas' }), h('div', { ref: 'overlayLayer', onVnodeMounted: (vnode) => Object.assign(vnode.el as object, { getNode }) })]);
       },
     });

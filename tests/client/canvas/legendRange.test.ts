@@ -45,7 +45,7 @@ describe('[DR8] the legend states the range of the colours on screen', () => {
     let layers: ReturnType<typeof useCanvasLayers> | null = null;
     const Harness = defineComponent({
       setup() {
-        layers = useCanvasLayers(() => layerSourceOf(props), view, hover, tools);
+        layers = useCanvasLayers(() => layerSourceOf(props, () => props.points), view, hover, tools);
         return () => h('div', [h('canvas', { ref: 'sceneCanvas' }), h('div', { ref: 'overlayLayer' })]);
       },
     });

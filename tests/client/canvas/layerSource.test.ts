@@ -1,33 +1,9 @@
 import { describe, expect, it, vi } from 'vitest';
-import { computed, defineComponent, h, nextTick, reactive, ref } from 'vue';
+import { computed, defineComponent, h, nextTick } from 'vue';
 import { mount } from '@vue/test-utils';
 import type { Point } from '@shared/model/sketch';
-import { parseSolveInput } from '@shared/model/solveInput';
-import { solveSection } from '@shared/solver';
-import { DEFAULT_LAYERS } from '@/canvas/layers';
 import { layerSourceOf, useCanvasLayers, type LayerProps } from '@/canvas/useCanvasLayers';
-import type { CanvasHover } from '@/canvas/useCanvasHover';
-import type { CanvasTools } from '@/canvas/useCanvasTools';
-import type { CanvasView } from '@/canvas/useCanvasView';
-
-const wedge: Point[] = [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]];
-const parsed = parseSolveInput({ section: { points: wedge }, flow: { mach: 2, alphaDeg: 2 } });
-if (!parsed.ok) throw new Error('bad input');
-const result = solveSection(parsed.value);
-
-function canvasProps(): LayerProps {
-  return reactive({
-    points: wedge,
-    result,
-    solvedPoints: wedge,
-    resultSeq: 1,
-    invalid: false,
-    selection: [1],
-    tool: 'select',
-    layers: { ...DEFAULT_LAYERS },
-    legendMode: 'pressureRatio',
-  }) as LayerProps;
-}
+import { canvasProps, layerStandIns, wedge } from './layerHarness';
 
 /** A drag's preview: the shown points move, nothing else. */
 function dragMove(props: LayerProps, k: number) {
@@ -60,9 +36,7 @@ describe('[DR2] the overlay is not redrawn while a drag moves the shown points',
     // The overlay's Konva layer as the composable reads its template ref: getNode().drawScene().
     const getNode = () => ({ drawScene });
     const props = canvasProps();
-    const view = { size: ref({ width: 800, height: 500 }), view: ref({ scale: 400, originX: 100, originY: 250 }) } as unknown as CanvasView;
-    const hover = { hover: ref({ vertex: null, facet: null, wave: null, tooltip: null }) } as unknown as CanvasHover;
-    const tools = { marquee: ref(null), drawPath: ref(null), ghost: ref(null), readout: ref(1) } as unknown as CanvasTools;
+    const { view, hover, tools } = layerStandIns();
     const Harness = defineComponent({
       setup() {
         useCanvasLayers(() => layerSourceOf(props, () => props.points), view, hover, tools);

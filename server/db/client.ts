@@ -21,6 +21,13 @@ export interface Database {
   close(): Promise<void>;
 }
 
+/**
+ * The session setting by which this version's connections tell the database that they write
+ * the summary columns with every document (migration 0012: such a write without them is
+ * refused; a connection without the setting — an instance of the version before — may write).
+ */
+export const WRITES_SUMMARY_SETTING = 'shockwright.writes_summary';
+
 /** Connections per server process unless told otherwise. */
 export const DEFAULT_POOL_MAX = 10;
 
@@ -59,6 +66,10 @@ export function openDatabase(url: string, options: { max?: number; log?: (line: 
     // advisory lock, which legitimately waits for another instance's migrations.
     idle_in_transaction_session_timeout: IDLE_IN_TRANSACTION_TIMEOUT_MS,
     statement_timeout: STATEMENT_TIMEOUT_MS,
+    // This version writes each sketch's summary with its document: the database refuses a
+    // write of ours without it, while an instance of the version before (which does not send
+    // this) may still write during an upgrade (migration 0012).
+    options: `-c ${WRITES_SUMMARY_SETTING}=on`,
   });
   pool.on('connect', (client) => {
     client.on('error', (err) => log(`[db] connection lost: ${errorForLog(err, false)}`));

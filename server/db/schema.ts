@@ -115,9 +115,11 @@ export const sketches = pgTable(
      * The sketches table's summary of `document` (shared/flight/sketchSummary.ts), written in the
      * same statement as the document by every writer (server/db/sketchSummary.ts
      * `sketchSummaryColumns`), so the team's list never reads documents. `summary_revision` is
-     * the revision it was computed at: a trigger (migration 0011) refuses a write of the document
-     * or the revision that leaves it behind; null on a row stored before the columns (filled once
-     * by `backfillSketchSummaries` when migrations run; until then the list reads its document).
+     * the revision it was computed at: a trigger (migrations 0011, 0012) refuses a write of this
+     * version's that leaves it behind; null on a row stored before the columns, and behind on a
+     * row an instance of the version before wrote during an upgrade (both filled by
+     * `backfillSketchSummaries` at every start or by the next write; until then the list reads
+     * the row's document).
      */
     vertexCount: integer('vertex_count'),
     /** t/c, the solver's measure; null for a degenerate section (as the API says). */

@@ -31,8 +31,10 @@ export function summaryToColumns(summary: DocumentSummary, revision: number): Sk
 /**
  * The summary columns for `document` stored at `revision`: every writer of `sketches.document`
  * (or of `revision`) spreads these into the same insert or update, so the team's list reads
- * the columns and never the document. The database refuses a write whose `summary_revision`
- * is not the revision it writes (trigger `sketches_summary_written`, migration 0011).
+ * the columns and never the document. The database refuses a write of this version whose
+ * `summary_revision` is not the revision it writes (trigger `sketches_summary_written`,
+ * migrations 0011 and 0012; an instance of the version before may write without it during an
+ * upgrade, and the list then reads that row's document until the row is filled).
  */
 export function sketchSummaryColumns(document: SketchDocument, revision: number): SketchSummaryColumns {
   return summaryToColumns(summarizeDocument(document), revision);
@@ -65,7 +67,8 @@ const BACKFILL_BATCH = 200;
 
 /**
  * Fills the summary of every sketch that has none for its revision — rows stored before
- * migration 0011 (the demo sketches of an existing install among them). Run after the
+ * migration 0011 (the demo sketches of an existing install among them), and rows an instance of
+ * the version before wrote during an upgrade. Run after the
  * migrations, under their lock; idempotent, so every later start finds nothing to do (one scan of
  * the table's summary columns). A row edited meanwhile is left to its writer (the update
  * names the revision it read). A document that does not parse keeps no summary and is counted.

@@ -2,11 +2,13 @@
  * [T6] The home table's list reads no documents: each sketch's summary (vertex count, t/c, the
  * selected point's Mach, α and name, how many design points) is stored beside its document, by
  * every writer, in the statement that writes the document, tagged with the revision it belongs
- * to; the database refuses a write that leaves it behind.
+ * to; the database refuses a write of this version that leaves it behind, and accepts one from an
+ * instance of the version before (which writes no summary) during an upgrade.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import fc from 'fast-check';
+import pg from 'pg';
 import { defaultSketchDocument, normalizeDocument, type SketchDocument } from '../../shared/model/sketch.ts';
 import { newId } from '../../shared/model/ids.ts';
 import type { SketchSummary } from '../../shared/model/sketchApi.ts';
@@ -14,6 +16,7 @@ import { summarizeDocument } from '../../shared/flight/sketchSummary.ts';
 import { firstItem, itemAt } from '../../shared/util/invariant.ts';
 import { CSRF, createWorld, signIn, type World } from '../helpers/world.ts';
 import { expectClose } from '../helpers/expectClose.ts';
+import { backfillSketchSummaries } from '../../server/db/sketchSummary.ts';
 import { reached } from '../helpers/reached.ts';
 import { prng, randomEdit } from '../helpers/simClient.ts';
 
@@ -159,6 +162,52 @@ describe('[T6] the sketches table’s summary is stored with the document', () =
     const [stored] = (await storedRows(world.teamId)).filter((r) => r.id === created.id);
     expect(stored).toMatchObject({ revision: 0, summary_revision: 0, vertex_count: defaultSketchDocument().section.points.length });
     expect(normalizeDocument(stored!.document)).toEqual(defaultSketchDocument());
+  });
+
+  it('an instance of the version before 0011 (a connection that does not say it writes the summary) keeps saving during an upgrade: its writes are accepted, the list summarises those rows from their documents, and this version’s next write or the next start’s data step fills the columns', async () => {
+    // The previous version's own statements: a save (document and a new revision) and a create,
+    // neither naming the summary columns.
+    const created = await create('Saved by an older instance', defaultSketchDocument());
+    const wedge = { ...defaultSketchDocument(), section: { points: [[0, 0], [0.5, 0.05], [1, 0], [0.5, -0.05]] } };
+    const older = new pg.Client({ connectionString: world.database.url });
+    await older.connect();
+    const insertedId = newId('sketch');
+    try {
+      await older.query(`update sketches set document = $2, revision = revision + 1, updated_at = now() where id = $1`, [created.id, JSON.stringify(wedge)]);
+      await older.query(`insert into sketches (id, team_id, title, document) values ($1, $2, 'Created by an older instance', $3)`, [insertedId, world.teamId, JSON.stringify(wedge)]);
+      // Even so, a document changed without a new revision is refused from any connection.
+      const err = await older.query(`update sketches set document = $2 where id = $1`, [created.id, JSON.stringify(defaultSketchDocument())]).then(
+        () => null,
+        (e: unknown) => e as Error,
+      );
+      expect(err?.message).toMatch(/changed without a new revision/);
+    } finally {
+      await older.end();
+    }
+    const byId = async () => new Map((await storedRows(world.teamId)).map((r) => [r.id, r]));
+    let stored = await byId();
+    expect(stored.get(created.id)).toMatchObject({ revision: 1, summary_revision: 0 });
+    expect(stored.get(insertedId)).toMatchObject({ revision: 0, summary_revision: null });
+    // The list reads those two rows' documents: 4 vertices, t/c 0.1 (0.1 thick over chord 1, by hand).
+    const rows = await list();
+    for (const id of [created.id, insertedId]) {
+      const row = rows.find((s) => s.id === id)!;
+      expect(row).toMatchObject({ vertexCount: 4, designPointCount: 1 });
+      expectClose(row.thicknessRatio!, 0.1, 1e-12);
+    }
+    // This version saves the first: the columns are written with its document again.
+    const saved = await request(world.app).put(`/api/sketches/${created.id}/document`).set(CSRF).set('Cookie', cookie).send({ document: wedge, baseRevision: 1 });
+    expect(saved.status, JSON.stringify(saved.body)).toBe(200);
+    // The next start's data step fills the second.
+    const { filled } = await backfillSketchSummaries(world.database.db);
+    expect(filled).toBeGreaterThanOrEqual(1);
+    stored = await byId();
+    for (const id of [created.id, insertedId]) {
+      const row = stored.get(id)!;
+      expect(row.summary_revision).toBe(row.revision);
+      expect(row).toMatchObject({ vertex_count: 4 });
+      expectClose(row.thickness_ratio!, 0.1, 1e-12);
+    }
   });
 
   it('property: after every kind of write (create, duplicate, save, rename, live edits, snapshot restore, import) each stored summary is its stored document’s, at its revision, and the list says the same', { timeout: 240_000 }, async () => {

@@ -1,4 +1,5 @@
 import { interpolateViridis } from 'd3-scale-chromatic';
+import { firstItems, present } from '@shared/util/invariant';
 
 /**
  * Canvas colours. The canvas is a dark slate so that thin wave lines read as light strokes;
@@ -35,7 +36,8 @@ let table: string[] | null = null;
 export function pressureColourAt(t: number): string {
   const c = Math.min(1, Math.max(0, Number.isFinite(t) ? t : 0.5));
   table ??= Array.from({ length: PRESSURE_COLOUR_STEPS }, (_, i) => interpolateViridis(PRESSURE_SCALE_START + ((1 - PRESSURE_SCALE_START) * i) / (PRESSURE_COLOUR_STEPS - 1)));
-  return table[Math.round(c * (PRESSURE_COLOUR_STEPS - 1))];
+  const k = Math.round(c * (PRESSURE_COLOUR_STEPS - 1));
+  return present(table[k], k, table);
 }
 
 let words: Uint32Array | null = null;
@@ -120,8 +122,14 @@ export function contrastRatio(a: string, b: string): number {
 
 function parseColour(c: string): [number, number, number] {
   const hex = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})$/i.exec(c);
-  if (hex) return [parseInt(hex[1], 16), parseInt(hex[2], 16), parseInt(hex[3], 16)];
+  if (hex) {
+    const [, r, g, b] = firstItems(hex, 4);
+    return [parseInt(r, 16), parseInt(g, 16), parseInt(b, 16)];
+  }
   const fn = /^rgb\((\d+),\s*(\d+),\s*(\d+)\)$/.exec(c);
-  if (fn) return [Number(fn[1]), Number(fn[2]), Number(fn[3])];
+  if (fn) {
+    const [, r, g, b] = firstItems(fn, 4);
+    return [Number(r), Number(g), Number(b)];
+  }
   throw new Error(`Not a colour: ${c}`);
 }

@@ -3,6 +3,8 @@
  * Konva Shape per layer strokes them all in its sceneFunc, which keeps hundreds of wave lines
  * to a single node and a single draw call per layer.
  */
+import { present } from '@shared/util/invariant';
+
 export interface StrokePath {
   /** Flat [x0, y0, x1, y1, …] in screen pixels. */
   points: number[];
@@ -97,8 +99,9 @@ export function drawList(ctx: CanvasRenderingContext2D, list: DrawList): void {
   for (const p of ordered) {
     if (p.points.length < 4) continue;
     ctx.beginPath();
-    ctx.moveTo(p.points[0], p.points[1]);
-    for (let i = 2; i < p.points.length; i += 2) ctx.lineTo(p.points[i], p.points[i + 1]);
+    const pts = p.points;
+    ctx.moveTo(present(pts[0], 0, pts), present(pts[1], 1, pts));
+    for (let i = 2; i < pts.length; i += 2) ctx.lineTo(present(pts[i], i, pts), present(pts[i + 1], i + 1, pts));
     if (p.closed) ctx.closePath();
     ctx.globalAlpha = p.alpha ?? 1;
     if (p.fill) {
@@ -194,11 +197,12 @@ function strokeBatches(ctx: CanvasRenderingContext2D, paths: readonly StrokePath
     else groups.set(key, [p]);
   }
   for (const group of groups.values()) {
-    const first = group[0];
+    const first = present(group[0], 0, group);
     ctx.beginPath();
     for (const p of group) {
-      ctx.moveTo(p.points[0], p.points[1]);
-      for (let i = 2; i < p.points.length; i += 2) ctx.lineTo(p.points[i], p.points[i + 1]);
+      const pts = p.points;
+      ctx.moveTo(present(pts[0], 0, pts), present(pts[1], 1, pts));
+      for (let i = 2; i < pts.length; i += 2) ctx.lineTo(present(pts[i], i, pts), present(pts[i + 1], i + 1, pts));
     }
     ctx.globalAlpha = first.alpha ?? 1;
     ctx.setLineDash(first.dash ?? []);

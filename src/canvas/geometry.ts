@@ -1,5 +1,6 @@
 import type { Point } from '@shared/model/sketch';
 import type { Wave } from '@shared/solver/types';
+import { present } from '@shared/util/invariant';
 
 /**
  * Pure geometry and hit tests for the canvas, in world (body-axis) coordinates. Konva draws;
@@ -48,8 +49,8 @@ export function hitFacet(points: readonly XY[], p: XY, tolerance: number, metric
   let bestD = tolerance;
   const pm = metric ? metric(p) : p;
   for (let i = 0; i < n; i++) {
-    const a = points[i];
-    const b = points[(i + 1) % n];
+    const a = present(points[i], i, points);
+    const b = present(points[(i + 1) % n], (i + 1) % n, points);
     const r = metric ? distanceToSegment(pm, metric(a), metric(b)) : distanceToSegment(p, a, b);
     if (r.distance <= bestD) {
       bestD = r.distance;
@@ -63,8 +64,8 @@ export function hitFacet(points: readonly XY[], p: XY, tolerance: number, metric
 export function pointInPolygon(points: readonly XY[], p: XY): boolean {
   let inside = false;
   for (let i = 0, j = points.length - 1; i < points.length; j = i++) {
-    const [xi, yi] = points[i];
-    const [xj, yj] = points[j];
+    const [xi, yi] = present(points[i], i, points);
+    const [xj, yj] = present(points[j], j, points);
     if (yi > p[1] !== yj > p[1] && p[0] < ((xj - xi) * (p[1] - yi)) / (yj - yi) + xi) inside = !inside;
   }
   return inside;

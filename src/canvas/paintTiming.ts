@@ -12,6 +12,8 @@
  * the handler to the worker starting on it (that, the copy, and waiting behind an earlier solve), the solve, building the draw lists, the draw calls, and
  * the raster.
  */
+import { firstItem } from '@shared/util/invariant';
+
 interface Breakdown {
   /** From the handler's start until the request went to the worker (this page's work before posting it). */
   toPost: number[];
@@ -63,7 +65,7 @@ export function notePaint(seq: number, at: number = performance.now(), worker?: 
   const breakdown = (out.breakdown ??= { toPost: [], toWorker: [], solve: [], lists: [], paint: [], raster: [] });
   const rasterised = (out.rasterised ??= []);
   const r = requests.get(seq);
-  while (pending.length > 0 && pending[0].seq <= seq) {
+  while (pending.length > 0 && firstItem(pending).seq <= seq) {
     const p = pending.shift()!;
     out.fromEvent.push(at - p.eventTime);
     out.fromHandler.push(at - p.handlerTime);

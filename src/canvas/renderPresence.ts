@@ -1,6 +1,7 @@
 import type { Point } from '@shared/model/sketch';
 import type { SolveResult } from '@shared/solver/types';
 import type { Highlight } from '@shared/protocol/messages';
+import { cyclicItem } from '@shared/util/invariant';
 import type { DrawList, StrokePath, TextItem } from './drawPaths';
 import { toScreen, type View } from './view';
 
@@ -25,12 +26,13 @@ export function renderPresence(marks: readonly PresenceMark[], points: readonly 
   const texts: TextItem[] = [];
 
   if (highlight) {
+    const vertex = highlight.kind === 'vertex' && typeof highlight.id === 'number' ? points[highlight.id] : undefined;
     if (highlight.kind === 'facet' && typeof highlight.id === 'number' && points.length > 1) {
-      const a = toScreen(view, points[highlight.id % points.length]);
-      const b = toScreen(view, points[(highlight.id + 1) % points.length]);
+      const a = toScreen(view, cyclicItem(points, highlight.id));
+      const b = toScreen(view, cyclicItem(points, highlight.id + 1));
       paths.push({ points: [...a, ...b], colour: HIGHLIGHT, width: 7, alpha: 0.35 });
-    } else if (highlight.kind === 'vertex' && typeof highlight.id === 'number' && points[highlight.id]) {
-      const [x, y] = toScreen(view, points[highlight.id]);
+    } else if (vertex) {
+      const [x, y] = toScreen(view, vertex);
       dots.push({ x, y, radius: 9, fill: 'rgba(255,255,255,0.25)', stroke: HIGHLIGHT, strokeWidth: 2 });
     } else if (highlight.kind === 'wave' && result) {
       const wave = result.waves.find((w) => w.id === highlight.id);

@@ -1,4 +1,5 @@
 import type { Point } from '@shared/model/sketch';
+import { firstItem } from '@shared/util/invariant';
 import type { DrawList, StrokePath, TextItem } from './drawPaths';
 import { drawOrder, pinHead, PIN_HEAD_RADIUS_PX, type PinMarker } from './pins';
 import { toScreen, type View } from './view';
@@ -23,9 +24,10 @@ export interface CompareOutlines {
   labelB: string;
 }
 
-/** Nose (min x) and chord (max x − min x) of an outline. */
-function noseAndChord(points: readonly Point[]): { nose: Point; chord: number } {
+/** Nose (min x) and chord (max x − min x) of an outline; null for an empty one. */
+function noseAndChord(points: readonly Point[]): { nose: Point; chord: number } | null {
   let nose = points[0];
+  if (!nose) return null;
   let maxX = -Infinity;
   for (const p of points) {
     if (p[0] < nose[0]) nose = p;
@@ -42,6 +44,8 @@ function noseAndChord(points: readonly Point[]): { nose: Point; chord: number } 
 export function outlineOnto(a: readonly Point[], b: readonly Point[]): { points: Point[]; fitted: boolean } {
   const ra = noseAndChord(a);
   const rb = noseAndChord(b);
+  // An empty outline (a sketch with no section yet) has no nose to fit to: shown as drawn.
+  if (!ra || !rb) return { points: b.map((p) => [p[0], p[1]] as Point), fitted: false };
   const same = Math.abs(ra.chord - rb.chord) <= 1e-12 * Math.max(1, ra.chord) && ra.nose[0] === rb.nose[0] && ra.nose[1] === rb.nose[1];
   if (same || !(rb.chord > 0) || !(ra.chord > 0)) return { points: b.map((p) => [p[0], p[1]] as Point), fitted: false };
   const k = ra.chord / rb.chord;
@@ -54,7 +58,7 @@ function outline(points: readonly Point[], view: View, colour: string, dash?: nu
 
 function noseLabel(points: readonly Point[], view: View, text: string, colour: string, dy: number): TextItem | null {
   if (points.length === 0) return null;
-  const nose = points.reduce((best, p) => (p[0] < best[0] ? p : best), points[0]);
+  const nose = points.reduce((best, p) => (p[0] < best[0] ? p : best), firstItem(points));
   const [x, y] = toScreen(view, nose);
   return { x: x - 10, y: y + dy, text, colour, font: "600 12px 'Work Sans', system-ui, sans-serif", align: 'right', baseline: 'middle' };
 }

@@ -15,6 +15,7 @@ import {
 } from './colors';
 import type { Dot, DrawList, StrokePath } from './drawPaths';
 import type { LayerSettings } from './layers';
+import { itemAt, present } from '@shared/util/invariant';
 import { toScreen, type View } from './view';
 
 /** Facet stroke width when shaded by Cp, pixels. */
@@ -61,7 +62,10 @@ const HINGE_RADIUS_PX = 6;
 const HINGE_COLOUR = '#f1e6d2';
 
 function sameOutline(a: readonly Point[], b: readonly Point[]): boolean {
-  return a.length === b.length && a.every((p, i) => p[0] === b[i][0] && p[1] === b[i][1]);
+  return a.length === b.length && a.every((p, i) => {
+    const q = present(b[i], i, b);
+    return p[0] === q[0] && p[1] === q[1];
+  });
 }
 
 /**
@@ -97,9 +101,9 @@ export function renderSection(points: readonly Point[], result: SolveResult | nu
   if (pressures && options.drag) paths.push(...cpRuns(shaded, pressures, domain));
   else if (pressures) {
     for (let i = 0; i < m; i++) {
-      const a = shaded[i];
-      const b = shaded[(i + 1) % m];
-      const p = pressures[i];
+      const a = present(shaded[i], i, shaded);
+      const b = present(shaded[(i + 1) % m], (i + 1) % m, shaded);
+      const p = present(pressures[i], i, pressures);
       paths.push({
         points: [a[0], a[1], b[0], b[1]],
         colour: p === null ? UNSOLVED_FACET : pressureColour(p, domain),
@@ -109,8 +113,8 @@ export function renderSection(points: readonly Point[], result: SolveResult | nu
     }
   }
   if (options.hoverFacet !== null && options.hoverFacet < n) {
-    const a = screen[options.hoverFacet];
-    const b = screen[(options.hoverFacet + 1) % n];
+    const a = itemAt(screen, options.hoverFacet);
+    const b = itemAt(screen, (options.hoverFacet + 1) % n);
     paths.push({ points: [a[0], a[1], b[0], b[1]], colour: HOVER, width: 1.5, alpha: 0.9 });
   }
   if (options.hinge) {
@@ -150,9 +154,9 @@ function cpRuns(shaded: readonly (readonly [number, number])[], pressures: reado
   const out: StrokePath[] = [];
   let run: StrokePath | null = null;
   for (let i = 0; i < m; i++) {
-    const a = shaded[i];
-    const b = shaded[(i + 1) % m];
-    const p = pressures[i];
+    const a = present(shaded[i], i, shaded);
+    const b = present(shaded[(i + 1) % m], (i + 1) % m, shaded);
+    const p = present(pressures[i], i, pressures);
     if (p === null) {
       run = null;
       out.push({ points: [a[0], a[1], b[0], b[1]], colour: UNSOLVED_FACET, width: FACET_CP_WIDTH_PX, dash: [3, 3] });

@@ -4,6 +4,7 @@ import type { Context } from 'konva/lib/Context';
 import type { Point } from '@shared/model/sketch';
 import type { SolveResult } from '@shared/solver/types';
 import type { Highlight } from '@shared/protocol/messages';
+import { firstItems } from '@shared/util/invariant';
 import type { ScenePort } from '@/composables/useLiveSolve';
 import { EMPTY_DRAW_LIST, drawList, type DrawList } from './drawPaths';
 import type { LayerSettings, LegendMode } from './layers';
@@ -164,7 +165,8 @@ export function useCanvasLayers(source: () => LayerSource, canvas: CanvasView, h
     return `${d.min} ${d.max}`;
   });
   const domain = computed(() => {
-    const [min, max] = domainKey.value.split(' ').map(Number);
+    // The key is the two numbers written just above.
+    const [min, max] = firstItems(domainKey.value.split(' ').map(Number), 2);
     return { min, max };
   });
 

@@ -1,5 +1,6 @@
 import { explainSectionProblem } from '@shared/model/ops';
 import type { Point } from '@shared/model/sketch';
+import { firstItem } from '@shared/util/invariant';
 import { snapPoint } from '../geometry';
 import { toScreen } from '../view';
 import { HIT_TOLERANCE_PX, type Tool, type ToolContext, type ToolStep } from './types';
@@ -35,7 +36,7 @@ export const drawTool: Tool<DrawState> = {
   move(s, ctx, p) {
     if (s.path.length === 0) return { state: s, effects: [], cursor: 'crosshair' };
     const closing = s.path.length >= 3 && nearFirst(s, ctx, p.screen);
-    const cursor = closing ? s.path[0] : place(s, ctx, p.world, p.alt);
+    const cursor = closing ? firstItem(s.path) : place(s, ctx, p.world, p.alt);
     return { ...show({ path: s.path, cursor }, null), cursor: closing ? 'pointer' : 'crosshair' };
   },
 
@@ -58,7 +59,7 @@ function place(s: DrawState, ctx: ToolContext, world: Point, alt: boolean): Poin
 }
 
 function nearFirst(s: DrawState, ctx: ToolContext, screen: [number, number]): boolean {
-  const [fx, fy] = toScreen(ctx.view, s.path[0]);
+  const [fx, fy] = toScreen(ctx.view, firstItem(s.path));
   return Math.hypot(fx - screen[0], fy - screen[1]) <= HIT_TOLERANCE_PX;
 }
 

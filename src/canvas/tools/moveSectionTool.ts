@@ -1,5 +1,6 @@
 import type { Point } from '@shared/model/sketch';
 import { pointInPolygon, roundTo, tidyPoint } from '../geometry';
+import { itemAt } from '@shared/util/invariant';
 import { ARROWS, facetAt, movedBeyondThreshold, nudgeBy, type Tool, type ToolContext, type ToolEffect } from './types';
 
 export type MoveSectionState =
@@ -40,8 +41,14 @@ export const moveSectionTool: Tool<MoveSectionState> = {
   up(s, ctx) {
     if (s.mode !== 'dragging') return { state: s, effects: [] };
     const effects: ToolEffect[] = [{ kind: 'preview', points: null }];
-    if (s.moved && s.moved.some((m, i) => m[0] !== ctx.points[i][0] || m[1] !== ctx.points[i][1])) {
-      effects.push({ kind: 'commit', op: { type: 'moveVertices', indices: ctx.points.map((_, i) => i), to: s.moved } });
+    // A colleague's edit that added or removed vertices during the drag leaves a move for another
+    // outline: nothing is committed then (the section stays as they left it).
+    const moved = s.moved && s.moved.length === ctx.points.length ? s.moved : null;
+    if (moved && moved.some((m, i) => {
+      const q = itemAt(ctx.points, i);
+      return m[0] !== q[0] || m[1] !== q[1];
+    })) {
+      effects.push({ kind: 'commit', op: { type: 'moveVertices', indices: ctx.points.map((_, i) => i), to: moved } });
     }
     return { state: { mode: 'idle' }, effects, cursor: 'move' };
   },

@@ -1,4 +1,5 @@
 import type { Point } from '@shared/model/sketch';
+import { firstItem, itemAt, present } from '@shared/util/invariant';
 import { snapPoint, tidyPoint, verticesInRect } from '../geometry';
 import { ARROWS, movedBeyondThreshold, nudgeBy, vertexAt, type KeyInput, type Tool, type ToolContext, type ToolEffect, type ToolStep } from './types';
 
@@ -50,24 +51,29 @@ export const selectTool: Tool<SelectState> = {
       }
       if (ctx.readOnly) return { state: s, effects: [] };
       const indices = ctx.selection.includes(s.vertex) ? [...ctx.selection] : [s.vertex];
-      const origins = indices.map((i) => [ctx.points[i][0], ctx.points[i][1]] as Point);
+      // The selection and the grabbed vertex index the committed points (the store keeps the
+      // selection within them).
+      const origins = indices.map((i): Point => {
+        const q = itemAt(ctx.points, i);
+        return [q[0], q[1]];
+      });
       const dragging: SelectState = { mode: 'dragging', startWorld: s.startWorld, indices, origins, grabbed: s.vertex, moved: null };
       return selectTool.move(dragging, ctx, p);
     }
     if (s.mode === 'dragging') {
       const n = ctx.points.length;
       const k = s.indices.indexOf(s.grabbed);
-      const origin = s.origins[k];
+      const origin = itemAt(s.origins, k);
       const raw: Point = [origin[0] + p.world[0] - s.startWorld[0], origin[1] + p.world[1] - s.startWorld[1]];
       const prev = (s.grabbed - 1 + n) % n;
-      const anchor = s.indices.length === 1 && !s.indices.includes(prev) ? ctx.points[prev] : null;
+      const anchor = s.indices.length === 1 && !s.indices.includes(prev) ? itemAt(ctx.points, prev) : null;
       const target = p.alt ? raw : snapPoint(raw, ctx.snap, anchor);
       const dx = target[0] - origin[0];
       const dy = target[1] - origin[1];
       const moved = s.origins.map(([x, y]) => tidyPoint(x + dx, y + dy));
       const preview = ctx.points.map((q) => [q[0], q[1]] as Point);
       s.indices.forEach((i, j) => {
-        preview[i] = moved[j];
+        preview[i] = present(moved[j], j, moved);
       });
       return { state: { ...s, moved }, effects: [{ kind: 'preview', points: preview }, { kind: 'readout', vertex: s.grabbed }], cursor: 'grabbing' };
     }
@@ -78,7 +84,10 @@ export const selectTool: Tool<SelectState> = {
   up(s, ctx) {
     if (s.mode === 'dragging') {
       const effects: ToolEffect[] = [{ kind: 'preview', points: null }, { kind: 'readout', vertex: null }];
-      const changed = s.moved && s.moved.some((m, j) => m[0] !== s.origins[j][0] || m[1] !== s.origins[j][1]);
+      const changed = s.moved && s.moved.some((m, j) => {
+        const o = itemAt(s.origins, j);
+        return m[0] !== o[0] || m[1] !== o[1];
+      });
       if (s.moved && changed) effects.push({ kind: 'commit', op: { type: 'moveVertices', indices: s.indices, to: s.moved }, select: s.indices });
       return { state: idle, effects, cursor: 'grab' };
     }
@@ -113,13 +122,16 @@ function rect(a: Point, b: Point) {
 
 function nudge(s: SelectState, ctx: ToolContext, k: KeyInput, dir: [number, number]): ToolStep<SelectState> {
   const [dx, dy] = nudgeBy(ctx, k, dir);
-  const to = ctx.selection.map((i) => tidyPoint(ctx.points[i][0] + dx, ctx.points[i][1] + dy));
+  const to = ctx.selection.map((i) => {
+    const q = itemAt(ctx.points, i);
+    return tidyPoint(q[0] + dx, q[1] + dy);
+  });
   return { state: s, effects: [{ kind: 'commit', op: { type: 'moveVertices', indices: [...ctx.selection], to }, select: [...ctx.selection] }] };
 }
 
 function deleteSelection(s: SelectState, ctx: ToolContext): ToolStep<SelectState> {
   if (ctx.selection.length === 1) {
-    return { state: s, effects: [{ kind: 'commit', op: { type: 'deleteVertex', index: ctx.selection[0] }, select: [] }] };
+    return { state: s, effects: [{ kind: 'commit', op: { type: 'deleteVertex', index: firstItem(ctx.selection) }, select: [] }] };
   }
   const gone = new Set(ctx.selection);
   const points = ctx.points.filter((_, i) => !gone.has(i)).map((p) => [p[0], p[1]] as Point);

@@ -7,6 +7,7 @@ import { applyOp, withOpId, type ApplyOpResult, type SketchOpDraft } from '@shar
 import { defaultSketchDocument, type DesignPoint, type SketchDocument } from '@shared/model/sketch';
 import SketchDesignPoints from '@/components/SketchDesignPoints.vue';
 import SketchDesignPointsTable from '@/components/SketchDesignPointsTable.vue';
+import { itemAt } from '@shared/util/invariant';
 
 const point = (id: string, name: string, mach: number, alphaDeg: number, altitudeM: number | null, flapDeflectionDeg = 0): DesignPoint => ({
   id,
@@ -84,9 +85,9 @@ describe('SketchDesignPoints', () => {
   it('Add copies the shown point right after it under a free name, selects it and opens its name', async () => {
     const { w, apply, sync, doc } = setup();
     await w.get('[data-testid="design-point-add"]').trigger('click');
-    const op = apply.mock.calls[0][0] as Extract<SketchOpDraft, { type: 'addDesignPoint' }>;
-    expect(apply.mock.results[0].value).toMatchObject({ ok: true });
-    expect(op).toMatchObject({ type: 'addDesignPoint', index: 1, select: true, point: { name: 'Design point 4', condition: fin().designPoints[0].condition, flapDeflectionDeg: 0 } });
+    const op = itemAt(apply.mock.calls, 0)[0] as Extract<SketchOpDraft, { type: 'addDesignPoint' }>;
+    expect(itemAt(apply.mock.results, 0).value).toMatchObject({ ok: true });
+    expect(op).toMatchObject({ type: 'addDesignPoint', index: 1, select: true, point: { name: 'Design point 4', condition: itemAt(fin().designPoints, 0).condition, flapDeflectionDeg: 0 } });
     expect(op.point.id).toMatch(/^point_[a-z0-9]{20}$/);
     await sync();
     // The new point's name is open for typing (the others show theirs); Enter renames it.
@@ -122,7 +123,7 @@ describe('SketchDesignPoints', () => {
     await input.setValue('Cruise M2.6');
     announce({ op: { type: 'renameDesignPoint', opId: 'x', pointId: 'point_cruise00000000000000', name: 'Burnout' }, by: 'Ines Marlow' });
     const renamed = fin();
-    renamed.designPoints[0] = { ...renamed.designPoints[0], name: 'Burnout' };
+    renamed.designPoints[0] = { ...itemAt(renamed.designPoints, 0), name: 'Burnout' };
     await w.setProps({ document: renamed });
     await flushPromises();
     await input.trigger('blur');
@@ -150,10 +151,10 @@ describe('SketchDesignPointsTable', () => {
     expect(w.findAll('thead th').map((t) => t.text())).toEqual(['', 'Cruise', 'Pull-up', 'Max q']);
     expect(w.get('[data-testid="dp-flap-1"]').text()).toBe('6');
     expect(w.get('[data-testid="dp-altitude-0"]').text()).toBe('39,370'); // 12 000 m / 0.3048 m/ft
-    const cl = all.points[1].analysis.result!.coefficients!.cl;
+    const cl = itemAt(all.points, 1).analysis.result!.coefficients!.cl;
     expect(w.get('[data-testid="dp-cl-1"]').text()).toBe(cl.toPrecision(4).replace(/0+$/, ''));
     // Lift per span in lbf/ft: N/m ÷ (4.4482216152605 N/lbf ÷ 0.3048 m/ft), exact factors.
-    const liftNPerM = all.points[1].analysis.loads!.perSpan.liftNPerM;
+    const liftNPerM = itemAt(all.points, 1).analysis.loads!.perSpan.liftNPerM;
     expect(Number(w.get('[data-testid="dp-lift-1"]').text().replace(/,/g, ''))).toBeCloseTo(liftNPerM / (4.4482216152605 / 0.3048), -1);
     expect(w.text()).toContain('Lift / span, lbf/ft');
     await w.get('[data-testid="dp-col-2"]').trigger('click');
@@ -163,7 +164,7 @@ describe('SketchDesignPointsTable', () => {
 
   it('lists each point’s first limit under the table', () => {
     const doc = fin();
-    doc.designPoints[1] = { ...doc.designPoints[1], condition: { ...doc.designPoints[1].condition, mach: 1.2, alphaDeg: 20 } };
+    doc.designPoints[1] = { ...itemAt(doc.designPoints, 1), condition: { ...itemAt(doc.designPoints, 1).condition, mach: 1.2, alphaDeg: 20 } };
     const w = mount(SketchDesignPointsTable, { props: { document: doc, analysis: analyseDesignPoints(doc), shownPointId: 'point_cruise00000000000000', units: 'si' } });
     expect(w.get('[data-testid="dp-status-1"]').text()).toBe('detached');
     expect(w.get('[data-testid="design-points-notes"]').text()).toMatch(/^Pull-up: /);

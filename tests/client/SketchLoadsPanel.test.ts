@@ -7,6 +7,7 @@ import { sketchCase, type SketchDocument } from '@shared/model/sketch';
 import { oneCondition } from '../helpers/documents';
 import type { ApplyOpResult, SketchOpDraft } from '@shared/model/ops';
 import { FIELD_CHANGES, type FieldChangeEvent, type FieldChangeFeed } from '@/composables/useFieldEdits';
+import { itemAt } from '@shared/util/invariant';
 
 const apiMock = vi.hoisted(() => ({ get: vi.fn(), patch: vi.fn(), post: vi.fn(), put: vi.fn(), delete: vi.fn() }));
 vi.mock('@/api/client', async (importOriginal) => {
@@ -57,7 +58,7 @@ describe('SketchLoadsPanel', () => {
   it('switches to US customary through the preference store (saved on the server) and relabels everything', async () => {
     const w = mountPanel();
     await flushPromises();
-    await w.get('[data-testid="units-switch"]').findAll('input')[1].setValue(true);
+    await itemAt(w.get('[data-testid="units-switch"]').findAll('input'), 1).setValue(true);
     await flushPromises();
     expect(apiMock.patch).toHaveBeenCalledWith('/api/preferences', { unitSystem: 'us' }, expect.anything());
     expect(usePreferencesStore().unitSystem).toBe('us');

@@ -3,6 +3,7 @@ import { flushPromises, mount } from '@vue/test-utils';
 import { createPinia, setActivePinia } from 'pinia';
 import type { PinDetail } from '@shared/model/review';
 import type { Member } from '@shared/model/teams';
+import { itemAt } from '@shared/util/invariant';
 
 const apiMock = vi.hoisted(() => ({ get: vi.fn(), patch: vi.fn(), post: vi.fn(), put: vi.fn(), delete: vi.fn() }));
 vi.mock('@/api/client', async (importOriginal) => {
@@ -66,11 +67,13 @@ describe('SketchPinThread', () => {
     expect(get(w, 'pin-thread-status').text()).toBe('open');
     const replies = w.findAll('[data-testid="pin-reply"]');
     expect(replies).toHaveLength(1);
-    expect(replies[0].get('[data-testid="pin-reply-author"]').text()).toBe('Priya Vance');
-    expect(replies[0].get('time').attributes('datetime')).toBe('2030-03-04T09:15:00.000Z');
-    expect(replies[0].get('time').text()).toMatch(/2030/);
-    expect(replies[0].get('mark').text()).toBe('@Tomasz Reyes');
-    expect(w.emitted('loaded')?.[0][0]).toMatchObject({ id: PIN });
+    const reply = itemAt(replies, 0);
+    expect(reply.get('[data-testid="pin-reply-author"]').text()).toBe('Priya Vance');
+    expect(reply.get('time').attributes('datetime')).toBe('2030-03-04T09:15:00.000Z');
+    expect(reply.get('time').text()).toMatch(/2030/);
+    expect(reply.get('mark').text()).toBe('@Tomasz Reyes');
+    expect(w.emitted('loaded')).toBeDefined();
+    expect(itemAt(w.emitted('loaded') ?? [], 0)[0]).toMatchObject({ id: PIN });
     w.unmount();
   });
 

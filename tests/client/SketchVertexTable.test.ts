@@ -7,8 +7,9 @@ import type { Point } from '@shared/model/sketch';
 import type { ApplyOpResult, SketchOpDraft } from '@shared/model/ops';
 import { applyOp, withOpId } from '@shared/model/ops';
 import { defaultSketchDocument } from '@shared/model/sketch';
+import { itemAt } from '@shared/util/invariant';
 
-const wedge: Point[] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
+const wedge: [Point, Point, Point, Point] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
 
 function mountTable(props: Partial<{ points: Point[]; selection: number[]; readOnly: boolean; apply: (op: SketchOpDraft) => ApplyOpResult }> = {}) {
   const apply = props.apply ?? vi.fn((op: SketchOpDraft) => applyOp({ ...defaultSketchDocument(), section: { points: wedge } }, withOpId(op)));
@@ -31,8 +32,8 @@ describe('SketchVertexTable', () => {
     expect(rows).toHaveLength(4);
     expect((wrapper.get('[data-testid="vertex-x-1"]').element as HTMLInputElement).value).toBe('0.5');
     expect((wrapper.get('[data-testid="vertex-y-3"]').element as HTMLInputElement).value).toBe('-0.025');
-    expect(rows[0].text()).toContain('nose');
-    expect(rows[2].text()).toContain('tail');
+    expect(itemAt(rows, 0).text()).toContain('nose');
+    expect(itemAt(rows, 2).text()).toContain('tail');
     wrapper.unmount();
   });
 
@@ -96,7 +97,7 @@ describe('SketchVertexTable', () => {
 
   it('the delete button sends a deleteVertex op; it is disabled at 3 vertices', async () => {
     const { wrapper, apply } = mountTable();
-    await wrapper.findAll('.vertex-table__delete')[1].trigger('click');
+    await itemAt(wrapper.findAll('.vertex-table__delete'), 1).trigger('click');
     expect(apply).toHaveBeenCalledWith({ type: 'deleteVertex', index: 1 });
     await wrapper.setProps({ points: wedge.slice(0, 3) });
     expect(wrapper.findAll('.vertex-table__delete').every((b) => (b.element as HTMLButtonElement).disabled)).toBe(true);

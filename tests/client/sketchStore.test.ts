@@ -3,6 +3,7 @@ import { createPinia, setActivePinia } from 'pinia';
 import { defaultSketchDocument, selectedPoint, type SketchDocument } from '@shared/model/sketch';
 import type { Sketch } from '@shared/model/sketchApi';
 import { AUTOSAVE_DEBOUNCE_MS } from '@/timing';
+import { itemAt } from '@shared/util/invariant';
 
 const apiMock = vi.hoisted(() => ({ get: vi.fn(), put: vi.fn(), patch: vi.fn(), post: vi.fn(), delete: vi.fn() }));
 vi.mock('@/api/client', async (importOriginal) => {
@@ -125,11 +126,11 @@ describe('sketch store: undo and redo', () => {
   it('uses a fresh op id for every application of an op', async () => {
     const store = await openDemo();
     store.dispatch(move(1, 0.5, 0.04));
-    const first = store.undoStack[0].op.opId;
+    const first = itemAt(store.undoStack, 0).op.opId;
     store.undo();
     store.redo();
-    expect(store.undoStack[0].op.opId).toBe(first); // the recorded op keeps its id…
-    expect(store.undoStack[0].inverse.opId).not.toBe(first); // …its inverse has its own
+    expect(itemAt(store.undoStack, 0).op.opId).toBe(first); // the recorded op keeps its id…
+    expect(itemAt(store.undoStack, 0).inverse.opId).not.toBe(first); // …its inverse has its own
   });
 });
 
@@ -153,7 +154,7 @@ describe('sketch store: autosave', () => {
     expect(apiMock.put).not.toHaveBeenCalled();
     await vi.advanceTimersByTimeAsync(20);
     expect(apiMock.put).toHaveBeenCalledTimes(1);
-    const [url, body] = apiMock.put.mock.calls[0];
+    const [url, body] = itemAt(apiMock.put.mock.calls, 0);
     expect(url).toBe(`/api/sketches/${ID}/document`);
     expect(body.baseRevision).toBe(3);
     expect(body.document.section.points[1]).toEqual([0.5, 0.045]);
@@ -164,7 +165,7 @@ describe('sketch store: autosave', () => {
   it('on a revision conflict reloads, re-applies unsaved edits on top and tells the user', async () => {
     const store = await openDemo();
     const base = defaultSketchDocument();
-    const theirs = { ...base, designPoints: [{ ...base.designPoints[0], condition: { ...base.designPoints[0].condition, mach: 2.6 } }] };
+    const theirs = { ...base, designPoints: [{ ...itemAt(base.designPoints, 0), condition: { ...itemAt(base.designPoints, 0).condition, mach: 2.6 } }] };
     apiMock.put.mockRejectedValueOnce(new ApiError(409, 'revision_conflict', 'The sketch changed since revision 3 (now at 5).'));
     apiMock.get.mockResolvedValueOnce(sketch(theirs, 5, { updatedByName: 'Tomasz Reyes' }));
     store.dispatch(move(1, 0.5, 0.04));
@@ -197,8 +198,8 @@ describe('sketch store: autosave', () => {
     apiMock.put.mockImplementation(async (_url: string, body: { document: SketchDocument; baseRevision: number }) => sketch(body.document, body.baseRevision + 1));
     await vi.advanceTimersByTimeAsync(AUTOSAVE_DEBOUNCE_MS + 10);
     expect(apiMock.put).toHaveBeenCalledTimes(2);
-    expect(apiMock.put.mock.calls[1][1]).toMatchObject({ baseRevision: 4 });
-    expect(apiMock.put.mock.calls[1][1].document.section.points[3]).toEqual([0.5, -0.04]);
+    expect(itemAt(apiMock.put.mock.calls, 1)[1]).toMatchObject({ baseRevision: 4 });
+    expect(itemAt(apiMock.put.mock.calls, 1)[1].document.section.points[3]).toEqual([0.5, -0.04]);
     expect(store.saveState).toBe('saved');
   });
 });

@@ -5,22 +5,25 @@
 import { describe, expect, it } from 'vitest';
 import { CANVAS_BACKGROUND, contrastRatio, pressureColourAt } from '@/canvas/colors';
 import { expectClose } from '../../helpers/expectClose';
+import { firstItems } from '@shared/util/invariant';
 
 /** WCAG 2.1 "relative luminance": sRGB channels linearised, weighted 0.2126, 0.7152, 0.0722. */
 function luminance(hex: string): number {
   const m = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})$/i.exec(hex) ?? /^rgb\((\d+),\s*(\d+),\s*(\d+)\)$/.exec(hex);
   if (!m) throw new Error(`not a colour: ${hex}`);
-  const channels = hex.startsWith('#') ? [m[1], m[2], m[3]].map((h) => parseInt(h, 16)) : [m[1], m[2], m[3]].map(Number);
-  const [r, g, b] = channels.map((c) => {
+  const [, c1, c2, c3] = firstItems(m, 4);
+  const channels = hex.startsWith('#') ? [c1, c2, c3].map((h) => parseInt(h, 16)) : [c1, c2, c3].map(Number);
+  const linear = channels.map((c) => {
     const s = c / 255;
     return s <= 0.04045 ? s / 12.92 : ((s + 0.055) / 1.055) ** 2.4;
   });
+  const [r, g, b] = firstItems(linear, 3);
   return 0.2126 * r + 0.7152 * g + 0.0722 * b;
 }
 
 /** WCAG 2.1 "contrast ratio": (L1 + 0.05) / (L2 + 0.05), L1 the lighter. */
 function ratio(a: string, b: string): number {
-  const [hi, lo] = [luminance(a), luminance(b)].sort((x, y) => y - x);
+  const [hi, lo] = firstItems([luminance(a), luminance(b)].sort((x, y) => y - x), 2);
   return (hi + 0.05) / (lo + 0.05);
 }
 

@@ -17,6 +17,7 @@ import { gridLines, niceStep, niceStepBelow, scaleBar } from '@/canvas/grid';
 import { snapSteps, stepsLabel } from '@/canvas/snap';
 import { facetAt, vertexAt } from '@/canvas/tools/types';
 import { expectClose } from '../../helpers/expectClose';
+import { itemAt } from '@shared/util/invariant';
 
 const wedge: Point[] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
 
@@ -193,7 +194,7 @@ describe('grid', () => {
     const view = { scale: 400, originX: 100, originY: 250 };
     const grid = gridLines(view, { width: 800, height: 500 });
     expect(grid.step).toBe(0.05); // 18 px / 400 px per chord = 0.045 → 0.05
-    const gaps = grid.vertical.slice(1).map((l, i) => l.at - grid.vertical[i].at);
+    const gaps = grid.vertical.slice(1).map((l, i) => l.at - itemAt(grid.vertical, i).at);
     for (const g of gaps) expectClose(g, 20, 1e-9);
     expect(grid.vertical.find((l) => l.value === 0)).toMatchObject({ axis: true, major: true, at: 100 });
     expect(grid.vertical.find((l) => l.value === 0.25)?.major).toBe(true);

@@ -3,6 +3,7 @@ import fc from 'fast-check';
 import { boxesOverlap, layoutLimitLabels, nearestOnBox, type Box, type LayoutOptions } from '@/canvas/limitLayout';
 import { renderLimits, LIMIT_LABEL_HEIGHT_PX, LIMIT_LABEL_WIDTH_PX, LIMIT_RING_RADIUS_PX } from '@/canvas/renderLimits';
 import type { SolveLimit, SolveResult } from '@shared/solver/types';
+import { itemAt } from '@shared/util/invariant';
 
 const OPTIONS: LayoutOptions = { width: 760, height: 620, labelWidth: LIMIT_LABEL_WIDTH_PX, labelHeight: LIMIT_LABEL_HEIGHT_PX, ringRadius: LIMIT_RING_RADIUS_PX, gap: 6, margin: 8 };
 
@@ -20,9 +21,9 @@ function expectInvariants(anchors: { x: number; y: number }[], o: LayoutOptions,
   });
   r.placements.forEach((p, i) => {
     if (!p) return;
-    const [nx, ny] = nearestOnBox(p.box, anchors[i].x, anchors[i].y);
+    const [nx, ny] = nearestOnBox(p.box, itemAt(anchors, i).x, itemAt(anchors, i).y);
     // A callout away from its ring has a leader line from its edge to the ring.
-    if (Math.hypot(nx - anchors[i].x, ny - anchors[i].y) > 40) expect(p.leader).toEqual([nx, ny, anchors[i].x, anchors[i].y]);
+    if (Math.hypot(nx - itemAt(anchors, i).x, ny - itemAt(anchors, i).y) > 40) expect(p.leader).toEqual([nx, ny, itemAt(anchors, i).x, itemAt(anchors, i).y]);
   });
 }
 

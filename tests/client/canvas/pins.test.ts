@@ -8,8 +8,9 @@ import { describePinTarget, hitPinMarker, pinHead, pinTargetAt, PIN_STEM_PX, typ
 import { COMPARE_A, COMPARE_B, PIN_OPEN, PIN_RESOLVED, renderReview } from '@/canvas/renderReview';
 import { toScreen } from '@/canvas/view';
 import { expectClose } from '../../helpers/expectClose';
+import { itemAt } from '@shared/util/invariant';
 
-const wedge: Point[] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
+const wedge: [Point, Point, Point, Point] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
 const view = { scale: 400, originX: 100, originY: 250 };
 
 function solve(points: Point[], mach: number, alphaDeg: number) {
@@ -65,7 +66,7 @@ describe('pin markers', () => {
   ];
 
   it('[P1] the marker tip is drawn at the pinned point and the head above it', () => {
-    const list = renderReview([markers[1]], null, view);
+    const list = renderReview([itemAt(markers, 1)], null, view);
     const [x, y] = toScreen(view, [0.5, 0]);
     expect(list.dots[0]).toMatchObject({ x, y, fill: PIN_OPEN });
     expect(pinHead(view, [0.5, 0])).toEqual([x, y - PIN_STEM_PX]);
@@ -90,9 +91,9 @@ describe('pin markers', () => {
     const list = renderReview([], { a: wedge, b, labelA: 'A', labelB: 'B' }, view);
     expect(list.paths).toHaveLength(2);
     expect(list.paths[0]).toMatchObject({ colour: COMPARE_A, closed: true });
-    expect(list.paths[0].dash).toBeDefined();
+    expect(itemAt(list.paths, 0).dash).toBeDefined();
     expect(list.paths[1]).toMatchObject({ colour: COMPARE_B, closed: true, dash: undefined });
-    expect(list.paths[1].points).toEqual(b.flatMap((p) => toScreen(view, p)));
+    expect(itemAt(list.paths, 1).points).toEqual(b.flatMap((p) => toScreen(view, p)));
     expect(list.texts!.map((t) => t.text)).toEqual(['A', 'B']);
   });
 

@@ -4,9 +4,10 @@ import { DEFAULT_LAYERS } from '@/canvas/layers';
 import { renderSection } from '@/canvas/renderSection';
 import { renderPresence } from '@/canvas/renderPresence';
 import { toScreen, type View } from '@/canvas/view';
+import { itemAt } from '@shared/util/invariant';
 
 const VIEW: View = { scale: 400, originX: 100, originY: 300 };
-const DIAMOND: Point[] = [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]];
+const DIAMOND: [Point, Point, Point, Point] = [[0, 0], [0.5, 0.03], [1, 0], [0.5, -0.03]];
 
 describe('renderSection hinge marker', () => {
   it('draws a ring at the flap hinge only when there is one', () => {
@@ -32,6 +33,6 @@ describe('renderPresence', () => {
     const list = renderPresence([{ key: 'c2', name: 'Priya Vance', colour: '#ffc914', cursor: null, selection: [] }], DIAMOND, VIEW, { kind: 'facet', id: 2 }, null);
     expect(list.texts).toEqual([]);
     expect(list.paths).toHaveLength(1);
-    expect(list.paths[0].points).toEqual([...toScreen(VIEW, DIAMOND[2]), ...toScreen(VIEW, DIAMOND[3])]);
+    expect(itemAt(list.paths, 0).points).toEqual([...toScreen(VIEW, DIAMOND[2]), ...toScreen(VIEW, DIAMOND[3])]);
   });
 });

@@ -23,6 +23,7 @@ import { generateSection } from '@shared/model/templates';
 import { facetTooltip, waveTooltip } from '@/canvas/tooltips';
 import { toScreen } from '@/canvas/view';
 import { expectClose } from '../../helpers/expectClose';
+import { itemAt } from '@shared/util/invariant';
 
 function solve(points: Point[], mach: number, alphaDeg: number) {
   const parsed = parseSolveInput({ section: { points }, flow: { mach, alphaDeg } });
@@ -89,7 +90,7 @@ describe('wave map renderer', () => {
     const list = renderWaves(result, view, DEFAULT_LAYERS, domain);
     const dashed = list.paths.filter((p) => p.dash);
     expect(dashed).toHaveLength(result.waves.filter((w) => w.kind === 'slip').length);
-    expect(dashed[0].dash).toEqual(SLIP_DASH_PX);
+    expect(itemAt(dashed, 0).dash).toEqual(SLIP_DASH_PX);
   });
 
   it('fan rays closer than FAN_RAY_GAP_PX to a drawn ray of their stream (start within it, end within it of its line) are left out; zoomed in, nearly every ray is drawn', () => {
@@ -171,7 +172,7 @@ describe('section renderer', () => {
     expect(facetPressures(result, 5)).toBeNull();
     const list = renderSection(five, result, view, DEFAULT_LAYERS, resultDomain(result), { ...sectionOptions, selection: [2] });
     expect(list.paths.filter((p) => p.width === FACET_CP_WIDTH_PX)).toHaveLength(0);
-    expect(list.dots[2].radius).toBeGreaterThan(list.dots[1].radius);
+    expect(itemAt(list.dots, 2).radius).toBeGreaterThan(itemAt(list.dots, 1).radius);
   });
 });
 
@@ -180,10 +181,10 @@ describe('limits and tooltips', () => {
     const result = solve([[0, 0], [0.5, 0.06], [1, 0], [0.5, -0.06]], 1.4, 5);
     const { marks, labels } = renderLimits(result, view, size);
     expect(marks.dots).toHaveLength(result.limits.length);
-    expect([marks.dots[0].x, marks.dots[0].y]).toEqual(toScreen(view, result.limits[0].at));
-    expect(labels[0].title).toBe('detached at vertex 0, lower surface');
-    expect(labels[0].numbers).toMatch(/^θ 11\.8°, θmax 9\.4°$/);
-    expect(labels[0].sentence).toBe(result.limits[0].message);
+    expect([itemAt(marks.dots, 0).x, itemAt(marks.dots, 0).y]).toEqual(toScreen(view, itemAt(result.limits, 0).at));
+    expect(itemAt(labels, 0).title).toBe('detached at vertex 0, lower surface');
+    expect(itemAt(labels, 0).numbers).toMatch(/^θ 11\.8°, θmax 9\.4°$/);
+    expect(itemAt(labels, 0).sentence).toBe(itemAt(result.limits, 0).message);
     for (const l of labels) {
       expect(l.x).toBeGreaterThanOrEqual(0);
       expect(l.y).toBeGreaterThanOrEqual(0);

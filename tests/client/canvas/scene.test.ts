@@ -12,6 +12,7 @@ import { FAN_RAY_GAP_DRAG_PX, WAVE_WIDTH_PX, renderWaves, resultDomain } from '@
 import { sceneLists, type SceneContent, type SceneState } from '@/canvas/scenePainter';
 import { generateSection } from '@shared/model/templates';
 import { toScreen } from '@/canvas/view';
+import { firstItems, itemAt } from '@shared/util/invariant';
 
 function solve(points: Point[], mach: number, alphaDeg: number) {
   const parsed = parseSolveInput({ section: { points }, flow: { mach, alphaDeg } });
@@ -19,7 +20,7 @@ function solve(points: Point[], mach: number, alphaDeg: number) {
   return solveSection(parsed.value);
 }
 
-const wedge: Point[] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
+const wedge: [Point, Point, Point, Point] = [[0, 0], [0.5, 0.025], [1, 0], [0.5, -0.025]];
 const state: SceneState = {
   size: { width: 900, height: 500 },
   pixelRatio: 1,
@@ -62,10 +63,10 @@ describe('scene painter', () => {
   it('[DR1] the scene is grid, wave map, section and marks, with the waves stroked unordered', () => {
     const result = solve(wedge, 2, 2);
     const lists = sceneLists(state, { points: wedge, result, solvedPoints: wedge, hinge: null, invalid: false });
-    expect(lists[1].unordered).toBe(true);
-    expect(lists[1].paths.length).toBeGreaterThan(0);
+    expect(itemAt(lists, 1).unordered).toBe(true);
+    expect(itemAt(lists, 1).paths.length).toBeGreaterThan(0);
     // The section's vertex dots sit on the content's points.
-    expect(lists[2].dots.map((d) => [d.x, d.y])).toEqual(wedge.map((p) => toScreen(state.view, p)));
+    expect(itemAt(lists, 2).dots.map((d) => [d.x, d.y])).toEqual(wedge.map((p) => toScreen(state.view, p)));
   });
 
   it('[DR1] the readout is named by vertex and sits beside that vertex of the solved section', () => {
@@ -75,8 +76,8 @@ describe('scene painter', () => {
     const readout = lists.at(-1)!;
     expect(readout.texts!.map((t) => t.text)).toEqual(['t/c 5.00 %   ridge x/c 0.500', 'x 0.5000   y 0.0250']);
     const [vx, vy] = toScreen(state.view, wedge[1]);
-    expect(readout.paths[0].points[0]).toBeGreaterThan(vx);
-    expect(readout.paths[0].points[1]).toBeLessThan(vy);
+    expect(itemAt(readout.paths, 0).points[0]).toBeGreaterThan(vx);
+    expect(itemAt(readout.paths, 0).points[1]).toBeLessThan(vy);
     // A vertex index beyond the section (a stale mark) draws nothing.
     expect(sceneLists({ ...state, readoutVertex: 9 }, content)).toHaveLength(lists.length - 1);
   });
@@ -85,18 +86,21 @@ describe('scene painter', () => {
     const { result, content } = bench200();
     const full = sceneLists(state, content);
     const drag = sceneLists(state, content, 'drag');
-    expect(full[1].image!.rowHeight).toBe(FIELD_ROW_PX);
-    expect(drag[1].image!.rowHeight).toBe(FIELD_ROW_DRAG_PX);
-    expect(drag[1].image!.rows).toBe(Math.ceil(full[1].image!.rows * (FIELD_ROW_PX / FIELD_ROW_DRAG_PX)));
+    // Grid, wave map, section (then the marks).
+    const [fullGrid, fullWaves, fullSection] = firstItems(full, 3);
+    const [dragGrid, dragWaves, dragSection] = firstItems(drag, 3);
+    expect(fullWaves.image!.rowHeight).toBe(FIELD_ROW_PX);
+    expect(dragWaves.image!.rowHeight).toBe(FIELD_ROW_DRAG_PX);
+    expect(dragWaves.image!.rows).toBe(Math.ceil(fullWaves.image!.rows * (FIELD_ROW_PX / FIELD_ROW_DRAG_PX)));
     const rays = (list: DrawList) => list.paths.filter((p) => p.width === WAVE_WIDTH_PX.fan);
-    expect(rays(drag[1]).length).toBeLessThan(rays(full[1]).length);
-    expect(drag[1].paths.filter((p) => p.width !== WAVE_WIDTH_PX.fan)).toEqual(full[1].paths.filter((p) => p.width !== WAVE_WIDTH_PX.fan));
-    expect(drag[0]).toEqual(full[0]);
+    expect(rays(dragWaves).length).toBeLessThan(rays(fullWaves).length);
+    expect(dragWaves.paths.filter((p) => p.width !== WAVE_WIDTH_PX.fan)).toEqual(fullWaves.paths.filter((p) => p.width !== WAVE_WIDTH_PX.fan));
+    expect(dragGrid).toEqual(fullGrid);
     // The section's outline and fill, the tool marks and the limit rings as in full ([DR7] for the rest).
-    expect(drag[2].paths[0]).toEqual(full[2].paths[0]);
+    expect(dragSection.paths[0]).toEqual(fullSection.paths[0]);
     expect(drag.slice(3)).toEqual(full.slice(3));
     // The drag's rays are those a full paint draws with the wider gap.
-    expect(rays(drag[1])).toEqual(rays(renderWaves(result, state.view, DEFAULT_LAYERS, resultDomain(result), FAN_RAY_GAP_DRAG_PX)));
+    expect(rays(dragWaves)).toEqual(rays(renderWaves(result, state.view, DEFAULT_LAYERS, resultDomain(result), FAN_RAY_GAP_DRAG_PX)));
   });
 
   it('[DR7] a drag leaves out the meeting marks, thins the vertex dots (the dragged vertex, its neighbours and the selection always drawn) and shades Cp in runs of one colour', () => {
@@ -105,19 +109,21 @@ describe('scene painter', () => {
     const moving: SceneState = { ...state, selection: [dragged, 120], readoutVertex: dragged, hoverVertex: 7 };
     const full = sceneLists(moving, content);
     const drag = sceneLists(moving, content, 'drag');
+    const [, fullWaves, fullSection] = firstItems(full, 3);
+    const [, dragWaves, dragSection] = firstItems(drag, 3);
     // Meeting marks: there at rest, none while moving.
-    expect(full[1].dots.length).toBeGreaterThan(100);
-    expect(drag[1].dots).toEqual([]);
+    expect(fullWaves.dots.length).toBeGreaterThan(100);
+    expect(dragWaves.dots).toEqual([]);
     // Vertex dots: every dot drawn is one of the full paint's, fewer of them, none crowding the last one drawn.
     const at = (d: { x: number; y: number }) => `${d.x},${d.y}`;
-    const fullDots = new Map(full[2].dots.map((d) => [at(d), d]));
-    expect(drag[2].dots.length).toBeLessThan(full[2].dots.length / 2);
-    for (const d of drag[2].dots) expect(fullDots.get(at(d))).toEqual(d);
-    const kept = new Set([dragged - 1, dragged, dragged + 1, 120, 7].map((i) => at(full[2].dots[i])));
-    for (const k of kept) expect(drag[2].dots.map(at)).toContain(k);
+    const fullDots = new Map(fullSection.dots.map((d) => [at(d), d]));
+    expect(dragSection.dots.length).toBeLessThan(fullSection.dots.length / 2);
+    for (const d of dragSection.dots) expect(fullDots.get(at(d))).toEqual(d);
+    const kept = new Set([dragged - 1, dragged, dragged + 1, 120, 7].map((i) => at(itemAt(fullSection.dots, i))));
+    for (const k of kept) expect(dragSection.dots.map(at)).toContain(k);
     let checked = 0;
-    drag[2].dots.forEach((d, i) => {
-      const before = drag[2].dots[i - 1];
+    dragSection.dots.forEach((d, i) => {
+      const before = dragSection.dots[i - 1];
       if (!before || kept.has(at(d))) return;
       expect(Math.hypot(d.x - before.x, d.y - before.y)).toBeGreaterThanOrEqual(VERTEX_GAP_DRAG_PX);
       checked++;
@@ -132,11 +138,11 @@ describe('scene painter', () => {
     });
     const pressures = facetPressures(content.result, content.points.length)!;
     const domain = resultDomain(content.result);
-    const dragFacets = segments(drag[2].paths);
-    expect(dragFacets.map((f) => f.at)).toEqual(segments(full[2].paths).map((f) => f.at));
+    const dragFacets = segments(dragSection.paths);
+    expect(dragFacets.map((f) => f.at)).toEqual(segments(fullSection.paths).map((f) => f.at));
     expect(dragFacets.map((f) => f.colour)).toEqual(pressures.map((p) => pressureColourAt(Math.round(pressureT(p!, domain) * CP_DRAG_STEPS) / CP_DRAG_STEPS)));
     expect(new Set(dragFacets.map((f) => f.colour)).size).toBeLessThanOrEqual(CP_DRAG_STEPS + 1);
-    const runs = drag[2].paths.filter((p) => p.width === FACET_CP_WIDTH_PX);
+    const runs = dragSection.paths.filter((p) => p.width === FACET_CP_WIDTH_PX);
     expect(runs.length).toBeLessThan(content.points.length / 4);
   });
 
@@ -146,9 +152,9 @@ describe('scene painter', () => {
     const held = { min: own.min * 1.5, max: own.max / 1.5 };
     const drag = sceneLists(state, content, 'drag', held);
     // (The next field drawn reuses the picture's buffer: keep a copy.)
-    const a = drag[1].image!.pixels.slice();
+    const a = itemAt(drag, 1).image!.pixels.slice();
     const ownDrag = sceneLists(state, content, 'drag');
-    const shocks = (lists: DrawList[]) => lists[1].paths.filter((p) => p.width === WAVE_WIDTH_PX.shock).map((p) => p.colour);
+    const shocks = (lists: DrawList[]) => itemAt(lists, 1).paths.filter((p) => p.width === WAVE_WIDTH_PX.shock).map((p) => p.colour);
     // The bow shocks' first segments, coloured by the pressure behind them on each range.
     const bow = result.waves.filter((w) => w.kind === 'shock' && w.pRatioBehindAlong?.length);
     expect(bow.length).toBeGreaterThan(0);
@@ -159,10 +165,10 @@ describe('scene painter', () => {
     expect(shocks(drag)).not.toEqual(shocks(ownDrag));
     // The facets' Cp shading (a drag's CP_DRAG_STEPS colours) on the held range.
     const pressures = facetPressures(result, content.points.length)!;
-    const firstRun = drag[2].paths.find((p) => p.width === FACET_CP_WIDTH_PX)!;
+    const firstRun = itemAt(drag, 2).paths.find((p) => p.width === FACET_CP_WIDTH_PX)!;
     expect(firstRun.colour).toBe(pressureColourAt(Math.round(Math.min(1, Math.max(0, pressureT(pressures[0]!, held))) * CP_DRAG_STEPS) / CP_DRAG_STEPS));
     // The field picture: the same regions filled, in the held range's colours.
-    const b = ownDrag[1].image!.pixels;
+    const b = itemAt(ownDrag, 1).image!.pixels;
     let filled = 0;
     let differ = 0;
     for (let i = 3; i < a.length; i += 4) {
@@ -182,7 +188,7 @@ describe('scene painter', () => {
     const invalid = sceneLists(state, { points: crossing, result, solvedPoints: null, hinge: null, invalid: true });
     expect(withLimits).toHaveLength(5);
     expect(invalid).toHaveLength(4);
-    expect(invalid[1].paths.length).toBe(withLimits[1].paths.length);
+    expect(itemAt(invalid, 1).paths.length).toBe(itemAt(withLimits, 1).paths.length);
   });
 
   it('readoutLines: t/c and ridge of the shown section, then the vertex', () => {

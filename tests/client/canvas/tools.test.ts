@@ -9,6 +9,7 @@ import { deleteTool } from '@/canvas/tools/deleteTool';
 import { moveSectionTool } from '@/canvas/tools/moveSectionTool';
 import type { PointerInput, ToolContext, ToolEffect } from '@/canvas/tools/types';
 import { toScreen, type View } from '@/canvas/view';
+import { itemAt } from '@shared/util/invariant';
 
 /** 1000 px per chord, body origin at (100, 300): vertex (0.5, 0.025) is at screen (600, 275). */
 const view: View = { scale: 1000, originX: 100, originY: 300 };
@@ -26,6 +27,11 @@ function find<K extends ToolEffect['kind']>(effects: ToolEffect[], kind: K) {
   return effects.filter((e): e is Extract<ToolEffect, { kind: K }> => e.kind === kind);
 }
 
+/** The first effect of a kind; throws (naming the index and the count) when there is none. */
+function first<K extends ToolEffect['kind']>(effects: ToolEffect[], kind: K) {
+  return itemAt(find(effects, kind), 0);
+}
+
 describe('select tool', () => {
   it('click on a vertex selects it; click on empty space clears', () => {
     const down = selectTool.down(selectTool.initial(), ctx(), at([0.5, 0.025]));
@@ -39,9 +45,9 @@ describe('select tool', () => {
 
   it('shift-click adds and removes vertices', () => {
     const add = selectTool.down(selectTool.initial(), ctx({ selection: [1] }), at([1, 0], { shift: true }));
-    expect(find(add.effects, 'select')[0].indices).toEqual([1, 2]);
+    expect(first(add.effects, 'select').indices).toEqual([1, 2]);
     const remove = selectTool.down(selectTool.initial(), ctx({ selection: [1, 2] }), at([1, 0], { shift: true }));
-    expect(find(remove.effects, 'select')[0].indices).toEqual([1]);
+    expect(first(remove.effects, 'select').indices).toEqual([1]);
   });
 
   it('[K1] a drag previews every move and commits one moveVertices on release', () => {
@@ -53,16 +59,16 @@ describe('select tool', () => {
     for (const y of [0.03, 0.035, 0.04]) {
       const step = selectTool.move(s, c, at([0.5, y]));
       s = step.state;
-      previews.push(find(step.effects, 'preview')[0].points!);
+      previews.push(first(step.effects, 'preview').points!);
       expect(find(step.effects, 'commit')).toEqual([]);
     }
     const up = selectTool.up(s, c, at([0.5, 0.04]));
     // Assert
-    expect(previews.map((p) => p[1][1])).toEqual([0.03, 0.035, 0.04]);
+    expect(previews.map((p) => itemAt(p, 1)[1])).toEqual([0.03, 0.035, 0.04]);
     expect(find(up.effects, 'preview')).toEqual([{ kind: 'preview', points: null }]);
     const commits = find(up.effects, 'commit');
     expect(commits).toHaveLength(1);
-    expect(commits[0].op).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.04]] });
+    expect(itemAt(commits, 0).op).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.04]] });
   });
 
   it('a press that moves less than the drag threshold commits nothing', () => {
@@ -78,14 +84,16 @@ describe('select tool', () => {
     const m = selectTool.move(d.state, c, at([0.4132, 0.0368]));
     const u = selectTool.up(m.state, c, at([0.4132, 0.0368]));
     // Grabbed vertex 1 lands on (0.41, 0.04); vertex 3 keeps its offset (0, −0.05).
-    expect(find(u.effects, 'commit')[0].op).toEqual({ type: 'moveVertices', indices: [1, 3], to: [[0.41, 0.04], [0.41, -0.01]] });
+    expect(first(u.effects, 'commit').op).toEqual({ type: 'moveVertices', indices: [1, 3], to: [[0.41, 0.04], [0.41, -0.01]] });
   });
 
   it('angle snapping turns the dragged facet (from the previous vertex) to the step', () => {
     const c = ctx({ selection: [1], snap: { grid: false, stepX: 0.01, stepY: 0.01, angleStepDeg: 5 } });
     const d = selectTool.down(selectTool.initial(), c, at([0.5, 0.025]));
     const m = selectTool.move(d.state, c, at([0.5, 0.046]));
-    const p = find(m.effects, 'preview')[0].points![1];
+    const preview = first(m.effects, 'preview').points;
+    expect(preview).not.toBeNull();
+    const p = itemAt(preview ?? [], 1);
     const angle = (Math.atan2(p[1], p[0]) * 180) / Math.PI;
     expect(angle).toBeCloseTo(5, 9);
   });
@@ -93,25 +101,25 @@ describe('select tool', () => {
   it('a marquee selects the vertices inside it; with Shift it adds to the selection', () => {
     const d = selectTool.down(selectTool.initial(), ctx(), at([0.4, 0.1]));
     const m = selectTool.move(d.state, ctx(), at([1.1, -0.1]));
-    expect(find(m.effects, 'marquee')[0].rect).toEqual({ x0: 0.4, y0: 0.1, x1: 1.1, y1: -0.1 });
+    expect(first(m.effects, 'marquee').rect).toEqual({ x0: 0.4, y0: 0.1, x1: 1.1, y1: -0.1 });
     const u = selectTool.up(m.state, ctx(), at([1.1, -0.1]));
-    expect(find(u.effects, 'select')[0].indices).toEqual([1, 2, 3]);
+    expect(first(u.effects, 'select').indices).toEqual([1, 2, 3]);
     const d2 = selectTool.down(selectTool.initial(), ctx({ selection: [0] }), at([0.9, 0.1], { shift: true }));
     const m2 = selectTool.move(d2.state, ctx({ selection: [0] }), at([1.1, -0.1], { shift: true }));
     const u2 = selectTool.up(m2.state, ctx({ selection: [0] }), at([1.1, -0.1]));
-    expect(find(u2.effects, 'select')[0].indices).toEqual([0, 2]);
+    expect(first(u2.effects, 'select').indices).toEqual([0, 2]);
   });
 
   it('arrow keys nudge the selection by a grid step (Shift ×10), Delete removes it', () => {
     const c = ctx({ selection: [1], snap: { grid: true, stepX: 0.01, stepY: 0.01, angleStepDeg: 0 } });
     const up = selectTool.key(selectTool.initial(), c, { key: 'ArrowUp', shift: false, alt: false, ctrl: false });
-    expect(find(up!.effects, 'commit')[0].op).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.035]] });
+    expect(first(up!.effects, 'commit').op).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.035]] });
     const left = selectTool.key(selectTool.initial(), c, { key: 'ArrowLeft', shift: true, alt: false, ctrl: false });
-    expect(find(left!.effects, 'commit')[0].op).toEqual({ type: 'moveVertices', indices: [1], to: [[0.4, 0.025]] });
+    expect(first(left!.effects, 'commit').op).toEqual({ type: 'moveVertices', indices: [1], to: [[0.4, 0.025]] });
     const del = selectTool.key(selectTool.initial(), c, { key: 'Delete', shift: false, alt: false, ctrl: false });
-    expect(find(del!.effects, 'commit')[0].op).toEqual({ type: 'deleteVertex', index: 1 });
+    expect(first(del!.effects, 'commit').op).toEqual({ type: 'deleteVertex', index: 1 });
     const many = selectTool.key(selectTool.initial(), ctx({ selection: [1, 3] }), { key: 'Delete', shift: false, alt: false, ctrl: false });
-    expect(find(many!.effects, 'commit')[0].op).toEqual({ type: 'replaceSection', points: [[0, 0], [1, 0]] });
+    expect(first(many!.effects, 'commit').op).toEqual({ type: 'replaceSection', points: [[0, 0], [1, 0]] });
   });
 
   it('a drag shows the readout at the grabbed vertex and hides it on release', () => {
@@ -126,7 +134,7 @@ describe('select tool', () => {
   it('arrow keys move by the step of their axis: up by stepY, right by stepX; Alt ÷10, Shift ×10', () => {
     const c = ctx({ selection: [1], snap: { grid: true, stepX: 0.01, stepY: 0.001, angleStepDeg: 0 } });
     const key = (k: string, mods: { shift?: boolean; alt?: boolean } = {}) =>
-      find(selectTool.key(selectTool.initial(), c, { key: k, shift: !!mods.shift, alt: !!mods.alt, ctrl: false })!.effects, 'commit')[0].op;
+      first(selectTool.key(selectTool.initial(), c, { key: k, shift: !!mods.shift, alt: !!mods.alt, ctrl: false })!.effects, 'commit').op;
     expect(key('ArrowUp')).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.026]] });
     expect(key('ArrowRight')).toEqual({ type: 'moveVertices', indices: [1], to: [[0.51, 0.025]] });
     expect(key('ArrowDown', { alt: true })).toEqual({ type: 'moveVertices', indices: [1], to: [[0.5, 0.0249]] });
@@ -150,7 +158,7 @@ describe('draw tool', () => {
     expect(s.path).toEqual([[0, 0], [0.5, 0.1], [1, 0], [0.5, -0.1]]);
     const close = drawTool.down(s, c, at([0.001, 0.001]));
     expect(close.state.path).toEqual([]);
-    const op = find(close.effects, 'commit')[0].op;
+    const op = first(close.effects, 'commit').op;
     expect(op).toEqual({ type: 'replaceSection', points: [[0, 0], [0.5, 0.1], [1, 0], [0.5, -0.1]] });
     expect(applyOp(defaultSketchDocument(), withOpId(op)).ok).toBe(true);
   });
@@ -176,7 +184,7 @@ describe('draw tool stops after a polygon closes', () => {
     const closed = drawTool.down(s, ctx(), at([0, 0]));
     expect(find(closed.effects, 'commit')).toHaveLength(1);
     expect(find(closed.effects, 'tool')).toEqual([{ kind: 'tool', id: 'select' }]);
-    expect(find(closed.effects, 'hint')[0].text).toMatch(/3 vertices drawn; Select is on/);
+    expect(first(closed.effects, 'hint').text).toMatch(/3 vertices drawn; Select is on/);
     // The tool switch cancels the (now empty) draw tool: that keeps the hint.
     expect(drawTool.cancel(closed.state).effects).toEqual([]);
   });
@@ -188,14 +196,14 @@ describe('draw tool stops after a polygon closes', () => {
     expect(find(enter.effects, 'commit')).toEqual([]);
     expect(find(enter.effects, 'tool')).toEqual([]);
     expect(enter.state.path).toHaveLength(4);
-    expect(find(enter.effects, 'hint')[0].text).toMatch(/^Not closed: facet .* would cross/);
+    expect(first(enter.effects, 'hint').text).toMatch(/^Not closed: facet .* would cross/);
   });
 });
 
 describe('insert, delete and move-section tools', () => {
   it('insert puts a vertex on the clicked facet, right after its first vertex', () => {
     const step = insertTool.down(insertTool.initial(), ctx(), at([0.25, 0.0128]));
-    const commit = find(step.effects, 'commit')[0];
+    const commit = first(step.effects, 'commit');
     expect(commit.op.type).toBe('insertVertex');
     if (commit.op.type !== 'insertVertex') return;
     expect(commit.op.index).toBe(1);
@@ -205,7 +213,7 @@ describe('insert, delete and move-section tools', () => {
   });
 
   it('delete removes the clicked vertex and ignores empty space', () => {
-    expect(find(deleteTool.down(deleteTool.initial(), ctx(), at([1, 0])).effects, 'commit')[0].op).toEqual({ type: 'deleteVertex', index: 2 });
+    expect(first(deleteTool.down(deleteTool.initial(), ctx(), at([1, 0])).effects, 'commit').op).toEqual({ type: 'deleteVertex', index: 2 });
     expect(deleteTool.down(deleteTool.initial(), ctx(), at([2, 2])).effects).toEqual([]);
   });
 
@@ -213,8 +221,8 @@ describe('insert, delete and move-section tools', () => {
     const c = ctx({ snap: { grid: true, stepX: 0.1, stepY: 0.1, angleStepDeg: 0 } });
     const d = moveSectionTool.down(moveSectionTool.initial(), c, at([0.5, 0]));
     const m = moveSectionTool.move(d.state, c, at([0.73, 0.18]));
-    expect(find(m.effects, 'preview')[0].points![0]).toEqual([0.2, 0.2]);
+    expect(first(m.effects, 'preview').points![0]).toEqual([0.2, 0.2]);
     const u = moveSectionTool.up(m.state, c, at([0.73, 0.18]));
-    expect(find(u.effects, 'commit')[0].op).toEqual({ type: 'moveVertices', indices: [0, 1, 2, 3], to: [[0.2, 0.2], [0.7, 0.225], [1.2, 0.2], [0.7, 0.175]] });
+    expect(first(u.effects, 'commit').op).toEqual({ type: 'moveVertices', indices: [0, 1, 2, 3], to: [[0.2, 0.2], [0.7, 0.225], [1.2, 0.2], [0.7, 0.175]] });
   });
 });

@@ -5,7 +5,7 @@ import { solveSection } from '@shared/solver';
 import { CANVAS_BACKGROUND, contrastRatio } from '@/canvas/colors';
 import { distanceToSegment } from '@/canvas/geometry';
 import { describePinTarget, hitPinMarker, pinHead, pinTargetAt, PIN_STEM_PX, type PinMarker } from '@/canvas/pins';
-import { COMPARE_A, COMPARE_B, PIN_OPEN, PIN_RESOLVED, renderReview } from '@/canvas/renderReview';
+import { COMPARE_A, COMPARE_B, PIN_OPEN, PIN_RESOLVED, outlineOnto, renderReview } from '@/canvas/renderReview';
 import { toScreen } from '@/canvas/view';
 import { expectClose } from '../../helpers/expectClose';
 import { itemAt } from '@shared/util/invariant';
@@ -95,6 +95,15 @@ describe('pin markers', () => {
     expect(list.paths[1]).toMatchObject({ colour: COMPARE_B, closed: true, dash: undefined });
     expect(itemAt(list.paths, 1).points).toEqual(b.flatMap((p) => toScreen(view, p)));
     expect(list.texts!.map((t) => t.text)).toEqual(['A', 'B']);
+  });
+
+  it('an empty outline (a sketch with no section yet) is compared as drawn, not fitted', () => {
+    expect(outlineOnto([], wedge)).toEqual({ points: wedge, fitted: false });
+    expect(outlineOnto(wedge, [])).toEqual({ points: [], fitted: false });
+    const list = renderReview([], { a: [], b: wedge, labelA: 'A', labelB: 'B' }, view);
+    expect(list.paths).toHaveLength(2);
+    expect(itemAt(list.paths, 0).points).toEqual([]);
+    expect(list.texts!.map((t) => t.text)).toEqual(['B']);
   });
 
   it('[P3] pin and compare colours keep at least 3:1 contrast with the canvas background', () => {

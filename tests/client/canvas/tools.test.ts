@@ -225,4 +225,15 @@ describe('insert, delete and move-section tools', () => {
     const u = moveSectionTool.up(m.state, c, at([0.73, 0.18]));
     expect(first(u.effects, 'commit').op).toEqual({ type: 'moveVertices', indices: [0, 1, 2, 3], to: [[0.2, 0.2], [0.7, 0.225], [1.2, 0.2], [0.7, 0.175]] });
   });
+
+  it('move-section commits nothing when a colleague added or removed a vertex during the drag (the move was for another outline)', () => {
+    const c = ctx();
+    const d = moveSectionTool.down(moveSectionTool.initial(), c, at([0.5, 0]));
+    const m = moveSectionTool.move(d.state, c, at([0.7, 0.1]));
+    const fewer = moveSectionTool.up(m.state, ctx({ points: wedge.slice(0, 3) }), at([0.7, 0.1]));
+    expect(find(fewer.effects, 'commit')).toEqual([]);
+    expect(find(fewer.effects, 'preview')).toEqual([{ kind: 'preview', points: null }]);
+    const more = moveSectionTool.up(m.state, ctx({ points: [...wedge, [0.2, -0.01]] }), at([0.7, 0.1]));
+    expect(find(more.effects, 'commit')).toEqual([]);
+  });
 });

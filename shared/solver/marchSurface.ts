@@ -86,13 +86,16 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
   const tolPm = PRANDTL_MEYER_TOLERANCE_RAD;
 
   const wave: FacetWave[] = new Array(m);
-  const turn: number[] = new Array(m);
-  const mach: number[] = new Array(m);
-  const pRatio: number[] = new Array(m);
-  const p0Ratio: number[] = new Array(m);
-  const nu: number[] = new Array(m);
-  const beta: number[] = new Array(m);
-  const thetaMax: number[] = new Array(m);
+  // Copies of θ, every entry overwritten below: a copy of a list of numbers is born a list of
+  // numbers, where new Array(m) starts as a list of small integers and is converted (its
+  // storage allocated a second time) at the first fraction stored in it.
+  const turn: number[] = theta.slice();
+  const mach: number[] = theta.slice();
+  const pRatio: number[] = theta.slice();
+  const p0Ratio: number[] = theta.slice();
+  const nu: number[] = theta.slice();
+  const beta: number[] = theta.slice();
+  const thetaMax: number[] = theta.slice();
   let limit: SurfaceLimit | null = null;
 
   const zeroTurn = ZERO_TURN_RAD; // read once (an imported binding may be a getter call)
@@ -105,7 +108,10 @@ export function marchSurface(theta: readonly number[], machInf: number, gamma: n
     wave[k] = d > zeroTurn ? 'shock' : d < -zeroTurn ? 'fan' : k === 0 ? 'mach' : 'none';
   }
 
-  let mAhead = machInf;
+  // Number(…): the engine types a parameter as "anything", so a state variable started from it
+  // would be kept as a tagged value and every fan's Mach number boxed in a new heap number
+  // (a 16-byte allocation per facet); started from a number, it stays in a register.
+  let mAhead = Number(machInf);
   let sAhead = Math.sqrt((machInf - 1) * (machInf + 1)); // Mach parameter √(M²−1)
   let xAhead = 1 + halfG1 * machInf * machInf; // X = T0/T
   let pAhead = 1;

@@ -23,11 +23,22 @@ export interface MaxDeflection {
 export function maxDeflection(mach: number, gamma: number): MaxDeflection {
   if (!(mach > 1)) return { thetaMax: 0, betaAtMax: Math.PI / 2 };
   const u = cotBetaAtMaxDeflection(mach, gamma);
+  return { thetaMax: maxDeflectionAtCot(mach, gamma, u), betaAtMax: Math.atan2(1, u) };
+}
+
+/**
+ * θmax (radians) from u = cotBetaAtMaxDeflection(mach, gamma), for a caller that has u already
+ * (the trailing-edge matching needs both): tan θmax = 2u(A − u²)/(B u² + C), as in
+ * `maxDeflection` (which calls this). M > 1 only.
+ *
+ * Source: NACA Report 1135, oblique-shock relations (θ-β-M relation at maximum deflection).
+ */
+export function maxDeflectionAtCot(mach: number, gamma: number, u: number): number {
   const m2 = mach * mach;
   const a = m2 - 1;
   const b = (gamma + 1) * m2 + 2;
   const c = (gamma - 1) * m2 + 2;
-  return { thetaMax: Math.atan((2 * u * (a - u * u)) / (b * u * u + c)), betaAtMax: Math.atan2(1, u) };
+  return Math.atan((2 * u * (a - u * u)) / (b * u * u + c));
 }
 
 /**

@@ -261,6 +261,34 @@ describe('matchTrailingEdge', () => {
     checked.expectAtLeast(250); // about 94 % of these stream pairs match
   });
 
+  it('matchTrailingEdge finds the slip direction to TAIL_ROOT_TOLERANCE_RAD: the pressure mismatch of the textbook relations changes sign across slip ± 1e-13 (independent)', () => {
+    const checked = reached('matched trailing edges');
+    // ln(p_u/p_l) of the two streams turned to the direction δ, by the plain relations.
+    const mismatch = (up: { mach: number; pRatio: number; direction: number }, lo: { mach: number; direction: number }, delta: number) =>
+      Math.log(up.pRatio * turnState(up.mach, delta - up.direction, 1.4).pRatio) - Math.log(turnState(lo.mach, lo.direction - delta, 1.4).pRatio);
+    fc.assert(
+      fc.property(
+        fc.double({ min: 1.3, max: 6, noNaN: true }),
+        fc.double({ min: 1.3, max: 6, noNaN: true }),
+        fc.double({ min: 0.3, max: 3, noNaN: true }),
+        fc.double({ min: -0.15, max: 0.05, noNaN: true }),
+        fc.double({ min: -0.05, max: 0.15, noNaN: true }),
+        (mu, ml, pr, du, dl) => {
+          const up = { mach: mu, pRatio: pr, direction: du };
+          const lo = { mach: ml, pRatio: 1, direction: dl };
+          const r = matchTrailingEdge(up, lo, 1.4);
+          if (r.status !== 'matched') return;
+          checked.hit();
+          // ln p_u rises and ln p_l falls with δ: the root lies where the mismatch turns positive.
+          expect(mismatch(up, lo, r.slip - 1e-13)).toBeLessThan(0);
+          expect(mismatch(up, lo, r.slip + 1e-13)).toBeGreaterThan(0);
+        },
+      ),
+      { numRuns: 200 },
+    );
+    checked.expectAtLeast(160);
+  });
+
   it('matchTrailingEdge with mirror-image streams puts the slip line on the bisector, with equal shocks', () => {
     const r = matchTrailingEdge({ mach: 2.2, pRatio: 0.7, direction: -0.1 }, { mach: 2.2, pRatio: 0.7, direction: 0.1 }, 1.4);
     if (r.status !== 'matched') throw new Error('unmatched');

@@ -69,9 +69,11 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
   let minY = first[1];
   let maxY = first[1];
   let noseIndex = 0;
-  let nose: XY = first;
+  let noseX = first[0];
+  let noseY = first[1];
   let tailIndex = 0;
-  let tail: XY = first;
+  let tailX = first[0];
+  let tailY = first[1];
   for (let i = 1; i < n; i++) {
     const p = present(points[i], i, points);
     const x = p[0];
@@ -80,13 +82,15 @@ export function splitSurfaces(points: readonly XY[]): SplitSection {
     if (x > maxX) maxX = x;
     if (y < minY) minY = y;
     if (y > maxY) maxY = y;
-    if (x < nose[0] || (x === nose[0] && y < nose[1])) {
+    if (x < noseX || (x === noseX && y < noseY)) {
       noseIndex = i;
-      nose = p;
+      noseX = x;
+      noseY = y;
     }
-    if (x > tail[0] || (x === tail[0] && y < tail[1])) {
+    if (x > tailX || (x === tailX && y < tailY)) {
       tailIndex = i;
-      tail = p;
+      tailX = x;
+      tailY = y;
     }
   }
   const chord = maxX - minX;
@@ -190,7 +194,6 @@ function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1):
   const n = points.length;
   const m = step === 1 ? (tail - nose + n) % n : (nose - tail + n) % n; // facet count
   const vertices: number[] = new Array(m + 1);
-  const edges: number[] = new Array(m);
   const xs: number[] = new Array(m + 1);
   const ys: number[] = new Array(m + 1);
   const phi: number[] = new Array(m);
@@ -203,24 +206,38 @@ function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1):
   vertices[0] = i;
   xs[0] = x0;
   ys[0] = y0;
-  let pdx = 0;
-  let pdy = 0;
-  let angle = 0;
-  for (let k = 0; k < m; k++) {
-    let j = i + step;
-    if (j === n) j = 0;
-    else if (j < 0) j = n - 1;
-    // j stays in [0, n) by the wrap above; the hot loop reads the point itself (see present).
-    const p = present(points[j], j, points);
-    const x1 = p[0];
-    const y1 = p[1];
-    const dx = x1 - x0;
-    const dy = y1 - y0;
-    edges[k] = step === 1 ? i : j;
-    if (k === 0) {
-      angle = Math.atan2(dy, dx);
-      turn[0] = 0;
-    } else {
+  if (m === 0) return { vertices, edges: vertices.slice(0, 0), xs, ys, phi, turn, length };
+  // The first facet: its angle is atan2(dy, dx), its turn 0.
+  let i1 = i + step;
+  if (i1 === n) i1 = 0;
+  else if (i1 < 0) i1 = n - 1;
+  const second = present(points[i1], i1, points);
+  let pdx = second[0] - x0;
+  let pdy = second[1] - y0;
+  let angle = Math.atan2(pdy, pdx);
+  turn[0] = 0;
+  phi[0] = angle;
+  length[0] = Math.sqrt(pdx * pdx + pdy * pdy);
+  vertices[1] = i1;
+  xs[1] = second[0];
+  ys[1] = second[1];
+  i = i1;
+  x0 = second[0];
+  y0 = second[1];
+  // Each later facet adds the turn at its leading vertex. Two facets per pass, the same code
+  // written out twice: the engine checks each list's kind (its hidden class) again on every
+  // pass of a loop, so the second facet's six writes reuse the checks of the first's.
+  for (let k = 1; k < m; k += 2) {
+    {
+      let j = i + step;
+      if (j === n) j = 0;
+      else if (j < 0) j = n - 1;
+      // j stays in [0, n) by the wrap above; the hot loop reads the point itself (see present).
+      const p = present(points[j], j, points);
+      const x1 = p[0];
+      const y1 = p[1];
+      const dx = x1 - x0;
+      const dy = y1 - y0;
       const cross = pdx * dy - pdy * dx;
       const dot = pdx * dx + pdy * dy;
       const d = dot > 0 && cross <= 0.1 * dot && cross >= -0.1 * dot ? atanNearZero(cross / dot) : Math.atan2(cross, dot);
@@ -228,17 +245,48 @@ function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1):
       angle += d;
       if (angle > Math.PI) angle -= 2 * Math.PI;
       else if (angle <= -Math.PI) angle += 2 * Math.PI;
+      phi[k] = angle;
+      length[k] = Math.sqrt(dx * dx + dy * dy);
+      vertices[k + 1] = j;
+      xs[k + 1] = x1;
+      ys[k + 1] = y1;
+      i = j;
+      x0 = x1;
+      y0 = y1;
+      pdx = dx;
+      pdy = dy;
     }
-    phi[k] = angle;
-    length[k] = Math.sqrt(dx * dx + dy * dy);
-    vertices[k + 1] = j;
-    xs[k + 1] = x1;
-    ys[k + 1] = y1;
-    i = j;
-    x0 = x1;
-    y0 = y1;
-    pdx = dx;
-    pdy = dy;
+    if (k + 1 === m) break;
+    {
+      let j = i + step;
+      if (j === n) j = 0;
+      else if (j < 0) j = n - 1;
+      // j stays in [0, n) by the wrap above; the hot loop reads the point itself (see present).
+      const p = present(points[j], j, points);
+      const x1 = p[0];
+      const y1 = p[1];
+      const dx = x1 - x0;
+      const dy = y1 - y0;
+      const cross = pdx * dy - pdy * dx;
+      const dot = pdx * dx + pdy * dy;
+      const d = dot > 0 && cross <= 0.1 * dot && cross >= -0.1 * dot ? atanNearZero(cross / dot) : Math.atan2(cross, dot);
+      turn[k + 1] = d;
+      angle += d;
+      if (angle > Math.PI) angle -= 2 * Math.PI;
+      else if (angle <= -Math.PI) angle += 2 * Math.PI;
+      phi[k + 1] = angle;
+      length[k + 1] = Math.sqrt(dx * dx + dy * dy);
+      vertices[k + 2] = j;
+      xs[k + 2] = x1;
+      ys[k + 2] = y1;
+      i = j;
+      x0 = x1;
+      y0 = y1;
+      pdx = dx;
+      pdy = dy;
+    }
   }
+  // Facet k runs vertex k → k + 1: its input edge starts at the lower index of the two.
+  const edges = step === 1 ? vertices.slice(0, m) : vertices.slice(1);
   return { vertices, edges, xs, ys, phi, turn, length };
 }

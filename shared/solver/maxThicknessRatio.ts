@@ -27,13 +27,13 @@ export function maxThicknessRatio(upper: Pick<SurfaceChain, 'xs' | 'ys'>, lower:
   if (!(chord > 0)) return 0;
   const cx = ex / chord;
   const cy = ey / chord;
-  // The usual section: both chains run monotonically along the chord line. The chord-line
+  // The usual section: both chains run monotonically along the chord line. Each sweep checks
+  // its own chain as it walks it (NaN when it does not run monotonically); the chord-line
   // coordinates are computed where they are read (no copies, no closures: this runs in every
   // core solve).
-  if (monotone(upper, x0, y0, cx, cy) && monotone(lower, x0, y0, cx, cy)) {
-    const t = Math.max(sweep(upper, lower, 1, x0, y0, cx, cy), sweep(lower, upper, -1, x0, y0, cx, cy));
-    return Math.max(0, t) / chord;
-  }
+  const tUpper = sweep(upper, lower, 1, x0, y0, cx, cy);
+  const tLower = tUpper === tUpper ? sweep(lower, upper, -1, x0, y0, cx, cy) : NaN;
+  if (tUpper === tUpper && tLower === tLower) return Math.max(0, Math.max(tUpper, tLower)) / chord;
   return extentAtVertices(toChordAxes(upper, x0, y0, cx, cy), toChordAxes(lower, x0, y0, cx, cy)) / chord;
 }
 
@@ -51,22 +51,10 @@ function toChordAxes(c: Pick<SurfaceChain, 'xs' | 'ys'>, x0: number, y0: number,
   return { xs, ys };
 }
 
-/** Whether the chain's chord-line coordinate s never decreases nose → tail. */
-function monotone(c: Pick<SurfaceChain, 'xs' | 'ys'>, x0: number, y0: number, cx: number, cy: number): boolean {
-  const xs = c.xs;
-  const ys = c.ys;
-  let before = -Infinity;
-  for (let i = 0; i < xs.length; i++) {
-    const s = (present(xs[i], i, xs) - x0) * cx + (present(ys[i], i, ys) - y0) * cy;
-    if (s < before) return false;
-    before = s;
-  }
-  return true;
-}
-
 /**
  * max over a's vertices of sign·(n_a − n_b(s)), walking b alongside, both in chord-line axes
- * (computed here from body axes with the same arithmetic as `toChordAxes`).
+ * (computed here from body axes with the same arithmetic as `toChordAxes`); NaN when a's s
+ * decreases somewhere (the maximum is never NaN: it starts at −∞ and takes only larger values).
  */
 function sweep(
   a: Pick<SurfaceChain, 'xs' | 'ys'>,
@@ -94,10 +82,13 @@ function sweep(
   let by1 = present(bys[1], 1, bys) - oy;
   let s1 = bx1 * cx + by1 * cy;
   let n1 = -bx1 * cy + by1 * cx;
+  let before = -Infinity;
   for (let i = 0; i < axs.length; i++) {
     const ax = present(axs[i], i, axs) - ox;
     const ay = present(ays[i], i, ays) - oy;
     const x = ax * cx + ay * cy;
+    if (x < before) return NaN;
+    before = x;
     while (j < nb - 2 && s1 < x) {
       j++;
       s0 = s1;

@@ -224,67 +224,34 @@ function chain(points: readonly XY[], nose: number, tail: number, step: 1 | -1):
   i = i1;
   x0 = second[0];
   y0 = second[1];
-  // Each later facet adds the turn at its leading vertex. Two facets per pass, the same code
-  // written out twice: the engine checks each list's kind (its hidden class) again on every
-  // pass of a loop, so the second facet's six writes reuse the checks of the first's.
-  for (let k = 1; k < m; k += 2) {
-    {
-      let j = i + step;
-      if (j === n) j = 0;
-      else if (j < 0) j = n - 1;
-      // j stays in [0, n) by the wrap above; the hot loop reads the point itself (see present).
-      const p = present(points[j], j, points);
-      const x1 = p[0];
-      const y1 = p[1];
-      const dx = x1 - x0;
-      const dy = y1 - y0;
-      const cross = pdx * dy - pdy * dx;
-      const dot = pdx * dx + pdy * dy;
-      const d = dot > 0 && cross <= 0.1 * dot && cross >= -0.1 * dot ? atanNearZero(cross / dot) : Math.atan2(cross, dot);
-      turn[k] = d;
-      angle += d;
-      if (angle > Math.PI) angle -= 2 * Math.PI;
-      else if (angle <= -Math.PI) angle += 2 * Math.PI;
-      phi[k] = angle;
-      length[k] = Math.sqrt(dx * dx + dy * dy);
-      vertices[k + 1] = j;
-      xs[k + 1] = x1;
-      ys[k + 1] = y1;
-      i = j;
-      x0 = x1;
-      y0 = y1;
-      pdx = dx;
-      pdy = dy;
-    }
-    if (k + 1 === m) break;
-    {
-      let j = i + step;
-      if (j === n) j = 0;
-      else if (j < 0) j = n - 1;
-      // j stays in [0, n) by the wrap above; the hot loop reads the point itself (see present).
-      const p = present(points[j], j, points);
-      const x1 = p[0];
-      const y1 = p[1];
-      const dx = x1 - x0;
-      const dy = y1 - y0;
-      const cross = pdx * dy - pdy * dx;
-      const dot = pdx * dx + pdy * dy;
-      const d = dot > 0 && cross <= 0.1 * dot && cross >= -0.1 * dot ? atanNearZero(cross / dot) : Math.atan2(cross, dot);
-      turn[k + 1] = d;
-      angle += d;
-      if (angle > Math.PI) angle -= 2 * Math.PI;
-      else if (angle <= -Math.PI) angle += 2 * Math.PI;
-      phi[k + 1] = angle;
-      length[k + 1] = Math.sqrt(dx * dx + dy * dy);
-      vertices[k + 2] = j;
-      xs[k + 2] = x1;
-      ys[k + 2] = y1;
-      i = j;
-      x0 = x1;
-      y0 = y1;
-      pdx = dx;
-      pdy = dy;
-    }
+  // Each later facet adds the turn at its leading vertex.
+  for (let k = 1; k < m; k++) {
+    let j = i + step;
+    if (j === n) j = 0;
+    else if (j < 0) j = n - 1;
+    // j stays in [0, n) by the wrap above; the hot loop reads the point itself (see present).
+    const p = present(points[j], j, points);
+    const x1 = p[0];
+    const y1 = p[1];
+    const dx = x1 - x0;
+    const dy = y1 - y0;
+    const cross = pdx * dy - pdy * dx;
+    const dot = pdx * dx + pdy * dy;
+    const d = dot > 0 && cross <= 0.1 * dot && cross >= -0.1 * dot ? atanNearZero(cross / dot) : Math.atan2(cross, dot);
+    turn[k] = d;
+    angle += d;
+    if (angle > Math.PI) angle -= 2 * Math.PI;
+    else if (angle <= -Math.PI) angle += 2 * Math.PI;
+    phi[k] = angle;
+    length[k] = Math.sqrt(dx * dx + dy * dy);
+    vertices[k + 1] = j;
+    xs[k + 1] = x1;
+    ys[k + 1] = y1;
+    i = j;
+    x0 = x1;
+    y0 = y1;
+    pdx = dx;
+    pdy = dy;
   }
   // Facet k runs vertex k → k + 1: its input edge starts at the lower index of the two.
   const edges = step === 1 ? vertices.slice(0, m) : vertices.slice(1);

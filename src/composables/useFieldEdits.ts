@@ -152,14 +152,19 @@ export function useFieldEdits<T>(spec: FieldEditSpec<T>) {
       touch();
       return 'refused';
     }
-    restart(s, options.stayOpen);
+    restart(s, options.stayOpen, true);
     return 'sent';
   }
 
-  function restart(s: FieldSession<T>, stayOpen: boolean | undefined) {
+  /**
+   * `sent`: the person's own value just went in. `read` may still give the value from before it
+   * (a component reads its document prop, which follows at the parent's next render), so the
+   * change that arrives after the restart is theirs: it must not be credited to anyone [F2].
+   */
+  function restart(s: FieldSession<T>, stayOpen: boolean | undefined, sent = false) {
     if (stayOpen) {
       const base = spec.read(s.key);
-      Object.assign(s, { base, draft: base, touched: false, conflict: null, changedBy: null, error: null, lastBy: undefined });
+      Object.assign(s, { base, draft: base, touched: false, conflict: null, changedBy: null, error: null, lastBy: sent ? null : undefined });
       touch();
     } else drop(s.key);
   }

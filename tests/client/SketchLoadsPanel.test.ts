@@ -95,6 +95,33 @@ describe('SketchLoadsPanel', () => {
     w.unmount();
   });
 
+  it('[F4] a chord beyond the schema\'s range (0 < chord ≤ 1000 m, shared/model/sketch.ts) is refused with the limit in the person\'s unit, never clamped', async () => {
+    const apply = vi.fn((_op: SketchOpDraft): ApplyOpResult => ({ ok: true, doc: FIN }));
+    const w = mountPanel({ apply });
+    await flushPromises();
+    const chord = w.get('[data-testid="loads-chord"]');
+    await chord.trigger('focus');
+    await chord.setValue('1e30');
+    await chord.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    expect(text(w, 'loads-error-chord')).toBe('Chord must be at most 1000 m.');
+    expect(Number((chord.element as HTMLInputElement).value)).toBe(1e30);
+    await chord.setValue('-1');
+    await chord.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    expect(text(w, 'loads-error-chord')).toBe('Chord must be a positive length.');
+    // In US units the limit is said in feet: 1000 m / 0.3048 m per ft = 3280.839… ft (exact factor), said as 3280.83 so it stays within 1000 m.
+    usePreferencesStore().unitSystem = 'us';
+    await flushPromises();
+    const span = w.get('[data-testid="loads-span"]');
+    await span.trigger('focus');
+    await span.setValue('5000');
+    await span.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    expect(text(w, 'loads-error-span')).toBe('Span must be at most 3280.83 ft.');
+    w.unmount();
+  });
+
   it('[F3] a colleague’s span under the typing is a conflict, not overwritten; Keep mine sends exactly the span', async () => {
     const listeners = new Set<(e: FieldChangeEvent) => void>();
     const feed: FieldChangeFeed = (l) => {

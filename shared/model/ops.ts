@@ -13,6 +13,7 @@ import {
   flapDeflectionDegSchema,
   flapSchema,
   loadsSettingsSchema,
+  MAX_SECTION_COORDINATE,
   MAX_SECTION_VERTICES,
   MAX_DESIGN_POINTS,
   pointSchema,
@@ -567,11 +568,25 @@ export function explainSectionProblem(points: readonly Point[], changedEdges?: r
   return null;
 }
 
+/** The first coordinate beyond ±MAX_SECTION_COORDINATE among `vertices` (default: all), said; null when none. */
+function farCoordinate(points: readonly Point[], vertices?: readonly number[]): string | null {
+  const indices = vertices ?? points.map((_, i) => i);
+  for (const i of indices) {
+    const p = points[i];
+    if (!p) continue;
+    const axis = Math.abs(p[0]) > MAX_SECTION_COORDINATE ? 'x' : Math.abs(p[1]) > MAX_SECTION_COORDINATE ? 'y' : null;
+    if (axis) return `vertex ${i}’s ${axis} would be beyond ±${MAX_SECTION_COORDINATE.toExponential().replace('e+', 'e')}, the range a section’s coordinates may take`;
+  }
+  return null;
+}
+
 /**
  * `changedEdges`: the edges of `points` the op changed; given, only they are tested for
  * crossings, which is exact because the document an op applies to is valid [O2].
  */
 function withSection(doc: SketchDocument, points: Point[], what: string, check = true, changedEdges?: readonly number[], changedVertices?: readonly number[]): ApplyOpResult {
+  const far = check ? farCoordinate(points, changedVertices) : null;
+  if (far) return { ok: false, reason: `${what} is not allowed: ${far}.` };
   const problem = check ? explainSectionProblem(points, changedEdges, changedVertices && { vertices: changedVertices, previous: doc.section.points }) : null;
   if (problem) return { ok: false, reason: `${what} is not allowed: ${problem}. The section must stay a simple polygon.` };
   return { ok: true, doc: { ...doc, section: { ...doc.section, points } } };

@@ -71,6 +71,12 @@ export type LoadsSettings = z.infer<typeof loadsSettingsSchema>;
  * Documents, ops, coordinates files, the solve input and socket selections all use this one.
  */
 export const MAX_SECTION_VERTICES = 2000;
+/**
+ * Largest coordinate (either axis, either sign) an edit may give a vertex: far beyond a unit
+ * chord or a section kept in metres (loads chord ≤ 1000 m), and well inside what the repeat
+ * and crossing checks resolve (they scale with the section's size).
+ */
+export const MAX_SECTION_COORDINATE = 1e6;
 export const MIN_SECTION_VERTICES = 3;
 
 /** The vertices of a section (3 to MAX_SECTION_VERTICES points). */

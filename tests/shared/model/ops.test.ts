@@ -219,6 +219,17 @@ describe('single-field ops [O5]', () => {
     expect(onTop).toEqual({ ok: false, reason: 'Setting vertex 1’s y to -0.025 is not allowed: vertex 3 would sit exactly on vertex 1. The section must stay a simple polygon.' });
   });
 
+  it('a coordinate beyond the range a section takes (±1e6) is refused for that reason, not as a repeated vertex', () => {
+    // 1e12 stretches the section so far that its other vertices fall within the repeat tolerance
+    // (1e-9 of its size) of each other: the true reason is the coordinate itself.
+    const far = applyOp(doc(), withOpId({ type: 'setVertexCoordinate', index: 2, axis: 'x', value: 1e12 }));
+    expect(far).toEqual({ ok: false, reason: 'Setting vertex 2’s x to 1000000000000 is not allowed: vertex 2’s x would be beyond ±1e6, the range a section’s coordinates may take.' });
+    const low = applyOp(doc(), withOpId({ type: 'insertVertex', index: 1, at: [0.2, -2e6] }));
+    expect(low).toEqual({ ok: false, reason: 'A vertex there is not allowed: vertex 1’s y would be beyond ±1e6, the range a section’s coordinates may take.' });
+    // The edge of the range is still a section (a 1000 m chord kept in metres is far inside it).
+    expect(applied(doc(), withOpId({ type: 'setVertexCoordinate', index: 2, axis: 'x', value: 1e6 })).section.points[2]).toEqual([1e6, 0]);
+  });
+
   it('setField changes one field of the flap, the moment point or the loads and validates the record', () => {
     const flapped = applied(doc(), withOpId({ type: 'setFlap', flap: { hingeXOverC: 0.7 } }));
     expect(applied(flapped, withOpId({ type: 'setField', field: 'flap.hingeXOverC', value: 0.65 })).flap).toEqual({ hingeXOverC: 0.65 });

@@ -11,12 +11,16 @@ import { textSchema } from './text.ts';
 export const pointSchema = z.tuple([z.number().finite(), z.number().finite()]);
 export type Point = z.infer<typeof pointSchema>;
 
+/** Altitudes the standard atmosphere covers (geometric, m). */
+export const ALTITUDE_MIN_M = 0;
+export const ALTITUDE_MAX_M = 86_000;
+
 export const conditionSchema = z.strictObject({
   mach: z.number({ error: 'must be a number' }).gt(1, 'must be above 1 (supersonic)').lte(50, 'must be at most 50'),
   alphaDeg: z.number({ error: 'must be a number' }).gt(-90, 'must be above −90°').lt(90, 'must be below 90°'),
   gamma: z.number({ error: 'must be a number' }).gt(1, 'must be above 1').lte(5 / 3, 'must be at most 5/3').default(1.4),
   /** Geometric altitude for dimensional loads and friction (U.S. Standard Atmosphere 1976). */
-  altitudeM: z.number().min(0, 'must be at least 0 m').max(86_000, 'must be at most 86 km').nullable().default(null),
+  altitudeM: z.number().min(ALTITUDE_MIN_M, 'must be at least 0 m').max(ALTITUDE_MAX_M, 'must be at most 86 km').nullable().default(null),
 });
 export type Condition = z.infer<typeof conditionSchema>;
 

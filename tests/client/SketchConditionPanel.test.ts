@@ -31,6 +31,26 @@ describe('SketchConditionPanel altitude units', () => {
     expect(apply).toHaveBeenCalledWith({ type: 'setCondition', pointId: DOC.selectedPointId, field: 'altitudeM', value: 6096 });
     w.unmount();
   });
+
+  it('[F4] an altitude outside 0…86 km (conditionSchema) is refused in the person\'s unit: feet for a US-customary user', async () => {
+    setActivePinia(createPinia());
+    usePreferencesStore().unitSystem = 'us';
+    const apply = vi.fn((_op: SketchOpDraft) => ({ ok: true as const, doc: DOC }));
+    const w = mount(SketchConditionPanel, { props: { document: DOC, readOnly: false, apply }, attachTo: document.body });
+    await flushPromises();
+    const input = w.get('input#condition-altitudeM');
+    await input.trigger('focus');
+    await input.setValue('-5000');
+    await input.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    expect(w.get('[data-testid="condition-error-altitudeM"]').text()).toBe('Altitude must be at least 0 ft.');
+    // 86 km / 0.3048 m per ft = 282 152.2 ft (exact factor), said in whole feet within the limit.
+    await input.setValue('300000');
+    await input.trigger('blur');
+    expect(apply).not.toHaveBeenCalled();
+    expect(w.get('[data-testid="condition-error-altitudeM"]').text()).toBe('Altitude must be at most 282152 ft.');
+    w.unmount();
+  });
 });
 
 describe('SketchConditionPanel: fields are edit sessions', () => {

@@ -17,12 +17,12 @@ export const requireUser: RequestHandler = (req, _res, next) => {
 };
 
 /**
- * Checks that `userId` holds at least `needed` in `teamId`. A non-member gets 404 (the team's
- * existence is not revealed); a member with too small a role gets 403 naming the role needed.
+ * Checks that `userId` holds at least `needed` in `teamId`. A non-member gets 404 with `notMember`
+ * (the team's existence is not revealed); a member with too small a role gets 403 naming the role needed.
  */
-export async function assertTeamRole(db: Db, userId: string, teamId: string, needed: Role, what = 'do this'): Promise<Role> {
+export async function assertTeamRole(db: Db, userId: string, teamId: string, needed: Role, what = 'do this', notMember = 'No such team, or you are not a member of it.'): Promise<Role> {
   const role = await findRole(db, userId, teamId);
-  if (!role) throw new HttpError(404, 'not_found', 'No such team, or you are not a member of it.');
+  if (!role) throw new HttpError(404, 'not_found', notMember);
   if (!roleAtLeast(role, needed)) {
     throw new HttpError(403, 'forbidden', `You need the ${needed} role (or higher) to ${what}; your role in this team is ${role}. A team owner can change roles.`, { needed, role });
   }

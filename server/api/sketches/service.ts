@@ -12,11 +12,14 @@ import * as repo from './repository.ts';
 import type { AppContext } from '../../context.ts';
 import { readStoredAnalysis } from '../../../shared/flight/storedAnalysis.ts';
 
-/** Role check for a sketch: looks up its team first (404 when it does not exist). */
+/** What a non-member hears about a sketch: the same whether it exists or not (as the realtime channel says). */
+const NO_SUCH_SKETCH = 'No such sketch, or you are not a member of its team.';
+
+/** Role check for a sketch: looks up its team first (404 when it does not exist or the caller is not a member). */
 export async function authorizeSketch(db: Db, userId: string, sketchId: string, needed: Role, what: string): Promise<{ teamId: string; role: Role }> {
   const teamId = await repo.findSketchTeam(db, sketchId);
-  if (!teamId) throw new HttpError(404, 'not_found', 'No such sketch.');
-  const role = await assertTeamRole(db, userId, teamId, needed, what);
+  if (!teamId) throw new HttpError(404, 'not_found', NO_SUCH_SKETCH);
+  const role = await assertTeamRole(db, userId, teamId, needed, what, NO_SUCH_SKETCH);
   return { teamId, role };
 }
 

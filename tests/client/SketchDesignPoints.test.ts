@@ -116,6 +116,24 @@ describe('SketchDesignPoints', () => {
     w.unmount();
   });
 
+  it('an empty name is refused plainly, as the sketch title is, and the old name stays shown [F4]', async () => {
+    const { w, apply } = setup();
+    await w.get('[data-testid="design-point-rename"]').trigger('click');
+    const input = w.get('[data-testid="design-point-name-input"]');
+    await input.setValue('   ');
+    await input.trigger('keydown', { key: 'Enter' });
+    expect(apply).not.toHaveBeenCalled();
+    expect(w.get('[data-testid="design-point-name-error"]').text()).toBe('The name must not be empty.');
+    expect(w.text()).not.toContain('malformed');
+    // The typing stays (it is the person's to correct), with the name it would replace in view.
+    const still = w.get('[data-testid="design-point-name-input"]').element as HTMLInputElement;
+    expect(still.value).toBe('   ');
+    expect(still.placeholder).toBe('Cruise');
+    await w.get('[data-testid="design-point-name-input"]').trigger('keydown', { key: 'Escape' });
+    expect(names(w)).toEqual(['Cruise', 'Pull-up', 'Max q']);
+    w.unmount();
+  });
+
   it('[F3] a colleague renaming the point under the typing opens a conflict; nothing is sent until a choice', async () => {
     const { w, apply, announce } = setup();
     await w.get('[data-testid="design-point-rename"]').trigger('click');

@@ -60,25 +60,49 @@ export function pressureColourWords(): Uint32Array {
 }
 
 /**
- * The pressure range the colours span: symmetric about free-stream pressure in log(p/p∞), so
- * that p/p∞ = 1 always sits mid-scale, at least ±ln 1.25 wide, and rounded up to steps of 0.05
- * in ln(p/p∞) (about 5 %) so that the colours and the legend hold still during a small drag.
+ * The pressure range the colours span ([C2] in src/canvas/README.md): the range of p/p∞ present
+ * in the flow, free stream (p/p∞ = 1) included, at least 0.8 … 1.25 wide (a nearly uniform flow
+ * is not painted in full contrast), rounded outwards to steps of 0.05 in ln(p/p∞) (about 5 %) so
+ * that the colours and the legend hold still during a small drag. Its low end stops at
+ * `PRESSURE_FLOOR`: an expansion towards vacuum (p/p∞ → 0, ln → −∞) would otherwise take most
+ * of the scale for Cp differences nobody can read; lower pressures take the end colour and
+ * `below` says that they exist. Nothing beyond the flow's own extremes is ever spanned.
  */
 export interface PressureDomain {
   min: number;
   max: number;
+  /** Some pressure lies below `min` (the floor) and is painted in the scale's low end colour. */
+  below?: boolean;
 }
 
-/** Rounding step of the colour domain's half-width, in ln(p/p∞). */
+/** Rounding step of the colour domain's ends, in ln(p/p∞). */
 export const DOMAIN_STEP_LN = 0.05;
+/** The domain spans at least 1/1.25 … 1.25 in p/p∞. */
+export const DOMAIN_MIN_HALF_LN = Math.log(1.25);
+/**
+ * Lowest p/p∞ the scale spans. Below it Cp differs from the vacuum's by under 1 % of
+ * 2/(γM²) — nothing a colour could tell apart.
+ */
+export const PRESSURE_FLOOR = 0.01;
 
 export function pressureDomain(pressureRatios: readonly number[]): PressureDomain {
-  let span = Math.log(1.25);
+  let lo = -DOMAIN_MIN_HALF_LN;
+  let hi = DOMAIN_MIN_HALF_LN;
+  let vacuum = false;
   for (const p of pressureRatios) {
-    if (p > 0 && Number.isFinite(p)) span = Math.max(span, Math.abs(Math.log(p)));
+    if (p === 0) vacuum = true;
+    if (!(p > 0) || !Number.isFinite(p)) continue;
+    const l = Math.log(p);
+    if (l < lo) lo = l;
+    if (l > hi) hi = l;
   }
-  span = Math.ceil(span / DOMAIN_STEP_LN - 1e-9) * DOMAIN_STEP_LN;
-  return { min: Math.exp(-span), max: Math.exp(span) };
+  const floor = Math.log(PRESSURE_FLOOR);
+  const below = vacuum || lo < floor - 1e-12;
+  lo = Math.max(floor, Math.floor(lo / DOMAIN_STEP_LN + 1e-9) * DOMAIN_STEP_LN);
+  hi = Math.ceil(hi / DOMAIN_STEP_LN - 1e-9) * DOMAIN_STEP_LN;
+  const domain: PressureDomain = { min: Math.exp(lo), max: Math.exp(hi) };
+  if (below) domain.below = true;
+  return domain;
 }
 
 /** Position of a pressure ratio on the scale, log-normalised in the domain. */

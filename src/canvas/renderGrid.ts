@@ -1,7 +1,7 @@
 import { AXIS, CANVAS_BACKGROUND, GRID_LABEL, GRID_MAJOR, GRID_MINOR } from './colors';
 import type { DrawList, StrokePath, TextItem } from './drawPaths';
 import { gridLines, scaleBar } from './grid';
-import type { LegendModel } from './legend';
+import { LEGEND_BAR_PX, type LegendModel } from './legend';
 import type { Size, View } from './view';
 import { formatNumber } from '@shared/format/number';
 
@@ -79,7 +79,7 @@ export function renderHud(view: View, size: Size, legend: LegendModel | null, sh
     texts.push({ x: 24, y, text, colour: HUD_NOTE, font: LABEL_FONT, baseline: 'alphabetic' });
   }
   if (legend) {
-    const w = 220;
+    const w = LEGEND_BAR_PX;
     const x = size.width - w - 20;
     const y = size.height - 58;
     paths.push({ points: [x - 10, y - 22, x + w + 10, y - 22, x + w + 10, y + 36, x - 10, y + 36], colour: '#2a3c44', width: 1, closed: true, fill: 'rgba(17, 28, 34, 0.9)' });
@@ -88,7 +88,7 @@ export function renderHud(view: View, size: Size, legend: LegendModel | null, sh
     for (const tick of legend.ticks) {
       const tx = x + tick.t * w;
       paths.push({ points: [tx, y + 10, tx, y + 14], colour: '#d7e3e6', width: 1 });
-      texts.push({ x: tx, y: y + 26, text: tick.label, colour: '#d7e3e6', font: CANVAS_FONT, align: tick.t === 0 ? 'left' : tick.t === 1 ? 'right' : 'center' });
+      texts.push({ x: tx, y: y + 26, text: tick.label, colour: '#d7e3e6', font: CANVAS_FONT, align: tick.align });
     }
   }
   return { paths, dots, texts, bars };

@@ -8,6 +8,7 @@ import { analyseSketch } from '@shared/flight/analyseSketch';
 import { defaultSketchDocument, sketchCase, type SketchDocument } from '@shared/model/sketch';
 import { oneCondition } from '../helpers/documents';
 import SketchResultsPanel from '@/components/SketchResultsPanel.vue';
+import { RESULTS_CAUTION, RESULTS_CAUTION_SHORT } from '@shared/model/caution';
 
 function mountFor(doc: SketchDocument) {
   const analysis = analyseSketch(sketchCase(doc));
@@ -40,6 +41,24 @@ describe('SketchResultsPanel', () => {
     expect(w.get('[data-testid="results-validity"]').text()).toContain('Zero pressure past the marked vertex: the exact coefficients include it.');
     expect(w.get('[data-testid="results-validity"]').text()).toContain('p = 0 (Cp = −2/(γM∞²))');
     expect(w.get('[data-testid="coef-exact-cl"]').text()).not.toBe('—');
+    w.unmount();
+  });
+
+  it('carries the caution with the coefficients: the short form directly under the status line, above the table; the full text at the foot', () => {
+    const w = mountFor(defaultSketchDocument());
+    const panel = w.get('[data-testid="results-panel"]').element;
+    const status = w.get('[data-testid="results-validity"]').element;
+    const short = w.get('[data-testid="results-caution-short"]');
+    expect(short.text()).toBe(RESULTS_CAUTION_SHORT);
+    // The product's caution in short still says all three things.
+    expect(RESULTS_CAUTION_SHORT).toMatch(/inviscid preliminary estimate/i);
+    expect(RESULTS_CAUTION_SHORT).toMatch(/verify by test or higher-fidelity analysis/);
+    expect(RESULTS_CAUTION_SHORT).toMatch(/defer to codes and licensed practice/);
+    expect(short.attributes('title')).toBe(RESULTS_CAUTION);
+    expect(status.nextElementSibling).toBe(short.element);
+    const order = [...panel.querySelectorAll('[data-testid]')].map((e) => e.getAttribute('data-testid'));
+    expect(order.indexOf('results-caution-short')).toBeLessThan(order.indexOf('coefficients'));
+    expect(w.get('[data-testid="results-caution"]').text()).toBe(RESULTS_CAUTION);
     w.unmount();
   });
 });

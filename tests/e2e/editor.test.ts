@@ -3,7 +3,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { RunningServer } from '../../server/index.ts';
 import { DEMO_PEOPLE, DEMO_SKETCHES } from '../../server/db/seed.ts';
-import { RESULTS_CAUTION } from '../../shared/model/caution.ts';
+import { RESULTS_CAUTION, RESULTS_CAUTION_SHORT } from '../../shared/model/caution.ts';
 import { startBrowserWorld, type BrowserWorld } from '../helpers/browserWorld.ts';
 import { ARTIFACTS_DIR, screenshot, signInDemo, textOf, vertexOnScreen, type BrowserSession } from '../helpers/browser.ts';
 import { firstItem, itemAt } from '../../shared/util/invariant.ts';
@@ -55,6 +55,12 @@ describe('sketch editor in Chromium', () => {
     expect(Number(await text(page, 'coef-exact-cl'))).toBeGreaterThan(0);
     expect(Number(await page.getByTestId('sketch-canvas').getAttribute('data-wave-count'))).toBeGreaterThan(0);
     expect(await text(page, 'results-caution')).toBe(RESULTS_CAUTION);
+    // The short caution is seen with the coefficients: inside the 900 px window, above the table.
+    const caution = (await page.getByTestId('results-caution-short').boundingBox())!;
+    const table = (await page.getByTestId('coefficients').boundingBox())!;
+    expect(await text(page, 'results-caution-short')).toBe(RESULTS_CAUTION_SHORT);
+    expect(caution.y + caution.height).toBeLessThanOrEqual(page.viewportSize()!.height);
+    expect(caution.y + caution.height).toBeLessThanOrEqual(table.y);
     await page.getByTestId('cp-chart').waitFor();
     await screenshot(page, 'editor-template');
     expect(browser.foreignRequests).toEqual([]);

@@ -50,6 +50,9 @@ describe('studies and the PDF report in Chromium', () => {
     expect(await page.getByTestId('study-table').textContent()).toContain('1,155 points');
     expect(await page.getByTestId('study-summary').locator('tbody tr').count()).toBe(11);
     expect(await page.getByTestId('study-results').textContent()).toContain(RESULTS_CAUTION);
+    // With the status line, above the table: seen without scrolling past the results.
+    const caution = (await page.getByTestId('study-results').getByTestId('results-caution').boundingBox())!;
+    expect(caution.y).toBeLessThan((await page.getByTestId('study-table').boundingBox())!.y);
     await screenshot(page, 'studies-table');
     expect(browser.foreignRequests).toEqual([]);
   });

@@ -37,6 +37,35 @@ describe('sketch editor in Chromium', () => {
     await screenshot(page, 'editor-home');
   });
 
+  it('at 1440×900 the text fits: home titles, the vertex table\'s values, the review tabs, the short caution with the coefficients', async () => {
+    const { page } = browser;
+    await page.setViewportSize({ width: 1440, height: 900 });
+    // Home: no title is clamped (two lines at most, then an ellipsis; the demo's all fit).
+    const clamped = await page.locator('.home__title-link').evaluateAll((links) => links.filter((l) => l.scrollHeight > l.clientHeight + 1).map((l) => l.textContent));
+    expect(clamped).toEqual([]);
+    await page.getByText('Tern canard').first().click();
+    await page.getByTestId('vertex-table').waitFor();
+    await expect.poll(() => text(page, 'results-status')).toBe('ok');
+    // Every vertex value shows whole ("−0.0166667" included).
+    const cut = await page.locator('.vertex-table__input').evaluateAll((inputs) => inputs.filter((i) => i.scrollWidth > i.clientWidth).map((i) => (i as HTMLInputElement).value));
+    expect(await page.getByTestId('vertex-y-7').inputValue()).toBe('-0.0166667');
+    expect(cut).toEqual([]);
+    // The short caution is in the window, above the coefficients.
+    const caution = (await page.getByTestId('results-caution-short').boundingBox())!;
+    expect(caution.y + caution.height).toBeLessThanOrEqual(Math.min(900, (await page.getByTestId('coefficients').boundingBox())!.y));
+    // The review panel's four tabs all show (none folded into the "…" menu).
+    await page.getByTestId('toggle-review').click();
+    await page.getByTestId('review-panel').waitFor();
+    for (const name of ['Pins', 'Snapshots', 'Activity', 'Approvals']) await expect.poll(() => page.getByRole('tab', { name, exact: true }).isVisible()).toBe(true);
+    const nav = (await page.locator('.review-panel__tabs .ant-tabs-nav-wrap').boundingBox())!;
+    const approvals = (await page.getByRole('tab', { name: 'Approvals', exact: true }).boundingBox())!;
+    expect(approvals.x + approvals.width).toBeLessThanOrEqual(nav.x + nav.width);
+    await page.getByTestId('review-close').click();
+    await page.setViewportSize({ width: 1400, height: 880 });
+    await page.goto(`${server.url}/`);
+    await page.getByTestId('sketch-table').waitFor();
+  });
+
   it('creates a sketch from a template and shows its wave map, coefficients and the caution', async () => {
     const { page } = browser;
     await page.getByTestId('new-sketch').click();

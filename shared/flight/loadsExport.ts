@@ -1,4 +1,5 @@
 import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
+import { flapNote } from '../model/sketchExport.ts';
 import { RESULTS_CAUTION } from '../model/caution.ts';
 import type { SketchDocument } from '../model/sketch.ts';
 import type { DesignPointsAnalysis } from './storedAnalysis.ts';
@@ -84,7 +85,7 @@ export function loadsCsv(title: string, doc: SketchDocument, analysis: DesignPoi
     if (!wanted.includes(point.id)) continue;
     const a = analysis.points.find((p) => p.id === point.id)?.analysis ?? null;
     const c = point.condition;
-    const condition = `M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}, altitude ${c.altitudeM === null ? 'none' : `${text(c.altitudeM, 'altitude')} ${unit('length')}`}${doc.flap ? `, flap ${point.flapDeflectionDeg} deg` : ''}`;
+    const condition = `M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}, altitude ${c.altitudeM === null ? 'none' : `${text(c.altitudeM, 'altitude')} ${unit('length')}`}${doc.flap ? `, ${flapNote({ hingeXOverC: doc.flap.hingeXOverC, deflectionDeg: point.flapDeflectionDeg })}` : ''}`;
     if (!a) {
       lines.push(csvNote('Design point', point.name, `${condition}; not solved yet.`));
       continue;

@@ -46,12 +46,35 @@ function facetRow(surface: string, f: Facet): string {
   ]);
 }
 
-/** One row per facet (upper surface nose → tail, then lower), empty cells where unsolved. */
-export function facetCsv(title: string, result: SolveResult): string {
+/**
+ * The flap a result was solved with (the analysis' `flap`: hinge and deflection), or null for a
+ * section solved as drawn. Every export whose numbers depend on it names it.
+ */
+export interface ExportFlap {
+  hingeXOverC: number;
+  deflectionDeg: number;
+}
+
+/**
+ * The flap named in an export's notes: deflection (trailing edge down +) and hinge, and that the
+ * facets and their coordinates are those of the deflected section (the hinge is a vertex of it).
+ */
+export function flapNote(flap: ExportFlap | null | undefined): string {
+  return flap
+    ? `flap ${flap.deflectionDeg} deg (trailing edge down +) about a hinge at x/c ${flap.hingeXOverC}; facets and coordinates are the deflected section's, the hinge a vertex of both surfaces`
+    : 'no flap';
+}
+
+/**
+ * One row per facet (upper surface nose → tail, then lower), empty cells where unsolved. With a
+ * flap (`flap`, the analysis' hinge and deflection) the rows are the deflected section's facets
+ * and the notes say so.
+ */
+export function facetCsv(title: string, result: SolveResult, flap: ExportFlap | null = null): string {
   const c = result.condition;
   return [
     csvNote('Shockwright result per facet', title),
-    csvNote(`M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}; status ${result.status}`),
+    csvNote(`M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}; ${flapNote(flap)}; status ${result.status}`),
     csvNote(RESULTS_CAUTION),
     csvNote(`x_mid_over_c from the leading edge (${result.geometry.reference.leadingEdge.join(', ')}) over the reference chord ${result.geometry.reference.chord} (${result.geometry.reference.source === 'input' ? 'the section as drawn' : 'the solved outline'}); vacuum: p = 0 past a Prandtl-Meyer limit`),
     csvHeader(FACET_CSV_COLUMNS),
@@ -61,9 +84,14 @@ export function facetCsv(title: string, result: SolveResult): string {
   ].join('\n');
 }
 
-/** The document and the full solve result, with the caution, as pretty JSON. */
-export function resultJson(title: string, document: SketchDocument, result: SolveResult): string {
-  return `${JSON.stringify({ title, caution: RESULTS_CAUTION, document, result }, null, 2)}\n`;
+/**
+ * The document and the full solve result, with the caution, as pretty JSON; `flap` is the flap
+ * the result was solved with (null: none), since the document's design points may each deflect it
+ * differently.
+ */
+export function resultJson(title: string, document: SketchDocument, result: SolveResult, flap: ExportFlap | null = null): string {
+  const solvedFlap = flap ? { hingeXOverC: flap.hingeXOverC, deflectionDeg: flap.deflectionDeg, note: flapNote(flap) } : null;
+  return `${JSON.stringify({ title, caution: RESULTS_CAUTION, flap: solvedFlap, document, result }, null, 2)}\n`;
 }
 
 /** Columns of the pressure signature CSV. */
@@ -74,7 +102,7 @@ export const SIGNATURE_CSV_COLUMNS = ['x_over_c_from_nose', 'p_over_pinf_ahead',
  * (its own quoted cell), the condition, the line and the caution, then one row per step edge:
  * x/c from the nose and p/p∞ on each side of it (empty inside the section or past the ends).
  */
-export function signatureCsv(title: string, result: SolveResult, signature: PressureSignature): string {
+export function signatureCsv(title: string, result: SolveResult, signature: PressureSignature, flap: ExportFlap | null = null): string {
   const c = result.condition;
   const rows: string[] = [];
   signature.xOverC.forEach((x, k) => {
@@ -84,7 +112,7 @@ export function signatureCsv(title: string, result: SolveResult, signature: Pres
   });
   return [
     csvNote('Shockwright pressure signature:', title),
-    csvNote(`M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}; p/p_inf along y = ${signature.y}, ${signature.distanceChords} chords ${signature.side} the section`),
+    csvNote(`M ${c.mach}, alpha ${c.alphaDeg} deg, gamma ${c.gamma}; ${flapNote(flap)}; p/p_inf along y = ${signature.y}, ${signature.distanceChords} chords ${signature.side} the section`),
     csvNote(RESULTS_CAUTION),
     csvHeader(SIGNATURE_CSV_COLUMNS),
     ...rows,

@@ -57,6 +57,25 @@ describe('the section report (PDF)', () => {
     }
   });
 
+  it('with a flap, numbers the facets against the printed coordinates of the section as analysed (flap deflected)', async () => {
+    // The fin root with a hinge at x/c 0.75 deflected 10°. By hand: the hinge cuts the aft faces at
+    // y = ±0.025·0.25/0.6 = ±0.010417 and sits at (0.75, 0); the tail (1, 0) turns about it by 10°
+    // trailing edge down, moving by (0.25·(cos10° − 1), −0.25·sin10°) to (0.99620, −0.043412).
+    // Analysed vertices: 0 (0,0), 1 (0.4,0.025), 2 (0.75,0.010417), 3 tail, 4 (0.75,−0.010417), 5 (0.4,−0.025).
+    const d = structuredClone(ROOT.document);
+    const doc: SketchDocument = { ...d, flap: { hingeXOverC: 0.75 }, designPoints: d.designPoints.map((p) => ({ ...p, flapDeflectionDeg: 10 })) };
+    const text = pdfText(await renderReport(data(ROOT.title, doc))).replace(/\s+/g, ' ');
+    expect(text).toContain('Section coordinates as analysed — flap deflected 10° about x/c = 0.75 (6 vertices)');
+    expect(text).toContain('Section coordinates as drawn (4 vertices)');
+    expect(text).toContain('Facet i is the edge from vertex i to i + 1 of the table “Section coordinates as analysed”');
+    // Upper 1 spans 0.4 → 0.75 (mid 0.575); lower 3 is the tail → lower hinge edge (mid 0.873).
+    expect(text).toMatch(/upper 1 0\.575 /);
+    expect(text).toMatch(/lower 3 0\.873 /);
+    // Vertices 2 and 3 of the analysed table: the upper hinge vertex and the deflected tail.
+    expect(text).toMatch(/ 2 0\.75 0\.010417 /);
+    expect(text).toMatch(/ 3 0\.9962 −0\.043412 /);
+  });
+
   it('prints numbers with the one formatter: true minus signs, no e-notation for ordinary values', async () => {
     for (const s of [ROOT, CANARD]) {
       const text = pdfText(await renderReport(data(s.title, s.document)));

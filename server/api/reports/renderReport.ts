@@ -681,19 +681,43 @@ function facetTable(ctx: Ctx): void {
     { label: 'p', width: 64, align: 'right' },
     { label: '(p − p∞)·length', width: CONTENT_W - 440, align: 'right' },
   ], rows, { size: 7, rowHeight: 11.5 });
+  // With a flap the facets are the deflected section's (the hinge a vertex of each surface):
+  // they are numbered against the table of the section as analysed, printed below.
+  const flap = data.analysis.flap;
+  const which = flap
+    ? `Facet i is the edge from vertex i to i + 1 of the table “Section coordinates as analysed” (flap deflected ${deg(flap.deflectionDeg)} about the hinge at x/c = ${num(flap.hingeXOverC, 4)}, which is a vertex of both surfaces), as in every CSV export`
+    : 'Facet i is the edge from vertex i to i + 1 of the coordinates table, as on the canvas and in every CSV export';
   const note = loads.ok
-    ? `Facet i is the edge from vertex i to i + 1 of the coordinates table, as on the canvas and in every CSV export; rows run nose → tail on each surface. θ: deflection from the free stream (+ into the flow); wave at the facet's leading vertex. p and (p − p∞)·length per unit span (positive pressing on the facet) at the condition's altitude on the ${qty(data.document.loads.chordM, 'length', u)} chord; the Export menu's “Loads per facet (CSV)” has the forces and moments in both axes.`
-    : `Facet i is the edge from vertex i to i + 1 of the coordinates table; rows run nose → tail on each surface. No pressures in ${u === 'si' ? 'Pa' : 'lbf/ft²'}: ${loads.reason}`;
+    ? `${which}; rows run nose → tail on each surface. θ: deflection from the free stream (+ into the flow); wave at the facet's leading vertex. p and (p − p∞)·length per unit span (positive pressing on the facet) at the condition's altitude on the ${qty(data.document.loads.chordM, 'length', u)} chord; the Export menu's “Loads per facet (CSV)” has the forces and moments in both axes.`
+    : `${which}; rows run nose → tail on each surface. No pressures in ${u === 'si' ? 'Pa' : 'lbf/ft²'}: ${loads.reason}`;
   ctx.y += paragraph(ctx.doc, note, M.left, ctx.y - 4, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;
 }
 
-/** The section's vertices as drawn, in drawing units and physical lengths, two columns of vertices. */
+/**
+ * The section's vertices, in drawing units and physical lengths, two columns of vertices. With a
+ * flap, first the section as analysed (flap deflected, hinge vertices inserted: the vertices the
+ * per-facet table is numbered against), then the section as drawn.
+ */
 function coordinatesTable(ctx: Ctx): void {
   const { data } = ctx;
+  const flap = data.analysis.flap;
+  if (flap) {
+    vertexTable(
+      ctx,
+      data.analysis.solvedPoints,
+      `Section coordinates as analysed — flap deflected ${deg(flap.deflectionDeg)} about x/c = ${num(flap.hingeXOverC, 4)} (${data.analysis.solvedPoints.length} vertices)`,
+      `The section the solver saw: the flap rotated about the hinge (${num(flap.hinge[0], 5)}, ${num(flap.hinge[1], 5)}) by δ = ${deg(flap.deflectionDeg)} (trailing edge down +), a vertex inserted where each surface crosses the hinge line. The per-facet table is numbered against these vertices.`,
+    );
+  }
+  vertexTable(ctx, data.document.section.points, `Section coordinates as drawn (${data.document.section.points.length} vertices)`, flap ? 'The section as stored and shown on the canvas, flap undeflected.' : null);
+}
+
+function vertexTable(ctx: Ctx, pts: readonly Point[], title: string, intro: string | null): void {
+  const { data } = ctx;
   const u = data.units;
-  const pts = data.document.section.points;
   const r = data.analysis.result;
-  heading(ctx, `Section coordinates as drawn (${pts.length} vertices)`);
+  heading(ctx, title);
+  if (intro) ctx.y += paragraph(ctx.doc, intro, M.left, ctx.y, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 4;
   if (pts.length > REPORT_VERTEX_TABLE_MAX) {
     ctx.y += paragraph(ctx.doc, `The section has ${pts.length} vertices; tables of more than ${REPORT_VERTEX_TABLE_MAX} are not printed. Export the coordinates as CSV from the editor.`, M.left, ctx.y, CONTENT_W, { size: 8.5, color: INK }) + 8;
     return;

@@ -598,7 +598,7 @@ function designPointsTable(ctx: Ctx): void {
   }
 }
 
-/** Cp along the chord for both surfaces and the three theories (negative up, as usual). */
+/** Cp along the chord for both surfaces and the three theories, negative up (common practice; the editor's Cp charts agree). */
 function cpChart(ctx: Ctx): void {
   const r = ctx.data.analysis.result;
   if (!r) return;

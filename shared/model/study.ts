@@ -3,6 +3,7 @@ import { itemAt } from '../util/invariant.ts';
 import { isIdOf } from './ids.ts';
 import { textSchema } from './text.ts';
 import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
+import { formatNumber } from '../format/number.ts';
 import { pageOf } from './teams.ts';
 import { designPointIdSchema, FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
 import { ANALYSIS_STATUSES } from './analysis.ts';
@@ -248,6 +249,30 @@ export function unpackStudyRows(results: Pick<StudyResults, 'columns' | 'rows'>)
   return results.rows.map((row) => studyRowSchema.parse(Object.fromEntries(index.map(([k, i]) => [k, row[i] ?? null]))));
 }
 
+/**
+ * Where a study shows x_cp/c. The centre of pressure is cm_nose / cn: as the normal force goes to
+ * zero the section carries a pure couple and x_cp runs off by chords for tiny changes in cl
+ * (4.3 c, then −0.7 c, one degree of α apart near cl = 0), a number with no use as a location. The
+ * table and the CSV leave it out (a dash, an empty cell) when |cn| < XCP_CN_MIN or x_cp/c lies
+ * outside XCP_BAND (a chord ahead of the nose to a chord behind the tail); cm says what the
+ * section does there. cn = cl·cos α + cd·sin α (wind to body axes; cd the exact wave drag).
+ * The limits are an engineer's judgement (common practice: x_cp is quoted only with a clear
+ * normal force), not a published figure.
+ */
+export const XCP_CN_MIN = 1e-4;
+export const XCP_BAND = { min: -1, max: 2 } as const;
+export const XCP_UNDEFINED_NOTE = `x_cp/c undefined when the normal force is near zero (|cn| < ${formatNumber(XCP_CN_MIN)} or x_cp outside ${formatNumber(XCP_BAND.min)} to ${formatNumber(XCP_BAND.max)} chords from the leading edge)`;
+
+/** A row's x_cp/c when it means a location (see XCP_CN_MIN, XCP_BAND), else null. */
+export function definedXcpOverC(row: Pick<StudyRow, 'xcpOverC' | 'cl' | 'cd' | 'alphaDeg'>): number | null {
+  const x = row.xcpOverC;
+  if (x === null || row.cl === null || row.cd === null) return null;
+  const a = (row.alphaDeg * Math.PI) / 180;
+  const cn = row.cl * Math.cos(a) + row.cd * Math.sin(a);
+  if (Math.abs(cn) < XCP_CN_MIN) return null;
+  return x < XCP_BAND.min || x > XCP_BAND.max ? null : x;
+}
+
 // ---- API shapes ----
 
 export const studyIdSchema = z.string().refine((s) => isIdOf('study', s), 'must be a study id');
@@ -303,13 +328,27 @@ export function studyCsv(meta: { title: string; studyName: string; revision: num
       const v = i >= 0 ? row[i] : null;
       return typeof v === 'number' && span !== null ? roundSignificant(v * span) : null;
     });
+  // x_cp/c: an empty cell where it is undefined (near-zero normal force), as the table's dash.
+  const xcpAt = STUDY_COLUMNS.indexOf('xcpOverC');
+  const cell = (row: PackedRow, k: number, i: number) => {
+    if (i < 0) return null;
+    const v = row[i] ?? null;
+    if (k !== xcpAt) return v;
+    const num = (c: StudyColumn) => {
+      const j = results.columns.indexOf(c);
+      const w = j >= 0 ? row[j] : null;
+      return typeof w === 'number' ? w : null;
+    };
+    const alphaDeg = num('alphaDeg');
+    return typeof v === 'number' && alphaDeg !== null ? definedXcpOverC({ xcpOverC: v, cl: num('cl'), cd: num('cd'), alphaDeg }) : null;
+  };
   return [
     csvNote('Shockwright study', meta.studyName, 'sketch', meta.title, 'revision', meta.revision),
-    csvNote(`altitude ${results.altitudeM === null ? 'none (wave drag only)' : `${results.altitudeM} m`}, friction ${results.friction}; alpha and flap in degrees (flap trailing edge down positive)`),
+    csvNote(`altitude ${results.altitudeM === null ? 'none (wave drag only)' : `${results.altitudeM} m`}, friction ${results.friction}; alpha and flap in degrees (flap trailing edge down positive); ${XCP_UNDEFINED_NOTE}: empty`),
     csvNote(meta.caution),
     csvNote(`loads in SI: liftNPerM, dragNPerM (wave + friction) in N/m and momentNMPerM, hingeMomentNMPerM in N·m/m per unit span${results.chordM === undefined ? ' (not in this study: it was computed before they existed)' : ` on a ${results.chordM} m chord`}; liftN, dragN, momentNM, hingeMomentNM over the ${span === null ? 'span' : `${span} m span`}`),
     csvHeader(STUDY_CSV_COLUMNS),
-    ...results.rows.map((row) => csvRow([...index.map((i) => (i >= 0 ? (row[i] ?? null) : null)), ...overSpan(row)])),
+    ...results.rows.map((row) => csvRow([...index.map((i, k) => cell(row, k, i)), ...overSpan(row)])),
     '',
   ].join('\n');
 }

@@ -7,15 +7,18 @@ import { mount } from '@vue/test-utils';
 import { runStudy } from '@shared/flight/study';
 import { studyDefinitionSchema, unpackStudyRows, XCP_UNDEFINED_NOTE } from '@shared/model/study';
 import { sketchCase } from '@shared/model/sketch';
-import { DEMO_SKETCHES } from '../../server/db/seed';
+import { oneCondition } from '../helpers/documents';
 import StudyTable from '@/components/StudyTable.vue';
+
+/** The demo's fin root section: a 5 %-thick double wedge, ridge at 40 %. */
+const FIN_ROOT: [number, number][] = [[0, 0], [0.4, 0.025], [1, 0], [0.4, -0.025]];
+const finRoot = (flap: boolean) =>
+  oneCondition({ section: { points: FIN_ROOT }, condition: { mach: 2.6, alphaDeg: 4, gamma: 1.4, altitudeM: null }, flap: flap ? { hingeXOverC: 0.75, deflectionDeg: 0 } : null });
 
 describe('StudyTable', () => {
   it('x_cp/c: a dash with the reason where the normal force is near zero (4.309 c at cl ≈ 0), the number elsewhere', () => {
     // The fin root with a flap at x/c 0.75, δ −10°, M 1.5: cl crosses zero between α 2° and 3°.
-    const root = DEMO_SKETCHES.find((s) => s.title.startsWith('Tern fin root'))!;
-    const doc = { ...structuredClone(root.document), flap: { hingeXOverC: 0.75 } };
-    const outcome = runStudy(sketchCase(doc), studyDefinitionSchema.parse({ mach: { kind: 'list', values: [1.5] }, alpha: { startDeg: 1, endDeg: 4, stepDeg: 1 }, flapDeg: [-10], altitudeM: null, friction: 'none' }));
+    const outcome = runStudy(sketchCase(finRoot(true)), studyDefinitionSchema.parse({ mach: { kind: 'list', values: [1.5] }, alpha: { startDeg: 1, endDeg: 4, stepDeg: 1 }, flapDeg: [-10], altitudeM: null, friction: 'none' }));
     if (outcome.status !== 'done') throw new Error('study did not finish');
     const rows = unpackStudyRows(outcome.results);
     const w = mount(StudyTable, { props: { results: outcome.results, rows, hasFlap: true, units: 'si' } });
@@ -31,8 +34,7 @@ describe('StudyTable', () => {
   });
 
   it('no footnote when every x_cp/c is defined', () => {
-    const root = DEMO_SKETCHES.find((s) => s.title.startsWith('Tern fin root'))!;
-    const outcome = runStudy(sketchCase(root.document), studyDefinitionSchema.parse({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 4, endDeg: 6, stepDeg: 1 }, altitudeM: null, friction: 'none' }));
+    const outcome = runStudy(sketchCase(finRoot(false)), studyDefinitionSchema.parse({ mach: { kind: 'list', values: [2] }, alpha: { startDeg: 4, endDeg: 6, stepDeg: 1 }, altitudeM: null, friction: 'none' }));
     if (outcome.status !== 'done') throw new Error('study did not finish');
     const w = mount(StudyTable, { props: { results: outcome.results, rows: unpackStudyRows(outcome.results), hasFlap: false, units: 'si' } });
     expect(w.find('[data-testid="study-xcp-note"]').exists()).toBe(false);

@@ -706,7 +706,7 @@ function coordinatesTable(ctx: Ctx): void {
       ctx,
       data.analysis.solvedPoints,
       `Section coordinates as analysed — flap deflected ${deg(flap.deflectionDeg)} about x/c = ${num(flap.hingeXOverC, 4)} (${data.analysis.solvedPoints.length} vertices)`,
-      `The section the solver saw: the flap rotated about the hinge (${num(flap.hinge[0], 5)}, ${num(flap.hinge[1], 5)}) by δ = ${deg(flap.deflectionDeg)} (trailing edge down +), a vertex inserted where each surface crosses the hinge line. The per-facet table is numbered against these vertices.`,
+      `The section the solver saw: the flap rotated by δ = ${deg(flap.deflectionDeg)} (trailing edge down +) about the hinge, midway between the surfaces at x/c = ${num(flap.hingeXOverC, 4)}, a vertex inserted where each surface crosses the hinge line. The per-facet table is numbered against these vertices.`,
     );
   }
   vertexTable(ctx, data.document.section.points, `Section coordinates as drawn (${data.document.section.points.length} vertices)`, flap ? 'The section as stored and shown on the canvas, flap undeflected.' : null);

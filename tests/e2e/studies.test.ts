@@ -132,11 +132,14 @@ describe('studies and the PDF report in Chromium', () => {
     await download.saveAs(file);
     const pdf = readFileSync(file);
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
-    // Section report (3 pages: design points and wave map; condition, Cp chart, coefficients;
-    // loads, per-facet and coordinates tables) + study charts (1) + the per-Mach table (11 Mach ×
-    // 5 δ rows, onto a second page); the 1,155 points themselves are not printed.
-    expect(pdfPageCount(pdf)).toBe(6);
+    // Section report (4 pages: design points and wave map; condition, Cp chart, coefficients;
+    // loads, per-facet table and the coordinates as analysed (the canard's flap deflected 5°);
+    // the coordinates as drawn) + study charts (1) + the per-Mach table (11 Mach × 5 δ rows, onto
+    // a second page); the 1,155 points themselves are not printed.
+    expect(pdfPageCount(pdf)).toBe(7);
     const text = pdfText(pdf).replace(/\s+/g, ' ');
+    expect(text).toContain('Section coordinates as analysed — flap deflected 5° about x/c = 0.7 (14 vertices)');
+    expect(text).toContain('Section coordinates as drawn (12 vertices)');
     expect(text).toContain('Study: Canard envelope');
     expect(text).toContain('units: US customary');
     expect(text).toContain(RESULTS_CAUTION);

@@ -3,7 +3,7 @@ import { itemAt } from '../util/invariant.ts';
 import { isIdOf } from './ids.ts';
 import { textSchema } from './text.ts';
 import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
-import { formatNumber } from '../format/number.ts';
+import { normalForceCoefficient, shownXcpOverC, XCP_UNDEFINED_NOTE } from '../flight/xcp.ts';
 import { pageOf } from './teams.ts';
 import { designPointIdSchema, FRICTION_SETTINGS, transitionReynoldsSchema } from './sketch.ts';
 import { ANALYSIS_STATUSES } from './analysis.ts';
@@ -249,28 +249,13 @@ export function unpackStudyRows(results: Pick<StudyResults, 'columns' | 'rows'>)
   return results.rows.map((row) => studyRowSchema.parse(Object.fromEntries(index.map(([k, i]) => [k, row[i] ?? null]))));
 }
 
-/**
- * Where a study shows x_cp/c. The centre of pressure is cm_nose / cn: as the normal force goes to
- * zero the section carries a pure couple and x_cp runs off by chords for tiny changes in cl
- * (4.3 c, then −0.7 c, one degree of α apart near cl = 0), a number with no use as a location. The
- * table and the CSV leave it out (a dash, an empty cell) when |cn| < XCP_CN_MIN or x_cp/c lies
- * outside XCP_BAND (a chord ahead of the nose to a chord behind the tail); cm says what the
- * section does there. cn = cl·cos α + cd·sin α (wind to body axes; cd the exact wave drag).
- * The limits are an engineer's judgement (common practice: x_cp is quoted only with a clear
- * normal force), not a published figure.
- */
-export const XCP_CN_MIN = 1e-4;
-export const XCP_BAND = { min: -1, max: 2 } as const;
-export const XCP_UNDEFINED_NOTE = `x_cp/c undefined when the normal force is near zero (|cn| < ${formatNumber(XCP_CN_MIN)} or x_cp outside ${formatNumber(XCP_BAND.min)} to ${formatNumber(XCP_BAND.max)} chords from the leading edge)`;
+// The x_cp/c rule lives in shared/flight/xcp.ts (every view and export uses it); re-exported here.
+export { XCP_BAND, XCP_CN_MIN, XCP_UNDEFINED_NOTE } from '../flight/xcp.ts';
 
-/** A row's x_cp/c when it means a location (see XCP_CN_MIN, XCP_BAND), else null. */
+/** A row's x_cp/c when it means a location (rule in shared/flight/xcp.ts), else null. */
 export function definedXcpOverC(row: Pick<StudyRow, 'xcpOverC' | 'cl' | 'cd' | 'alphaDeg'>): number | null {
-  const x = row.xcpOverC;
-  if (x === null || row.cl === null || row.cd === null) return null;
-  const a = (row.alphaDeg * Math.PI) / 180;
-  const cn = row.cl * Math.cos(a) + row.cd * Math.sin(a);
-  if (Math.abs(cn) < XCP_CN_MIN) return null;
-  return x < XCP_BAND.min || x > XCP_BAND.max ? null : x;
+  if (row.cl === null || row.cd === null) return null;
+  return shownXcpOverC(row.xcpOverC, normalForceCoefficient(row.cl, row.cd, (row.alphaDeg * Math.PI) / 180));
 }
 
 // ---- API shapes ----

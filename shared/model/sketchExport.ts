@@ -3,6 +3,7 @@ import type { PressureSignature } from '../solver/pressureSignature.ts';
 import { RESULTS_CAUTION } from './caution.ts';
 import { csvHeader, csvNote, csvRow } from '../format/csv.ts';
 import type { Point, SketchDocument } from './sketch.ts';
+import { shownXcpOverC, XCP_UNDEFINED_NOTE } from '../flight/xcp.ts';
 
 /**
  * Plain-text exports of a sketch: the section as CSV (readable back by `parseCoordinates`), the
@@ -87,11 +88,20 @@ export function facetCsv(title: string, result: SolveResult, flap: ExportFlap | 
 /**
  * The document and the full solve result, with the caution, as pretty JSON; `flap` is the flap
  * the result was solved with (null: none), since the document's design points may each deflect it
- * differently.
+ * differently. `result` is the solver's output unchanged (its xcpOverC raw); `xcpOverC` beside it
+ * gives x_cp/c per theory as every view shows it (null where it is not a location, rule in
+ * shared/flight/xcp.ts) with the rule as `note`.
  */
 export function resultJson(title: string, document: SketchDocument, result: SolveResult, flap: ExportFlap | null = null): string {
   const solvedFlap = flap ? { hingeXOverC: flap.hingeXOverC, deflectionDeg: flap.deflectionDeg, note: flapNote(flap) } : null;
-  return `${JSON.stringify({ title, caution: RESULTS_CAUTION, flap: solvedFlap, document, result }, null, 2)}\n`;
+  const shown = (c: { xcpOverC: number | null; cn: number } | null | undefined) => shownXcpOverC(c?.xcpOverC, c?.cn);
+  const xcpOverC = {
+    exact: shown(result.coefficients),
+    linear: shown(result.theories?.linear),
+    secondOrder: shown(result.theories?.secondOrder),
+    note: XCP_UNDEFINED_NOTE,
+  };
+  return `${JSON.stringify({ title, caution: RESULTS_CAUTION, flap: solvedFlap, xcpOverC, document, result }, null, 2)}\n`;
 }
 
 /** Columns of the pressure signature CSV. */

@@ -5,6 +5,7 @@ import type { SnapshotDetail } from '@shared/model/review';
 import type { SketchDocument } from '@shared/model/sketch';
 import type { Sketch } from '@shared/model/sketchApi';
 import type { Coefficients } from '@shared/solver/types';
+import { shownXcpOverC, xcpLeftOut } from '@shared/flight/xcp';
 
 /**
  * One side of a compare: a snapshot of this sketch, or a sketch of the team as stored now
@@ -55,6 +56,8 @@ export interface CompareCell {
   b: number | null;
   /** B − A; null when either side has no value. */
   diff: number | null;
+  /** x_cp/c only: the side's solver value is left out, not a location (shared/flight/xcp.ts). */
+  leftOut?: { a: boolean; b: boolean };
 }
 
 /** The stored analysis of the selected design point, if the snapshot has one (older rows may not). */
@@ -85,6 +88,13 @@ export function compareCoefficients(a: SketchAnalysis | null, b: SketchAnalysis 
     const cb = coefficientsOf(b, theory);
     const row = {} as Record<CompareQuantity, CompareCell>;
     for (const { key } of COMPARE_QUANTITIES) {
+      if (key === 'xcpOverC') {
+        // x_cp/c only where it means a location: a dash (and no difference) where cn is near zero.
+        const xa = shownXcpOverC(ca?.xcpOverC, ca?.cn);
+        const xb = shownXcpOverC(cb?.xcpOverC, cb?.cn);
+        row[key] = { a: xa, b: xb, diff: difference(xa, xb), leftOut: { a: xcpLeftOut(ca?.xcpOverC, ca?.cn), b: xcpLeftOut(cb?.xcpOverC, cb?.cn) } };
+        continue;
+      }
       const va = ca?.[key] ?? null;
       const vb = cb?.[key] ?? null;
       row[key] = { a: va, b: vb, diff: difference(va, vb) };

@@ -4,6 +4,7 @@ import { thicknessRatio } from '../../../shared/solver/thicknessRatio.ts';
 import { interpolateViridis } from 'd3-scale-chromatic';
 import { RESULTS_CAUTION } from '../../../shared/model/caution.ts';
 import { formatQuantity, toDisplay, unitLabel, type Quantity, type UnitSystem } from '../../../shared/flight/units.ts';
+import { shownXcpOverC, xcpLeftOut, XCP_UNDEFINED_NOTE } from '../../../shared/flight/xcp.ts';
 import { unpackStudyRows, type StudyRow } from '../../../shared/model/study.ts';
 import { sketchCase } from '../../../shared/model/sketch.ts';
 import type { Coefficients, Facet, Point, SolveResult, TheoryResult } from '../../../shared/solver/types.ts';
@@ -432,11 +433,13 @@ function coefficientsTable(ctx: Ctx): void {
   const lin = r?.theories?.linear ?? null;
   const sec = r?.theories?.secondOrder ?? null;
   type Key = keyof Pick<Coefficients, 'cl' | 'cd' | 'cm' | 'xcpOverC' | 'liftToDrag'>;
+  // x_cp/c only where it means a location (shared/flight/xcp.ts): a dash and a note below.
+  const value = (t: Coefficients | null, k: Key) => (k === 'xcpOverC' ? shownXcpOverC(t?.xcpOverC, t?.cn) : (t?.[k] ?? null));
   const diff = (t: TheoryResult | null, k: Key) => {
     if (!t || !c) return '—';
     const d = k === 'cl' || k === 'cd' || k === 'cm' ? t.difference[k] : (() => {
-      const e = c[k];
-      const v = t[k];
+      const e = value(c, k);
+      const v = value(t, k);
       return e === null || v === null || Math.abs(e) < 1e-9 ? null : (100 * (v - e)) / Math.abs(e);
     })();
     return d === null ? '—' : `${d > 0 ? '+' : ''}${num(d, 3)} %`;
@@ -448,7 +451,7 @@ function coefficientsTable(ctx: Ctx): void {
     ['x_cp/c (from the leading edge)', 'xcpOverC'],
     ['L/D (wave drag only)', 'liftToDrag'],
   ];
-  const body = rows.map(([label, k]) => [label, num(c?.[k] ?? null), num(lin?.[k] ?? null), diff(lin, k), num(sec?.[k] ?? null), diff(sec, k)]);
+  const body = rows.map(([label, k]) => [label, num(value(c, k)), num(value(lin, k)), diff(lin, k), num(value(sec, k)), diff(sec, k)]);
   const hm = data.analysis.flap?.hingeMoment;
   if (hm) body.push(['ch (hinge moment over q∞·c_f², TE down +)', num(hm.exact), num(hm.linear), '', num(hm.secondOrder), '']);
   table(ctx, [
@@ -459,6 +462,10 @@ function coefficientsTable(ctx: Ctx): void {
     { label: 'second-order', width: 68, align: 'right' },
     { label: 'vs exact', width: 60, align: 'right' },
   ], body);
+  if ([c, lin, sec].some((t) => t && xcpLeftOut(t.xcpOverC, t.cn))) {
+    ensure(ctx, 20);
+    ctx.y += paragraph(ctx.doc, `— in x_cp/c: ${XCP_UNDEFINED_NOTE}; cm gives the moment there.`, M.left, ctx.y, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;
+  }
   if (data.analysis.flap) {
     ensure(ctx, 20);
     ctx.y += paragraph(ctx.doc, `Flap chord c_f = ${num(data.analysis.flap.flapChordOverC, 4)} c. A negative ch tends to raise the trailing edge (restoring for a flap deflected down).`, M.left, ctx.y, CONTENT_W, { size: 7.5, color: INK_SOFT }) + 6;

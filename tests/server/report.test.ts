@@ -10,6 +10,7 @@ import { pdfText, pdfToPng } from '../helpers/pdf.ts';
 import { ARTIFACTS_DIR } from '../helpers/browser.ts';
 import type { SketchDocument } from '../../shared/model/sketch.ts';
 import type { UnitSystem } from '../../shared/flight/units.ts';
+import { XCP_UNDEFINED_NOTE } from '../../shared/flight/xcp.ts';
 
 /**
  * The section report's content (drawn by renderReport, no database): design points, the wave
@@ -74,6 +75,21 @@ describe('the section report (PDF)', () => {
     // Vertices 2 and 3 of the analysed table: the upper hinge vertex and the deflected tail.
     expect(text).toMatch(/ 2 0\.75 0\.010417 /);
     expect(text).toMatch(/ 3 0\.9962 −0\.043412 /);
+  });
+
+  it('x_cp/c in the coefficients table: a dash and the reason where the normal force is near zero, the number otherwise', async () => {
+    // The fin root, flap at x/c 0.75 deflected −10°, M 1.5, α 2.233°: cn ≈ −2.3e-5, the solver's x_cp
+    // ≈ 2515 c (linear 4.48 c, second-order −33.9 c); rule in shared/flight/xcp.ts.
+    const d = structuredClone(ROOT.document);
+    const doc: SketchDocument = { ...d, flap: { hingeXOverC: 0.75 }, designPoints: d.designPoints.map((p) => ({ ...p, condition: { ...p.condition, mach: 1.5, alphaDeg: 2.233 }, flapDeflectionDeg: -10 })) };
+    const text = pdfText(await renderReport(data(ROOT.title, doc))).replace(/\s+/g, ' ');
+    expect(text).toContain('x_cp/c (from the leading edge) — — — — —');
+    expect(text).toContain(`— in x_cp/c: ${XCP_UNDEFINED_NOTE}; cm gives the moment there.`);
+    expect(text).not.toMatch(/2,?51\d\.\d/);
+    // The demo's own fin root (M 2.6, α 4°): a number (0.4… c, near mid-chord for a thin section), no note.
+    const plain = pdfText(await renderReport(data(ROOT.title, ROOT.document))).replace(/\s+/g, ' ');
+    expect(plain).toMatch(/x_cp\/c \(from the leading edge\) 0\.4\d+ 0\.5 /);
+    expect(plain).not.toContain('— in x_cp/c');
   });
 
   it('prints numbers with the one formatter: true minus signs, no e-notation for ordinary values', async () => {

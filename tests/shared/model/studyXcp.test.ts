@@ -10,7 +10,7 @@ import { itemAt } from '../../../shared/util/invariant.ts';
 /**
  * x_cp/c is left out (a dash in the study table, an empty CSV cell) where the normal force is
  * near zero: |cn| < 1e-4 or x_cp outside −1…2 chords from the leading edge (the rule and why in
- * shared/model/study.ts; an engineer's judgement, common practice to quote x_cp only with a clear
+ * shared/flight/xcp.ts, wrapped for study rows in shared/model/study.ts; an engineer's judgement, common practice to quote x_cp only with a clear
  * normal force). The case the rule is for: the fin root with a flap hinged at x/c 0.75 deflected
  * −10° at M 1.5 crosses cl = 0 between α 2° and 3°, where x_cp came out at 4.309 c.
  */

@@ -12,6 +12,7 @@ import { outlineOnto } from '@/canvas/renderReview';
 import { formatNumber } from '@shared/format/number';
 import { expectClose } from '../helpers/expectClose';
 import { itemAt } from '@shared/util/invariant';
+import { XCP_UNDEFINED_NOTE } from '@shared/flight/xcp';
 
 /** Our own 5 % double wedge, ridge at mid-chord. */
 function doc(alphaDeg: number, mach = 2, halfThickness = 0.025): SketchDocument {
@@ -141,5 +142,21 @@ describe('coefficient differences', () => {
     expect(t.secondOrder.liftToDrag.diff).toBe(0);
     expect(formatDifference(-0.01234)).toBe('−0.0123');
     expect(formatDifference(0)).toBe('0');
+  });
+
+  it('x_cp/c where one side\'s normal force is near zero: a dash with the reason, no difference, a note', () => {
+    // The demo fin root with a flap at x/c 0.75, δ −10°, M 1.5, α 2.233°: cn ≈ −2.3e-5 and the
+    // solver's x_cp ≈ 2515 c (rule in shared/flight/xcp.ts); B at α 4°, δ 0 has x_cp 0.4649 c.
+    const FIN_ROOT: [number, number][] = [[0, 0], [0.4, 0.025], [1, 0], [0.4, -0.025]];
+    const fin = (alphaDeg: number, deflectionDeg: number) =>
+      oneCondition({ section: { points: FIN_ROOT }, condition: { mach: 1.5, alphaDeg, gamma: 1.4, altitudeM: null }, flap: { hingeXOverC: 0.75, deflectionDeg } });
+    const w = mount(SketchSnapshotCompare, { props: { a: sideOfSnapshot(snapshot('snap_a', 'Trim', 4, fin(2.233, -10))), b: sideOfSnapshot(snapshot('snap_b', 'Climb', 5, fin(4, 0))) } });
+    expect(cell(w, 'compare-exact-xcpOverC-a')).toBe('—');
+    expect(w.get('[data-testid="compare-exact-xcpOverC-a"]').attributes('title')).toBe(XCP_UNDEFINED_NOTE);
+    expect(cell(w, 'compare-exact-xcpOverC-b')).toBe('0.4649');
+    expect(w.get('[data-testid="compare-exact-xcpOverC-b"]').attributes('title')).toBeUndefined();
+    expect(cell(w, 'compare-exact-xcpOverC-diff')).toBe(formatDifference(null));
+    expect(w.get('[data-testid="compare-xcp-note"]').text()).toContain(XCP_UNDEFINED_NOTE);
+    w.unmount();
   });
 });

@@ -234,28 +234,30 @@ describe('marchSurface fan steps (the march inverts ν(M) from the previous fan)
 });
 
 describe('matchTrailingEdge', () => {
+  /** The two streams reaching a trailing edge: Mach 1.3–6 each, the upper's pressure 0.3–3 times the lower's, directions a few degrees either way. */
+  const tailStreams = fc
+    .tuple(
+      fc.double({ min: 1.3, max: 6, noNaN: true }),
+      fc.double({ min: 1.3, max: 6, noNaN: true }),
+      fc.double({ min: 0.3, max: 3, noNaN: true }),
+      fc.double({ min: -0.15, max: 0.05, noNaN: true }),
+      fc.double({ min: -0.05, max: 0.15, noNaN: true }),
+    )
+    .map(([mu, ml, pr, du, dl]) => [{ mach: mu, pRatio: pr, direction: du }, { mach: ml, pRatio: 1, direction: dl }] as const);
+
   it('matchTrailingEdge balances the pressures found by plain bisection on the textbook relations (independent)', () => {
     const checked = reached('matched trailing edges');
     fc.assert(
-      fc.property(
-        fc.double({ min: 1.3, max: 6, noNaN: true }),
-        fc.double({ min: 1.3, max: 6, noNaN: true }),
-        fc.double({ min: 0.3, max: 3, noNaN: true }),
-        fc.double({ min: -0.15, max: 0.05, noNaN: true }),
-        fc.double({ min: -0.05, max: 0.15, noNaN: true }),
-        (mu, ml, pr, du, dl) => {
-          const up = { mach: mu, pRatio: pr, direction: du };
-          const lo = { mach: ml, pRatio: 1, direction: dl };
-          const r = matchTrailingEdge(up, lo, 1.4);
-          if (r.status !== 'matched') return;
-          checked.hit();
-          const pu = pr * turnState(mu, r.slip - du, 1.4).pRatio;
-          const pl = turnState(ml, dl - r.slip, 1.4).pRatio;
-          expectClose(pu / pl, 1, 1e-9);
-          expectClose(r.upper.pRatioAfter, pu, 1e-9 * pu);
-          expectClose(r.lower.pRatioAfter, pl, 1e-9 * pl);
-        },
-      ),
+      fc.property(tailStreams, ([up, lo]) => {
+        const r = matchTrailingEdge(up, lo, 1.4);
+        if (r.status !== 'matched') return;
+        checked.hit();
+        const pu = up.pRatio * turnState(up.mach, r.slip - up.direction, 1.4).pRatio;
+        const pl = turnState(lo.mach, lo.direction - r.slip, 1.4).pRatio;
+        expectClose(pu / pl, 1, 1e-9);
+        expectClose(r.upper.pRatioAfter, pu, 1e-9 * pu);
+        expectClose(r.lower.pRatioAfter, pl, 1e-9 * pl);
+      }),
       { numRuns: 300 },
     );
     checked.expectAtLeast(250); // about 94 % of these stream pairs match
@@ -267,23 +269,14 @@ describe('matchTrailingEdge', () => {
     const mismatch = (up: { mach: number; pRatio: number; direction: number }, lo: { mach: number; direction: number }, delta: number) =>
       Math.log(up.pRatio * turnState(up.mach, delta - up.direction, 1.4).pRatio) - Math.log(turnState(lo.mach, lo.direction - delta, 1.4).pRatio);
     fc.assert(
-      fc.property(
-        fc.double({ min: 1.3, max: 6, noNaN: true }),
-        fc.double({ min: 1.3, max: 6, noNaN: true }),
-        fc.double({ min: 0.3, max: 3, noNaN: true }),
-        fc.double({ min: -0.15, max: 0.05, noNaN: true }),
-        fc.double({ min: -0.05, max: 0.15, noNaN: true }),
-        (mu, ml, pr, du, dl) => {
-          const up = { mach: mu, pRatio: pr, direction: du };
-          const lo = { mach: ml, pRatio: 1, direction: dl };
-          const r = matchTrailingEdge(up, lo, 1.4);
-          if (r.status !== 'matched') return;
-          checked.hit();
-          // ln p_u rises and ln p_l falls with δ: the root lies where the mismatch turns positive.
-          expect(mismatch(up, lo, r.slip - 1e-13)).toBeLessThan(0);
-          expect(mismatch(up, lo, r.slip + 1e-13)).toBeGreaterThan(0);
-        },
-      ),
+      fc.property(tailStreams, ([up, lo]) => {
+        const r = matchTrailingEdge(up, lo, 1.4);
+        if (r.status !== 'matched') return;
+        checked.hit();
+        // ln p_u rises and ln p_l falls with δ: the root lies where the mismatch turns positive.
+        expect(mismatch(up, lo, r.slip - 1e-13)).toBeLessThan(0);
+        expect(mismatch(up, lo, r.slip + 1e-13)).toBeGreaterThan(0);
+      }),
       { numRuns: 200 },
     );
     checked.expectAtLeast(160);

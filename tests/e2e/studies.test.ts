@@ -144,7 +144,7 @@ describe('studies and the PDF report in Chromium', () => {
     expect(text).toContain('units: US customary');
     expect(text).toContain(RESULTS_CAUTION);
     const pngs = pdfToPng(pdf, ARTIFACTS_DIR, 'studies-report', 80);
-    expect(pngs.map((p) => path.basename(p))).toEqual([1, 2, 3, 4, 5, 6].map((n) => `studies-report-${n}.png`));
+    expect(pngs.map((p) => path.basename(p))).toEqual([1, 2, 3, 4, 5, 6, 7].map((n) => `studies-report-${n}.png`));
   });
 
   it('prints the results only (print stylesheet)', async () => {
